@@ -1,0 +1,118 @@
+package machine
+
+import (
+	"fmt"
+	"math"
+)
+
+// Crank is a slider-crank: the pin at RadiusCm from the wheel's centre, a
+// connecting rod of RodCm, and the piston's line OffsetCm from the centre
+// (0 for an in-line crank). Angle theta is measured from the line of the
+// piston, increasing in the direction the wheel turns.
+type Crank struct {
+	RadiusCm float64
+	RodCm    float64
+	OffsetCm float64
+}
+
+// Validate reports why a crank cannot turn: the rod must be longer than the
+// radius plus the offset, or the rod would have to stretch.
+func (c Crank) Validate() error {
+	for _, v := range []float64{c.RadiusCm, c.RodCm, c.OffsetCm} {
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return fmt.Errorf("machine: crank dimension %v is not finite", v)
+		}
+	}
+	if c.RadiusCm <= 0 || c.RodCm <= 0 {
+		return fmt.Errorf("machine: crank radius %g cm and rod %g cm must be positive", c.RadiusCm, c.RodCm)
+	}
+	if c.RodCm <= c.RadiusCm+math.Abs(c.OffsetCm) {
+		return fmt.Errorf("machine: rod %g cm must be longer than radius %g cm + |offset| %g cm", c.RodCm, c.RadiusCm, math.Abs(c.OffsetCm))
+	}
+	return nil
+}
+
+func (c Crank) lateral(theta float64) float64 { return c.RadiusCm*math.Sin(theta) - c.OffsetCm }
+
+// PositionCm is the piston pin's distance from the wheel's centre along the
+// piston's line: r cos(theta) + sqrt(L^2 - (r sin(theta) - e)^2).
+func (c Crank) PositionCm(theta float64) float64 {
+	s := c.lateral(theta)
+	return c.RadiusCm*math.Cos(theta) + math.Sqrt(c.RodCm*c.RodCm-s*s)
+}
+
+// DxDTheta is the piston's displacement per radian of crank, in cm/rad.
+func (c Crank) DxDTheta(theta float64) float64 {
+	sin, cos := math.Sincos(theta)
+	s := c.RadiusCm*sin - c.OffsetCm
+	w := math.Sqrt(c.RodCm*c.RodCm - s*s)
+	return -c.RadiusCm*sin - s*c.RadiusCm*cos/w
+}
+
+// D2xDTheta2 is the second derivative of position with crank angle, cm/rad^2.
+func (c Crank) D2xDTheta2(theta float64) float64 {
+	sin, cos := math.Sincos(theta)
+	r := c.RadiusCm
+	s := r*sin - c.OffsetCm
+	ds := r * cos
+	d2s := -r * sin
+	w := math.Sqrt(c.RodCm*c.RodCm - s*s)
+	return -r*cos - (ds*ds+s*d2s)/w - s*s*ds*ds/(w*w*w)
+}
+
+// VelocityCmPerS is the piston's velocity at constant angular speed omega (rad/s).
+func (c Crank) VelocityCmPerS(theta, omega float64) float64 {
+	return c.DxDTheta(theta) * omega
+}
+
+// AccelerationCmPerS2 is the piston's acceleration at constant angular speed omega.
+func (c Crank) AccelerationCmPerS2(theta, omega float64) float64 {
+	return c.D2xDTheta2(theta) * omega * omega
+}
+
+// RodAngle is phi with sin(phi) = (r sin(theta) - e) / L.
+func (c Crank) RodAngle(theta float64) float64 {
+	return math.Asin(c.lateral(theta) / c.RodCm)
+}
+
+// DeadCentres returns the crank angles of the bottom dead centre (piston
+// nearest the wheel) and of the next top dead centre (farthest), with
+// bottom in [0, 2 pi) and top in (bottom, bottom + 2 pi). At the dead
+// centres crank and rod are in line.
+func (c Crank) DeadCentres() (bottom, top float64) {
+	r, l, e := c.RadiusCm, c.RodCm, c.OffsetCm
+	top = math.Asin(e / (l + r))
+	bottom = math.Pi + math.Asin(e/(l-r))
+	for top <= bottom {
+		top += 2 * math.Pi
+	}
+	return bottom, top
+}
+
+// DeliveryAngle is the crank angle the piston turns through from the bottom
+// to the top dead centre: pi for an in-line crank, less or more with an offset.
+func (c Crank) DeliveryAngle() float64 {
+	b, t := c.DeadCentres()
+	return t - b
+}
+
+// StrokeCm is x_max - x_min: 2r for an in-line crank.
+func (c Crank) StrokeCm() float64 {
+	r, l, e := c.RadiusCm, c.RodCm, c.OffsetCm
+	return math.Sqrt((l+r)*(l+r)-e*e) - math.Sqrt((l-r)*(l-r)-e*e)
+}
+
+// TorqueNm is the crank torque needed to push the piston with force N:
+// F r sin(theta + phi) / cos(phi). It equals F |dx/dtheta| (in metres).
+func (c Crank) TorqueNm(theta, forceN float64) float64 {
+	phi := c.RodAngle(theta)
+	return forceN * c.RadiusCm / 100 * math.Sin(theta+phi) / math.Cos(phi)
+}
+
+// BoreAreaCm2 is the piston's area for a bore diameter in cm.
+func BoreAreaCm2(boreCm float64) float64 { return math.Pi * boreCm * boreCm / 4 }
+
+// SweptVolumeML is bore area times stroke (1 cm^3 = 1 mL).
+func SweptVolumeML(boreCm float64, c Crank) float64 {
+	return BoreAreaCm2(boreCm) * c.StrokeCm()
+}

@@ -1,0 +1,462 @@
+// Command crankside helps respiratory therapists set and check a locally
+// built, motor-driven piston ventilator: from a patient's height and sex to
+// the crank hole, motor speed and dwell of one particular machine, with the
+// predicted pressures and the cautions that apply.
+//
+// With no arguments it opens the full-screen UI on the embedded demo
+// profile. Sub-commands print the same computations, as text or --json.
+package main
+
+import (
+	"encoding/json"
+	"errors"
+	"flag"
+	"fmt"
+	"io"
+	"os"
+	"sort"
+	"strings"
+	"time"
+
+	"crankside/physiology"
+	"crankside/profiles"
+	"crankside/setup"
+)
+
+const version = "0.1.0"
+
+// exitUsage is the status for bad input: a flag, a number, a profile file.
+const (
+	exitOK       = 0
+	exitFailure  = 1
+	exitUsage    = 2
+	exitInternal = 70
+)
+
+func main() {
+	os.Exit(run(os.Args[1:], os.Stdout, os.Stderr))
+}
+
+// run is the whole program but the process exit, so it can be tested.
+func run(args []string, stdout, stderr io.Writer) (status int) {
+	defer func() {
+		if r := recover(); r != nil {
+			fmt.Fprintf(stderr, "crankside: internal error: %v (please report it with the command you ran)\n", r)
+			status = exitInternal
+		}
+	}()
+	cmd, rest := "", args
+	if len(args) > 0 {
+		cmd, rest = args[0], args[1:]
+	}
+	switch cmd {
+	case "plan":
+		return cmdPlan(rest, stdout, stderr)
+	case "profiles":
+		return cmdProfiles(rest, stdout, stderr)
+	case "--version", "-version", "version":
+		fmt.Fprintf(stdout, "crankside %s\n", version)
+		return exitOK
+	case "--help", "-help", "-h", "help":
+		fmt.Fprint(stdout, topUsage)
+		return exitOK
+	case "":
+		return cmdDemo(stdout, stderr)
+	}
+	if strings.HasPrefix(cmd, "-") {
+		return cmdDemo(stdout, stderr)
+	}
+	return usageError(stderr, "", fmt.Sprintf("unknown command %q", cmd))
+}
+
+const topUsage = `crankside: set and check a motor-driven piston ventilator.
+
+Usage:
+  crankside                         the bedside screen on the demo profile
+  crankside plan --height-cm N --sex male|female [flags]
+                                    a new patient's setting on one machine
+  crankside profiles list|show ID|validate FILE
+                                    the machine profiles
+  crankside --version
+
+Run 'crankside COMMAND --help' for a command's flags.
+
+` + setup.ClinicalCaution + "\n"
+
+func usageError(stderr io.Writer, cmd, msg string) int {
+	name := "crankside"
+	if cmd != "" {
+		name += " " + cmd
+	}
+	fmt.Fprintf(stderr, "%s: %s (run '%s --help')\n", name, msg, name)
+	return exitUsage
+}
+
+// numberFlag is a float flag that refuses NaN, Inf and text, and says what
+// it expects.
+type numberFlag struct {
+	value  float64
+	set    bool
+	expect string
+}
+
+func (f *numberFlag) String() string {
+	if f == nil || !f.set {
+		return ""
+	}
+	return fmt.Sprint(f.value)
+}
+
+func (f *numberFlag) Set(s string) error {
+	v, err := physiology.ParseNumber(s)
+	if err != nil {
+		return fmt.Errorf("%q is not a number; expected %s", s, f.expect)
+	}
+	f.value, f.set = v, true
+	return nil
+}
+
+// flagError turns the flag package's wording into one line naming the flag.
+func flagError(err error) string {
+	msg := err.Error()
+	const prefix = "invalid value "
+	if strings.HasPrefix(msg, prefix) {
+		// invalid value "x" for flag -name: reason
+		if i := strings.Index(msg, " for flag -"); i >= 0 {
+			rest := msg[i+len(" for flag -"):]
+			if j := strings.Index(rest, ": "); j >= 0 {
+				return "--" + rest[:j] + ": " + rest[j+2:]
+			}
+		}
+	}
+	if strings.HasPrefix(msg, "flag provided but not defined: -") {
+		return "unknown flag --" + strings.TrimPrefix(msg, "flag provided but not defined: -")
+	}
+	return strings.Replace(msg, "flag needs an argument: -", "flag needs a value: --", 1)
+}
+
+type planFlags struct {
+	fs                                  *flag.FlagSet
+	height, mlPerKg, rate, peep, fio2   numberFlag
+	compliance, resistance, cylL, cylBr numberFlag
+	sex, lung, ie, profile, profilesDir string
+	asJSON                              bool
+}
+
+func newPlanFlags(stderr io.Writer) *planFlags {
+	f := &planFlags{fs: flag.NewFlagSet("plan", flag.ContinueOnError)}
+	f.fs.SetOutput(io.Discard)
+	f.height.expect = "cm, 130-230"
+	f.mlPerKg.expect = "mL/kg PBW, 4-10"
+	f.rate.expect = "breaths/min, 4-60"
+	f.peep.expect = "cmH2O, 0-25"
+	f.fio2.expect = "a fraction, 0.21-1"
+	f.compliance.expect = "mL/cmH2O, 5-200"
+	f.resistance.expect = "cmH2O/(L/s), 1-100"
+	f.cylL.expect = "litres of water capacity, 0.1-100"
+	f.cylBr.expect = "bar, 0-300"
+	f.fs.Var(&f.height, "height-cm", "patient's height in cm (130-230; required)")
+	f.fs.StringVar(&f.sex, "sex", "", "male or female (required)")
+	f.fs.Var(&f.mlPerKg, "ml-per-kg", "tidal volume in mL per kg PBW (4-10; default 6, ARDS Network 2000)")
+	f.fs.Var(&f.rate, "rate", "breaths per minute (default by lung: normal 14, ards 18, obstructive 10)")
+	f.fs.StringVar(&f.ie, "ie", "", "I:E as 1:N (1:1 to 1:4; default 1:2, obstructive 1:3)")
+	f.fs.Var(&f.peep, "peep", "PEEP in cmH2O (0-25; default 5, ARDS from the lower-PEEP/FiO2 table)")
+	f.fs.Var(&f.fio2, "fio2", "wanted FiO2 as a fraction (0.21-1; default 0.21, no oxygen)")
+	f.fs.StringVar(&f.lung, "lung", "normal", "lung condition: normal, ards or obstructive")
+	f.fs.Var(&f.compliance, "compliance", "lung compliance in mL/cmH2O (default by lung)")
+	f.fs.Var(&f.resistance, "resistance", "airway resistance with tube in cmH2O/(L/s) (default by lung)")
+	f.fs.Var(&f.cylL, "cylinder-l", "oxygen cylinder water capacity in L (optional)")
+	f.fs.Var(&f.cylBr, "cylinder-bar", "oxygen cylinder pressure in bar (with --cylinder-l)")
+	f.fs.StringVar(&f.profile, "profile", profiles.DefaultID, "machine profile: an id or a path to a .json file")
+	f.fs.StringVar(&f.profilesDir, "profiles", profiles.DefaultDir(), "directory of profile files")
+	f.fs.BoolVar(&f.asJSON, "json", false, "print one JSON object")
+	return f
+}
+
+func printFlags(w io.Writer, usage string, fs *flag.FlagSet) {
+	fmt.Fprint(w, usage)
+	fs.VisitAll(func(f *flag.Flag) {
+		def := ""
+		if f.DefValue != "" && f.DefValue != "false" {
+			def = fmt.Sprintf(" (default %q)", f.DefValue)
+		}
+		fmt.Fprintf(w, "  --%-14s %s%s\n", f.Name, f.Usage, def)
+	})
+	fmt.Fprintf(w, "\n%s\n", setup.ClinicalCaution)
+}
+
+func (f *planFlags) request() (setup.Request, error) {
+	var req setup.Request
+	if !f.height.set {
+		return req, errors.New("--height-cm is required (cm, 130-230)")
+	}
+	if f.sex == "" {
+		return req, errors.New("--sex is required (male or female)")
+	}
+	sex, err := physiology.ParseSex(f.sex)
+	if err != nil {
+		return req, fmt.Errorf("--sex: %v", err)
+	}
+	lung, err := physiology.ParseLung(f.lung)
+	if err != nil {
+		return req, fmt.Errorf("--lung: %v", err)
+	}
+	req.Patient = setup.Patient{HeightCm: f.height.value, Sex: sex}
+	t := setup.Targets{Lung: lung}
+	// A typed zero is not "use the default": refuse it through the range
+	// check by passing a value that is out of range.
+	explicit := func(nf numberFlag) (float64, error) {
+		if nf.set && nf.value == 0 {
+			return 0, fmt.Errorf("0 is out of range; expected %s", nf.expect)
+		}
+		return nf.value, nil
+	}
+	for _, x := range []struct {
+		name string
+		nf   numberFlag
+		dst  *float64
+	}{
+		{"ml-per-kg", f.mlPerKg, &t.MLPerKg}, {"rate", f.rate, &t.RateBPM}, {"fio2", f.fio2, &t.FiO2},
+		{"compliance", f.compliance, &t.ComplianceMLPerCmH2O}, {"resistance", f.resistance, &t.ResistanceCmH2OPerLS},
+		{"cylinder-l", f.cylL, &t.CylinderWaterL},
+	} {
+		v, err := explicit(x.nf)
+		if err != nil {
+			return req, fmt.Errorf("--%s: %v", x.name, err)
+		}
+		*x.dst = v
+	}
+	if f.cylBr.set {
+		if !f.cylL.set {
+			return req, errors.New("--cylinder-bar needs --cylinder-l as well")
+		}
+		t.CylinderBar = f.cylBr.value
+	}
+	if f.cylL.set && !f.cylBr.set {
+		return req, errors.New("--cylinder-l needs --cylinder-bar as well")
+	}
+	if f.peep.set {
+		v := f.peep.value
+		t.PEEPCmH2O = &v
+	}
+	if f.ie != "" {
+		e, err := physiology.ParseIE(f.ie)
+		if err != nil {
+			return req, fmt.Errorf("--ie: %v", err)
+		}
+		t.IE = e
+	}
+	req.Targets = t
+	req.Now = time.Now()
+	return req, nil
+}
+
+const planUsage = `Usage: crankside plan --height-cm N --sex male|female [flags]
+
+A new patient's setting on one machine: PBW, target volume, the hole to pin,
+the motor speed and dwell the controller can be set to, the predictions and
+the cautions.
+
+Flags:
+`
+
+func cmdPlan(args []string, stdout, stderr io.Writer) int {
+	f := newPlanFlags(stderr)
+	if err := f.fs.Parse(args); err != nil {
+		if errors.Is(err, flag.ErrHelp) {
+			printFlags(stdout, planUsage, f.fs)
+			return exitOK
+		}
+		return usageError(stderr, "plan", flagError(err))
+	}
+	if f.fs.NArg() > 0 {
+		return usageError(stderr, "plan", fmt.Sprintf("unexpected argument %q", f.fs.Arg(0)))
+	}
+	req, err := f.request()
+	if err != nil {
+		return usageError(stderr, "plan", err.Error())
+	}
+	p, _, err := profiles.Open(f.profile, f.profilesDir)
+	if err != nil {
+		return usageError(stderr, "plan", "--profile: "+err.Error())
+	}
+	pl, err := setup.MakePlan(req, p)
+	if err != nil {
+		var ie *setup.InputError
+		if errors.As(err, &ie) {
+			return usageError(stderr, "plan", "--"+ie.Field+": "+ie.Reason)
+		}
+		fmt.Fprintf(stderr, "crankside plan: %v\n", err)
+		return exitFailure
+	}
+	if f.asJSON {
+		return writeJSON(stdout, stderr, pl.JSON())
+	}
+	if err := pl.WriteText(stdout); err != nil {
+		fmt.Fprintf(stderr, "crankside plan: %v\n", err)
+		return exitFailure
+	}
+	return exitOK
+}
+
+func writeJSON(stdout, stderr io.Writer, v any) int {
+	enc := json.NewEncoder(stdout)
+	enc.SetIndent("", "  ")
+	if err := enc.Encode(v); err != nil {
+		fmt.Fprintf(stderr, "crankside: %v\n", err)
+		return exitFailure
+	}
+	return exitOK
+}
+
+const profilesUsage = `Usage:
+  crankside profiles list [--profiles DIR]
+  crankside profiles show ID|PATH [--profiles DIR] [--json]
+  crankside profiles validate FILE
+
+list shows the embedded demo profiles and every .json file in the profiles
+directory (a bad file is listed with its error). show --json prints the
+profile file itself, so it can be saved and edited. validate checks a file
+and names every problem with its field.
+`
+
+func cmdProfiles(args []string, stdout, stderr io.Writer) int {
+	if len(args) == 0 {
+		return usageError(stderr, "profiles", "name a sub-command: list, show or validate")
+	}
+	sub, rest := args[0], args[1:]
+	fs := flag.NewFlagSet("profiles "+sub, flag.ContinueOnError)
+	fs.SetOutput(io.Discard)
+	dir := fs.String("profiles", profiles.DefaultDir(), "directory of profile files")
+	asJSON := fs.Bool("json", false, "print the profile file itself")
+	switch sub {
+	case "--help", "-h", "help":
+		fmt.Fprint(stdout, profilesUsage)
+		return exitOK
+	case "list", "show", "validate":
+	default:
+		return usageError(stderr, "profiles", fmt.Sprintf("unknown sub-command %q; use list, show or validate", sub))
+	}
+	if err := fs.Parse(interspersed(rest, fs)); err != nil {
+		if errors.Is(err, flag.ErrHelp) {
+			fmt.Fprint(stdout, profilesUsage)
+			return exitOK
+		}
+		return usageError(stderr, "profiles "+sub, flagError(err))
+	}
+	switch sub {
+	case "list":
+		return profilesList(*dir, stdout, stderr)
+	case "show":
+		if fs.NArg() != 1 {
+			return usageError(stderr, "profiles show", "name one profile id or path")
+		}
+		return profilesShow(fs.Arg(0), *dir, *asJSON, stdout, stderr)
+	default:
+		if fs.NArg() != 1 {
+			return usageError(stderr, "profiles validate", "name one profile file")
+		}
+		return profilesValidate(fs.Arg(0), stdout, stderr)
+	}
+}
+
+// interspersed moves flags after positional arguments to the front, so
+// "show demo-a --json" works as people type it.
+func interspersed(args []string, fs *flag.FlagSet) []string {
+	var flags, pos []string
+	for i := 0; i < len(args); i++ {
+		a := args[i]
+		if a == "--" {
+			pos = append(pos, args[i+1:]...)
+			break
+		}
+		if strings.HasPrefix(a, "-") && len(a) > 1 {
+			flags = append(flags, a)
+			name := strings.TrimLeft(a, "-")
+			if f := fs.Lookup(name); f != nil && !strings.Contains(name, "=") && f.DefValue != "false" && i+1 < len(args) {
+				flags = append(flags, args[i+1])
+				i++
+			}
+			continue
+		}
+		pos = append(pos, a)
+	}
+	return append(flags, pos...)
+}
+
+func profilesList(dir string, stdout, stderr io.Writer) int {
+	entries, err := profiles.List(dir)
+	if err != nil {
+		fmt.Fprintf(stderr, "crankside profiles list: %v\n", err)
+		return exitFailure
+	}
+	bad := 0
+	for _, e := range entries {
+		if e.Err != nil {
+			bad++
+			fmt.Fprintf(stdout, "%-16s BAD   %s\n", e.ID, e.Err)
+			continue
+		}
+		fmt.Fprintf(stdout, "%-16s %-44s %s\n", e.ID, e.Label, e.Source)
+	}
+	if dir != "" {
+		fmt.Fprintf(stdout, "(profiles directory: %s)\n", dir)
+	}
+	if bad > 0 {
+		return exitFailure
+	}
+	return exitOK
+}
+
+func profilesShow(ref, dir string, asJSON bool, stdout, stderr io.Writer) int {
+	p, src, err := profiles.Open(ref, dir)
+	if err != nil {
+		return usageError(stderr, "profiles show", err.Error())
+	}
+	if asJSON {
+		data, err := profiles.Marshal(p)
+		if err != nil {
+			fmt.Fprintf(stderr, "crankside profiles show: %v\n", err)
+			return exitFailure
+		}
+		stdout.Write(data)
+		return exitOK
+	}
+	s, err := setup.DescribeProfile(p, time.Now())
+	if err != nil {
+		fmt.Fprintf(stderr, "crankside profiles show: %v\n", err)
+		return exitFailure
+	}
+	fmt.Fprintf(stdout, "%s (%s)\n", p.ID, src)
+	s.WriteText(stdout)
+	return exitOK
+}
+
+func profilesValidate(path string, stdout, stderr io.Writer) int {
+	_, err := profiles.ReadFile(path)
+	if err == nil {
+		fmt.Fprintf(stdout, "%s: valid %s profile\n", path, profiles.FormatV1)
+		return exitOK
+	}
+	var pe *profiles.Error
+	if errors.As(err, &pe) {
+		lines := make([]string, 0, len(pe.Problems))
+		for _, p := range pe.Problems {
+			lines = append(lines, p.Error())
+		}
+		sort.Strings(lines)
+		for _, l := range lines {
+			fmt.Fprintf(stderr, "%s: %s\n", path, l)
+		}
+		return exitUsage
+	}
+	fmt.Fprintf(stderr, "crankside profiles validate: %v\n", err)
+	return exitUsage
+}
+
+// cmdDemo stands in for the full-screen UI until it lands: it prints a
+// demo plan and says so.
+func cmdDemo(stdout, stderr io.Writer) int {
+	fmt.Fprintln(stdout, "(The full-screen UI is not built yet; this is a demo plan for a 170 cm female on demo-a.)")
+	return cmdPlan([]string{"--height-cm", "170", "--sex", "female"}, stdout, stderr)
+}

@@ -1,0 +1,72 @@
+package profiles
+
+import (
+	"bytes"
+	"encoding/json"
+	"fmt"
+	"os"
+	"path/filepath"
+)
+
+// Marshal writes a profile in the v1 format, indented, ending in a newline.
+func Marshal(p Profile) ([]byte, error) {
+	var b bytes.Buffer
+	enc := json.NewEncoder(&b)
+	enc.SetIndent("", "  ")
+	if err := enc.Encode(p); err != nil {
+		return nil, err
+	}
+	return b.Bytes(), nil
+}
+
+// Save validates p and writes it to path atomically: a temporary file in the
+// same directory, synced, then renamed over the old file, then the
+// directory synced. On any error the old file is left as it was.
+func Save(path string, p Profile) error {
+	data, err := Marshal(p)
+	if err != nil {
+		return err
+	}
+	if _, err := Parse(data, path); err != nil {
+		return fmt.Errorf("not saved: %w", err)
+	}
+	return WriteAtomic(path, data, 0o644)
+}
+
+// WriteAtomic writes data to path through a synced temporary file and a
+// rename, so a crash leaves either the old file or the new one.
+func WriteAtomic(path string, data []byte, mode os.FileMode) error {
+	dir := filepath.Dir(path)
+	tmp, err := os.CreateTemp(dir, "."+filepath.Base(path)+".tmp-*")
+	if err != nil {
+		return fmt.Errorf("not saved: %w", err)
+	}
+	name := tmp.Name()
+	fail := func(err error) error {
+		tmp.Close()
+		os.Remove(name)
+		return fmt.Errorf("not saved (%s unchanged): %w", path, err)
+	}
+	if _, err := tmp.Write(data); err != nil {
+		return fail(err)
+	}
+	if err := tmp.Chmod(mode); err != nil {
+		return fail(err)
+	}
+	if err := tmp.Sync(); err != nil {
+		return fail(err)
+	}
+	if err := tmp.Close(); err != nil {
+		os.Remove(name)
+		return fmt.Errorf("not saved (%s unchanged): %w", path, err)
+	}
+	if err := os.Rename(name, path); err != nil {
+		os.Remove(name)
+		return fmt.Errorf("not saved (%s unchanged): %w", path, err)
+	}
+	if d, err := os.Open(dir); err == nil {
+		d.Sync()
+		d.Close()
+	}
+	return nil
+}

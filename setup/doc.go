@@ -1,0 +1,15 @@
+// Package setup is the job itself. Plan takes a patient, targets and a
+// machine profile and returns the crank hole to pin, the motor speed and
+// dwell the controller can really be set to, every predicted figure, and the
+// cautions that apply. Cautions are computed here, in one place, from the
+// figures; nothing that shows a plan computes one.
+//
+// Units follow the names: cm, kg, mL, s, cmH2O, mL/cmH2O, cmH2O/(L/s), L/min
+// for flows shown to people, rpm, N m. The ranges a person may enter are in
+// package physiology (heights 130-230 cm, 4-10 mL/kg PBW, I:E 1:1 to 1:4,
+// and so on).
+//
+// Bad input (a height out of range, an unknown sex, an invalid profile)
+// returns an *InputError naming the field, the value and the accepted
+// range; nothing here panics on data.
+package setup

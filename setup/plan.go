@@ -1,0 +1,205 @@
+package setup
+
+import (
+	"fmt"
+	"math"
+	"time"
+
+	"crankside/machine"
+	"crankside/physiology"
+	"crankside/profiles"
+)
+
+// Change is one way the machine's steps made the setting differ from what
+// was asked for.
+type Change struct {
+	What   string  `json:"what"`
+	Wanted float64 `json:"wanted"`
+	Got    float64 `json:"got"`
+	Unit   string  `json:"unit"`
+}
+
+// Plan is a new patient's setting on one machine.
+type Plan struct {
+	Patient Patient
+
+	ProfileID    string
+	ProfileLabel string
+	Calibration  CalibrationStatus
+
+	Lung       physiology.Lung
+	MLPerKg    physiology.Value
+	Rate       physiology.Value
+	IE         physiology.Value
+	PEEP       physiology.Value
+	FiO2       physiology.Value
+	Compliance physiology.Value
+	Resistance physiology.Value
+	PEEPTable  physiology.TablePEEP
+
+	PBWKg      float64
+	TargetVtML float64
+
+	Timing machine.TimingPlan
+	Figures
+	// Below and Above are the neighbouring holes by delivered volume, nil
+	// at either end.
+	Below, Above *HoleFigure
+	Holes        []HoleFigure // every hole at the planned speed, in profile order
+	OffTargetPct float64      // (delivered - target) / target
+
+	Changes  []Change
+	Cautions []Caution
+}
+
+// MakePlan turns a request into a setting on the machine described by p.
+func MakePlan(req Request, p profiles.Profile) (Plan, error) {
+	now := req.Now
+	if now.IsZero() {
+		now = time.Now()
+	}
+	pbw, err := physiology.PredictedBodyWeightKg(req.Patient.HeightCm, req.Patient.Sex)
+	if err != nil {
+		field := "height-cm"
+		if req.Patient.Sex != physiology.Male && req.Patient.Sex != physiology.Female {
+			field = "sex"
+		}
+		return Plan{}, inputErr(field, err)
+	}
+	if req.Patient.Sex != physiology.Male && req.Patient.Sex != physiology.Female {
+		return Plan{}, &InputError{Field: "sex", Reason: "must be male or female"}
+	}
+	r, err := resolveTargets(req.Targets)
+	if err != nil {
+		return Plan{}, err
+	}
+	u, err := newUnit(p, now)
+	if err != nil {
+		return Plan{}, err
+	}
+	pl := Plan{
+		Patient: req.Patient, ProfileID: p.ID, ProfileLabel: p.Label, Calibration: u.cal,
+		Lung: r.lung, MLPerKg: r.mlPerKg, Rate: r.rate, IE: r.ie, PEEP: r.peep, FiO2: r.fio2,
+		Compliance: r.compliance, Resistance: r.resistance, PEEPTable: r.table,
+		PBWKg: pbw, TargetVtML: r.mlPerKg.Value * pbw,
+	}
+	ls := lungState{
+		lung:  machine.Lung{ComplianceMLPerCmH2O: r.compliance.Value, ResistanceCmH2OPerLS: r.resistance.Value},
+		peep:  r.peep.Value,
+		pbwKg: pbw,
+	}
+
+	// The delivery angle, and so the speed for a wanted Ti, depends on the
+	// hole when the crank is offset; the hole depends a little on the speed.
+	// Settle both together: in-line cranks settle at once.
+	hole := p.Crank.Holes[len(p.Crank.Holes)/2]
+	var chosen int
+	for pass := 0; pass < 4; pass++ {
+		angle := u.crank(hole).DeliveryAngle()
+		pl.Timing, err = machine.PlanTiming(u.motor, u.controller, angle, r.rate.Value, r.ie.Value)
+		if err != nil {
+			return Plan{}, &InputError{Field: "rate", Reason: err.Error()}
+		}
+		pl.Holes = pl.Holes[:0]
+		for _, h := range p.Crank.Holes {
+			hf, err := deliveredFromRest(u, h, pl.Timing.RPM, ls)
+			if err != nil {
+				return Plan{}, &InputError{Field: "profile " + p.ID, Reason: err.Error()}
+			}
+			pl.Holes = append(pl.Holes, hf)
+		}
+		chosen = nearestHole(pl.Holes, pl.TargetVtML)
+		if p.Crank.Holes[chosen].Label == hole.Label {
+			break
+		}
+		hole = p.Crank.Holes[chosen]
+	}
+	pl.Below, pl.Above = neighbours(pl.Holes, chosen)
+
+	o2 := physiology.O2FlowForFiO2(r.fio2.Value, pl.Holes[chosen].DeliveredML*pl.Timing.RateBPM/1000)
+	pl.Figures, err = evaluate(u, p.Crank.Holes[chosen], pl.Timing.Timing, ls, o2, req.Targets.CylinderWaterL, req.Targets.CylinderBar)
+	if err != nil {
+		return Plan{}, &InputError{Field: "rate", Reason: err.Error()}
+	}
+	pl.OffTargetPct = 100 * (pl.Hole.DeliveredML - pl.TargetVtML) / pl.TargetVtML
+	pl.Changes = timingChanges(pl.Timing)
+	pl.Cautions = assess(assessment{
+		heightCm: req.Patient.HeightCm, pbwKg: pbw, f: pl.Figures, reliefCmH2O: p.Circuit.ReliefCmH2O,
+		timing: &pl.Timing, targetMLPerK: r.mlPerKg.Value, offTargetPct: pl.OffTargetPct,
+		cal: u.cal, ratedTorque: p.Motor.RatedTorqueNm,
+	})
+	if err := finite(pl); err != nil {
+		return Plan{}, err
+	}
+	return pl, nil
+}
+
+// nearestHole picks the hole whose delivered volume is nearest the target;
+// a tie goes to the smaller volume.
+func nearestHole(holes []HoleFigure, targetML float64) int {
+	best := 0
+	for i, h := range holes {
+		d, bd := math.Abs(h.DeliveredML-targetML), math.Abs(holes[best].DeliveredML-targetML)
+		if d < bd-1e-9 || (math.Abs(d-bd) <= 1e-9 && h.DeliveredML < holes[best].DeliveredML) {
+			best = i
+		}
+	}
+	return best
+}
+
+// neighbours are the holes delivering next less and next more than chosen.
+func neighbours(holes []HoleFigure, chosen int) (below, above *HoleFigure) {
+	v := holes[chosen].DeliveredML
+	for i := range holes {
+		h := holes[i]
+		if i == chosen {
+			continue
+		}
+		if h.DeliveredML < v && (below == nil || h.DeliveredML > below.DeliveredML) {
+			below = &holes[i]
+		}
+		if h.DeliveredML > v && (above == nil || h.DeliveredML < above.DeliveredML) {
+			above = &holes[i]
+		}
+	}
+	if below != nil {
+		b := *below
+		below = &b
+	}
+	if above != nil {
+		a := *above
+		above = &a
+	}
+	return below, above
+}
+
+// timingChanges lists what the motor's and controller's steps changed.
+func timingChanges(tp machine.TimingPlan) []Change {
+	var out []Change
+	add := func(what string, wanted, got float64, unit string, tol float64) {
+		if math.Abs(wanted-got) > tol {
+			out = append(out, Change{What: what, Wanted: wanted, Got: got, Unit: unit})
+		}
+	}
+	add("motor speed", tp.WantedRPM, tp.RPM, "rpm", 0.005)
+	add("dwell", tp.WantedDwellS, tp.DwellS, "s", 0.0005)
+	add("rate", tp.WantedRateBPM, tp.RateBPM, "/min", 0.05)
+	add("Ti", tp.WantedTiS, tp.TiS, "s", 0.005)
+	add("I:E (E of 1:E)", tp.WantedIE, tp.IE, "", 0.05)
+	return out
+}
+
+// finite refuses to hand out a plan with a NaN or Inf in a figure shown to
+// people; it would mean a bug or an input this check missed.
+func finite(pl Plan) error {
+	vals := []float64{pl.PBWKg, pl.TargetVtML, pl.Hole.DeliveredML, pl.Hole.MLPerKg, pl.PeakCmH2O, pl.EndInspCmH2O,
+		pl.PlateauCmH2O, pl.DrivingCmH2O, pl.IntrinsicPEEPCmH2O, pl.TrappedML, pl.PeakFlowLPerMin, pl.MinuteVentLPerMin,
+		pl.PeakTorqueNm, pl.Timing.RPM, pl.Timing.DwellS, pl.Timing.RateBPM, pl.Timing.TiS, pl.Timing.TeS, pl.Timing.IE,
+		pl.FiO2.Value, pl.O2FlowLPerMin, pl.OffTargetPct}
+	for i, v := range vals {
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return fmt.Errorf("setup: figure %d of the plan is not finite (%v); the inputs are outside what the model handles", i, v)
+		}
+	}
+	return nil
+}

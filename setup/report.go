@@ -1,0 +1,203 @@
+package setup
+
+import (
+	"fmt"
+	"io"
+	"math"
+	"strings"
+)
+
+// HoleJSON is a hole in the JSON report.
+type HoleJSON struct {
+	Hole          string  `json:"hole"`
+	SweptML       float64 `json:"swept_ml"`
+	DeliveredVtML float64 `json:"delivered_vt_ml"`
+	MLPerKg       float64 `json:"ml_per_kg"`
+}
+
+// DefaultJSON is a target with where its value comes from.
+type DefaultJSON struct {
+	Value  float64 `json:"value"`
+	Source string  `json:"source"`
+}
+
+// PlanJSON is the object `crankside plan --json` prints. Keys are
+// snake_case and carry their units.
+type PlanJSON struct {
+	ProfileID                   string                 `json:"profile_id"`
+	HeightCm                    float64                `json:"height_cm"`
+	Sex                         string                 `json:"sex"`
+	Lung                        string                 `json:"lung"`
+	PBWKg                       float64                `json:"pbw_kg"`
+	TargetMLPerKg               float64                `json:"target_ml_per_kg"`
+	TargetVtML                  float64                `json:"target_vt_ml"`
+	Hole                        string                 `json:"hole"`
+	SweptML                     float64                `json:"swept_ml"`
+	EffectiveSweptML            float64                `json:"effective_swept_ml"`
+	DeliveredVtML               float64                `json:"delivered_vt_ml"`
+	MLPerKg                     float64                `json:"ml_per_kg"`
+	OffTargetPct                float64                `json:"off_target_pct"`
+	HoleBelow                   *HoleJSON              `json:"hole_below"`
+	HoleAbove                   *HoleJSON              `json:"hole_above"`
+	RateBPM                     float64                `json:"rate_bpm"`
+	MotorRPM                    float64                `json:"motor_rpm"`
+	DwellS                      float64                `json:"dwell_s"`
+	TiS                         float64                `json:"ti_s"`
+	TeS                         float64                `json:"te_s"`
+	IERatio                     float64                `json:"ie_ratio"`
+	PEEPCmH2O                   float64                `json:"peep_cmh2o"`
+	FiO2                        float64                `json:"fio2"`
+	O2FlowLMin                  float64                `json:"o2_flow_l_min"`
+	CylinderMinutes             *float64               `json:"cylinder_minutes"`
+	ComplianceMLPerCmH2O        float64                `json:"compliance_ml_per_cmh2o"`
+	ResistanceCmH2OPerLS        float64                `json:"resistance_cmh2o_per_l_s"`
+	MinuteVentilationLMin       float64                `json:"minute_ventilation_l_min"`
+	PeakFlowLMin                float64                `json:"peak_flow_l_min"`
+	PeakPressureCmH2O           float64                `json:"peak_pressure_cmh2o"`
+	EndInspiratoryPressureCmH2O float64                `json:"end_inspiratory_pressure_cmh2o"`
+	PlateauPressureCmH2O        float64                `json:"plateau_pressure_cmh2o"`
+	DrivingPressureCmH2O        float64                `json:"driving_pressure_cmh2o"`
+	IntrinsicPEEPCmH2O          float64                `json:"intrinsic_peep_cmh2o"`
+	TrappedVolumeML             float64                `json:"trapped_volume_ml"`
+	ExhalationTauS              float64                `json:"exhalation_tau_s"`
+	PeakTorqueNm                float64                `json:"peak_torque_nm"`
+	RatedTorqueShare            float64                `json:"rated_torque_share"`
+	CalibrationK                float64                `json:"calibration_k"`
+	CalibrationBML              float64                `json:"calibration_b_ml"`
+	CalibrationDate             string                 `json:"calibration_date"`
+	Defaults                    map[string]DefaultJSON `json:"targets"`
+	Changes                     []Change               `json:"changes"`
+	Cautions                    []Caution              `json:"cautions"`
+	ClinicalCaution             string                 `json:"clinical_caution"`
+}
+
+// r4 rounds for the report: 4 decimals is far below any meaningful change.
+func r4(v float64) float64 { return math.Round(v*1e4) / 1e4 }
+
+func holeJSON(h *HoleFigure) *HoleJSON {
+	if h == nil {
+		return nil
+	}
+	return &HoleJSON{Hole: h.Label, SweptML: r4(h.SweptML), DeliveredVtML: r4(h.DeliveredML), MLPerKg: r4(h.MLPerKg)}
+}
+
+// JSON is the plan as the --json object.
+func (pl Plan) JSON() PlanJSON {
+	j := PlanJSON{
+		ProfileID: pl.ProfileID, HeightCm: r4(pl.Patient.HeightCm), Sex: pl.Patient.Sex.String(), Lung: pl.Lung.String(),
+		PBWKg: r4(pl.PBWKg), TargetMLPerKg: r4(pl.MLPerKg.Value), TargetVtML: r4(pl.TargetVtML),
+		Hole: pl.Hole.Label, SweptML: r4(pl.Hole.SweptML), EffectiveSweptML: r4(pl.Hole.EffectiveSweptML),
+		DeliveredVtML: r4(pl.Hole.DeliveredML), MLPerKg: r4(pl.Hole.MLPerKg), OffTargetPct: r4(pl.OffTargetPct),
+		HoleBelow: holeJSON(pl.Below), HoleAbove: holeJSON(pl.Above),
+		RateBPM: r4(pl.Timing.RateBPM), MotorRPM: r4(pl.Timing.RPM), DwellS: r4(pl.Timing.DwellS),
+		TiS: r4(pl.Timing.TiS), TeS: r4(pl.Timing.TeS), IERatio: r4(pl.Timing.IE),
+		PEEPCmH2O: r4(pl.PEEPCmH2O), FiO2: r4(pl.Figures.FiO2), O2FlowLMin: r4(pl.O2FlowLPerMin),
+		ComplianceMLPerCmH2O: r4(pl.ComplianceMLPerCmH2O), ResistanceCmH2OPerLS: r4(pl.ResistanceCmH2OPerLS),
+		MinuteVentilationLMin: r4(pl.MinuteVentLPerMin), PeakFlowLMin: r4(pl.PeakFlowLPerMin),
+		PeakPressureCmH2O: r4(pl.PeakCmH2O), EndInspiratoryPressureCmH2O: r4(pl.EndInspCmH2O),
+		PlateauPressureCmH2O: r4(pl.PlateauCmH2O), DrivingPressureCmH2O: r4(pl.DrivingCmH2O),
+		IntrinsicPEEPCmH2O: r4(pl.IntrinsicPEEPCmH2O), TrappedVolumeML: r4(pl.TrappedML), ExhalationTauS: r4(pl.TauS),
+		PeakTorqueNm: r4(pl.PeakTorqueNm), RatedTorqueShare: r4(pl.TorqueShareOfRating),
+		CalibrationK: r4(pl.Calibration.K), CalibrationBML: r4(pl.Calibration.BML), CalibrationDate: pl.Calibration.Date,
+		Defaults: map[string]DefaultJSON{
+			"ml_per_kg":                {r4(pl.MLPerKg.Value), pl.MLPerKg.Source},
+			"rate_bpm":                 {r4(pl.Rate.Value), pl.Rate.Source},
+			"ie_ratio":                 {r4(pl.IE.Value), pl.IE.Source},
+			"peep_cmh2o":               {r4(pl.PEEP.Value), pl.PEEP.Source},
+			"fio2":                     {r4(pl.FiO2.Value), pl.FiO2.Source},
+			"compliance_ml_per_cmh2o":  {r4(pl.Compliance.Value), pl.Compliance.Source},
+			"resistance_cmh2o_per_l_s": {r4(pl.Resistance.Value), pl.Resistance.Source},
+		},
+		Changes: roundChanges(pl.Changes), Cautions: roundCautions(pl.Cautions), ClinicalCaution: ClinicalCaution,
+	}
+	if pl.CylinderGiven && !math.IsInf(pl.CylinderMinutes, 0) {
+		m := r4(pl.CylinderMinutes)
+		j.CylinderMinutes = &m
+	}
+	return j
+}
+
+func roundChanges(cs []Change) []Change {
+	out := make([]Change, len(cs))
+	for i, c := range cs {
+		out[i] = Change{What: c.What, Wanted: r4(c.Wanted), Got: r4(c.Got), Unit: c.Unit}
+	}
+	return out
+}
+
+func roundCautions(cs []Caution) []Caution {
+	out := make([]Caution, len(cs))
+	for i, c := range cs {
+		c.Value, c.Limit = r4(c.Value), r4(c.Limit)
+		out[i] = c
+	}
+	return out
+}
+
+// LevelWord is a caution level as printed: upper case, so it reads without
+// colour.
+func LevelWord(l Level) string { return strings.ToUpper(l.String()) }
+
+// WriteText prints the plan for a person: units on every number, the
+// cautions with their level words, and the clinical caution line.
+func (pl Plan) WriteText(w io.Writer) error {
+	var b strings.Builder
+	p := func(format string, args ...any) { fmt.Fprintf(&b, format, args...) }
+	p("crankside plan on %s (%s)\n", pl.ProfileID, pl.ProfileLabel)
+	p("Patient   %.1f cm %s, lung %s: PBW %.1f kg\n", pl.Patient.HeightCm, pl.Patient.Sex, pl.Lung, pl.PBWKg)
+	p("Target    %.1f mL/kg PBW = %.0f mL, rate %.0f /min, I:E 1:%.1f, PEEP %.0f cmH2O, FiO2 %.2f\n",
+		pl.MLPerKg.Value, pl.TargetVtML, pl.Rate.Value, pl.IE.Value, pl.PEEP.Value, pl.FiO2.Value)
+	p("Lung      C %.0f mL/cmH2O (%s), R %.0f cmH2O/(L/s) (%s)\n", pl.Compliance.Value, pl.Compliance.Source, pl.Resistance.Value, pl.Resistance.Source)
+	p("\nSET THE MACHINE\n")
+	p("  Hole          %s  (swept %.0f mL, calibrated %.0f mL)\n", pl.Hole.Label, pl.Hole.SweptML, pl.Hole.EffectiveSweptML)
+	p("  Motor speed   %.1f rpm\n", pl.Timing.RPM)
+	p("  Dwell         %.1f s\n", pl.Timing.DwellS)
+	p("  PEEP valve    %.0f cmH2O\n", pl.PEEPCmH2O)
+	if pl.O2FlowLPerMin > 0 {
+		p("  O2 bleed      %.1f L/min\n", pl.O2FlowLPerMin)
+	} else {
+		p("  O2 bleed      none (room air)\n")
+	}
+	p("\nTHE PATIENT GETS\n")
+	p("  Tidal volume  %.0f mL = %.1f mL/kg PBW (target %.0f mL, %+.0f%%)\n", pl.Hole.DeliveredML, pl.Hole.MLPerKg, pl.TargetVtML, pl.OffTargetPct)
+	if pl.Below != nil {
+		p("  Hole below    %s: %.0f mL = %.1f mL/kg\n", pl.Below.Label, pl.Below.DeliveredML, pl.Below.MLPerKg)
+	}
+	if pl.Above != nil {
+		p("  Hole above    %s: %.0f mL = %.1f mL/kg\n", pl.Above.Label, pl.Above.DeliveredML, pl.Above.MLPerKg)
+	}
+	p("  Rate          %.1f /min, Ti %.2f s, Te %.2f s, I:E 1:%.1f\n", pl.Timing.RateBPM, pl.Timing.TiS, pl.Timing.TeS, pl.Timing.IE)
+	p("  Minute vent.  %.1f L/min, peak flow %.0f L/min\n", pl.MinuteVentLPerMin, pl.PeakFlowLPerMin)
+	p("  Pressures     peak %.1f, end of inspiration %.1f, plateau %.1f, driving %.1f cmH2O\n", pl.PeakCmH2O, pl.EndInspCmH2O, pl.PlateauCmH2O, pl.DrivingCmH2O)
+	p("  Trapped gas   %.0f mL, intrinsic PEEP %.1f cmH2O (tau %.2f s)\n", pl.TrappedML, pl.IntrinsicPEEPCmH2O, pl.TauS)
+	p("  FiO2          %.2f estimated\n", pl.Figures.FiO2)
+	if pl.CylinderGiven {
+		if math.IsInf(pl.CylinderMinutes, 0) {
+			p("  O2 cylinder   not in use (no oxygen flow)\n")
+		} else {
+			p("  O2 cylinder   %.0f min left at %.1f L/min\n", pl.CylinderMinutes, pl.O2FlowLPerMin)
+		}
+	}
+	p("  Crank torque  %.2f N m peak, %.0f%% of the motor's rating\n", pl.PeakTorqueNm, 100*pl.TorqueShareOfRating)
+	if len(pl.Changes) > 0 {
+		p("\nWHAT THE MACHINE'S STEPS CHANGED\n")
+		for _, c := range pl.Changes {
+			p("  %-15s wanted %.2f, set %.2f %s\n", c.What, c.Wanted, c.Got, c.Unit)
+		}
+	}
+	writeCautions(&b, pl.Cautions)
+	_, err := io.WriteString(w, b.String())
+	return err
+}
+
+func writeCautions(b *strings.Builder, cs []Caution) {
+	if len(cs) == 0 {
+		fmt.Fprintf(b, "\nCAUTIONS: none\n")
+	} else {
+		fmt.Fprintf(b, "\nCAUTIONS (%d, highest %s)\n", len(cs), LevelWord(Highest(cs)))
+		for _, c := range cs {
+			fmt.Fprintf(b, "  %-4s %s: %s; %s [%s]\n", LevelWord(c.Level), c.ID, c.Message, c.Advice, c.Source)
+		}
+	}
+	fmt.Fprintf(b, "\n%s\n", ClinicalCaution)
+}

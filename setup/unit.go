@@ -1,0 +1,133 @@
+package setup
+
+import (
+	"fmt"
+	"math"
+	"time"
+
+	"crankside/machine"
+	"crankside/profiles"
+)
+
+// unit is a profile turned into the machine package's terms, with its
+// calibration fitted once.
+type unit struct {
+	p          profiles.Profile
+	motor      machine.Motor
+	controller machine.Controller
+	cal        CalibrationStatus
+}
+
+// CalibrationStatus is what the profile's bench calibration says.
+type CalibrationStatus struct {
+	machine.Calibration
+	Date      string // YYYY-MM-DD, or "" when there is none
+	AgeDays   int    // whole days from Date to now; meaningless without Date
+	Points    int
+	Holes     int // distinct holes measured
+	Fit       *machine.Fit
+	BenchRows []profiles.BenchPoint
+	// Outside counts bench points outside +/-(4 mL + 15%) of the fitted model.
+	Outside int
+}
+
+// HasPoints reports whether a calibration was fitted.
+func (c CalibrationStatus) HasPoints() bool { return c.Fit != nil }
+
+func newUnit(p profiles.Profile, now time.Time) (unit, error) {
+	u := unit{p: p, controller: machine.Controller{DwellStepS: p.Controller.DwellStepS, MaxDwellS: p.Controller.MaxDwellS}}
+	if p.Motor.Fixed() {
+		u.motor = machine.FixedMotor(p.Motor.RPM)
+	} else {
+		u.motor = machine.Motor{MinRPM: p.Motor.MinRPM, MaxRPM: p.Motor.MaxRPM, StepRPM: p.Motor.RPMStep}
+	}
+	for _, h := range p.Crank.Holes {
+		if err := u.crank(h).Validate(); err != nil {
+			return u, &InputError{Field: "profile " + p.ID, Reason: fmt.Sprintf("hole %q: %v", h.Label, err)}
+		}
+	}
+	if !(p.Cylinder.BoreCm > 0) || !(p.Circuit.ComplianceMLPerCmH2O > 0) || !(u.controller.DwellStepS > 0) || !(u.motor.MinRPM > 0) {
+		return u, &InputError{Field: "profile " + p.ID, Reason: "bore, circuit compliance, dwell step and motor speed must be positive; validate the profile file"}
+	}
+	cal, err := fitCalibration(u, now)
+	if err != nil {
+		return u, err
+	}
+	u.cal = cal
+	return u, nil
+}
+
+func (u unit) crank(h profiles.Hole) machine.Crank {
+	return machine.Crank{RadiusCm: h.RadiusCm, RodCm: u.p.Crank.RodCm, OffsetCm: u.p.Crank.OffsetCm}
+}
+
+func (u unit) stroke(h profiles.Hole, rpm float64, cal machine.Calibration) machine.Stroke {
+	s := machine.Stroke{Crank: u.crank(h), BoreCm: u.p.Cylinder.BoreCm, RPM: rpm, Scale: 1}
+	if swept := s.SweptML(); swept > 0 {
+		s.Scale = cal.EffectiveSweptML(swept) / swept
+	}
+	return s
+}
+
+// fitCalibration fits k and b to the profile's bench points. Each point was
+// delivered from rest into a test lung through this circuit, so the model's
+// gain for that lung and speed turns the measured volume into an effective
+// swept volume.
+func fitCalibration(u unit, now time.Time) (CalibrationStatus, error) {
+	st := CalibrationStatus{Calibration: machine.Identity}
+	c := u.p.Calibration
+	if c == nil {
+		return st, nil
+	}
+	st.Date = c.Date
+	if d, err := time.Parse(time.DateOnly, c.Date); err == nil {
+		st.AgeDays = int(math.Floor(now.Sub(d).Hours() / 24))
+	}
+	if len(c.Points) == 0 {
+		return st, nil
+	}
+	pts, err := BenchGains(u.p, c.Points)
+	if err != nil {
+		return st, err
+	}
+	fit, err := machine.FitCalibration(pts)
+	if err != nil {
+		return st, &InputError{Field: "profile " + u.p.ID + " calibration", Reason: err.Error()}
+	}
+	st.Calibration, st.Fit, st.Points, st.BenchRows = fit.Calibration, &fit, len(c.Points), c.Points
+	holes := map[string]bool{}
+	for i, p := range c.Points {
+		holes[p.Hole] = true
+		if !machine.WithinISOTolerance(p.MeasuredML, fit.Residuals[i].PredictedML) {
+			st.Outside++
+		}
+	}
+	st.Holes = len(holes)
+	return st, nil
+}
+
+// BenchGains runs the breath model for each bench point (test lung, speed,
+// this circuit, from rest, PEEP 0, geometric piston) and returns the points
+// with the model's delivered-per-swept gain.
+func BenchGains(p profiles.Profile, points []profiles.BenchPoint) ([]machine.BenchPoint, error) {
+	u := unit{p: p}
+	out := make([]machine.BenchPoint, len(points))
+	for i, bp := range points {
+		h, ok := p.HoleByLabel(bp.Hole)
+		if !ok {
+			return nil, &InputError{Field: fmt.Sprintf("calibration point %d", i+1), Reason: fmt.Sprintf("hole %q is not on this machine", bp.Hole)}
+		}
+		s := u.stroke(h, bp.RPM, machine.Identity)
+		r, err := machine.SimulateStroke(machine.StrokeInput{
+			Stroke:            s,
+			Lung:              machine.Lung{ComplianceMLPerCmH2O: bp.TestLungComplianceMLPerCmH2O, ResistanceCmH2OPerLS: bp.TestLungResistanceCmH2OPerLS},
+			CircuitMLPerCmH2O: p.Circuit.ComplianceMLPerCmH2O,
+		})
+		if err != nil {
+			return nil, &InputError{Field: fmt.Sprintf("calibration point %d", i+1), Reason: err.Error()}
+		}
+		swept := s.SweptML()
+		out[i] = machine.BenchPoint{SweptML: swept, Gain: r.DeliveredML / swept, MeasuredML: bp.MeasuredML}
+	}
+	return out, nil
+}
