@@ -27,7 +27,10 @@ type Lung struct {
 // PEEPCmH2O, starting with StartVolumeML above that relaxed volume and with
 // the circuit at the lung's alveolar pressure.
 type BreathInput struct {
-	Flow              func(tS float64) float64 // piston flow, mL/s; must not be nil
+	Flow func(tS float64) float64 // piston flow, mL/s; nil when FlowSamples is set
+	// FlowSamples, when set, is the piston flow at t = 0, h, 2h, ... DurationS
+	// for the step h that StepGrid gives; it saves calling Flow.
+	FlowSamples       []float64
 	DurationS         float64
 	Lung              Lung
 	CircuitMLPerCmH2O float64
@@ -64,8 +67,8 @@ var ErrBadBreath = errors.New("machine: breath input")
 // stable for any circuit compliance, however small, and second-order
 // accurate in the step for a smooth piston flow.
 func Simulate(in BreathInput) (Breath, error) {
-	if in.Flow == nil {
-		panic("machine: Simulate needs a flow function")
+	if in.Flow == nil && in.FlowSamples == nil {
+		panic("machine: Simulate needs a flow function or flow samples")
 	}
 	c, r, cc := in.Lung.ComplianceMLPerCmH2O, in.Lung.ResistanceCmH2OPerLS, in.CircuitMLPerCmH2O
 	for _, v := range []struct {
@@ -79,51 +82,78 @@ func Simulate(in BreathInput) (Breath, error) {
 	if math.IsNaN(in.PEEPCmH2O) || math.IsInf(in.PEEPCmH2O, 0) || math.IsNaN(in.StartVolumeML) || math.IsInf(in.StartVolumeML, 0) {
 		return Breath{}, fmt.Errorf("%w: PEEP %v and start volume %v must be finite", ErrBadBreath, in.PEEPCmH2O, in.StartVolumeML)
 	}
-	step := in.StepS
-	if step == 0 {
-		step = DefaultStepS
+	n, h, err := StepGrid(in.DurationS, in.StepS)
+	if err != nil {
+		return Breath{}, err
 	}
-	if !(step > 0) || math.IsInf(step, 0) {
-		return Breath{}, fmt.Errorf("%w: step %v must be positive", ErrBadBreath, step)
+	flow := in.Flow
+	if in.FlowSamples != nil {
+		if len(in.FlowSamples) != n+1 {
+			panic(fmt.Sprintf("machine: %d flow samples for %d steps", len(in.FlowSamples), n))
+		}
+		flow = nil
 	}
-	n := int(math.Ceil(in.DurationS/step - 1e-9))
-	if n < 1 {
-		n = 1
+	sample := func(i int) float64 {
+		if flow == nil {
+			return in.FlowSamples[i]
+		}
+		return flow(float64(i) * h)
 	}
-	if n > maxSteps {
-		return Breath{}, fmt.Errorf("%w: %g s at a %g s step is more than %d steps", ErrBadBreath, in.DurationS, step, maxSteps)
-	}
-	h := in.DurationS / float64(n)
 	st := newStepper(c, r, cc, h)
 
 	// p is the circuit pressure above PEEP, v the lung volume above relaxed.
 	v := in.StartVolumeML
 	p := v / c
-	u := in.Flow(0)
-	patient := func(p, v float64) float64 { return (p - v/c) / st.rML }
-	out := Breath{PeakCmH2O: p + in.PEEPCmH2O, StepS: h, Steps: n}
-	out.PeakPatientFlowMLPerS = patient(p, v)
+	u := sample(0)
+	invC, invR := 1/c, 1/st.rML
+	patient := func(p, v float64) float64 { return (p - v*invC) * invR }
+	peak, peakFlow := p, patient(p, v)
 	if in.Observe != nil {
-		in.Observe(0, p+in.PEEPCmH2O, patient(p, v), v)
+		in.Observe(0, p+in.PEEPCmH2O, peakFlow, v)
 	}
 	for i := 1; i <= n; i++ {
-		t := float64(i) * h
-		un := in.Flow(t)
+		un := sample(i)
 		p, v = st.advance(p, v, u, un)
 		u = un
 		q := patient(p, v)
-		out.PeakCmH2O = math.Max(out.PeakCmH2O, p+in.PEEPCmH2O)
-		out.PeakPatientFlowMLPerS = math.Max(out.PeakPatientFlowMLPerS, q)
+		if p > peak {
+			peak = p
+		}
+		if q > peakFlow {
+			peakFlow = q
+		}
 		if in.Observe != nil {
-			in.Observe(t, p+in.PEEPCmH2O, q, v)
+			in.Observe(float64(i)*h, p+in.PEEPCmH2O, q, v)
 		}
 	}
+	out := Breath{PeakCmH2O: peak + in.PEEPCmH2O, PeakPatientFlowMLPerS: peakFlow, StepS: h, Steps: n}
 	out.DeliveredML = v - in.StartVolumeML
 	out.EndCmH2O = p + in.PEEPCmH2O
 	if math.IsNaN(out.DeliveredML) || math.IsInf(out.DeliveredML, 0) || math.IsNaN(out.PeakCmH2O) {
 		return Breath{}, fmt.Errorf("%w: the simulation did not give a finite result", ErrBadBreath)
 	}
 	return out, nil
+}
+
+// StepGrid is the number of steps and the step that Simulate uses for a
+// duration: the largest step no longer than step (0 means DefaultStepS)
+// that divides the duration evenly.
+func StepGrid(durationS, step float64) (int, float64, error) {
+	if step == 0 {
+		step = DefaultStepS
+	}
+	if !(step > 0) || math.IsInf(step, 0) {
+		return 0, 0, fmt.Errorf("%w: step %v must be positive", ErrBadBreath, step)
+	}
+	if !(durationS > 0) || math.IsInf(durationS, 0) {
+		return 0, 0, fmt.Errorf("%w: duration %v must be positive and finite", ErrBadBreath, durationS)
+	}
+	steps := math.Ceil(durationS/step - 1e-9)
+	if steps > maxSteps {
+		return 0, 0, fmt.Errorf("%w: %g s at a %g s step is more than %d steps", ErrBadBreath, durationS, step, maxSteps)
+	}
+	n := max(int(steps), 1)
+	return n, durationS / float64(n), nil
 }
 
 // stepper holds the exact one-step map of the linear system for a piston

@@ -94,8 +94,13 @@ func MakePlan(req Request, p profiles.Profile) (Plan, error) {
 	// Settle both together: in-line cranks settle at once.
 	hole := p.Crank.Holes[len(p.Crank.Holes)/2]
 	var chosen int
+	prevAngle := math.NaN()
 	for pass := 0; pass < 4; pass++ {
 		angle := u.crank(hole).DeliveryAngle()
+		if angle == prevAngle {
+			break // same timing as the last pass, so the same holes
+		}
+		prevAngle = angle
 		pl.Timing, err = machine.PlanTiming(u.motor, u.controller, angle, r.rate.Value, r.ie.Value)
 		if err != nil {
 			return Plan{}, &InputError{Field: "rate", Reason: err.Error()}

@@ -1,0 +1,262 @@
+package setup_test
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"testing"
+	"time"
+
+	"github.com/stretchr/testify/require"
+
+	"crankside/machine"
+	"crankside/physiology"
+	"crankside/profiles"
+	"crankside/setup"
+)
+
+var today = time.Date(2026, 12, 1, 9, 0, 0, 0, time.UTC)
+
+func profile(t testing.TB, id string) profiles.Profile {
+	t.Helper()
+	p, _, err := profiles.Open(id, "")
+	require.NoError(t, err)
+	return p
+}
+
+func plan(t testing.TB, id string, pt setup.Patient, tg setup.Targets) setup.Plan {
+	t.Helper()
+	pl, err := setup.MakePlan(setup.Request{Patient: pt, Targets: tg, Now: today}, profile(t, id))
+	require.NoError(t, err)
+	return pl
+}
+
+func has(pl setup.Plan, id string, level setup.Level) bool {
+	for _, c := range pl.Cautions {
+		if c.ID == id && c.Level == level {
+			return true
+		}
+	}
+	return false
+}
+
+// shareApprox is the volume a swept volume puts into the lung once the
+// circuit and lung share it, C / (C + Cc) (derived): the plan's delivered
+// volume is a little less because the circuit still holds the flow's
+// resistive pressure when the piston stops.
+func shareApprox(swept, c, cc float64) float64 { return swept * c / (c + cc) }
+
+func TestPlanDemoA170Female(t *testing.T) {
+	pl := plan(t, "demo-a", setup.Patient{HeightCm: 170, Sex: physiology.Female}, setup.Targets{})
+	// PBW 45.5 + 0.91 x 17.6 = 61.516 kg (ARDSNet 2000, derived); 6 mL/kg -> 369.1 mL.
+	require.InDelta(t, 61.516, pl.PBWKg, 1e-9)
+	require.InDelta(t, 369.096, pl.TargetVtML, 1e-6)
+	// Hole 6 (r 2.4 cm): 78.54 cm2 x 4.8 cm = 377.0 mL swept (pi r^2 h, derived),
+	// about 377 x 60/61.5 = 367.8 mL delivered; hole 5 gives about 337, hole 7 about 398.
+	require.Equal(t, "6", pl.Hole.Label)
+	require.InDelta(t, math.Pi*25*4.8, pl.Hole.SweptML, 1e-9)
+	require.InDelta(t, shareApprox(pl.Hole.SweptML, 60, 1.5), pl.Hole.DeliveredML, 0.01*pl.Hole.DeliveredML)
+	require.Equal(t, "5", pl.Below.Label)
+	require.Equal(t, "7", pl.Above.Label)
+	// Rate 14, I:E 1:2 (defaults, common practice): Ti 60/14/3 = 1.4286 s, a turn
+	// of 2.857 s = 21 rpm (on the 0.5 rpm step), dwell 4.2857 - 2.857 = 1.43 -> 1.4 s.
+	require.InDelta(t, 21, pl.Timing.RPM, 0)
+	require.InDelta(t, 1.4, pl.Timing.DwellS, 1e-9)
+	require.InDelta(t, 60/(60.0/21+1.4), pl.Timing.RateBPM, 1e-9)
+	require.InDelta(t, 60.0/21/2, pl.Timing.TiS, 1e-9)
+	// Plateau = PEEP + (trapped + delivered) / C; driving = delivered / C (DESIGN).
+	require.InDelta(t, 5+(pl.TrappedML+pl.Hole.DeliveredML)/60, pl.PlateauCmH2O, 1e-9)
+	require.InDelta(t, pl.Hole.DeliveredML/60, pl.DrivingCmH2O, 1e-9)
+	require.InDelta(t, pl.TrappedML/60, pl.IntrinsicPEEPCmH2O, 1e-9)
+	// Trapped gas from Vt k/(1-k) with tau (10 + 3) x 60 / 1000 = 0.78 s (derived).
+	require.InDelta(t, 0.78, pl.TauS, 1e-12)
+	require.InDelta(t, physiology.TrappedVolumeML(pl.Hole.DeliveredML, pl.Timing.TeS, 0.78), pl.TrappedML, 1e-9)
+	// Peak on a healthy lung is often 10-15 cmH2O above atmosphere with PEEP 5 (common practice).
+	require.True(t, pl.PeakCmH2O > 10 && pl.PeakCmH2O < 20, "peak %v", pl.PeakCmH2O)
+	require.Greater(t, pl.PeakCmH2O, pl.EndInspCmH2O)
+	require.Greater(t, pl.EndInspCmH2O, pl.PlateauCmH2O)
+	// The machine has no calibration: said so, and nothing else is wrong.
+	require.True(t, has(pl, "calibration-missing", setup.Warn))
+	require.Len(t, pl.Cautions, 1, "%+v", pl.Cautions)
+	// What rounding changed is listed: dwell and rate.
+	var whats []string
+	for _, c := range pl.Changes {
+		whats = append(whats, c.What)
+	}
+	require.Equal(t, []string{"dwell", "rate"}, whats)
+}
+
+func TestPlanDemoA175Male(t *testing.T) {
+	pl := plan(t, "demo-a", setup.Patient{HeightCm: 175, Sex: physiology.Male}, setup.Targets{})
+	// PBW 50 + 0.91 x 22.6 = 70.566 kg; 423.4 mL. Hole 8 (r 2.8: 439.8 mL swept,
+	// ~429 delivered) is nearer than hole 7 (408.4 swept, ~398) (derived).
+	require.InDelta(t, 70.566, pl.PBWKg, 1e-9)
+	require.Equal(t, "8", pl.Hole.Label)
+	require.InDelta(t, math.Pi*25*5.6, pl.Hole.SweptML, 1e-9)
+}
+
+func TestPlanFixedSpeedMotorDemoB(t *testing.T) {
+	pl := plan(t, "demo-b", setup.Patient{HeightCm: 170, Sex: physiology.Female}, setup.Targets{})
+	// Fixed 20 rpm: a 3 s turn, Ti 1.5 s whatever was asked (DESIGN); rate 14
+	// wants a 4.2857 s breath, so the dwell is 1.2857 -> 1.3 s on a 0.1 s step.
+	require.InDelta(t, 20, pl.Timing.RPM, 0)
+	require.InDelta(t, 1.5, pl.Timing.TiS, 1e-12)
+	require.InDelta(t, 1.3, pl.Timing.DwellS, 1e-9)
+	require.InDelta(t, 60/4.3, pl.Timing.RateBPM, 1e-9)
+	// The wanted Ti (1.43 s) needs 21 rpm: not silently clamped.
+	require.True(t, has(pl, "ti-not-reachable", setup.Warn))
+	// The bench calibration is applied: effective = k x swept + b.
+	require.NotNil(t, pl.Calibration.Fit)
+	require.InDelta(t, pl.Calibration.K*pl.Hole.SweptML+pl.Calibration.BML, pl.Hole.EffectiveSweptML, 1e-9)
+	require.Less(t, pl.Hole.EffectiveSweptML, pl.Hole.SweptML, "the invented bench points deliver less than geometry")
+	require.False(t, has(pl, "calibration-missing", setup.Warn))
+	require.Equal(t, 7, pl.Calibration.AgeDays)
+}
+
+func TestPlanTiTheMotorCannotReach(t *testing.T) {
+	// 6/min at 1:1 wants Ti 5 s: a 10 s turn is 6 rpm, below demo-a's 8 rpm.
+	pl := plan(t, "demo-a", setup.Patient{HeightCm: 180, Sex: physiology.Male}, setup.Targets{RateBPM: 6, IE: 1})
+	require.Equal(t, machine.SpeedLimited, pl.Timing.Speed)
+	require.InDelta(t, 8, pl.Timing.RPM, 0)
+	require.InDelta(t, 3.75, pl.Timing.TiS, 1e-12)
+	require.InDelta(t, 6, pl.Timing.RateBPM, 1e-9) // 7.5 s turn + 2.5 s dwell
+	require.True(t, has(pl, "ti-not-reachable", setup.Warn))
+	require.False(t, has(pl, "rate-unreachable", setup.Stop))
+}
+
+func TestPlanRateTheMotorCannotReach(t *testing.T) {
+	// demo-b's fixed 3 s turn cannot give 30/min (2 s breaths).
+	pl := plan(t, "demo-b", setup.Patient{HeightCm: 170, Sex: physiology.Male}, setup.Targets{RateBPM: 30})
+	require.True(t, has(pl, "rate-unreachable", setup.Stop))
+	require.InDelta(t, 20, pl.Timing.RateBPM, 1e-9)
+	// demo-a tops out at 40 rpm: 45/min at 1:1 cannot be run.
+	pl = plan(t, "demo-a", setup.Patient{HeightCm: 170, Sex: physiology.Male}, setup.Targets{RateBPM: 45, IE: 1})
+	require.True(t, has(pl, "rate-unreachable", setup.Stop))
+	require.True(t, has(pl, "rate-high", setup.Warn))
+}
+
+func TestPlanARDSPEEPFromTheTable(t *testing.T) {
+	// ARDSNet 2000 lower-PEEP/FiO2 table: FiO2 0.7 -> lowest PEEP 10; 0.45 -> 0.5 -> 8.
+	pl := plan(t, "demo-a", setup.Patient{HeightCm: 165, Sex: physiology.Female}, setup.Targets{Lung: physiology.ARDS, FiO2: 0.7})
+	require.InDelta(t, 10, pl.PEEPCmH2O, 0)
+	require.InDelta(t, 18, pl.Rate.Value, 0)
+	require.InDelta(t, 30, pl.ComplianceMLPerCmH2O, 0)
+	pl = plan(t, "demo-a", setup.Patient{HeightCm: 165, Sex: physiology.Female}, setup.Targets{Lung: physiology.ARDS, FiO2: 0.45})
+	require.InDelta(t, 8, pl.PEEPCmH2O, 0)
+	// O2 flow for FiO2 0.45 is (0.45 - 0.21)/0.79 of the minute ventilation (derived).
+	require.InDelta(t, (0.45-0.21)/0.79*pl.MinuteVentLPerMin, pl.O2FlowLPerMin, 1e-9)
+	require.InDelta(t, 0.45, pl.Figures.FiO2, 1e-9)
+}
+
+func TestPlanHighVolumeAndPressureCautions(t *testing.T) {
+	// 9.5 mL/kg on a stiff lung: warn on volume, stop on pressure.
+	pl := plan(t, "demo-a", setup.Patient{HeightCm: 180, Sex: physiology.Male},
+		setup.Targets{MLPerKg: 9.5, ComplianceMLPerCmH2O: 12})
+	require.True(t, has(pl, "tidal-volume-high", setup.Warn))
+	require.True(t, has(pl, "plateau-high", setup.Warn))
+	require.True(t, has(pl, "driving-pressure-high", setup.Warn))
+	require.True(t, has(pl, "peak-above-relief", setup.Stop))
+	require.True(t, has(pl, "peak-high", setup.Stop))
+	require.Equal(t, setup.Stop, setup.Highest(pl.Cautions))
+}
+
+func TestPlanTrappedGasOnAnObstructedLung(t *testing.T) {
+	// R 25 + valve 3, C 60: tau 1.68 s; 20/min at 1:1.5 leaves Te ~1.8 s.
+	pl := plan(t, "demo-a", setup.Patient{HeightCm: 175, Sex: physiology.Male},
+		setup.Targets{Lung: physiology.Obstructive, RateBPM: 20, IE: 1.5})
+	require.True(t, has(pl, "intrinsic-peep", setup.Warn), "PEEPi %v", pl.IntrinsicPEEPCmH2O)
+}
+
+func TestPlanTorqueAndCylinderCautions(t *testing.T) {
+	p := profile(t, "demo-a")
+	p.Motor.RatedTorqueNm = 0.5
+	pl, err := setup.MakePlan(setup.Request{Patient: setup.Patient{HeightCm: 170, Sex: physiology.Male},
+		Targets: setup.Targets{FiO2: 0.6, CylinderWaterL: 2, CylinderBar: 50}, Now: today}, p)
+	require.NoError(t, err)
+	require.True(t, has(pl, "torque-high", setup.Stop), "share %v", pl.TorqueShareOfRating)
+	// 2 L x 50 bar = 100 L (common practice) at ~3 L/min: well under 2 hours.
+	require.InDelta(t, 100/pl.O2FlowLPerMin, pl.CylinderMinutes, 1e-9)
+	require.True(t, has(pl, "o2-cylinder-low", setup.Warn))
+}
+
+func TestPlanOldCalibration(t *testing.T) {
+	pl, err := setup.MakePlan(setup.Request{Patient: setup.Patient{HeightCm: 170, Sex: physiology.Male},
+		Now: time.Date(2027, 1, 1, 0, 0, 0, 0, time.UTC)}, profile(t, "demo-b"))
+	require.NoError(t, err)
+	require.True(t, has(pl, "calibration-old", setup.Warn))
+}
+
+func TestPlanOffsetCrank(t *testing.T) {
+	// An offset crank's delivery is not half a turn: Ti is the delivery's
+	// share of the turn (DESIGN), and the plan settles hole and speed together.
+	p := profile(t, "demo-a")
+	p.Crank.OffsetCm = 2
+	pl, err := setup.MakePlan(setup.Request{Patient: setup.Patient{HeightCm: 170, Sex: physiology.Male}, Now: today}, p)
+	require.NoError(t, err)
+	h, _ := p.HoleByLabel(pl.Hole.Label)
+	angle := machine.Crank{RadiusCm: h.RadiusCm, RodCm: 22, OffsetCm: 2}.DeliveryAngle()
+	require.InDelta(t, 60/pl.Timing.RPM*angle/(2*math.Pi), pl.Timing.TiS, 1e-9)
+	require.Less(t, angle, math.Pi)
+}
+
+func TestPlanRefusesBadInput(t *testing.T) {
+	pt := setup.Patient{HeightCm: 170, Sex: physiology.Male}
+	peep := 30.0
+	cases := []struct {
+		name  string
+		pt    setup.Patient
+		tg    setup.Targets
+		field string
+	}{
+		{"short", setup.Patient{HeightCm: 120, Sex: physiology.Male}, setup.Targets{}, "height-cm"},
+		{"NaN height", setup.Patient{HeightCm: math.NaN(), Sex: physiology.Male}, setup.Targets{}, "height-cm"},
+		{"no sex", setup.Patient{HeightCm: 170}, setup.Targets{}, "sex"},
+		{"ml/kg", pt, setup.Targets{MLPerKg: 11}, "ml-per-kg"},
+		{"inverse I:E", pt, setup.Targets{IE: 0.5}, "ie"},
+		{"FiO2", pt, setup.Targets{FiO2: 1.2}, "fio2"},
+		{"PEEP", pt, setup.Targets{PEEPCmH2O: &peep}, "peep"},
+		{"rate Inf", pt, setup.Targets{RateBPM: math.Inf(1)}, "rate"},
+		{"lung", pt, setup.Targets{Lung: 9}, "lung"},
+		{"cylinder", pt, setup.Targets{CylinderWaterL: 10, CylinderBar: -3}, "cylinder-bar"},
+	}
+	for _, c := range cases {
+		_, err := setup.MakePlan(setup.Request{Patient: c.pt, Targets: c.tg, Now: today}, profile(t, "demo-a"))
+		var ie *setup.InputError
+		require.True(t, errors.As(err, &ie), "%s: want an InputError, got %v", c.name, err)
+		require.Equal(t, c.field, ie.Field, c.name)
+		require.ErrorIs(t, err, setup.ErrInput)
+	}
+}
+
+func TestPlanHolesAreMonotoneAndTieGoesSmaller(t *testing.T) {
+	pl := plan(t, "demo-a", setup.Patient{HeightCm: 170, Sex: physiology.Male}, setup.Targets{})
+	for i := 1; i < len(pl.Holes); i++ {
+		require.Greater(t, pl.Holes[i].DeliveredML, pl.Holes[i-1].DeliveredML)
+	}
+	// Whatever the target, no other hole is nearer than the chosen one.
+	for _, h := range pl.Holes {
+		require.GreaterOrEqual(t, math.Abs(h.DeliveredML-pl.TargetVtML)+1e-9, math.Abs(pl.Hole.DeliveredML-pl.TargetVtML))
+	}
+}
+
+func ExampleMakePlan() {
+	p, _, _ := profiles.Open("demo-a", "")
+	pl, _ := setup.MakePlan(setup.Request{
+		Patient: setup.Patient{HeightCm: 170, Sex: physiology.Female},
+		Now:     time.Date(2026, 12, 1, 0, 0, 0, 0, time.UTC),
+	}, p)
+	fmt.Printf("hole %s, %.1f rpm, dwell %.1f s: %.0f mL = %.1f mL/kg PBW\n",
+		pl.Hole.Label, pl.Timing.RPM, pl.Timing.DwellS, pl.Hole.DeliveredML, pl.Hole.MLPerKg)
+	// Output: hole 6, 21.0 rpm, dwell 1.4 s: 368 mL = 6.0 mL/kg PBW
+}
+
+func BenchmarkPlan(b *testing.B) {
+	p := profile(b, "demo-a")
+	req := setup.Request{Patient: setup.Patient{HeightCm: 170, Sex: physiology.Female}, Now: today}
+	b.ReportAllocs()
+	for b.Loop() {
+		if _, err := setup.MakePlan(req, p); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
