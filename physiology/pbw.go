@@ -54,12 +54,16 @@ type RangeError struct {
 }
 
 func (e *RangeError) Error() string {
-	if math.IsNaN(e.Value) || math.IsInf(e.Value, 0) {
-		return fmt.Sprintf("%s %v is not a finite number; allowed %s-%s %s",
-			e.Quantity, e.Value, trim(e.Min), trim(e.Max), e.Unit)
+	unit := ""
+	if e.Unit != "" {
+		unit = " " + e.Unit
 	}
-	return fmt.Sprintf("%s %s %s is outside %s-%s %s",
-		e.Quantity, trim(e.Value), e.Unit, trim(e.Min), trim(e.Max), e.Unit)
+	if math.IsNaN(e.Value) || math.IsInf(e.Value, 0) {
+		return fmt.Sprintf("%s %v is not a finite number; allowed %s-%s%s",
+			e.Quantity, e.Value, trim(e.Min), trim(e.Max), unit)
+	}
+	return fmt.Sprintf("%s %s%s is outside %s-%s%s",
+		e.Quantity, trim(e.Value), unit, trim(e.Min), trim(e.Max), unit)
 }
 
 func trim(v float64) string { return fmt.Sprintf("%.4g", v) }

@@ -36,7 +36,7 @@ type TablePEEP struct {
 // PEEPForFiO2 rounds fio2 up to the table's next step and returns the PEEP
 // range paired with it; the default is the lowest.
 func PEEPForFiO2(fio2 float64) (TablePEEP, error) {
-	if err := CheckRange("FiO2", fio2, FiO2Min, FiO2Max, "(fraction)"); err != nil {
+	if err := CheckRange("FiO2 (a fraction: 40% is 0.4)", fio2, FiO2Min, FiO2Max, ""); err != nil {
 		return TablePEEP{}, err
 	}
 	// Compare on hundredths so 0.7 typed in is 0.7 in the table.

@@ -118,7 +118,7 @@ func resolveTargets(t Targets) (resolved, error) {
 	if r.ie, err = pick("ie", "I:E expiratory part", t.IE, d.IE, physiology.IEMin, physiology.IEMax, "(E of 1:E)"); err != nil {
 		return r, err
 	}
-	if r.fio2, err = pick("fio2", "FiO2", t.FiO2, d.FiO2, physiology.FiO2Min, physiology.FiO2Max, "(fraction)"); err != nil {
+	if r.fio2, err = pick("fio2", "FiO2 (a fraction: 40% is 0.4)", t.FiO2, d.FiO2, physiology.FiO2Min, physiology.FiO2Max, ""); err != nil {
 		return r, err
 	}
 	if r.compliance, err = pick("compliance", "compliance", t.ComplianceMLPerCmH2O, d.Compliance, physiology.CMin, physiology.CMax, "mL/cmH2O"); err != nil {

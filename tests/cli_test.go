@@ -1,0 +1,180 @@
+package tests
+
+import (
+	"bytes"
+	"encoding/json"
+	"errors"
+	"fmt"
+	"os"
+	"os/exec"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"github.com/stretchr/testify/require"
+)
+
+// binary is the crankside command, built once for these tests.
+var binary string
+
+func TestMain(m *testing.M) {
+	dir, err := os.MkdirTemp("", "crankside-cli")
+	if err != nil {
+		fmt.Fprintln(os.Stderr, err)
+		os.Exit(1)
+	}
+	binary = filepath.Join(dir, "crankside")
+	build := exec.Command("go", "build", "-o", binary, "crankside")
+	build.Stderr = os.Stderr
+	if err := build.Run(); err != nil {
+		fmt.Fprintln(os.Stderr, "building crankside:", err)
+		os.RemoveAll(dir)
+		os.Exit(1)
+	}
+	code := m.Run()
+	os.RemoveAll(dir)
+	os.Exit(code)
+}
+
+type result struct {
+	stdout, stderr string
+	status         int
+}
+
+func crankside(t *testing.T, args ...string) result {
+	t.Helper()
+	cmd := exec.Command(binary, args...)
+	var out, errb bytes.Buffer
+	cmd.Stdout, cmd.Stderr = &out, &errb
+	cmd.Env = append(os.Environ(), "XDG_CONFIG_HOME="+t.TempDir(), "HOME="+t.TempDir())
+	err := cmd.Run()
+	status := 0
+	var ee *exec.ExitError
+	if errors.As(err, &ee) {
+		status = ee.ExitCode()
+	} else if err != nil {
+		t.Fatal(err)
+	}
+	return result{out.String(), errb.String(), status}
+}
+
+func TestPlanJSONHasTheContractKeys(t *testing.T) {
+	r := crankside(t, "plan", "--height-cm", "170", "--sex", "female", "--json")
+	require.Equal(t, 0, r.status, r.stderr)
+	var obj map[string]any
+	require.NoError(t, json.Unmarshal([]byte(r.stdout), &obj))
+	// DESIGN.md's list of keys that other programs rely on.
+	for _, k := range []string{"pbw_kg", "target_vt_ml", "hole", "swept_ml", "delivered_vt_ml", "ml_per_kg",
+		"rate_bpm", "motor_rpm", "dwell_s", "ti_s", "te_s", "ie_ratio", "minute_ventilation_l_min",
+		"peak_flow_l_min", "peak_pressure_cmh2o", "end_inspiratory_pressure_cmh2o", "plateau_pressure_cmh2o",
+		"driving_pressure_cmh2o", "intrinsic_peep_cmh2o", "peak_torque_nm", "cautions"} {
+		require.Contains(t, obj, k)
+	}
+	// PBW 61.5 kg for a 170 cm woman (ARDSNet 2000, derived).
+	require.InDelta(t, 61.516, obj["pbw_kg"], 1e-3)
+	require.Equal(t, "6", obj["hole"])
+	// ie_ratio is E/I: 2.0 for 1:2 (DESIGN); the 0.1 s dwell step moves it a little.
+	require.InDelta(t, 2.0, obj["ie_ratio"], 0.05)
+	cs := obj["cautions"].([]any)
+	require.NotEmpty(t, cs)
+	for _, c := range cs {
+		m := c.(map[string]any)
+		require.Contains(t, m, "id")
+		require.Contains(t, []any{"stop", "warn", "note"}, m["level"])
+		require.NotEmpty(t, m["message"])
+	}
+}
+
+func TestPlanTextCarriesUnitsLevelsAndTheClinicalLine(t *testing.T) {
+	r := crankside(t, "plan", "--height-cm", "175", "--sex", "male", "--profile", "demo-b")
+	require.Equal(t, 0, r.status, r.stderr)
+	for _, want := range []string{"PBW 70.6 kg", "Hole          ", "Motor speed   20.0 rpm", "Dwell", " s\n",
+		"cmH2O", "L/min", "WARN ti-not-reachable", "responsible clinician under local protocols"} {
+		require.Contains(t, r.stdout, want)
+	}
+}
+
+func TestBadInputIsOneLineAndExitTwo(t *testing.T) {
+	cases := []struct {
+		args []string
+		want string
+	}{
+		{[]string{"plan", "--height-cm", "abc", "--sex", "male"}, "--height-cm"},
+		{[]string{"plan", "--height-cm", "NaN", "--sex", "male"}, "not a number"},
+		{[]string{"plan", "--height-cm", "Inf", "--sex", "male"}, "--height-cm"},
+		{[]string{"plan", "--height-cm", "0x10", "--sex", "male"}, "--height-cm"},
+		{[]string{"plan", "--height-cm", "300", "--sex", "male"}, "130-230"},
+		{[]string{"plan", "--height-cm", "170", "--sex", "other"}, "--sex"},
+		{[]string{"plan", "--height-cm", "170"}, "--sex is required"},
+		{[]string{"plan", "--sex", "male"}, "--height-cm is required"},
+		{[]string{"plan", "--height-cm", "170", "--sex", "male", "--lung", "wet"}, "--lung"},
+		{[]string{"plan", "--height-cm", "170", "--sex", "male", "--ie", "2:1"}, "inverse"},
+		{[]string{"plan", "--height-cm", "170", "--sex", "male", "--ml-per-kg", "12"}, "--ml-per-kg"},
+		{[]string{"plan", "--height-cm", "170", "--sex", "male", "--ml-per-kg", "0"}, "--ml-per-kg"},
+		{[]string{"plan", "--height-cm", "170", "--sex", "male", "--fio2", "21"}, "--fio2"},
+		{[]string{"plan", "--height-cm", "170", "--sex", "male", "--profile", "nope"}, "--profile"},
+		{[]string{"plan", "--height-cm", "170", "--sex", "male", "--bogus"}, "unknown flag --bogus"},
+		{[]string{"plan", "--height-cm"}, "--height-cm"},
+		{[]string{"frobnicate"}, "unknown command"},
+		{[]string{"profiles", "show", "nope"}, "not found"},
+	}
+	for _, c := range cases {
+		r := crankside(t, c.args...)
+		require.Equal(t, 2, r.status, "%v: %s", c.args, r.stderr)
+		require.Contains(t, r.stderr, c.want, "%v", c.args)
+		require.Equal(t, 1, strings.Count(strings.TrimRight(r.stderr, "\n"), "\n")+1, "%v: one line, got %q", c.args, r.stderr)
+		require.NotContains(t, r.stderr, "goroutine", "%v: no panic trace", c.args)
+		require.Empty(t, r.stdout, "%v: nothing half-written", c.args)
+	}
+}
+
+func TestProfilesCommands(t *testing.T) {
+	r := crankside(t, "profiles", "list")
+	require.Equal(t, 0, r.status, r.stderr)
+	require.Contains(t, r.stdout, "demo-a")
+	require.Contains(t, r.stdout, "demo-b")
+
+	r = crankside(t, "profiles", "show", "demo-b")
+	require.Equal(t, 0, r.status, r.stderr)
+	require.Contains(t, r.stdout, "fixed speed 20.0 rpm")
+
+	// show --json prints the v1 file itself: it validates as it is.
+	r = crankside(t, "profiles", "show", "demo-a", "--json")
+	require.Equal(t, 0, r.status, r.stderr)
+	file := filepath.Join(t.TempDir(), "copy.json")
+	require.NoError(t, os.WriteFile(file, []byte(r.stdout), 0o644))
+	r = crankside(t, "profiles", "validate", file)
+	require.Equal(t, 0, r.status, r.stderr)
+	require.Contains(t, r.stdout, "valid")
+
+	bad := filepath.Join(t.TempDir(), "bad.json")
+	require.NoError(t, os.WriteFile(bad, []byte(strings.Replace(mustRead(t, file), `"bore_cm": 10`, `"bore_cm": -10`, 1)), 0o644))
+	r = crankside(t, "profiles", "validate", bad)
+	require.Equal(t, 2, r.status)
+	require.Contains(t, r.stderr, "cylinder.bore_cm")
+	require.Contains(t, r.stderr, "-10")
+
+	// A plan can use a profile by path.
+	r = crankside(t, "plan", "--height-cm", "170", "--sex", "male", "--profile", file, "--json")
+	require.Equal(t, 0, r.status, r.stderr)
+}
+
+func TestVersionAndHelp(t *testing.T) {
+	r := crankside(t, "--version")
+	require.Equal(t, 0, r.status)
+	require.Regexp(t, `^crankside \d+\.\d+\.\d+\n$`, r.stdout)
+	for _, args := range [][]string{{"--help"}, {"plan", "--help"}, {"profiles", "--help"}} {
+		r := crankside(t, args...)
+		require.Equal(t, 0, r.status, "%v", args)
+		require.Contains(t, r.stdout, "Usage")
+	}
+	r = crankside(t, "plan", "--help")
+	require.Contains(t, r.stdout, "--height-cm")
+	require.Contains(t, r.stdout, "responsible clinician")
+}
+
+func mustRead(t *testing.T, path string) string {
+	data, err := os.ReadFile(path)
+	require.NoError(t, err)
+	return string(data)
+}
