@@ -1,0 +1,77 @@
+package physiology
+
+import (
+	"math"
+	"testing"
+
+	"github.com/stretchr/testify/require"
+)
+
+func TestParseIE(t *testing.T) {
+	for text, want := range map[string]float64{"1:2": 2, "1:2.5": 2.5, " 1 : 3 ": 3, "2": 2, "1:1": 1, "2:4": 2, "1:4": 4} {
+		got, err := ParseIE(text)
+		require.NoError(t, err, text)
+		require.InDelta(t, want, got, 1e-12, text)
+	}
+	for _, text := range []string{"2:1", "1:0.5", "1:5", "1:", ":2", "a:b", "1:NaN", "1:Inf", "", "1:-2", "0:2"} {
+		_, err := ParseIE(text)
+		require.Error(t, err, text)
+	}
+	_, err := ParseIE("2:1")
+	require.ErrorContains(t, err, "inverse")
+}
+
+func TestParseNumberRefusesWhatIsNotAPlainDecimal(t *testing.T) {
+	for _, text := range []string{"NaN", "nan", "Inf", "-Inf", "+inf", "0x10", "1_000", "", " ", "12cm", "١٧٠", "1e999"} {
+		_, err := ParseNumber(text)
+		require.Error(t, err, "%q", text)
+	}
+	for text, want := range map[string]float64{"170": 170, " 170.5 ": 170.5, "-0": 0, "1e2": 100, "+5": 5} {
+		got, err := ParseNumber(text)
+		require.NoError(t, err, text)
+		require.Equal(t, want, got)
+	}
+}
+
+func TestParseSexAndLung(t *testing.T) {
+	for text, want := range map[string]Sex{"male": Male, "M": Male, "Female": Female, "f": Female} {
+		got, err := ParseSex(text)
+		require.NoError(t, err)
+		require.Equal(t, want, got)
+	}
+	_, err := ParseSex("x")
+	require.Error(t, err)
+	for text, want := range map[string]Lung{"normal": Normal, "ARDS": ARDS, "obstructive": Obstructive} {
+		got, err := ParseLung(text)
+		require.NoError(t, err)
+		require.Equal(t, want, got)
+	}
+	_, err = ParseLung("wet")
+	require.Error(t, err)
+}
+
+func TestDefaultsSaySource(t *testing.T) {
+	// DESIGN.md: rate normal 14, ARDS 18, obstructive 10; I:E 1:2 (obstructive
+	// 1:3); mechanics normal C 60 R 10, ARDS C 30 R 12, obstructive C 60 R 25.
+	cases := []struct {
+		lung           Lung
+		rate, ie, c, r float64
+	}{{Normal, 14, 2, 60, 10}, {ARDS, 18, 2, 30, 12}, {Obstructive, 10, 3, 60, 25}}
+	for _, c := range cases {
+		d := DefaultsFor(c.lung)
+		require.Equal(t, c.rate, d.RateBPM.Value, c.lung.String())
+		require.Equal(t, c.ie, d.IE.Value)
+		require.Equal(t, c.c, d.Compliance.Value)
+		require.Equal(t, c.r, d.Resistance.Value)
+		require.Equal(t, 6.0, d.MLPerKg.Value)
+		for _, v := range []Value{d.MLPerKg, d.RateBPM, d.IE, d.PEEPCmH2O, d.FiO2, d.Compliance, d.Resistance} {
+			require.NotEmpty(t, v.Source)
+		}
+	}
+}
+
+func TestTrappedVolumeEdges(t *testing.T) {
+	require.Zero(t, TrappedVolumeML(0, 2, 1))
+	require.True(t, math.IsInf(TrappedVolumeML(500, 0, 1), 1))
+	require.InDelta(t, 0, TrappedVolumeML(500, 100, 0.5), 1e-12)
+}
