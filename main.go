@@ -15,12 +15,17 @@ import (
 	"io"
 	"os"
 	"sort"
+	"strconv"
 	"strings"
 	"time"
+
+	"github.com/charmbracelet/lipgloss"
+	"github.com/muesli/termenv"
 
 	"crankside/physiology"
 	"crankside/profiles"
 	"crankside/setup"
+	"crankside/ui"
 )
 
 const version = "0.1.0"
@@ -61,10 +66,10 @@ func run(args []string, stdout, stderr io.Writer) (status int) {
 		fmt.Fprint(stdout, topUsage)
 		return exitOK
 	case "":
-		return cmdDemo(stdout, stderr)
+		return cmdUI(nil, stderr)
 	}
 	if strings.HasPrefix(cmd, "-") {
-		return cmdDemo(stdout, stderr)
+		return cmdUI(args, stderr)
 	}
 	return usageError(stderr, "", fmt.Sprintf("unknown command %q", cmd))
 }
@@ -72,7 +77,9 @@ func run(args []string, stdout, stderr io.Writer) (status int) {
 const topUsage = `crankside: set and check a motor-driven piston ventilator.
 
 Usage:
-  crankside                         the bedside screen on the demo profile
+  crankside [plan flags] [--profile ID|PATH] [--profiles DIR]
+                                    the bedside screen, on the demo profile unless
+                                    --profile names another; plan flags prefill it
   crankside plan --height-cm N --sex male|female [flags]
                                     a new patient's setting on one machine
   crankside profiles list|show ID|validate FILE
@@ -454,9 +461,68 @@ func profilesValidate(path string, stdout, stderr io.Writer) int {
 	return exitUsage
 }
 
-// cmdDemo stands in for the full-screen UI until it lands: it prints a
-// demo plan and says so.
-func cmdDemo(stdout, stderr io.Writer) int {
-	fmt.Fprintln(stdout, "(The full-screen UI is not built yet; this is a demo plan for a 170 cm female on demo-a.)")
-	return cmdPlan([]string{"--height-cm", "170", "--sex", "female"}, stdout, stderr)
+// cmdUI opens the full-screen UI, prefilled from any plan flags given.
+func cmdUI(args []string, stderr io.Writer) int {
+	f := newPlanFlags(stderr)
+	if err := f.fs.Parse(args); err != nil {
+		if errors.Is(err, flag.ErrHelp) {
+			fmt.Fprint(stderr, topUsage)
+			return exitOK
+		}
+		return usageError(stderr, "", flagError(err))
+	}
+	if f.fs.NArg() > 0 {
+		return usageError(stderr, "", fmt.Sprintf("unexpected argument %q", f.fs.Arg(0)))
+	}
+	if f.asJSON {
+		return usageError(stderr, "", "--json goes with a sub-command, such as 'crankside plan --json'")
+	}
+	prefill, err := f.prefill()
+	if err != nil {
+		return usageError(stderr, "", err.Error())
+	}
+	p, src, err := profiles.Open(f.profile, f.profilesDir)
+	if err != nil {
+		return usageError(stderr, "", "--profile: "+err.Error())
+	}
+	if os.Getenv("NO_COLOR") != "" {
+		lipgloss.SetColorProfile(termenv.Ascii)
+	}
+	err = ui.Run(ui.Options{Profile: p, Source: src, ProfilesDir: f.profilesDir, Prefill: prefill})
+	if err != nil {
+		fmt.Fprintf(stderr, "crankside: the bedside screen could not start (%v); in scripts use 'crankside plan'\n", err)
+		return exitFailure
+	}
+	return exitOK
+}
+
+// prefill turns the plan flags given into the UI's entries, checked the
+// same way the plan command checks them.
+func (f *planFlags) prefill() (map[string]string, error) {
+	out := map[string]string{}
+	if f.sex != "" {
+		sex, err := physiology.ParseSex(f.sex)
+		if err != nil {
+			return nil, fmt.Errorf("--sex: %v", err)
+		}
+		out["sex"] = sex.String()
+	}
+	lung, err := physiology.ParseLung(f.lung)
+	if err != nil {
+		return nil, fmt.Errorf("--lung: %v", err)
+	}
+	out["lung"] = lung.String()
+	if f.ie != "" {
+		if _, err := physiology.ParseIE(f.ie); err != nil {
+			return nil, fmt.Errorf("--ie: %v", err)
+		}
+		out["ie"] = f.ie
+	}
+	for name, nf := range map[string]numberFlag{"height-cm": f.height, "ml-per-kg": f.mlPerKg, "rate": f.rate,
+		"peep": f.peep, "fio2": f.fio2, "compliance": f.compliance, "resistance": f.resistance} {
+		if nf.set {
+			out[name] = strconv.FormatFloat(nf.value, 'f', -1, 64)
+		}
+	}
+	return out, nil
 }

@@ -52,6 +52,9 @@ type Caution struct {
 // ClinicalCaution is carried by every screen and printout.
 const ClinicalCaution = "Decision support only: every setting must be confirmed by the responsible clinician under local protocols."
 
+// ClinicalCautionShort is the same caution for an 80-column screen line.
+const ClinicalCautionShort = "Settings must be confirmed by the responsible clinician under local protocols."
+
 // Limits behind the cautions, with their sources.
 const (
 	srcARDSNet = "ARDS Network 2000 protocol"
@@ -181,30 +184,7 @@ func assess(a assessment) []Caution {
 			Message: fmt.Sprintf("the nearest hole delivers %+.0f%% off the target volume (more than %.0f%%)", a.offTargetPct, HoleOffTargetPct),
 			Advice:  "no hole on this machine is closer; review the target", Source: srcCommon})
 	}
-	switch {
-	case a.cal.Fit == nil:
-		add(Caution{ID: "calibration-missing", Level: Warn, Unit: "days",
-			Message: "this machine has no bench calibration: volumes are geometric, before leaks",
-			Advice:  "measure the delivered volume at the bedside; calibrate on a test lung", Source: srcCommon})
-	case a.cal.AgeDays > CalibrationMaxDays:
-		add(Caution{ID: "calibration-old", Level: Warn, Value: float64(a.cal.AgeDays), Limit: CalibrationMaxDays, Unit: "days",
-			Message: fmt.Sprintf("the bench calibration is %d days old (more than %d)", a.cal.AgeDays, CalibrationMaxDays),
-			Advice:  "recalibrate on a test lung", Source: srcCommon})
-	case a.cal.AgeDays < 0:
-		add(Caution{ID: "calibration-future", Level: Warn, Value: float64(a.cal.AgeDays), Unit: "days",
-			Message: fmt.Sprintf("the bench calibration is dated %s, in the future", a.cal.Date),
-			Advice:  "check the date on the profile and the computer's clock", Source: srcCommon})
-	}
-	if a.cal.Fit != nil && a.cal.Outside > 0 {
-		add(Caution{ID: "calibration-residual", Level: Warn, Value: float64(a.cal.Outside), Unit: "points",
-			Message: fmt.Sprintf("%d bench point(s) are outside +/-(4 mL + 15%%) of the fitted calibration", a.cal.Outside),
-			Advice:  "re-measure those holes", Source: srcISO})
-	}
-	if a.cal.Fit != nil && a.cal.Holes < 3 {
-		add(Caution{ID: "calibration-thin", Level: Note, Value: float64(a.cal.Holes), Limit: 3, Unit: "holes",
-			Message: fmt.Sprintf("the calibration measured %d hole(s); at least 3 make a trustworthy line", a.cal.Holes),
-			Advice:  "measure more holes", Source: srcCommon})
-	}
+	out = append(out, calibrationCautions(a.cal)...)
 	if f.CylinderGiven && f.CylinderMinutes < CylinderMinMinutes {
 		add(Caution{ID: "o2-cylinder-low", Level: Warn, Value: f.CylinderMinutes, Limit: CylinderMinMinutes, Unit: "min",
 			Message: fmt.Sprintf("oxygen cylinder lasts %.0f min at %.1f L/min (under 2 hours)", f.CylinderMinutes, f.O2FlowLPerMin),
@@ -224,6 +204,38 @@ func assess(a assessment) []Caution {
 		}
 	}
 	sort.SliceStable(out, func(i, j int) bool { return out[i].Level > out[j].Level })
+	return out
+}
+
+// calibrationCautions are what a profile's bench calibration says on its
+// own, for a plan and for reviewing the machine.
+func calibrationCautions(cal CalibrationStatus) []Caution {
+	var out []Caution
+	add := func(c Caution) { out = append(out, c) }
+	switch {
+	case cal.Fit == nil:
+		add(Caution{ID: "calibration-missing", Level: Warn, Unit: "days",
+			Message: "this machine has no bench calibration: volumes are geometric, before leaks",
+			Advice:  "measure the delivered volume at the bedside; calibrate on a test lung", Source: srcCommon})
+	case cal.AgeDays > CalibrationMaxDays:
+		add(Caution{ID: "calibration-old", Level: Warn, Value: float64(cal.AgeDays), Limit: CalibrationMaxDays, Unit: "days",
+			Message: fmt.Sprintf("the bench calibration is %d days old (more than %d)", cal.AgeDays, CalibrationMaxDays),
+			Advice:  "recalibrate on a test lung", Source: srcCommon})
+	case cal.AgeDays < 0:
+		add(Caution{ID: "calibration-future", Level: Warn, Value: float64(cal.AgeDays), Unit: "days",
+			Message: fmt.Sprintf("the bench calibration is dated %s, in the future", cal.Date),
+			Advice:  "check the date on the profile and the computer's clock", Source: srcCommon})
+	}
+	if cal.Fit != nil && cal.Outside > 0 {
+		add(Caution{ID: "calibration-residual", Level: Warn, Value: float64(cal.Outside), Unit: "points",
+			Message: fmt.Sprintf("%d bench point(s) are outside +/-(4 mL + 15%%) of the fitted calibration", cal.Outside),
+			Advice:  "re-measure those holes", Source: srcISO})
+	}
+	if cal.Fit != nil && cal.Holes < 3 {
+		add(Caution{ID: "calibration-thin", Level: Note, Value: float64(cal.Holes), Limit: 3, Unit: "holes",
+			Message: fmt.Sprintf("the calibration measured %d hole(s); at least 3 make a trustworthy line", cal.Holes),
+			Advice:  "measure more holes", Source: srcCommon})
+	}
 	return out
 }
 

@@ -25,6 +25,9 @@ type ProfileSummary struct {
 	Holes       []HoleGeometry
 	Calibration CalibrationStatus
 	InLine      bool
+	// Cautions are the calibration's: missing, old, dated ahead, points
+	// outside tolerance, too few holes.
+	Cautions []Caution
 }
 
 // DescribeProfile computes each hole's swept volume and the calibration's
@@ -34,7 +37,7 @@ func DescribeProfile(p profiles.Profile, now time.Time) (ProfileSummary, error) 
 	if err != nil {
 		return ProfileSummary{}, err
 	}
-	s := ProfileSummary{Profile: p, Calibration: u.cal, InLine: p.Crank.OffsetCm == 0}
+	s := ProfileSummary{Profile: p, Calibration: u.cal, InLine: p.Crank.OffsetCm == 0, Cautions: calibrationCautions(u.cal)}
 	for _, h := range p.Crank.Holes {
 		c := u.crank(h)
 		swept := machine.SweptVolumeML(p.Cylinder.BoreCm, c)

@@ -260,3 +260,37 @@ func BenchmarkPlan(b *testing.B) {
 		}
 	}
 }
+
+func TestBreathTraceMatchesThePlan(t *testing.T) {
+	p := profile(t, "demo-a")
+	pl := plan(t, "demo-a", setup.Patient{HeightCm: 170, Sex: physiology.Female}, setup.Targets{})
+	tr, err := setup.BreathTrace(pl, p)
+	require.NoError(t, err)
+	require.Equal(t, len(tr.TimeS), len(tr.CircuitCmH2O))
+	require.InDelta(t, pl.Timing.PeriodS, tr.TimeS[len(tr.TimeS)-1], 1e-9)
+	peak := 0.0
+	for _, v := range tr.CircuitCmH2O {
+		peak = math.Max(peak, v)
+	}
+	// A 5 ms step finds the same peak as the plan's 1 ms to within 0.05 cmH2O.
+	require.InDelta(t, pl.PeakCmH2O, peak, 0.05)
+	// Expiration ends at the trapped volume: V = (trapped + delivered) e^(-Te/tau) (derived).
+	endV := (pl.TrappedML + pl.Hole.DeliveredML) * math.Exp(-pl.Timing.TeS/pl.TauS)
+	require.InDelta(t, pl.TrappedML, endV, 0.01)
+	require.InDelta(t, endV/pl.TauS*60/1000, tr.EndExpiratoryLPerMin, 1e-3)
+	require.Equal(t, 40.0, tr.LimitCmH2O)
+}
+
+func TestCheckEntriesFindsEveryBadEntry(t *testing.T) {
+	peep := 40.0
+	errs := setup.CheckEntries(setup.Request{
+		Patient: setup.Patient{HeightCm: 300},
+		Targets: setup.Targets{MLPerKg: 12, FiO2: 0.1, PEEPCmH2O: &peep, RateBPM: 14},
+	})
+	var fields []string
+	for _, e := range errs {
+		fields = append(fields, e.Field)
+	}
+	require.ElementsMatch(t, []string{"height-cm", "ml-per-kg", "fio2", "peep"}, fields)
+	require.Empty(t, setup.CheckEntries(setup.Request{Patient: setup.Patient{HeightCm: 170}}))
+}

@@ -1,0 +1,94 @@
+package ui
+
+import (
+	"fmt"
+	"strings"
+
+	"github.com/charmbracelet/bubbles/key"
+	tea "github.com/charmbracelet/bubbletea"
+)
+
+// cautionsPanel lists every caution with its advice and the source of its
+// limit, most serious first.
+type cautionsPanel struct {
+	keys    scrollKeys
+	styles  *Styles
+	out     *outcome
+	sig     signals
+	offset  int
+	focused bool
+	w, h    int
+}
+
+func newCautionsPanel(s *Styles) *cautionsPanel {
+	return &cautionsPanel{keys: newScrollKeys(), styles: s}
+}
+
+func (p *cautionsPanel) Init() tea.Cmd         { return nil }
+func (p *cautionsPanel) Title() string         { return "Cautions" }
+func (p *cautionsPanel) Editing() bool         { return false }
+func (p *cautionsPanel) Focus() tea.Cmd        { p.focused = true; return nil }
+func (p *cautionsPanel) Blur()                 { p.focused = false }
+func (p *cautionsPanel) SetOutcome(o *outcome) { p.out = o; p.offset = 0 }
+func (p *cautionsPanel) SetSize(w, h int)      { p.w, p.h = w, h }
+
+func (p *cautionsPanel) Signals() signals {
+	s := p.sig
+	p.sig = signals{}
+	return s
+}
+
+func (p *cautionsPanel) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
+	km, ok := msg.(tea.KeyMsg)
+	if !ok {
+		return p, nil
+	}
+	switch {
+	case key.Matches(km, p.keys.Down):
+		if p.offset < len(p.lines())-p.h {
+			p.offset++
+		}
+	case key.Matches(km, p.keys.Up):
+		if p.offset > 0 {
+			p.offset--
+		}
+	case key.Matches(km, p.keys.Advance):
+		p.sig.advance = true
+	}
+	return p, nil
+}
+
+func (p *cautionsPanel) lines() []string {
+	s := p.styles
+	if p.out == nil || p.out.plan == nil {
+		var reasons []string
+		if p.out != nil {
+			reasons = p.out.waiting
+		}
+		return strings.Split(s.waitingView(reasons), "\n")
+	}
+	cs := p.out.plan.Cautions
+	if len(cs) == 0 {
+		return []string{s.Value.Render("No cautions for this setting."), s.Hint.Render("Confirm it at the bedside all the same.")}
+	}
+	var l []string
+	for _, c := range cs {
+		l = append(l, s.levelWord(c.Level)+" "+s.Value.Render(c.ID)+s.Label.Render(fmt.Sprintf("  value %s, limit %s %s", trimFloat(c.Value), trimFloat(c.Limit), c.Unit)))
+		l = append(l, "     "+c.Message)
+		l = append(l, s.Hint.Render("     -> "+c.Advice+"  ["+c.Source+"]"))
+	}
+	return l
+}
+
+func (p *cautionsPanel) View() string {
+	l := p.lines()
+	if p.offset > 0 && p.offset < len(l) {
+		l = l[p.offset:]
+	}
+	return fit(strings.Join(l, "\n"), p.w, p.h)
+}
+
+func (p *cautionsPanel) ShortHelp() []key.Binding { return []key.Binding{p.keys.Down, p.keys.Advance} }
+func (p *cautionsPanel) FullHelp() [][]key.Binding {
+	return [][]key.Binding{{p.keys.Up, p.keys.Advance}}
+}

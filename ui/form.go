@@ -1,0 +1,158 @@
+package ui
+
+import (
+	"fmt"
+	"strings"
+
+	"github.com/charmbracelet/bubbles/key"
+	tea "github.com/charmbracelet/bubbletea"
+	"github.com/charmbracelet/lipgloss"
+)
+
+// form is a column of fields with a cursor; the patient and targets panels
+// are built on it.
+type form struct {
+	fields  []*field
+	cursor  int
+	focused bool
+	keys    formKeys
+	styles  *Styles
+	width   int
+}
+
+func newForm(styles *Styles, fields ...*field) form {
+	return form{fields: fields, keys: newFormKeys(), styles: styles}
+}
+
+func (f *form) current() *field { return f.fields[f.cursor] }
+
+// editing reports whether a text field has the cursor, so that letters and
+// digits belong to it.
+func (f *form) editing() bool { return f.focused && f.current().isText() }
+
+func (f *form) focus() tea.Cmd {
+	f.focused = true
+	return f.current().focus()
+}
+
+func (f *form) blur() {
+	f.focused = false
+	for _, fl := range f.fields {
+		fl.blur()
+	}
+}
+
+func (f *form) move(to int) tea.Cmd {
+	f.current().blur()
+	f.cursor = to
+	return f.current().focus()
+}
+
+// formResult says what a key did to the form.
+type formResult struct {
+	changed bool // a value changed: recompute
+	leave   bool // Enter on the last field: on to the next panel
+}
+
+func (f *form) update(msg tea.KeyMsg) (formResult, tea.Cmd) {
+	switch {
+	case key.Matches(msg, f.keys.Down):
+		if f.cursor < len(f.fields)-1 {
+			return formResult{}, f.move(f.cursor + 1)
+		}
+		return formResult{}, nil
+	case key.Matches(msg, f.keys.Up):
+		if f.cursor > 0 {
+			return formResult{}, f.move(f.cursor - 1)
+		}
+		return formResult{}, nil
+	case key.Matches(msg, f.keys.Advance):
+		if f.cursor < len(f.fields)-1 {
+			return formResult{}, f.move(f.cursor + 1)
+		}
+		return formResult{leave: true}, nil
+	}
+	changed, cmd := f.current().update(msg, f.keys)
+	return formResult{changed: changed}, cmd
+}
+
+func (f *form) byName(name string) *field {
+	for _, fl := range f.fields {
+		if fl.name == name {
+			return fl
+		}
+	}
+	return nil
+}
+
+func (f *form) clearErrors() {
+	for _, fl := range f.fields {
+		fl.err = ""
+	}
+}
+
+const labelWidth = 15
+
+// view draws one line per field: label, entry, unit, then the error, the
+// passing note or the hint.
+func (f *form) view() string {
+	s := f.styles
+	var lines []string
+	for i, fl := range f.fields {
+		mark := "  "
+		label := s.Label.Render(fmt.Sprintf("%-*s", labelWidth, fl.label))
+		if f.focused && i == f.cursor {
+			mark = s.FieldFocused.Render("> ")
+			label = s.FieldFocused.Render(fmt.Sprintf("%-*s", labelWidth, fl.label))
+		}
+		var entry string
+		if fl.isText() {
+			entry = "[" + padRight(fl.input.View(), fieldWidth+1) + "]"
+		} else {
+			entry = f.choiceView(fl, f.focused && i == f.cursor)
+		}
+		unit := ""
+		if fl.unit != "" {
+			unit = " " + s.Unit.Render(fl.unit)
+		}
+		after := ""
+		switch {
+		case fl.err != "":
+			after = s.Error.Render("! " + fl.err)
+		case fl.note != "" && f.focused && i == f.cursor:
+			after = s.Hint.Render(fl.note)
+		case fl.Value() == "" && fl.hint != "":
+			after = s.Hint.Render(fl.hint)
+		}
+		line := mark + label + entry + unit
+		if after != "" {
+			line += "  " + after
+		}
+		lines = append(lines, truncate(line, f.width))
+	}
+	return strings.Join(lines, "\n")
+}
+
+func (f *form) choiceView(fl *field, active bool) string {
+	var parts []string
+	for i, c := range fl.choices {
+		word := c.label
+		if i == fl.chosen {
+			word = "(" + c.key + ") " + strings.ToUpper(c.label[:1]) + c.label[1:]
+			parts = append(parts, f.styles.Value.Render("["+word+"]"))
+			continue
+		}
+		if active {
+			word = "(" + c.key + ") " + word
+		}
+		parts = append(parts, f.styles.Label.Render(" "+word+" "))
+	}
+	return strings.Join(parts, "")
+}
+
+func padRight(s string, w int) string {
+	if n := lipgloss.Width(s); n < w {
+		return s + strings.Repeat(" ", w-n)
+	}
+	return s
+}

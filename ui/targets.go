@@ -1,0 +1,96 @@
+package ui
+
+import (
+	"fmt"
+	"strings"
+
+	"github.com/charmbracelet/bubbles/key"
+	tea "github.com/charmbracelet/bubbletea"
+)
+
+// targetsPanel shows PBW and the target volume and asks for mL/kg, rate
+// and I:E; the PEEP shown is the patient panel's, with the table's range.
+type targetsPanel struct {
+	form   form
+	styles *Styles
+	out    *outcome
+	sig    signals
+	w, h   int
+}
+
+func newTargetsPanel(s *Styles) *targetsPanel {
+	ie := textField("ie", "I:E", "", "blank: 1:2 (obstructive 1:3)", false, "0123456789.:")
+	return &targetsPanel{styles: s, form: newForm(s,
+		numberField("ml-per-kg", "Tidal volume", "mL/kg PBW", "blank: 6 (ARDS Network 2000)", false),
+		numberField("rate", "Rate", "/min", "blank: 14, ARDS 18, obstructive 10", false),
+		ie,
+	)}
+}
+
+func (p *targetsPanel) Init() tea.Cmd         { return nil }
+func (p *targetsPanel) Title() string         { return "Targets" }
+func (p *targetsPanel) Editing() bool         { return p.form.editing() }
+func (p *targetsPanel) Focus() tea.Cmd        { return p.form.focus() }
+func (p *targetsPanel) Blur()                 { p.form.blur() }
+func (p *targetsPanel) SetOutcome(o *outcome) { p.out = o }
+func (p *targetsPanel) SetSize(w, h int)      { p.w, p.h = w, h; p.form.width = w }
+
+func (p *targetsPanel) Signals() signals {
+	s := p.sig
+	p.sig = signals{}
+	return s
+}
+
+func (p *targetsPanel) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
+	km, ok := msg.(tea.KeyMsg)
+	if !ok {
+		return p, nil
+	}
+	r, cmd := p.form.update(km)
+	p.sig.changed = p.sig.changed || r.changed
+	p.sig.advance = p.sig.advance || r.leave
+	return p, cmd
+}
+
+func (p *targetsPanel) View() string {
+	s := p.styles
+	var b strings.Builder
+	b.WriteString(p.form.view() + "\n\n")
+	if p.out == nil || p.out.plan == nil {
+		var reasons []string
+		if p.out != nil {
+			reasons = p.out.waiting
+		}
+		b.WriteString(s.waitingView(reasons))
+		return fit(b.String(), p.w, p.h)
+	}
+	pl := p.out.plan
+	src := func(v string) string { return s.Hint.Render("  " + v) }
+	lines := []string{
+		s.kv("PBW", f1(pl.PBWKg), "kg") + src("ARDS Network 2000, after Devine"),
+		s.kv("Target Vt", f0(pl.TargetVtML), "mL") + s.Unit.Render(fmt.Sprintf(" = %.1f mL/kg x %.1f kg", pl.MLPerKg.Value, pl.PBWKg)),
+		s.kv("Rate", f0(pl.Rate.Value), "/min") + src(pl.Rate.Source),
+		s.kv("I:E", "1:"+trimFloat(pl.IE.Value), "") + src(pl.IE.Source),
+		s.kv("PEEP", f0(pl.PEEP.Value), "cmH2O") + src(pl.PEEP.Source),
+		s.kv("PEEP table", fmt.Sprintf("%.0f-%.0f", pl.PEEPTable.LowestCmH2O, pl.PEEPTable.HighestCmH2O), "cmH2O") +
+			src(fmt.Sprintf("lower-PEEP/FiO2 table at FiO2 %.1f", pl.PEEPTable.FiO2Step)),
+		s.kv("FiO2", f2(pl.FiO2.Value), "") + src(pl.FiO2.Source),
+		s.kv("Lung model", fmt.Sprintf("C %.0f, R %.0f", pl.Compliance.Value, pl.Resistance.Value), "mL/cmH2O, cmH2O/(L/s)"),
+	}
+	b.WriteString(strings.Join(lines, "\n"))
+	return fit(b.String(), p.w, p.h)
+}
+
+func trimFloat(v float64) string {
+	return strings.TrimSuffix(strings.TrimRight(fmt.Sprintf("%.2f", v), "0"), ".")
+}
+
+func (p *targetsPanel) ShortHelp() []key.Binding {
+	k := p.form.keys
+	return []key.Binding{k.Advance, k.Up, k.Down}
+}
+
+func (p *targetsPanel) FullHelp() [][]key.Binding {
+	k := p.form.keys
+	return [][]key.Binding{{k.Advance, k.Up, k.Down, k.Clear}}
+}
