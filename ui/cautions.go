@@ -72,10 +72,20 @@ func (p *cautionsPanel) lines() []string {
 		return []string{s.Value.Render("No cautions for this setting."), s.Hint.Render("Confirm it at the bedside all the same.")}
 	}
 	var l []string
+	indent := "     "
+	wrap := func(text string, st func(...string) string) {
+		for _, line := range wrapWords(max(p.w-len(indent), 20), strings.Fields(text)...) {
+			l = append(l, indent+st(line))
+		}
+	}
 	for _, c := range cs {
-		l = append(l, s.levelWord(c.Level)+" "+s.Value.Render(c.ID)+s.Label.Render(fmt.Sprintf("  value %s, limit %s %s", trimFloat(c.Value), trimFloat(c.Limit), c.Unit)))
-		l = append(l, "     "+c.Message)
-		l = append(l, s.Hint.Render("     -> "+c.Advice+"  ["+c.Source+"]"))
+		head := s.levelWord(c.Level) + " " + s.Value.Render(c.ID)
+		if c.Value != 0 || c.Limit != 0 {
+			head += s.Label.Render(fmt.Sprintf("  value %s, limit %s %s", trimFloat(c.Value), trimFloat(c.Limit), c.Unit))
+		}
+		l = append(l, head)
+		wrap(c.Message, s.Value.Render)
+		wrap("-> "+c.Advice+" ["+c.Source+"]", s.Hint.Render)
 	}
 	return l
 }
