@@ -59,6 +59,10 @@ func run(args []string, stdout, stderr io.Writer) (status int) {
 		return cmdPlan(rest, stdout, stderr)
 	case "profiles":
 		return cmdProfiles(rest, stdout, stderr)
+	case "check":
+		return cmdCheck(rest, stdout, stderr)
+	case "log":
+		return cmdLog(rest, stdout, stderr)
 	case "--version", "-version", "version":
 		fmt.Fprintf(stdout, "crankside %s\n", version)
 		return exitOK
@@ -82,6 +86,10 @@ Usage:
                                     --profile names another; plan flags prefill it
   crankside plan --height-cm N --sex male|female [flags]
                                     a new patient's setting on one machine
+  crankside check --height-cm N --sex S --hole L --rpm N --dwell-s N [flags]
+                                    shift handover: what the patient gets now
+  crankside log show --log FILE [--bed LABEL]
+                                    earlier checks and what changed
   crankside profiles list|show ID|validate FILE
                                     the machine profiles
   crankside --version
@@ -525,4 +533,280 @@ func (f *planFlags) prefill() (map[string]string, error) {
 		}
 	}
 	return out, nil
+}
+
+const checkUsage = `Usage: crankside check --height-cm N --sex male|female --hole LABEL --rpm N --dwell-s N [flags]
+
+Shift handover: what the machine is set to and what the manometer reads ->
+what the patient really gets, the lung mechanics the readings imply, a
+proposed change side by side, and a record appended to the log.
+No patient name or other identifier is ever stored: only a bed label.
+
+Flags:
+`
+
+type checkFlags struct {
+	fs                                              *flag.FlagSet
+	height, rpm, dwell, peep, peak, end, o2         numberFlag
+	compliance, resistance, cylL, cylBar            numberFlag
+	propRPM, propDwell, propPEEP                    numberFlag
+	sex, lung, hole, propHole, profile, profilesDir string
+	bed, initials, logPath                          string
+	asJSON, card                                    bool
+}
+
+func newCheckFlags() *checkFlags {
+	f := &checkFlags{fs: flag.NewFlagSet("check", flag.ContinueOnError)}
+	f.fs.SetOutput(io.Discard)
+	num := func(nf *numberFlag, name, expect, usage string) {
+		nf.expect = expect
+		f.fs.Var(nf, name, usage)
+	}
+	num(&f.height, "height-cm", "cm, 130-230", "patient's height in cm (required)")
+	f.fs.StringVar(&f.sex, "sex", "", "male or female (required)")
+	f.fs.StringVar(&f.hole, "hole", "", "the hole the pin is in (required)")
+	num(&f.rpm, "rpm", "rpm", "the motor speed set (required)")
+	num(&f.dwell, "dwell-s", "seconds", "the dwell set, in s (required)")
+	num(&f.peep, "peep", "cmH2O, 0-25", "the PEEP valve, cmH2O (default 5)")
+	num(&f.o2, "o2-lpm", "L/min, 0-60", "oxygen bled into the intake, L/min (default 0)")
+	num(&f.peak, "peak", "cmH2O", "manometer peak during delivery, cmH2O (with --end-pressure)")
+	num(&f.end, "end-pressure", "cmH2O", "manometer reading when the piston stops, cmH2O (with --peak)")
+	f.fs.StringVar(&f.lung, "lung", "normal", "lung condition for the assumed mechanics: normal, ards or obstructive")
+	num(&f.compliance, "compliance", "mL/cmH2O, 5-200", "assumed compliance when no readings are given")
+	num(&f.resistance, "resistance", "cmH2O/(L/s), 1-100", "assumed resistance when no readings are given")
+	num(&f.cylL, "cylinder-l", "L, 0.1-100", "oxygen cylinder water capacity, L")
+	num(&f.cylBar, "cylinder-bar", "bar, 0-300", "oxygen cylinder pressure, bar")
+	f.fs.StringVar(&f.propHole, "propose-hole", "", "a proposed hole")
+	num(&f.propRPM, "propose-rpm", "rpm", "a proposed motor speed")
+	num(&f.propDwell, "propose-dwell-s", "seconds", "a proposed dwell")
+	num(&f.propPEEP, "propose-peep", "cmH2O, 0-25", "a proposed PEEP")
+	f.fs.StringVar(&f.profile, "profile", profiles.DefaultID, "machine profile: an id or a path to a .json file")
+	f.fs.StringVar(&f.profilesDir, "profiles", profiles.DefaultDir(), "directory of profile files")
+	f.fs.StringVar(&f.bed, "bed", "", "bed label for the record, like B4 (never a patient's name)")
+	f.fs.StringVar(&f.initials, "initials", "", "the checking operator's initials, for the record")
+	f.fs.StringVar(&f.logPath, "log", "", "append the check to this log file (one JSON line; with --bed)")
+	f.fs.BoolVar(&f.card, "card", false, "print a handover card (plain text, 80 columns)")
+	f.fs.BoolVar(&f.asJSON, "json", false, "print one JSON object")
+	return f
+}
+
+func (f *checkFlags) request() (setup.CheckRequest, error) {
+	var req setup.CheckRequest
+	for _, need := range []struct {
+		set  bool
+		name string
+	}{{f.height.set, "--height-cm"}, {f.sex != "", "--sex"}, {f.hole != "", "--hole"}, {f.rpm.set, "--rpm"}, {f.dwell.set, "--dwell-s"}} {
+		if !need.set {
+			return req, fmt.Errorf("%s is required", need.name)
+		}
+	}
+	sex, err := physiology.ParseSex(f.sex)
+	if err != nil {
+		return req, fmt.Errorf("--sex: %v", err)
+	}
+	lung, err := physiology.ParseLung(f.lung)
+	if err != nil {
+		return req, fmt.Errorf("--lung: %v", err)
+	}
+	if f.peak.set != f.end.set {
+		return req, errors.New("--peak and --end-pressure go together: give both readings or neither")
+	}
+	if f.cylL.set != f.cylBar.set {
+		return req, errors.New("--cylinder-l and --cylinder-bar go together")
+	}
+	if (f.bed != "" || f.initials != "") && f.logPath == "" && !f.card {
+		return req, errors.New("--bed and --initials are for the record: add --log FILE or --card")
+	}
+	if f.logPath != "" && (f.bed == "" || f.initials == "") {
+		return req, errors.New("--log needs --bed (a bed label such as B4) and --initials")
+	}
+	for _, z := range []struct {
+		nf   numberFlag
+		name string
+	}{{f.compliance, "compliance"}, {f.resistance, "resistance"}} {
+		if z.nf.set && z.nf.value == 0 {
+			return req, fmt.Errorf("--%s: 0 is out of range; expected %s", z.name, z.nf.expect)
+		}
+	}
+	peep := 5.0
+	if f.peep.set {
+		peep = f.peep.value
+	}
+	req = setup.CheckRequest{
+		Patient: setup.Patient{HeightCm: f.height.value, Sex: sex}, Lung: lung,
+		ComplianceMLPerCmH2O: f.compliance.value, ResistanceCmH2OPerLS: f.resistance.value,
+		Setting:        setup.Setting{Hole: f.hole, RPM: f.rpm.value, DwellS: f.dwell.value, PEEPCmH2O: peep, O2LPerMin: f.o2.value},
+		CylinderWaterL: f.cylL.value, CylinderBar: f.cylBar.value, Now: time.Now(),
+	}
+	if f.peak.set {
+		req.Readings = setup.ReadingsOf(f.peak.value, f.end.value)
+	}
+	if f.propHole != "" {
+		h := f.propHole
+		req.Proposal.Hole = &h
+	}
+	for _, pr := range []struct {
+		nf  numberFlag
+		dst **float64
+	}{{f.propRPM, &req.Proposal.RPM}, {f.propDwell, &req.Proposal.DwellS}, {f.propPEEP, &req.Proposal.PEEPCmH2O}} {
+		if pr.nf.set {
+			v := pr.nf.value
+			*pr.dst = &v
+		}
+	}
+	return req, nil
+}
+
+func cmdCheck(args []string, stdout, stderr io.Writer) int {
+	f := newCheckFlags()
+	if err := f.fs.Parse(args); err != nil {
+		if errors.Is(err, flag.ErrHelp) {
+			printFlags(stdout, checkUsage, f.fs)
+			return exitOK
+		}
+		return usageError(stderr, "check", flagError(err))
+	}
+	if f.fs.NArg() > 0 {
+		return usageError(stderr, "check", fmt.Sprintf("unexpected argument %q", f.fs.Arg(0)))
+	}
+	req, err := f.request()
+	if err != nil {
+		return usageError(stderr, "check", err.Error())
+	}
+	var rec setup.Record
+	if f.logPath != "" || f.card {
+		// Refuse a bad bed label or initials before anything is computed or shown.
+		bed, initials := f.bed, f.initials
+		if f.card && f.logPath == "" && bed == "" {
+			return usageError(stderr, "check", "--card needs --bed (a bed label such as B4) and --initials")
+		}
+		if err := setup.CheckBedLabel(bed); err != nil {
+			return usageError(stderr, "check", "--bed: "+err.(*setup.InputError).Reason)
+		}
+		if err := setup.CheckInitials(initials); err != nil {
+			return usageError(stderr, "check", "--initials: "+err.(*setup.InputError).Reason)
+		}
+	}
+	p, _, err := profiles.Open(f.profile, f.profilesDir)
+	if err != nil {
+		return usageError(stderr, "check", "--profile: "+err.Error())
+	}
+	ck, err := setup.RunCheck(req, p)
+	if err != nil {
+		var ie *setup.InputError
+		if errors.As(err, &ie) {
+			return usageError(stderr, "check", "--"+ie.Field+": "+ie.Reason)
+		}
+		fmt.Fprintf(stderr, "crankside check: %v\n", err)
+		return exitFailure
+	}
+	if f.logPath != "" || f.card {
+		rec, err = setup.NewRecord(ck, f.bed, f.initials, req.Now)
+		if err != nil {
+			return usageError(stderr, "check", err.Error())
+		}
+	}
+	switch {
+	case f.asJSON:
+		if code := writeJSON(stdout, stderr, ck.JSON()); code != exitOK {
+			return code
+		}
+	case f.card:
+		setup.WriteCard(stdout, rec)
+	default:
+		ck.WriteText(stdout)
+	}
+	if f.logPath != "" {
+		if err := setup.AppendRecord(f.logPath, rec); err != nil {
+			fmt.Fprintf(stderr, "crankside check: the check above was NOT recorded: %v\n", err)
+			return exitFailure
+		}
+		if !f.asJSON {
+			fmt.Fprintf(stdout, "Recorded for bed %s in %s.\n", rec.Bed, f.logPath)
+		}
+	}
+	return exitOK
+}
+
+const logUsage = `Usage: crankside log show --log FILE [--bed LABEL] [--json]
+
+Lists the handover checks in a log, by bed and in time order, with what
+changed from one check to the next. A torn last line (the program stopped
+while writing it) or junk is skipped and reported; earlier records stay.
+`
+
+func cmdLog(args []string, stdout, stderr io.Writer) int {
+	if len(args) == 0 || args[0] == "--help" || args[0] == "-h" || args[0] == "help" {
+		if len(args) == 0 {
+			return usageError(stderr, "log", "name a sub-command: show")
+		}
+		fmt.Fprint(stdout, logUsage)
+		return exitOK
+	}
+	if args[0] != "show" {
+		return usageError(stderr, "log", fmt.Sprintf("unknown sub-command %q; use show", args[0]))
+	}
+	fs := flag.NewFlagSet("log show", flag.ContinueOnError)
+	fs.SetOutput(io.Discard)
+	path := fs.String("log", "", "the log file")
+	bed := fs.String("bed", "", "only this bed")
+	asJSON := fs.Bool("json", false, "print JSON")
+	if err := fs.Parse(args[1:]); err != nil {
+		if errors.Is(err, flag.ErrHelp) {
+			fmt.Fprint(stdout, logUsage)
+			return exitOK
+		}
+		return usageError(stderr, "log show", flagError(err))
+	}
+	if *path == "" {
+		return usageError(stderr, "log show", "--log FILE is required")
+	}
+	recs, problems, err := setup.ReadLog(*path)
+	if err != nil {
+		return usageError(stderr, "log show", err.Error())
+	}
+	for _, pr := range problems {
+		fmt.Fprintf(stderr, "crankside log show: %s: %s\n", *path, pr)
+	}
+	hist := setup.History(recs, *bed)
+	if *asJSON {
+		type bedJSON struct {
+			Bed    string               `json:"bed"`
+			Checks []setup.HistoryEntry `json:"checks"`
+		}
+		out := struct {
+			Beds     []bedJSON `json:"beds"`
+			Problems []string  `json:"problems"`
+		}{Beds: []bedJSON{}, Problems: []string{}}
+		for _, h := range hist {
+			out.Beds = append(out.Beds, bedJSON{Bed: h.Bed, Checks: h.Entries})
+		}
+		for _, pr := range problems {
+			out.Problems = append(out.Problems, pr.String())
+		}
+		return writeJSON(stdout, stderr, out)
+	}
+	if len(hist) == 0 {
+		fmt.Fprintln(stdout, "No checks recorded for that bed.")
+	}
+	for _, h := range hist {
+		fmt.Fprintf(stdout, "Bed %s: %d check(s)\n", h.Bed, len(h.Entries))
+		for _, e := range h.Entries {
+			r := e.Record
+			fmt.Fprintf(stdout, "  %s UTC  %-4s  hole %s, %.1f rpm, dwell %.1f s, PEEP %.0f: %.0f mL %.1f mL/kg, %d caution(s)",
+				r.Time.UTC().Format("2006-01-02 15:04"), r.Initials, r.Setting.Hole, r.Setting.RPM, r.Setting.DwellS,
+				r.Setting.PEEPCmH2O, r.DeliveredVtML, r.MLPerKg, len(r.Cautions))
+			if len(r.Cautions) > 0 {
+				fmt.Fprintf(stdout, ", highest %s", setup.LevelWord(setup.Highest(r.Cautions)))
+			}
+			fmt.Fprintln(stdout)
+			if len(e.Changes) > 0 {
+				fmt.Fprintf(stdout, "      changed: %s\n", strings.Join(e.Changes, "; "))
+			}
+		}
+	}
+	if len(problems) > 0 {
+		return exitFailure
+	}
+	return exitOK
 }

@@ -37,6 +37,17 @@ func (l Level) String() string {
 // MarshalText writes the level as its word.
 func (l Level) MarshalText() ([]byte, error) { return []byte(l.String()), nil }
 
+// UnmarshalText reads a level's word, as a log record holds it.
+func (l *Level) UnmarshalText(b []byte) error {
+	for _, c := range []Level{Note, Warn, Stop} {
+		if string(b) == c.String() {
+			*l = c
+			return nil
+		}
+	}
+	return fmt.Errorf("caution level %q is not note, warn or stop", b)
+}
+
 // Caution is one finding about a setting.
 type Caution struct {
 	ID      string  `json:"id"`

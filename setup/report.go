@@ -21,54 +21,81 @@ type DefaultJSON struct {
 	Source string  `json:"source"`
 }
 
+// FiguresJSON are one setting's figures, as every JSON object prints them.
+type FiguresJSON struct {
+	Hole                        string   `json:"hole"`
+	SweptML                     float64  `json:"swept_ml"`
+	EffectiveSweptML            float64  `json:"effective_swept_ml"`
+	DeliveredVtML               float64  `json:"delivered_vt_ml"`
+	MLPerKg                     float64  `json:"ml_per_kg"`
+	RateBPM                     float64  `json:"rate_bpm"`
+	MotorRPM                    float64  `json:"motor_rpm"`
+	DwellS                      float64  `json:"dwell_s"`
+	TiS                         float64  `json:"ti_s"`
+	TeS                         float64  `json:"te_s"`
+	IERatio                     float64  `json:"ie_ratio"`
+	PEEPCmH2O                   float64  `json:"peep_cmh2o"`
+	FiO2                        float64  `json:"fio2"`
+	O2FlowLMin                  float64  `json:"o2_flow_l_min"`
+	CylinderMinutes             *float64 `json:"cylinder_minutes"`
+	ComplianceMLPerCmH2O        float64  `json:"compliance_ml_per_cmh2o"`
+	ResistanceCmH2OPerLS        float64  `json:"resistance_cmh2o_per_l_s"`
+	MinuteVentilationLMin       float64  `json:"minute_ventilation_l_min"`
+	PeakFlowLMin                float64  `json:"peak_flow_l_min"`
+	PeakPressureCmH2O           float64  `json:"peak_pressure_cmh2o"`
+	EndInspiratoryPressureCmH2O float64  `json:"end_inspiratory_pressure_cmh2o"`
+	PlateauPressureCmH2O        float64  `json:"plateau_pressure_cmh2o"`
+	DrivingPressureCmH2O        float64  `json:"driving_pressure_cmh2o"`
+	IntrinsicPEEPCmH2O          float64  `json:"intrinsic_peep_cmh2o"`
+	TrappedVolumeML             float64  `json:"trapped_volume_ml"`
+	ExhalationTauS              float64  `json:"exhalation_tau_s"`
+	PeakTorqueNm                float64  `json:"peak_torque_nm"`
+	RatedTorqueShare            float64  `json:"rated_torque_share"`
+}
+
+// figuresJSON rounds a setting's figures for printing.
+func figuresJSON(f Figures) FiguresJSON {
+	j := FiguresJSON{
+		Hole: f.Hole.Label, SweptML: r4(f.Hole.SweptML), EffectiveSweptML: r4(f.Hole.EffectiveSweptML),
+		DeliveredVtML: r4(f.Hole.DeliveredML), MLPerKg: r4(f.Hole.MLPerKg),
+		RateBPM: r4(f.Timing.RateBPM), MotorRPM: r4(f.Timing.RPM), DwellS: r4(f.Timing.DwellS),
+		TiS: r4(f.Timing.TiS), TeS: r4(f.Timing.TeS), IERatio: r4(f.Timing.IE),
+		PEEPCmH2O: r4(f.PEEPCmH2O), FiO2: r4(f.FiO2), O2FlowLMin: r4(f.O2FlowLPerMin),
+		ComplianceMLPerCmH2O: r4(f.ComplianceMLPerCmH2O), ResistanceCmH2OPerLS: r4(f.ResistanceCmH2OPerLS),
+		MinuteVentilationLMin: r4(f.MinuteVentLPerMin), PeakFlowLMin: r4(f.PeakFlowLPerMin),
+		PeakPressureCmH2O: r4(f.PeakCmH2O), EndInspiratoryPressureCmH2O: r4(f.EndInspCmH2O),
+		PlateauPressureCmH2O: r4(f.PlateauCmH2O), DrivingPressureCmH2O: r4(f.DrivingCmH2O),
+		IntrinsicPEEPCmH2O: r4(f.IntrinsicPEEPCmH2O), TrappedVolumeML: r4(f.TrappedML), ExhalationTauS: r4(f.TauS),
+		PeakTorqueNm: r4(f.PeakTorqueNm), RatedTorqueShare: r4(f.TorqueShareOfRating),
+	}
+	if f.CylinderGiven && !math.IsInf(f.CylinderMinutes, 0) {
+		m := r4(f.CylinderMinutes)
+		j.CylinderMinutes = &m
+	}
+	return j
+}
+
 // PlanJSON is the object `crankside plan --json` prints. Keys are
 // snake_case and carry their units.
 type PlanJSON struct {
-	ProfileID                   string                 `json:"profile_id"`
-	HeightCm                    float64                `json:"height_cm"`
-	Sex                         string                 `json:"sex"`
-	Lung                        string                 `json:"lung"`
-	PBWKg                       float64                `json:"pbw_kg"`
-	TargetMLPerKg               float64                `json:"target_ml_per_kg"`
-	TargetVtML                  float64                `json:"target_vt_ml"`
-	Hole                        string                 `json:"hole"`
-	SweptML                     float64                `json:"swept_ml"`
-	EffectiveSweptML            float64                `json:"effective_swept_ml"`
-	DeliveredVtML               float64                `json:"delivered_vt_ml"`
-	MLPerKg                     float64                `json:"ml_per_kg"`
-	OffTargetPct                float64                `json:"off_target_pct"`
-	HoleBelow                   *HoleJSON              `json:"hole_below"`
-	HoleAbove                   *HoleJSON              `json:"hole_above"`
-	RateBPM                     float64                `json:"rate_bpm"`
-	MotorRPM                    float64                `json:"motor_rpm"`
-	DwellS                      float64                `json:"dwell_s"`
-	TiS                         float64                `json:"ti_s"`
-	TeS                         float64                `json:"te_s"`
-	IERatio                     float64                `json:"ie_ratio"`
-	PEEPCmH2O                   float64                `json:"peep_cmh2o"`
-	FiO2                        float64                `json:"fio2"`
-	O2FlowLMin                  float64                `json:"o2_flow_l_min"`
-	CylinderMinutes             *float64               `json:"cylinder_minutes"`
-	ComplianceMLPerCmH2O        float64                `json:"compliance_ml_per_cmh2o"`
-	ResistanceCmH2OPerLS        float64                `json:"resistance_cmh2o_per_l_s"`
-	MinuteVentilationLMin       float64                `json:"minute_ventilation_l_min"`
-	PeakFlowLMin                float64                `json:"peak_flow_l_min"`
-	PeakPressureCmH2O           float64                `json:"peak_pressure_cmh2o"`
-	EndInspiratoryPressureCmH2O float64                `json:"end_inspiratory_pressure_cmh2o"`
-	PlateauPressureCmH2O        float64                `json:"plateau_pressure_cmh2o"`
-	DrivingPressureCmH2O        float64                `json:"driving_pressure_cmh2o"`
-	IntrinsicPEEPCmH2O          float64                `json:"intrinsic_peep_cmh2o"`
-	TrappedVolumeML             float64                `json:"trapped_volume_ml"`
-	ExhalationTauS              float64                `json:"exhalation_tau_s"`
-	PeakTorqueNm                float64                `json:"peak_torque_nm"`
-	RatedTorqueShare            float64                `json:"rated_torque_share"`
-	CalibrationK                float64                `json:"calibration_k"`
-	CalibrationBML              float64                `json:"calibration_b_ml"`
-	CalibrationDate             string                 `json:"calibration_date"`
-	Defaults                    map[string]DefaultJSON `json:"targets"`
-	Changes                     []Change               `json:"changes"`
-	Cautions                    []Caution              `json:"cautions"`
-	ClinicalCaution             string                 `json:"clinical_caution"`
+	ProfileID     string  `json:"profile_id"`
+	HeightCm      float64 `json:"height_cm"`
+	Sex           string  `json:"sex"`
+	Lung          string  `json:"lung"`
+	PBWKg         float64 `json:"pbw_kg"`
+	TargetMLPerKg float64 `json:"target_ml_per_kg"`
+	TargetVtML    float64 `json:"target_vt_ml"`
+	FiguresJSON
+	OffTargetPct    float64                `json:"off_target_pct"`
+	HoleBelow       *HoleJSON              `json:"hole_below"`
+	HoleAbove       *HoleJSON              `json:"hole_above"`
+	CalibrationK    float64                `json:"calibration_k"`
+	CalibrationBML  float64                `json:"calibration_b_ml"`
+	CalibrationDate string                 `json:"calibration_date"`
+	Defaults        map[string]DefaultJSON `json:"targets"`
+	Changes         []Change               `json:"changes"`
+	Cautions        []Caution              `json:"cautions"`
+	ClinicalCaution string                 `json:"clinical_caution"`
 }
 
 // r4 rounds for the report: 4 decimals is far below any meaningful change.
@@ -83,21 +110,12 @@ func holeJSON(h *HoleFigure) *HoleJSON {
 
 // JSON is the plan as the --json object.
 func (pl Plan) JSON() PlanJSON {
-	j := PlanJSON{
+	return PlanJSON{
 		ProfileID: pl.ProfileID, HeightCm: r4(pl.Patient.HeightCm), Sex: pl.Patient.Sex.String(), Lung: pl.Lung.String(),
 		PBWKg: r4(pl.PBWKg), TargetMLPerKg: r4(pl.MLPerKg.Value), TargetVtML: r4(pl.TargetVtML),
-		Hole: pl.Hole.Label, SweptML: r4(pl.Hole.SweptML), EffectiveSweptML: r4(pl.Hole.EffectiveSweptML),
-		DeliveredVtML: r4(pl.Hole.DeliveredML), MLPerKg: r4(pl.Hole.MLPerKg), OffTargetPct: r4(pl.OffTargetPct),
-		HoleBelow: holeJSON(pl.Below), HoleAbove: holeJSON(pl.Above),
-		RateBPM: r4(pl.Timing.RateBPM), MotorRPM: r4(pl.Timing.RPM), DwellS: r4(pl.Timing.DwellS),
-		TiS: r4(pl.Timing.TiS), TeS: r4(pl.Timing.TeS), IERatio: r4(pl.Timing.IE),
-		PEEPCmH2O: r4(pl.PEEPCmH2O), FiO2: r4(pl.Figures.FiO2), O2FlowLMin: r4(pl.O2FlowLPerMin),
-		ComplianceMLPerCmH2O: r4(pl.ComplianceMLPerCmH2O), ResistanceCmH2OPerLS: r4(pl.ResistanceCmH2OPerLS),
-		MinuteVentilationLMin: r4(pl.MinuteVentLPerMin), PeakFlowLMin: r4(pl.PeakFlowLPerMin),
-		PeakPressureCmH2O: r4(pl.PeakCmH2O), EndInspiratoryPressureCmH2O: r4(pl.EndInspCmH2O),
-		PlateauPressureCmH2O: r4(pl.PlateauCmH2O), DrivingPressureCmH2O: r4(pl.DrivingCmH2O),
-		IntrinsicPEEPCmH2O: r4(pl.IntrinsicPEEPCmH2O), TrappedVolumeML: r4(pl.TrappedML), ExhalationTauS: r4(pl.TauS),
-		PeakTorqueNm: r4(pl.PeakTorqueNm), RatedTorqueShare: r4(pl.TorqueShareOfRating),
+		FiguresJSON:  figuresJSON(pl.Figures),
+		OffTargetPct: r4(pl.OffTargetPct),
+		HoleBelow:    holeJSON(pl.Below), HoleAbove: holeJSON(pl.Above),
 		CalibrationK: r4(pl.Calibration.K), CalibrationBML: r4(pl.Calibration.BML), CalibrationDate: pl.Calibration.Date,
 		Defaults: map[string]DefaultJSON{
 			"ml_per_kg":                {r4(pl.MLPerKg.Value), pl.MLPerKg.Source},
@@ -110,11 +128,6 @@ func (pl Plan) JSON() PlanJSON {
 		},
 		Changes: roundChanges(pl.Changes), Cautions: roundCautions(pl.Cautions), ClinicalCaution: ClinicalCaution,
 	}
-	if pl.CylinderGiven && !math.IsInf(pl.CylinderMinutes, 0) {
-		m := r4(pl.CylinderMinutes)
-		j.CylinderMinutes = &m
-	}
-	return j
 }
 
 func roundChanges(cs []Change) []Change {

@@ -1,0 +1,270 @@
+package setup
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"time"
+
+	"crankside/machine"
+	"crankside/physiology"
+	"crankside/profiles"
+)
+
+// Setting is what a machine is set to: the hole pinned, the motor speed,
+// the dwell, the PEEP valve and the oxygen bled in.
+type Setting struct {
+	Hole      string  `json:"hole"`
+	RPM       float64 `json:"motor_rpm"`
+	DwellS    float64 `json:"dwell_s"`
+	PEEPCmH2O float64 `json:"peep_cmh2o"`
+	O2LPerMin float64 `json:"o2_flow_l_min"`
+}
+
+// Proposal is a change to a setting; a nil field keeps the current
+// value.
+type Proposal struct {
+	Hole      *string
+	RPM       *float64
+	DwellS    *float64
+	PEEPCmH2O *float64
+}
+
+// Apply returns the setting with the proposal's fields replaced.
+func (p Proposal) Apply(s Setting) Setting {
+	if p.Hole != nil {
+		s.Hole = *p.Hole
+	}
+	if p.RPM != nil {
+		s.RPM = *p.RPM
+	}
+	if p.DwellS != nil {
+		s.DwellS = *p.DwellS
+	}
+	if p.PEEPCmH2O != nil {
+		s.PEEPCmH2O = *p.PEEPCmH2O
+	}
+	return s
+}
+
+// Empty reports whether nothing is proposed.
+func (p Proposal) Empty() bool {
+	return p.Hole == nil && p.RPM == nil && p.DwellS == nil && p.PEEPCmH2O == nil
+}
+
+// CheckRequest is a handover check: the patient, what the machine is set
+// to, optionally what the manometer reads, and optionally a change.
+type CheckRequest struct {
+	Patient Patient
+	Lung    physiology.Lung // for the assumed mechanics when no readings fit
+	// Assumed mechanics; zero means the lung condition's default.
+	ComplianceMLPerCmH2O float64
+	ResistanceCmH2OPerLS float64
+	Setting              Setting
+	Readings             *physiology.Readings
+	Proposal             Proposal
+	CylinderWaterL       float64
+	CylinderBar          float64
+	Now                  time.Time
+}
+
+// Evaluation is one setting's figures and cautions.
+type Evaluation struct {
+	Setting  Setting
+	Figures  Figures
+	Cautions []Caution
+}
+
+// Check is a handover check's outcome.
+type Check struct {
+	Patient     Patient
+	PBWKg       float64
+	ProfileID   string
+	Calibration CalibrationStatus
+	Readings    *physiology.Readings
+	Mechanics   physiology.Value // compliance used, with where it came from
+	Resistance  physiology.Value
+	Fitted      *physiology.Mechanics
+	FitProblem  string // why the readings gave no mechanics, and what to re-take
+	Current     Evaluation
+	Proposed    *Evaluation
+	Differences []Difference
+}
+
+// Difference is one figure of the current and proposed settings.
+type Difference struct {
+	What     string  `json:"what"`
+	Unit     string  `json:"unit"`
+	Current  float64 `json:"current"`
+	Proposed float64 `json:"proposed"`
+	Change   float64 `json:"change"`
+}
+
+// RunCheck evaluates an observed setting. A setting the machine cannot run
+// (an unknown hole, a speed off the motor's range or step, a dwell off the
+// controller's step) is refused with the reason. Readings that no lung
+// reproduces do not stop the check: FitProblem says which to re-take and
+// the figures use the assumed mechanics.
+func RunCheck(req CheckRequest, p profiles.Profile) (Check, error) {
+	now := req.Now
+	if now.IsZero() {
+		now = time.Now()
+	}
+	pbw, err := physiology.PredictedBodyWeightKg(req.Patient.HeightCm, req.Patient.Sex)
+	if err != nil {
+		field := "height-cm"
+		if req.Patient.Sex != physiology.Male && req.Patient.Sex != physiology.Female {
+			field = "sex"
+		}
+		return Check{}, inputErr(field, err)
+	}
+	r, err := resolveTargets(Targets{Lung: req.Lung, ComplianceMLPerCmH2O: req.ComplianceMLPerCmH2O,
+		ResistanceCmH2OPerLS: req.ResistanceCmH2OPerLS, CylinderWaterL: req.CylinderWaterL, CylinderBar: req.CylinderBar})
+	if err != nil {
+		return Check{}, err
+	}
+	u, err := newUnit(p, now)
+	if err != nil {
+		return Check{}, err
+	}
+	cur := req.Setting
+	if err := checkSetting(u, cur, ""); err != nil {
+		return Check{}, err
+	}
+	ck := Check{Patient: req.Patient, PBWKg: pbw, ProfileID: p.ID, Calibration: u.cal, Readings: req.Readings,
+		Mechanics: r.compliance, Resistance: r.resistance}
+	if req.Readings != nil {
+		m, err := fitReadings(u, cur, *req.Readings, pbw, req)
+		var re *physiology.ReadingError
+		switch {
+		case errors.As(err, &re):
+			ck.FitProblem = re.Error()
+		case err != nil:
+			ck.FitProblem = err.Error()
+		default:
+			ck.Fitted = &m
+			ck.Mechanics = physiology.Value{Value: m.ComplianceMLPerCmH2O, Source: "fitted to the manometer readings"}
+			ck.Resistance = physiology.Value{Value: m.ResistanceCmH2OPerLS, Source: "fitted to the manometer readings"}
+		}
+	}
+	lung := machine.Lung{ComplianceMLPerCmH2O: ck.Mechanics.Value, ResistanceCmH2OPerLS: ck.Resistance.Value}
+	ck.Current, err = evaluateSetting(u, cur, lung, pbw, req)
+	if err != nil {
+		return Check{}, err
+	}
+	if !req.Proposal.Empty() {
+		next := req.Proposal.Apply(cur)
+		if err := checkSetting(u, next, "propose-"); err != nil {
+			return Check{}, err
+		}
+		ev, err := evaluateSetting(u, next, lung, pbw, req)
+		if err != nil {
+			return Check{}, err
+		}
+		ck.Proposed = &ev
+		ck.Differences = differences(ck.Current.Figures, ev.Figures)
+	}
+	if !finiteFigures(ck.Current.Figures) || (ck.Proposed != nil && !finiteFigures(ck.Proposed.Figures)) {
+		return Check{}, &InputError{Field: "setting", Reason: "the model gave no finite figures for this setting"}
+	}
+	return ck, nil
+}
+
+// checkSetting refuses a setting this machine cannot be set to.
+func checkSetting(u unit, s Setting, prefix string) error {
+	if _, ok := u.p.HoleByLabel(s.Hole); !ok {
+		return &InputError{Field: prefix + "hole", Reason: fmt.Sprintf("%q is not a hole of %s (holes: %s)", s.Hole, u.p.ID, holeLabels(u.p))}
+	}
+	m := u.p.Motor
+	if !u.motor.Settable(s.RPM) {
+		if m.Fixed() {
+			return &InputError{Field: prefix + "rpm", Reason: fmt.Sprintf("%g rpm: this motor runs only at %g rpm", s.RPM, m.RPM)}
+		}
+		return &InputError{Field: prefix + "rpm", Reason: fmt.Sprintf("%g rpm is not a speed of this motor: %g-%g rpm in %g rpm steps", s.RPM, m.MinRPM, u.motor.TopRPM(), m.RPMStep)}
+	}
+	if !u.controller.Settable(s.DwellS) {
+		return &InputError{Field: prefix + "dwell-s", Reason: fmt.Sprintf("%g s is not a dwell of this controller: 0-%g s in %g s steps", s.DwellS, u.controller.MaxSettableDwellS(), u.controller.DwellStepS)}
+	}
+	if err := checkRange(prefix+"peep", "PEEP", s.PEEPCmH2O, physiology.PEEPMin, physiology.PEEPMax, "cmH2O"); err != nil {
+		return err
+	}
+	if err := checkRange("o2-lpm", "oxygen flow", s.O2LPerMin, 0, 60, "L/min"); err != nil {
+		return err
+	}
+	return nil
+}
+
+func holeLabels(p profiles.Profile) string {
+	var out string
+	for i, h := range p.Crank.Holes {
+		if i > 0 {
+			out += ", "
+		}
+		if i == 12 {
+			return out + "..."
+		}
+		out += h.Label
+	}
+	return out
+}
+
+func evaluateSetting(u unit, s Setting, lung machine.Lung, pbw float64, req CheckRequest) (Evaluation, error) {
+	h, _ := u.p.HoleByLabel(s.Hole)
+	t := machine.TimingOf(s.RPM, s.DwellS, u.crank(h).DeliveryAngle())
+	f, err := evaluate(u, h, t, lungState{lung: lung, peep: s.PEEPCmH2O, pbwKg: pbw}, s.O2LPerMin, req.CylinderWaterL, req.CylinderBar)
+	if err != nil {
+		return Evaluation{}, &InputError{Field: "setting", Reason: err.Error()}
+	}
+	cs := assess(assessment{heightCm: req.Patient.HeightCm, pbwKg: pbw, f: f, reliefCmH2O: u.p.Circuit.ReliefCmH2O,
+		cal: u.cal, ratedTorque: u.p.Motor.RatedTorqueNm})
+	return Evaluation{Setting: s, Figures: f, Cautions: cs}, nil
+}
+
+// fitReadings solves for the lung that gives both readings at this setting
+// under the breath model, trapped gas included.
+func fitReadings(u unit, s Setting, rd physiology.Readings, pbw float64, req CheckRequest) (physiology.Mechanics, error) {
+	h, _ := u.p.HoleByLabel(s.Hole)
+	t := machine.TimingOf(s.RPM, s.DwellS, u.crank(h).DeliveryAngle())
+	model := func(c, r float64) (float64, float64, error) {
+		f, err := evaluate(u, h, t, lungState{lung: machine.Lung{ComplianceMLPerCmH2O: c, ResistanceCmH2OPerLS: r}, peep: s.PEEPCmH2O, pbwKg: pbw}, 0, 0, 0)
+		if err != nil {
+			return 0, 0, err
+		}
+		return f.PeakCmH2O, f.EndInspCmH2O, nil
+	}
+	return physiology.FitMechanics(rd, s.PEEPCmH2O, model)
+}
+
+func differences(a, b Figures) []Difference {
+	row := func(what, unit string, x, y float64) Difference {
+		return Difference{What: what, Unit: unit, Current: x, Proposed: y, Change: y - x}
+	}
+	return []Difference{
+		row("tidal volume", "mL", a.Hole.DeliveredML, b.Hole.DeliveredML),
+		row("tidal volume", "mL/kg PBW", a.Hole.MLPerKg, b.Hole.MLPerKg),
+		row("rate", "/min", a.Timing.RateBPM, b.Timing.RateBPM),
+		row("Ti", "s", a.Timing.TiS, b.Timing.TiS),
+		row("Te", "s", a.Timing.TeS, b.Timing.TeS),
+		row("I:E (E of 1:E)", "", a.Timing.IE, b.Timing.IE),
+		row("minute ventilation", "L/min", a.MinuteVentLPerMin, b.MinuteVentLPerMin),
+		row("peak flow", "L/min", a.PeakFlowLPerMin, b.PeakFlowLPerMin),
+		row("peak pressure", "cmH2O", a.PeakCmH2O, b.PeakCmH2O),
+		row("end-inspiratory pressure", "cmH2O", a.EndInspCmH2O, b.EndInspCmH2O),
+		row("plateau pressure", "cmH2O", a.PlateauCmH2O, b.PlateauCmH2O),
+		row("driving pressure", "cmH2O", a.DrivingCmH2O, b.DrivingCmH2O),
+		row("PEEP", "cmH2O", a.PEEPCmH2O, b.PEEPCmH2O),
+		row("intrinsic PEEP", "cmH2O", a.IntrinsicPEEPCmH2O, b.IntrinsicPEEPCmH2O),
+		row("FiO2", "", a.FiO2, b.FiO2),
+		row("peak torque", "N m", a.PeakTorqueNm, b.PeakTorqueNm),
+	}
+}
+
+// finiteFigures is the check's guard against handing out NaN or Inf.
+func finiteFigures(f Figures) bool {
+	for _, v := range []float64{f.Hole.DeliveredML, f.PeakCmH2O, f.EndInspCmH2O, f.PlateauCmH2O, f.TrappedML, f.MinuteVentLPerMin, f.PeakTorqueNm} {
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return false
+		}
+	}
+	return true
+}

@@ -1,0 +1,177 @@
+package setup_test
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"testing"
+
+	"github.com/stretchr/testify/require"
+
+	"crankside/physiology"
+	"crankside/setup"
+)
+
+func checkReq(hole string, rpm, dwell float64) setup.CheckRequest {
+	return setup.CheckRequest{
+		Patient: setup.Patient{HeightCm: 175, Sex: physiology.Male},
+		Setting: setup.Setting{Hole: hole, RPM: rpm, DwellS: dwell, PEEPCmH2O: 5},
+		Now:     today,
+	}
+}
+
+func TestCheckOfAnObservedSetting(t *testing.T) {
+	ck, err := setup.RunCheck(checkReq("8", 21, 1.4), profile(t, "demo-a"))
+	require.NoError(t, err)
+	// The same setting as the plan for 175 cm male gives the plan's figures.
+	pl := plan(t, "demo-a", setup.Patient{HeightCm: 175, Sex: physiology.Male}, setup.Targets{})
+	require.InDelta(t, pl.Hole.DeliveredML, ck.Current.Figures.Hole.DeliveredML, 1e-9)
+	require.InDelta(t, pl.PeakCmH2O, ck.Current.Figures.PeakCmH2O, 1e-9)
+	require.InDelta(t, pl.Timing.RateBPM, ck.Current.Figures.Timing.RateBPM, 1e-9)
+	// Minute ventilation = Vt x rate (derived).
+	f := ck.Current.Figures
+	require.InDelta(t, f.Hole.DeliveredML*f.Timing.RateBPM/1000, f.MinuteVentLPerMin, 1e-9)
+}
+
+func TestCheckRefusesASettingTheMachineCannotRun(t *testing.T) {
+	cases := []struct {
+		profile, hole string
+		rpm, dwell    float64
+		field         string
+	}{
+		{"demo-a", "26", 21, 1.4, "hole"},
+		{"demo-a", "8", 21.3, 1.4, "rpm"}, // off the 0.5 rpm step
+		{"demo-a", "8", 45, 1.4, "rpm"},   // above 40 rpm
+		{"demo-a", "8", 21, 1.45, "dwell-s"},
+		{"demo-a", "8", 21, 12, "dwell-s"},
+		{"demo-b", "C", 21, 1.3, "rpm"}, // fixed at 20
+	}
+	for _, c := range cases {
+		_, err := setup.RunCheck(checkReq(c.hole, c.rpm, c.dwell), profile(t, c.profile))
+		var ie *setup.InputError
+		require.True(t, errors.As(err, &ie), "%+v: %v", c, err)
+		require.Equal(t, c.field, ie.Field)
+	}
+}
+
+func TestReadingsRoundTrip(t *testing.T) {
+	// Readings synthesised by the model from a known lung give that lung back:
+	// C within 2%, R within 5% (issue's acceptance limits).
+	cases := []struct {
+		profile, hole string
+		rpm, dwell    float64
+		c, r          float64
+	}{
+		{"demo-a", "8", 21, 1.4, 60, 10},
+		{"demo-a", "6", 27, 1.1, 30, 12},
+		{"demo-a", "10", 16, 2.5, 90, 6},
+		{"demo-a", "5", 30, 0.4, 20, 18},
+		{"demo-b", "D", 20, 1.3, 45, 25},
+		{"demo-b", "B", 20, 2.0, 25, 8},
+	}
+	for _, c := range cases {
+		t.Run(fmt.Sprintf("%s-%s-C%v-R%v", c.profile, c.hole, c.c, c.r), func(t *testing.T) {
+			p := profile(t, c.profile)
+			req := checkReq(c.hole, c.rpm, c.dwell)
+			req.ComplianceMLPerCmH2O, req.ResistanceCmH2OPerLS = c.c, c.r
+			truth, err := setup.RunCheck(req, p)
+			require.NoError(t, err)
+			req.ComplianceMLPerCmH2O, req.ResistanceCmH2OPerLS = 0, 0
+			req.Readings = &physiology.Readings{PeakCmH2O: truth.Current.Figures.PeakCmH2O, EndCmH2O: truth.Current.Figures.EndInspCmH2O}
+			ck, err := setup.RunCheck(req, p)
+			require.NoError(t, err)
+			require.Empty(t, ck.FitProblem)
+			require.NotNil(t, ck.Fitted)
+			require.InEpsilon(t, c.c, ck.Fitted.ComplianceMLPerCmH2O, 0.02)
+			require.InEpsilon(t, c.r, ck.Fitted.ResistanceCmH2OPerLS, 0.05)
+			// Every prediction is redone with the fitted lung.
+			require.InDelta(t, truth.Current.Figures.PlateauCmH2O, ck.Current.Figures.PlateauCmH2O, 0.05)
+			require.Equal(t, "fitted to the manometer readings", ck.Mechanics.Source)
+		})
+	}
+}
+
+func TestReadingsWithNoSolution(t *testing.T) {
+	cases := []struct {
+		name      string
+		peak, end float64
+		retake    string
+	}{
+		{"end at PEEP", 15, 5, "end pressure"},
+		{"end below PEEP", 15, 3, "end pressure"},
+		{"peak below end", 10, 12, "both readings"},
+		{"absurdly stiff", 95, 90, "end pressure"},
+		{"NaN", math.NaN(), 12, "both readings"},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			req := checkReq("8", 21, 1.4)
+			req.Readings = &physiology.Readings{PeakCmH2O: c.peak, EndCmH2O: c.end}
+			ck, err := setup.RunCheck(req, profile(t, "demo-a"))
+			require.NoError(t, err, "the check still shows what it can")
+			require.Nil(t, ck.Fitted)
+			require.Contains(t, ck.FitProblem, "re-take the "+c.retake)
+			require.Equal(t, 60.0, ck.Mechanics.Value, "falls back to the assumed lung")
+			require.NotZero(t, ck.Current.Figures.Hole.DeliveredML)
+		})
+	}
+}
+
+func TestProposedChangeSideBySide(t *testing.T) {
+	req := checkReq("8", 21, 1.4)
+	hole, peep := "7", 8.0
+	req.Proposal = setup.Proposal{Hole: &hole, PEEPCmH2O: &peep}
+	ck, err := setup.RunCheck(req, profile(t, "demo-a"))
+	require.NoError(t, err)
+	require.NotNil(t, ck.Proposed)
+	require.Equal(t, "7", ck.Proposed.Setting.Hole)
+	require.Equal(t, 21.0, ck.Proposed.Setting.RPM)
+	var vt setup.Difference
+	for _, d := range ck.Differences {
+		if d.What == "tidal volume" && d.Unit == "mL" {
+			vt = d
+		}
+	}
+	require.Less(t, vt.Change, 0.0, "a smaller hole delivers less")
+	require.InDelta(t, vt.Proposed-vt.Current, vt.Change, 1e-12)
+	// A proposal the machine cannot run is refused, naming the proposal's flag.
+	bad := 33.3
+	req.Proposal = setup.Proposal{RPM: &bad}
+	_, err = setup.RunCheck(req, profile(t, "demo-a"))
+	var ie *setup.InputError
+	require.True(t, errors.As(err, &ie))
+	require.Equal(t, "propose-rpm", ie.Field)
+}
+
+func TestCheckCylinderAndFiO2(t *testing.T) {
+	req := checkReq("8", 21, 1.4)
+	req.Setting.O2LPerMin = 2
+	req.CylinderWaterL, req.CylinderBar = 2, 30
+	ck, err := setup.RunCheck(req, profile(t, "demo-a"))
+	require.NoError(t, err)
+	f := ck.Current.Figures
+	// FiO2 = 0.21 + 0.79 x 2 / VE (derived); 2 L x 30 bar = 60 L -> 30 min (common practice).
+	require.InDelta(t, 0.21+0.79*2/f.MinuteVentLPerMin, f.FiO2, 1e-9)
+	require.InDelta(t, 30, f.CylinderMinutes, 1e-9)
+	require.True(t, hasCaution(ck.Current.Cautions, "o2-cylinder-low"))
+}
+
+func hasCaution(cs []setup.Caution, id string) bool {
+	for _, c := range cs {
+		if c.ID == id {
+			return true
+		}
+	}
+	return false
+}
+
+func BenchmarkMechanicsFit(b *testing.B) {
+	p := profile(b, "demo-a")
+	req := checkReq("8", 21, 1.4)
+	req.Readings = &physiology.Readings{PeakCmH2O: 17, EndCmH2O: 14}
+	for b.Loop() {
+		if _, err := setup.RunCheck(req, p); err != nil {
+			b.Fatal(err)
+		}
+	}
+}

@@ -1,0 +1,21 @@
+//go:build unix
+
+package setup
+
+import (
+	"os"
+	"syscall"
+)
+
+// lockFile takes an exclusive advisory lock, so appenders in several
+// processes write one whole line at a time.
+func lockFile(f *os.File) error {
+	for {
+		err := syscall.Flock(int(f.Fd()), syscall.LOCK_EX)
+		if err != syscall.EINTR {
+			return err
+		}
+	}
+}
+
+func unlockFile(f *os.File) error { return syscall.Flock(int(f.Fd()), syscall.LOCK_UN) }

@@ -1,0 +1,146 @@
+package setup
+
+import (
+	"fmt"
+	"strings"
+	"time"
+	"unicode"
+
+	"crankside/physiology"
+)
+
+// RecordFormat marks one handover check in the log.
+const RecordFormat = "crankside-check/1"
+
+// EvaluationJSON is one setting's figures and cautions.
+type EvaluationJSON struct {
+	FiguresJSON
+	Cautions []Caution `json:"cautions"`
+}
+
+// ReadingsJSON are the manometer readings entered.
+type ReadingsJSON struct {
+	PeakCmH2O float64 `json:"peak_cmh2o"`
+	EndCmH2O  float64 `json:"end_pressure_cmh2o"`
+}
+
+// CheckJSON is the object `crankside check --json` prints, and the body
+// of a log record.
+type CheckJSON struct {
+	ProfileID       string        `json:"profile_id"`
+	CalibrationDate string        `json:"calibration_date"`
+	HeightCm        float64       `json:"height_cm"`
+	Sex             string        `json:"sex"`
+	PBWKg           float64       `json:"pbw_kg"`
+	Setting         Setting       `json:"setting"`
+	Readings        *ReadingsJSON `json:"readings"`
+	// The fitted lung, when the readings gave one.
+	FittedComplianceMLPerCmH2O *float64 `json:"fitted_compliance_ml_per_cmh2o"`
+	FittedResistanceCmH2OPerLS *float64 `json:"fitted_resistance_cmh2o_per_l_s"`
+	FitProblem                 string   `json:"fit_problem,omitempty"`
+	MechanicsSource            string   `json:"mechanics_source"`
+	EvaluationJSON
+	Proposed        *ProposedJSON `json:"proposed,omitempty"`
+	ClinicalCaution string        `json:"clinical_caution"`
+}
+
+// ProposedJSON is a proposed change's setting, figures and differences.
+type ProposedJSON struct {
+	Setting Setting `json:"setting"`
+	EvaluationJSON
+	Differences []Difference `json:"differences"`
+}
+
+func evaluationJSON(e Evaluation) EvaluationJSON {
+	return EvaluationJSON{FiguresJSON: figuresJSON(e.Figures), Cautions: roundCautions(e.Cautions)}
+}
+
+// JSON is the check as the --json object.
+func (ck Check) JSON() CheckJSON {
+	j := CheckJSON{
+		ProfileID: ck.ProfileID, CalibrationDate: ck.Calibration.Date,
+		HeightCm: r4(ck.Patient.HeightCm), Sex: ck.Patient.Sex.String(), PBWKg: r4(ck.PBWKg),
+		Setting: ck.Current.Setting, FitProblem: ck.FitProblem, MechanicsSource: ck.Mechanics.Source,
+		EvaluationJSON: evaluationJSON(ck.Current), ClinicalCaution: ClinicalCaution,
+	}
+	if ck.Readings != nil {
+		j.Readings = &ReadingsJSON{PeakCmH2O: ck.Readings.PeakCmH2O, EndCmH2O: ck.Readings.EndCmH2O}
+	}
+	if ck.Fitted != nil {
+		c, r := r4(ck.Fitted.ComplianceMLPerCmH2O), r4(ck.Fitted.ResistanceCmH2OPerLS)
+		j.FittedComplianceMLPerCmH2O, j.FittedResistanceCmH2OPerLS = &c, &r
+	}
+	if ck.Proposed != nil {
+		p := &ProposedJSON{Setting: ck.Proposed.Setting, EvaluationJSON: evaluationJSON(*ck.Proposed)}
+		for _, d := range ck.Differences {
+			p.Differences = append(p.Differences, Difference{What: d.What, Unit: d.Unit, Current: r4(d.Current), Proposed: r4(d.Proposed), Change: r4(d.Change)})
+		}
+		j.Proposed = p
+	}
+	return j
+}
+
+// Record is one handover check as kept in the log: a bed label and the
+// operator's initials, never a patient's name or other identifier.
+type Record struct {
+	Format   string    `json:"format"`
+	Time     time.Time `json:"time"`
+	Bed      string    `json:"bed"`
+	Initials string    `json:"initials"`
+	CheckJSON
+}
+
+// NewRecord stamps a check with its bed, initials and time.
+func NewRecord(ck Check, bed, initials string, at time.Time) (Record, error) {
+	if err := CheckBedLabel(bed); err != nil {
+		return Record{}, err
+	}
+	if err := CheckInitials(initials); err != nil {
+		return Record{}, err
+	}
+	return Record{Format: RecordFormat, Time: at.UTC().Truncate(time.Second), Bed: bed, Initials: strings.ToUpper(initials), CheckJSON: ck.JSON()}, nil
+}
+
+// CheckBedLabel accepts short labels such as "B4" or "ward3-12". A label
+// must hold a digit: that keeps a patient's name from being typed as one.
+func CheckBedLabel(bed string) error {
+	const max = 16
+	if bed == "" {
+		return &InputError{Field: "bed", Reason: "a bed label is needed, like B4 (never a patient's name)"}
+	}
+	if len(bed) > max {
+		return &InputError{Field: "bed", Reason: fmt.Sprintf("%q is longer than %d characters", bed, max)}
+	}
+	digit := false
+	for _, r := range bed {
+		switch {
+		case r >= '0' && r <= '9':
+			digit = true
+		case r < 128 && (unicode.IsLetter(r) || strings.ContainsRune("-_./", r)):
+		default:
+			return &InputError{Field: "bed", Reason: fmt.Sprintf("%q may hold only letters, digits and - _ . /", bed)}
+		}
+	}
+	if !digit {
+		return &InputError{Field: "bed", Reason: fmt.Sprintf("%q has no digit: use the bed's number, like B4, never a patient's name", bed)}
+	}
+	return nil
+}
+
+// CheckInitials accepts one to four letters.
+func CheckInitials(in string) error {
+	if len(in) < 1 || len(in) > 4 {
+		return &InputError{Field: "initials", Reason: fmt.Sprintf("%q: give the operator's initials, 1-4 letters", in)}
+	}
+	for _, r := range in {
+		if !(r >= 'a' && r <= 'z' || r >= 'A' && r <= 'Z') {
+			return &InputError{Field: "initials", Reason: fmt.Sprintf("%q: initials are letters only", in)}
+		}
+	}
+	return nil
+}
+
+// ReadingsOf is a helper for callers holding both readings as numbers.
+func ReadingsOf(peak, end float64) *physiology.Readings {
+	return &physiology.Readings{PeakCmH2O: peak, EndCmH2O: end}
+}
