@@ -81,7 +81,7 @@ func run(args []string, stdout, stderr io.Writer) (status int) {
 const topUsage = `crankside: set and check a motor-driven piston ventilator.
 
 Usage:
-  crankside [plan flags] [--profile ID|PATH] [--profiles DIR]
+  crankside [plan flags] [--profile ID|PATH] [--profiles DIR] [--log FILE]
                                     the bedside screen, on the demo profile unless
                                     --profile names another; plan flags prefill it
   crankside plan --height-cm N --sex male|female [flags]
@@ -472,6 +472,7 @@ func profilesValidate(path string, stdout, stderr io.Writer) int {
 // cmdUI opens the full-screen UI, prefilled from any plan flags given.
 func cmdUI(args []string, stderr io.Writer) int {
 	f := newPlanFlags(stderr)
+	logPath := f.fs.String("log", setup.DefaultLogPath(), "the handover log the screen records checks in")
 	if err := f.fs.Parse(args); err != nil {
 		if errors.Is(err, flag.ErrHelp) {
 			fmt.Fprint(stderr, topUsage)
@@ -496,7 +497,7 @@ func cmdUI(args []string, stderr io.Writer) int {
 	if os.Getenv("NO_COLOR") != "" {
 		lipgloss.SetColorProfile(termenv.Ascii)
 	}
-	err = ui.Run(ui.Options{Profile: p, Source: src, ProfilesDir: f.profilesDir, Prefill: prefill})
+	err = ui.Run(ui.Options{Profile: p, Source: src, ProfilesDir: f.profilesDir, Prefill: prefill, LogPath: *logPath})
 	if err != nil {
 		fmt.Fprintf(stderr, "crankside: the bedside screen could not start (%v); in scripts use 'crankside plan'\n", err)
 		return exitFailure
@@ -721,7 +722,11 @@ func cmdCheck(args []string, stdout, stderr io.Writer) int {
 			fmt.Fprintf(stderr, "crankside check: the check above was NOT recorded: %v\n", err)
 			return exitFailure
 		}
-		if !f.asJSON {
+		switch {
+		case f.card:
+			// The card is the whole of stdout, ready to print.
+			fmt.Fprintf(stderr, "Recorded for bed %s in %s.\n", rec.Bed, f.logPath)
+		case !f.asJSON:
 			fmt.Fprintf(stdout, "Recorded for bed %s in %s.\n", rec.Bed, f.logPath)
 		}
 	}

@@ -8,6 +8,7 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"path/filepath"
 	"sort"
 )
 
@@ -230,4 +231,19 @@ func recordChanges(a, b Record) []string {
 		out = append(out, "no change")
 	}
 	return out
+}
+
+// EnsureLogDir creates the log's directory, owner-only, if it is missing:
+// for the default log location, which a fresh machine does not have.
+func EnsureLogDir(path string) error {
+	return os.MkdirAll(filepath.Dir(path), 0o700)
+}
+
+// DefaultLogPath is os.UserConfigDir()/crankside/handover.jsonl, or "".
+func DefaultLogPath() string {
+	d, err := os.UserConfigDir()
+	if err != nil {
+		return ""
+	}
+	return filepath.Join(d, "crankside", "handover.jsonl")
 }

@@ -178,3 +178,82 @@ func mustRead(t *testing.T, path string) string {
 	require.NoError(t, err)
 	return string(data)
 }
+
+func TestCheckJSONWithReadingsAndProposal(t *testing.T) {
+	r := crankside(t, "check", "--height-cm", "175", "--sex", "male", "--hole", "8", "--rpm", "21", "--dwell-s", "1.4",
+		"--peak", "17", "--end-pressure", "14", "--propose-hole", "7", "--json")
+	require.Equal(t, 0, r.status, r.stderr)
+	var obj map[string]any
+	require.NoError(t, json.Unmarshal([]byte(r.stdout), &obj))
+	for _, k := range []string{"delivered_vt_ml", "ml_per_kg", "rate_bpm", "ti_s", "te_s", "ie_ratio",
+		"minute_ventilation_l_min", "peak_flow_l_min", "peak_pressure_cmh2o", "plateau_pressure_cmh2o",
+		"intrinsic_peep_cmh2o", "fio2", "fitted_compliance_ml_per_cmh2o", "fitted_resistance_cmh2o_per_l_s", "cautions", "proposed"} {
+		require.Contains(t, obj, k)
+	}
+	// The fitted lung reproduces the readings it came from.
+	require.InDelta(t, 17, obj["peak_pressure_cmh2o"], 1e-3)
+	require.InDelta(t, 14, obj["end_inspiratory_pressure_cmh2o"], 1e-3)
+	prop := obj["proposed"].(map[string]any)
+	require.Equal(t, "7", prop["hole"])
+	require.NotEmpty(t, prop["differences"])
+}
+
+func TestCheckRecordsAndLogShow(t *testing.T) {
+	logPath := filepath.Join(t.TempDir(), "handover.jsonl")
+	base := []string{"check", "--height-cm", "175", "--sex", "male", "--rpm", "21", "--dwell-s", "1.4", "--bed", "B4", "--initials", "ab", "--log", logPath}
+	r := crankside(t, append(base, "--hole", "8")...)
+	require.Equal(t, 0, r.status, r.stderr)
+	require.Contains(t, r.stdout, "Recorded for bed B4")
+	r = crankside(t, append(base, "--hole", "7", "--card")...)
+	require.Equal(t, 0, r.status, r.stderr)
+	require.Contains(t, r.stdout, "HANDOVER CARD  bed B4")
+	for _, l := range strings.Split(r.stdout, "\n") {
+		require.LessOrEqual(t, len(l), 80)
+	}
+	// A torn last line: reported, and every earlier record still listed.
+	f, err := os.OpenFile(logPath, os.O_WRONLY|os.O_APPEND, 0)
+	require.NoError(t, err)
+	f.WriteString(`{"format":"crankside-check/1","bed":"B4","ti`)
+	f.Close()
+	r = crankside(t, "log", "show", "--log", logPath, "--bed", "B4")
+	require.Equal(t, 1, r.status)
+	require.Contains(t, r.stderr, "torn last line")
+	require.Contains(t, r.stdout, "Bed B4: 2 check(s)")
+	require.Contains(t, r.stdout, "changed: hole 8 -> 7")
+	r = crankside(t, "log", "show", "--log", logPath, "--json")
+	var obj map[string]any
+	require.NoError(t, json.Unmarshal([]byte(r.stdout), &obj))
+	require.Len(t, obj["beds"].([]any), 1)
+	require.Len(t, obj["problems"].([]any), 1)
+}
+
+func TestCheckRefusalsAndUnsavedRecord(t *testing.T) {
+	base := []string{"check", "--height-cm", "175", "--sex", "male", "--dwell-s", "1.4"}
+	cases := []struct {
+		args []string
+		want string
+	}{
+		{append(base, "--hole", "99", "--rpm", "21"), "--hole"},
+		{append(base, "--hole", "8", "--rpm", "21.2"), "--rpm"},
+		{append(base, "--hole", "8", "--rpm", "21", "--peak", "17"), "--end-pressure go together"},
+		{append(base, "--hole", "8", "--rpm", "21", "--bed", "Smith", "--initials", "ab", "--log", "x.jsonl"), "never a patient's name"},
+		{append(base, "--hole", "8", "--rpm", "21", "--log", "x.jsonl"), "--log needs --bed"},
+		{[]string{"check", "--height-cm", "175", "--sex", "male"}, "--hole is required"},
+	}
+	for _, c := range cases {
+		r := crankside(t, c.args...)
+		require.Equal(t, 2, r.status, "%v: %s", c.args, r.stderr)
+		require.Contains(t, r.stderr, c.want)
+		require.Empty(t, r.stdout)
+	}
+	// Readings with no solution: the check is shown with the reason.
+	r := crankside(t, append(base, "--hole", "8", "--rpm", "21", "--peak", "15", "--end-pressure", "4")...)
+	require.Equal(t, 0, r.status, r.stderr)
+	require.Contains(t, r.stdout, "re-take the end pressure")
+	// A log that cannot be written: the check is still printed, and the
+	// failure says the record was not saved.
+	r = crankside(t, append(base, "--hole", "8", "--rpm", "21", "--bed", "B4", "--initials", "ab", "--log", filepath.Join(t.TempDir(), "missing", "h.jsonl"))...)
+	require.Equal(t, 1, r.status)
+	require.Contains(t, r.stdout, "THE PATIENT GETS")
+	require.Contains(t, r.stderr, "NOT recorded")
+}

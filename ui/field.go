@@ -27,6 +27,7 @@ type field struct {
 	chosen   int    // index into choices, -1 for none
 	err      string // why the entry cannot be used, shown beside it
 	note     string // a passing remark, such as "digits only"
+	heading  string // a section title drawn above the field
 }
 
 const fieldWidth = 8
@@ -168,8 +169,19 @@ func filterRunes(rs []rune, allowed string) []rune {
 }
 
 func allowedWords(allowed string) string {
-	if strings.ContainsRune(allowed, ':') {
+	switch {
+	case strings.ContainsRune(allowed, ':'):
 		return "digits and ':' (like 1:2)"
+	case strings.ContainsRune(allowed, 'a') && strings.ContainsRune(allowed, '0'):
+		return "letters, digits and - _ . /"
+	case strings.ContainsRune(allowed, 'a'):
+		return "letters"
 	}
 	return "digits and a decimal point"
 }
+
+// Runes a label field accepts: ASCII letters and digits and a few marks.
+const (
+	labelRunes   = "abcdefghijklmnopqrstuvwxyzABCDEFGHIJKLMNOPQRSTUVWXYZ0123456789-_./"
+	lettersRunes = "abcdefghijklmnopqrstuvwxyzABCDEFGHIJKLMNOPQRSTUVWXYZ"
+)

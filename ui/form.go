@@ -18,6 +18,12 @@ type form struct {
 	keys    formKeys
 	styles  *Styles
 	width   int
+	// compact drops units and hints and narrows labels, for a form drawn
+	// beside its results; errors are then listed with the results.
+	compact bool
+	// height, when set, is the most lines the form may draw; it then
+	// scrolls to keep the cursor in view.
+	height int
 }
 
 func newForm(styles *Styles, fields ...*field) form {
@@ -97,13 +103,24 @@ const labelWidth = 15
 // passing note or the hint.
 func (f *form) view() string {
 	s := f.styles
+	lw := labelWidth
+	if f.compact {
+		lw = compactLabelWidth
+	}
 	var lines []string
+	cursorLine := 0
 	for i, fl := range f.fields {
+		if fl.heading != "" {
+			lines = append(lines, s.Section.Render(fl.heading))
+		}
+		if i == f.cursor {
+			cursorLine = len(lines)
+		}
 		mark := "  "
-		label := s.Label.Render(fmt.Sprintf("%-*s", labelWidth, fl.label))
+		label := s.Label.Render(fmt.Sprintf("%-*s", lw, fl.label))
 		if f.focused && i == f.cursor {
 			mark = s.FieldFocused.Render("> ")
-			label = s.FieldFocused.Render(fmt.Sprintf("%-*s", labelWidth, fl.label))
+			label = s.FieldFocused.Render(fmt.Sprintf("%-*s", lw, fl.label))
 		}
 		var entry string
 		if fl.isText() {
@@ -111,9 +128,16 @@ func (f *form) view() string {
 		} else {
 			entry = f.choiceView(fl, f.focused && i == f.cursor)
 		}
-		unit := ""
+		line := mark + label + entry
+		if f.compact {
+			if fl.err != "" {
+				line += s.Error.Render("!")
+			}
+			lines = append(lines, truncate(line, f.width))
+			continue
+		}
 		if fl.unit != "" {
-			unit = " " + s.Unit.Render(fl.unit)
+			line += " " + s.Unit.Render(fl.unit)
 		}
 		after := ""
 		switch {
@@ -124,14 +148,32 @@ func (f *form) view() string {
 		case fl.Value() == "" && fl.hint != "":
 			after = s.Hint.Render(fl.hint)
 		}
-		line := mark + label + entry + unit
 		if after != "" {
 			line += "  " + after
 		}
 		lines = append(lines, truncate(line, f.width))
 	}
-	return strings.Join(lines, "\n")
+	return strings.Join(scrollTo(lines, cursorLine, f.height), "\n")
 }
+
+// scrollTo keeps line at in view within h lines (h 0: no limit), marking
+// hidden lines above and below.
+func scrollTo(lines []string, at, h int) []string {
+	if h <= 0 || len(lines) <= h {
+		return lines
+	}
+	start := min(max(at-h/2, 0), len(lines)-h)
+	out := append([]string(nil), lines[start:start+h]...)
+	if start > 0 {
+		out[0] = "  ..."
+	}
+	if start+h < len(lines) {
+		out[h-1] = "  ..."
+	}
+	return out
+}
+
+const compactLabelWidth = 12
 
 func (f *form) choiceView(fl *field, active bool) string {
 	var parts []string

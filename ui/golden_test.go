@@ -81,6 +81,6 @@ func TestRandomKeysAndSizes(t *testing.T) {
 		m.Update(tea.WindowSizeMsg{Width: 1, Height: 1})
 		require.NotEmpty(t, m.View())
 		m.Update(tea.WindowSizeMsg{Width: 80, Height: 24})
-		require.Contains(t, screen(m), "crankside")
+		require.Contains(t, screen(m), "responsible clinician")
 	}
 }

@@ -6,7 +6,8 @@ import "github.com/charmbracelet/bubbles/key"
 // no text field has focus; Tab, Shift+Tab and Ctrl+C always work.
 type globalKeys struct {
 	Next, Prev key.Binding
-	Panel      [5]key.Binding
+	Panel      [6]key.Binding
+	Yes, No    key.Binding
 	Help       key.Binding
 	Quit       key.Binding
 	ForceQuit  key.Binding
@@ -20,7 +21,9 @@ func newGlobalKeys() globalKeys {
 		Quit:      key.NewBinding(key.WithKeys("q"), key.WithHelp("q", "quit")),
 		ForceQuit: key.NewBinding(key.WithKeys("ctrl+c"), key.WithHelp("ctrl+c", "quit")),
 	}
-	names := [5]string{"patient", "targets", "machine", "setting", "cautions"}
+	k.Yes = key.NewBinding(key.WithKeys("y"), key.WithHelp("y", "quit without recording"))
+	k.No = key.NewBinding(key.WithKeys("n", "esc"), key.WithHelp("n", "stay"))
+	names := [6]string{"patient", "targets", "machine", "setting", "cautions", "handover"}
 	for i := range k.Panel {
 		d := string(rune('1' + i))
 		k.Panel[i] = key.NewBinding(key.WithKeys(d), key.WithHelp(d, names[i]))

@@ -24,8 +24,10 @@ type Options struct {
 	// Prefill holds entries by field name ("height-cm", "sex", "lung",
 	// "ml-per-kg", "rate", "ie", "peep", "fio2", "compliance", "resistance").
 	Prefill map[string]string
-	// Now dates the calibration; nil means time.Now.
+	// Now dates the calibration and the records; nil means time.Now.
 	Now func() time.Time
+	// LogPath is where handover checks are recorded.
+	LogPath string
 }
 
 // The smallest window the layout is drawn for.
@@ -44,6 +46,7 @@ const (
 	panelMachine
 	panelSetting
 	panelCautions
+	panelHandover
 )
 
 // Model is the root of the UI.
@@ -54,19 +57,46 @@ type Model struct {
 	panels   []panel
 	patient  *patientPanel
 	targets  *targetsPanel
+	handover *handoverPanel
 	focus    int
 	showHelp bool
 	picker   *picker
 	out      outcome
 	dir      string
+	logPath  string
 	now      func() time.Time
 	w, h     int
+	// overlay is a text view over the panels (the card, the history).
+	overlay *textOverlay
+	// unsaved is true while a computed handover check has not been recorded.
+	unsaved     bool
+	confirmQuit bool
+}
+
+// textOverlay is a titled block of text shown in place of the panels.
+type textOverlay struct {
+	title, text string
+}
+
+// savedMsg is the outcome of recording a check.
+type savedMsg struct {
+	bed, path string
+	at        time.Time
+	err       error
+}
+
+// historyMsg is a bed's earlier checks read from the log.
+type historyMsg struct {
+	bed      string
+	history  []setup.BedHistory
+	problems []setup.LogProblem
+	err      error
 }
 
 // New builds the root model; Run starts it.
 func New(opts Options) *Model {
 	styles := NewStyles()
-	m := &Model{styles: &styles, keys: newGlobalKeys(), help: help.New(), dir: opts.ProfilesDir, now: opts.Now}
+	m := &Model{styles: &styles, keys: newGlobalKeys(), help: help.New(), dir: opts.ProfilesDir, now: opts.Now, logPath: opts.LogPath}
 	if m.now == nil {
 		m.now = time.Now
 	}
@@ -76,7 +106,8 @@ func New(opts Options) *Model {
 	m.help.Styles.FullDesc = styles.Help
 	m.patient = newPatientPanel(m.styles)
 	m.targets = newTargetsPanel(m.styles)
-	m.panels = []panel{m.patient, m.targets, newMachinePanel(m.styles), newSettingPanel(m.styles), newCautionsPanel(m.styles)}
+	m.handover = newHandoverPanel(m.styles)
+	m.panels = []panel{m.patient, m.targets, newMachinePanel(m.styles), newSettingPanel(m.styles), newCautionsPanel(m.styles), m.handover}
 	m.setProfile(opts.Profile, opts.Source)
 	for name, v := range opts.Prefill {
 		if f := m.field(name); f != nil {
@@ -121,13 +152,32 @@ func (m *Model) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 		return m, nil
 	case tea.KeyMsg:
 		return m, m.handleKey(msg)
+	case savedMsg:
+		m.saved(msg)
+	case historyMsg:
+		m.showHistory(msg)
 	}
 	return m, nil
 }
 
 func (m *Model) handleKey(msg tea.KeyMsg) tea.Cmd {
+	if m.confirmQuit {
+		switch {
+		case key.Matches(msg, m.keys.Yes), key.Matches(msg, m.keys.ForceQuit):
+			return tea.Quit
+		case key.Matches(msg, m.keys.No):
+			m.confirmQuit = false
+		}
+		return nil
+	}
 	if key.Matches(msg, m.keys.ForceQuit) {
-		return tea.Quit
+		return m.quit()
+	}
+	if m.overlay != nil {
+		if msg.Type == tea.KeyEsc || key.Matches(msg, m.keys.Quit) || msg.Type == tea.KeyEnter {
+			m.overlay = nil
+		}
+		return nil
 	}
 	if m.picker != nil {
 		return m.handlePicker(msg)
@@ -149,10 +199,10 @@ func (m *Model) handleKey(msg tea.KeyMsg) tea.Cmd {
 	}
 	if !m.panels[m.focus].Editing() {
 		if key.Matches(msg, m.keys.Quit) {
-			return tea.Quit
+			return m.quit()
 		}
 		for i, b := range m.keys.Panel {
-			if key.Matches(msg, b) {
+			if key.Matches(msg, b) && i < len(m.panels) {
 				return m.focusPanel(i)
 			}
 		}
@@ -166,9 +216,22 @@ func (m *Model) toPanel(msg tea.KeyMsg) tea.Cmd {
 	sig := p.Signals()
 	if sig.changed {
 		m.recompute()
+		if m.out.check != nil {
+			m.unsaved = true
+			m.out.saveNote = ""
+		}
 	}
 	if sig.pick {
 		m.picker = newPicker(m.dir, m.out.profile.ID, m.styles)
+	}
+	if sig.save {
+		return m.save()
+	}
+	if sig.card {
+		m.card()
+	}
+	if sig.history {
+		return m.history()
 	}
 	if sig.advance {
 		return tea.Batch(cmd, m.focusPanel(min(m.focus+1, len(m.panels)-1)))
@@ -232,6 +295,7 @@ func (m *Model) recompute() {
 	if m.out.summary == nil {
 		m.out.waiting = append(m.out.waiting, "the profile could not be used: "+m.out.loadErr)
 	}
+	m.recomputeCheck(req, ok)
 	for _, p := range m.panels {
 		p.SetOutcome(&m.out)
 	}
@@ -352,7 +416,7 @@ func (m *Model) secondPanel() int {
 // split gives the heights of the focused panel and, in a tall window, of
 // the panel under it; bottom is -1 when there is only one.
 func (m *Model) split(bodyH int) (top, bottom int) {
-	if m.h < wideHeight || m.focus == panelCautions {
+	if m.h < wideHeight || m.focus == panelCautions || m.focus == panelHandover {
 		return bodyH, -1
 	}
 	switch m.focus {
@@ -381,6 +445,8 @@ func (m *Model) View() string {
 		body = m.box("Profiles", m.picker.view(m.w-4, bodyH-2), bodyH, true)
 	case m.showHelp:
 		body = m.box("Keys", m.fullHelp(), bodyH, true)
+	case m.overlay != nil:
+		body = m.box(m.overlay.title, m.overlay.text, bodyH, true)
 	default:
 		top, bottom := m.split(bodyH)
 		p := m.panels[m.focus]
@@ -423,7 +489,7 @@ func (m *Model) titleBar() string {
 	for i, p := range m.panels {
 		name := fmt.Sprintf("%d %s", i+1, p.Title())
 		if i == panelCautions && m.out.plan != nil {
-			name += fmt.Sprintf(" (%d)", len(m.out.plan.Cautions))
+			name += fmt.Sprintf("(%d)", len(m.out.plan.Cautions))
 		}
 		if i == m.focus {
 			tabs = append(tabs, s.TabActive.Render("["+name+"]"))
@@ -431,13 +497,19 @@ func (m *Model) titleBar() string {
 			tabs = append(tabs, s.Tab.Render(" "+name+" "))
 		}
 	}
-	id := m.out.profile.ID
-	return truncate(s.Title.Render("crankside")+s.Label.Render(" · "+id+" ")+" "+strings.Join(tabs, ""), m.w)
+	lead := s.Title.Render("crankside") + s.Label.Render(" · "+m.out.profile.ID+" ")
+	if m.w < 100 {
+		lead = s.Label.Render(m.out.profile.ID + " |")
+	}
+	return truncate(lead+" "+strings.Join(tabs, ""), m.w)
 }
 
 // summary is the strip that stays on every panel.
 func (m *Model) summary() string {
 	s := m.styles
+	if m.confirmQuit {
+		return truncate(s.levelWord(setup.Warn)+s.Error.Render(" The handover check is not recorded. y: quit without recording, n: stay"), m.w)
+	}
 	pl := m.out.plan
 	if pl == nil {
 		reason := "an entry"
@@ -474,13 +546,17 @@ func (m *Model) helpLine() string {
 	switch {
 	case m.picker != nil:
 		b = m.picker.ShortHelp()
+	case m.confirmQuit:
+		b = []key.Binding{m.keys.Yes, m.keys.No}
 	case m.showHelp:
 		b = []key.Binding{key.NewBinding(key.WithKeys("?"), key.WithHelp("? / esc", "close"))}
+	case m.overlay != nil:
+		b = []key.Binding{key.NewBinding(key.WithKeys("esc"), key.WithHelp("esc", "close"))}
 	default:
 		b = m.panels[m.focus].ShortHelp()
 		b = append(b, m.keys.Next)
 		if !m.panels[m.focus].Editing() {
-			b = append(b, key.NewBinding(key.WithKeys("1"), key.WithHelp("1-5", "panel")), m.keys.Quit)
+			b = append(b, key.NewBinding(key.WithKeys("1"), key.WithHelp("1-6", "panel")), m.keys.Quit)
 		}
 		b = append(b, m.keys.Help)
 	}

@@ -21,6 +21,11 @@ type outcome struct {
 	source  profiles.Source
 	summary *setup.ProfileSummary
 	loadErr string // the last profile that could not be loaded
+
+	// The handover check of what the machine is set to; nil while waiting.
+	check        *setup.Check
+	checkWaiting []string
+	saveNote     string // the last record's outcome, shown on the handover panel
 }
 
 // signals are what a panel asks of the root after a key.
@@ -28,6 +33,9 @@ type signals struct {
 	changed bool // an entry changed: recompute
 	advance bool // on to the next panel
 	pick    bool // open the profile picker
+	save    bool // record the handover check
+	card    bool // show the handover card
+	history bool // show the bed's earlier checks
 }
 
 // panel is one child of the root model.

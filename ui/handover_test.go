@@ -1,0 +1,106 @@
+package ui
+
+import (
+	"path/filepath"
+	"testing"
+
+	tea "github.com/charmbracelet/bubbletea"
+	"github.com/stretchr/testify/require"
+
+	"crankside/physiology"
+	"crankside/setup"
+)
+
+// runCmd runs a command the way the program would and feeds its message back.
+func runCmd(m *Model, cmd tea.Cmd) {
+	if cmd == nil {
+		return
+	}
+	if msg := cmd(); msg != nil {
+		m.Update(msg)
+	}
+}
+
+func handoverModel(t *testing.T) (*Model, string) {
+	p, src := demoProfile(t, "demo-a")
+	logPath := filepath.Join(t.TempDir(), "handover.jsonl")
+	m := New(Options{Profile: p, Source: src, ProfilesDir: t.TempDir(), Now: testNow, LogPath: logPath,
+		Prefill: map[string]string{"height-cm": "175", "sex": "male"}})
+	m.Update(tea.WindowSizeMsg{Width: 80, Height: 24})
+	press(m, runes("6"))
+	require.Equal(t, panelHandover, m.focus)
+	return m, logPath
+}
+
+func TestHandoverCheckMatchesSetup(t *testing.T) {
+	m, _ := handoverModel(t)
+	press(m, runes("B4"), enter, runes("ab"), enter, runes("8"), enter, runes("21"), enter, runes("1.4"), enter,
+		enter, enter, runes("17"), enter, runes("14"), enter, enter, enter, runes("7"))
+	require.NotNil(t, m.out.check, "%v", m.out.checkWaiting)
+	p, _ := demoProfile(t, "demo-a")
+	hole := "7"
+	want, err := setup.RunCheck(setup.CheckRequest{
+		Patient:  setup.Patient{HeightCm: 175, Sex: physiology.Male},
+		Setting:  setup.Setting{Hole: "8", RPM: 21, DwellS: 1.4, PEEPCmH2O: 5},
+		Readings: setup.ReadingsOf(17, 14), Proposal: setup.Proposal{Hole: &hole}, Now: testNow(),
+	}, p)
+	require.NoError(t, err)
+	got := m.out.check
+	require.InDelta(t, want.Fitted.ComplianceMLPerCmH2O, got.Fitted.ComplianceMLPerCmH2O, 1e-9)
+	require.InDelta(t, want.Current.Figures.Hole.DeliveredML, got.Current.Figures.Hole.DeliveredML, 1e-9)
+	require.InDelta(t, want.Proposed.Figures.Hole.DeliveredML, got.Proposed.Figures.Hole.DeliveredML, 1e-9)
+	v := screen(m)
+	require.Contains(t, v, "Fitted lung C "+f0(want.Fitted.ComplianceMLPerCmH2O))
+	require.Contains(t, v, "proposed")
+	require.Contains(t, v, "no name or identifier")
+}
+
+func TestHandoverRefusesWhatTheMachineCannotRun(t *testing.T) {
+	m, _ := handoverModel(t)
+	press(m, runes("B4"), enter, runes("ab"), enter, runes("8"), enter, runes("21.3"), enter, runes("1.4"))
+	require.Nil(t, m.out.check)
+	require.Contains(t, m.checkField("rpm").err, "0.5 rpm steps")
+	require.Contains(t, screen(m), "waiting")
+}
+
+func TestHandoverRecordQuitAndHistory(t *testing.T) {
+	m, logPath := handoverModel(t)
+	press(m, runes("B4"), enter, runes("ab"), enter, runes("8"), enter, runes("21"), enter, runes("1.4"))
+	require.NotNil(t, m.out.check)
+	// Unrecorded: quitting asks first, and n stays.
+	require.False(t, isQuit(press(m, tea.KeyMsg{Type: tea.KeyCtrlC})))
+	require.True(t, m.confirmQuit)
+	require.Contains(t, screen(m), "not recorded")
+	press(m, runes("n"))
+	require.False(t, m.confirmQuit)
+	// Record it: one line in the log, and quitting no longer asks.
+	runCmd(m, press(m, tea.KeyMsg{Type: tea.KeyCtrlS}))
+	require.Contains(t, screen(m), "Recorded for bed B4")
+	recs, problems, err := setup.ReadLog(logPath)
+	require.NoError(t, err)
+	require.Empty(t, problems)
+	require.Len(t, recs, 1)
+	require.Equal(t, "B4", recs[0].Bed)
+	require.Equal(t, "AB", recs[0].Initials)
+	// The history overlay lists it.
+	runCmd(m, press(m, tea.KeyMsg{Type: tea.KeyCtrlR}))
+	require.NotNil(t, m.overlay)
+	require.Contains(t, screen(m), "Bed B4: earlier checks")
+	press(m, esc)
+	// The card overlay.
+	press(m, tea.KeyMsg{Type: tea.KeyCtrlO})
+	require.Contains(t, screen(m), "HANDOVER CARD")
+	press(m, esc)
+	require.True(t, isQuit(press(m, tea.KeyMsg{Type: tea.KeyCtrlC})))
+}
+
+func TestHandoverBedLabelThatLooksLikeAName(t *testing.T) {
+	m, logPath := handoverModel(t)
+	press(m, runes("Smith"), enter, runes("ab"), enter, runes("8"), enter, runes("21"), enter, runes("1.4"))
+	require.NotNil(t, m.out.check)
+	runCmd(m, press(m, tea.KeyMsg{Type: tea.KeyCtrlS}))
+	require.Contains(t, screen(m), "not recorded")
+	require.Contains(t, m.checkField("bed").err, "never a patient's name")
+	_, _, err := setup.ReadLog(logPath)
+	require.Error(t, err, "nothing was written")
+}
