@@ -63,6 +63,8 @@ func run(args []string, stdout, stderr io.Writer) (status int) {
 		return cmdCheck(rest, stdout, stderr)
 	case "log":
 		return cmdLog(rest, stdout, stderr)
+	case "calibrate":
+		return cmdCalibrate(rest, stdout, stderr)
 	case "--version", "-version", "version":
 		fmt.Fprintf(stdout, "crankside %s\n", version)
 		return exitOK
@@ -90,8 +92,10 @@ Usage:
                                     shift handover: what the patient gets now
   crankside log show --log FILE [--bed LABEL]
                                     earlier checks and what changed
-  crankside profiles list|show ID|validate FILE
+  crankside profiles list|show ID|validate FILE|new --from ID --id NEW
                                     the machine profiles
+  crankside calibrate --profile ID|PATH --bench FILE.csv [--write]
+                                    refit a machine's bench calibration
   crankside --version
 
 Run 'crankside COMMAND --help' for a command's flags.
@@ -328,11 +332,14 @@ const profilesUsage = `Usage:
   crankside profiles list [--profiles DIR]
   crankside profiles show ID|PATH [--profiles DIR] [--json]
   crankside profiles validate FILE
+  crankside profiles new --from ID|PATH --id NEW [--label TEXT]
 
 list shows the embedded demo profiles and every .json file in the profiles
 directory (a bad file is listed with its error). show --json prints the
 profile file itself, so it can be saved and edited. validate checks a file
-and names every problem with its field.
+and names every problem with its field. new prints a profile to edit by
+hand for a unit being measured: a copy of another with a new id, without
+its calibration.
 `
 
 func cmdProfiles(args []string, stdout, stderr io.Writer) int {
@@ -349,8 +356,10 @@ func cmdProfiles(args []string, stdout, stderr io.Writer) int {
 		fmt.Fprint(stdout, profilesUsage)
 		return exitOK
 	case "list", "show", "validate":
+	case "new":
+		return profilesNew(rest, stdout, stderr)
 	default:
-		return usageError(stderr, "profiles", fmt.Sprintf("unknown sub-command %q; use list, show or validate", sub))
+		return usageError(stderr, "profiles", fmt.Sprintf("unknown sub-command %q; use list, show, validate or new", sub))
 	}
 	if err := fs.Parse(interspersed(rest, fs)); err != nil {
 		if errors.Is(err, flag.ErrHelp) {
@@ -812,6 +821,127 @@ func cmdLog(args []string, stdout, stderr io.Writer) int {
 	}
 	if len(problems) > 0 {
 		return exitFailure
+	}
+	return exitOK
+}
+
+func profilesNew(args []string, stdout, stderr io.Writer) int {
+	fs := flag.NewFlagSet("profiles new", flag.ContinueOnError)
+	fs.SetOutput(io.Discard)
+	from := fs.String("from", profiles.DefaultID, "the profile to start from")
+	id := fs.String("id", "", "the new profile's id (lower-case letters, digits, - and _)")
+	label := fs.String("label", "", "the new profile's label")
+	dir := fs.String("profiles", profiles.DefaultDir(), "directory of profile files")
+	if err := fs.Parse(args); err != nil {
+		if errors.Is(err, flag.ErrHelp) {
+			fmt.Fprint(stdout, profilesUsage)
+			return exitOK
+		}
+		return usageError(stderr, "profiles new", flagError(err))
+	}
+	if *id == "" {
+		return usageError(stderr, "profiles new", "--id is required")
+	}
+	p, _, err := profiles.Open(*from, *dir)
+	if err != nil {
+		return usageError(stderr, "profiles new", "--from: "+err.Error())
+	}
+	p.ID, p.Calibration = *id, nil
+	p.Label = "New unit (edit me): measure every field"
+	if *label != "" {
+		p.Label = *label
+	}
+	data, err := profiles.Marshal(p)
+	if err == nil {
+		_, err = profiles.Parse(data, "the new profile")
+	}
+	if err != nil {
+		return usageError(stderr, "profiles new", err.Error())
+	}
+	stdout.Write(data)
+	return exitOK
+}
+
+const calibrateUsage = `Usage: crankside calibrate --profile ID|PATH --bench FILE.csv [--date YYYY-MM-DD] [--write] [--json]
+
+Refits a machine's bench calibration. The bench file is CSV with the header
+  hole,test_lung_compliance_ml_per_cmh2o,test_lung_resistance_cmh2o_per_l_s,rpm,measured_ml
+and one row per bench breath into a test lung, delivered from rest. Each
+point's residual is shown with whether it is within +/-(4 mL + 15%).
+--write stores the new calibration and date in the profile file (the old
+file is kept as FILE.bak); without it nothing is written.
+
+Flags:
+`
+
+func cmdCalibrate(args []string, stdout, stderr io.Writer) int {
+	fs := flag.NewFlagSet("calibrate", flag.ContinueOnError)
+	fs.SetOutput(io.Discard)
+	ref := fs.String("profile", "", "the machine profile: an id in the profiles directory, or a path")
+	dir := fs.String("profiles", profiles.DefaultDir(), "directory of profile files")
+	bench := fs.String("bench", "", "the bench measurements, CSV (required)")
+	date := fs.String("date", "", "the calibration's date, YYYY-MM-DD (default today)")
+	write := fs.Bool("write", false, "store the new calibration in the profile file")
+	asJSON := fs.Bool("json", false, "print one JSON object")
+	if err := fs.Parse(args); err != nil {
+		if errors.Is(err, flag.ErrHelp) {
+			printFlags(stdout, calibrateUsage, fs)
+			return exitOK
+		}
+		return usageError(stderr, "calibrate", flagError(err))
+	}
+	if *ref == "" || *bench == "" {
+		return usageError(stderr, "calibrate", "--profile and --bench are required")
+	}
+	p, src, err := profiles.Open(*ref, *dir)
+	if err != nil {
+		return usageError(stderr, "calibrate", "--profile: "+err.Error())
+	}
+	if *write && src.Embedded {
+		return usageError(stderr, "calibrate", fmt.Sprintf("--write: %s is an embedded demo and cannot be written; save a copy with 'crankside profiles show %s --json > FILE' and calibrate that", p.ID, p.ID))
+	}
+	bf, err := os.Open(*bench)
+	if err != nil {
+		return usageError(stderr, "calibrate", "--bench: "+err.Error())
+	}
+	points, err := profiles.ReadBench(bf, *bench, p)
+	bf.Close()
+	if err != nil {
+		var be *profiles.BenchError
+		if errors.As(err, &be) {
+			for _, pr := range be.Problems {
+				fmt.Fprintf(stderr, "%s: %s\n", *bench, pr)
+			}
+			fmt.Fprintf(stderr, "crankside calibrate: nothing written\n")
+			return exitUsage
+		}
+		return usageError(stderr, "calibrate", err.Error())
+	}
+	res, err := setup.Calibrate(p, points, *date, time.Now())
+	if err != nil {
+		var ie *setup.InputError
+		if errors.As(err, &ie) {
+			return usageError(stderr, "calibrate", "--"+ie.Field+": "+ie.Reason)
+		}
+		fmt.Fprintf(stderr, "crankside calibrate: %v\n", err)
+		return exitFailure
+	}
+	written := false
+	if *write {
+		if err := profiles.SaveWithBackup(src.Path, res.Profile); err != nil {
+			fmt.Fprintf(stderr, "crankside calibrate: %v\n", err)
+			return exitFailure
+		}
+		written = true
+	}
+	if *asJSON {
+		return writeJSON(stdout, stderr, res.JSON(written))
+	}
+	res.WriteText(stdout)
+	if written {
+		fmt.Fprintf(stdout, "Written to %s (the previous file is %s.bak).\n", src.Path, src.Path)
+	} else {
+		fmt.Fprintln(stdout, "Nothing written: add --write to store this calibration in the profile file.")
 	}
 	return exitOK
 }

@@ -222,3 +222,87 @@ func TestListShowsBadFilesAndDuplicates(t *testing.T) {
 	require.ErrorIs(t, err, ErrNotFound)
 	require.ErrorContains(t, err, "demo-b")
 }
+
+func TestCrashBeforeRenameLeavesTheOldProfile(t *testing.T) {
+	dir := t.TempDir()
+	path := filepath.Join(dir, "unit.json")
+	old := demo(t, "demo-a")
+	old.ID = "unit-x"
+	require.NoError(t, Save(path, old))
+	before, err := os.ReadFile(path)
+	require.NoError(t, err)
+	changed := old
+	changed.Label = "changed"
+	data, err := Marshal(changed)
+	require.NoError(t, err)
+	// Stop where a crash would: the temporary file is written and synced,
+	// the rename has not happened.
+	crash := fmt.Errorf("simulated crash")
+	err = writeAtomic(path, data, 0o644, func(tmp string) error {
+		got, err := os.ReadFile(tmp)
+		require.NoError(t, err)
+		require.Equal(t, data, got, "the new contents are complete on disk before the rename")
+		return crash
+	})
+	require.ErrorIs(t, err, crash)
+	after, err := os.ReadFile(path)
+	require.NoError(t, err)
+	require.Equal(t, before, after)
+	p, err := ReadFile(path)
+	require.NoError(t, err)
+	require.Equal(t, old, p)
+	// The leftover temporary file is not mistaken for a profile.
+	entries, err := List(dir)
+	require.NoError(t, err)
+	require.Len(t, entries, 3, "two embedded demos and unit.json")
+	for _, e := range entries {
+		require.NoError(t, e.Err, "%s", e.Source)
+	}
+}
+
+func TestSaveWithBackupKeepsTheOldFile(t *testing.T) {
+	dir := t.TempDir()
+	path := filepath.Join(dir, "unit.json")
+	old := demo(t, "demo-b")
+	require.NoError(t, Save(path, old))
+	next := old
+	next.Calibration = &Calibration{Date: "2026-12-01", Points: old.Calibration.Points[:2]}
+	require.NoError(t, SaveWithBackup(path, next))
+	bak, err := ReadFile(path + ".bak")
+	require.NoError(t, err)
+	require.Equal(t, old, bak)
+	got, err := ReadFile(path)
+	require.NoError(t, err)
+	require.Equal(t, next, got)
+}
+
+func TestReadBenchReportsEveryBadLine(t *testing.T) {
+	p := demo(t, "demo-a")
+	text := BenchHeader() + "\n" +
+		"5,50,5,20,318\n" +
+		"99,50,5,20,408\n" + // unknown hole
+		"12,50,abc,20,528\n" + // text for a number
+		"16,50,5,20,0\n" + // zero volume
+		"\n" +
+		"7,50,5\n" + // missing columns
+		"8,50,5,20,-4\n" // negative volume
+	_, err := ReadBench(strings.NewReader(text), "bench.csv", p)
+	var be *BenchError
+	require.ErrorAs(t, err, &be)
+	var lines []int
+	for _, pr := range be.Problems {
+		lines = append(lines, pr.Line)
+	}
+	require.Equal(t, []int{3, 4, 5, 7, 8}, lines)
+	require.Contains(t, be.Problems[0].Reason, `"99"`)
+	require.Contains(t, be.Problems[1].Reason, "not a number")
+	require.Contains(t, be.Problems[3].Reason, "columns")
+	// A missing column in the header.
+	_, err = ReadBench(strings.NewReader("hole,rpm,measured_ml\n5,20,300\n"), "b.csv", p)
+	require.ErrorContains(t, err, "line 1")
+	// A good file.
+	pts, err := ReadBench(strings.NewReader(BenchHeader()+"\n5,50,5,20,318\n8, 50, 5, 20, 408\n"), "b.csv", p)
+	require.NoError(t, err)
+	require.Len(t, pts, 2)
+	require.Equal(t, "8", pts[1].Hole)
+}

@@ -36,10 +36,16 @@ func Save(path string, p Profile) error {
 // WriteAtomic writes data to path through a synced temporary file and a
 // rename, so a crash leaves either the old file or the new one.
 func WriteAtomic(path string, data []byte, mode os.FileMode) error {
+	return writeAtomic(path, data, mode, nil)
+}
+
+// writeAtomic is WriteAtomic with a hook run just before the rename, which
+// tests use to stop the save where a crash would.
+func writeAtomic(path string, data []byte, mode os.FileMode, beforeRename func(tmp string) error) error {
 	dir := filepath.Dir(path)
 	tmp, err := os.CreateTemp(dir, "."+filepath.Base(path)+".tmp-*")
 	if err != nil {
-		return fmt.Errorf("not saved: %w", err)
+		return fmt.Errorf("not saved (%s unchanged): %w", path, err)
 	}
 	name := tmp.Name()
 	fail := func(err error) error {
@@ -59,6 +65,11 @@ func WriteAtomic(path string, data []byte, mode os.FileMode) error {
 	if err := tmp.Close(); err != nil {
 		os.Remove(name)
 		return fmt.Errorf("not saved (%s unchanged): %w", path, err)
+	}
+	if beforeRename != nil {
+		if err := beforeRename(name); err != nil {
+			return err
+		}
 	}
 	if err := os.Rename(name, path); err != nil {
 		os.Remove(name)

@@ -76,16 +76,26 @@ func DefaultDir() string {
 // ReadFile reads and parses one profile file, refusing files over
 // MaxFileBytes before reading them whole.
 func ReadFile(path string) (Profile, error) {
+	data, err := readLimited(path)
+	if err != nil {
+		return Profile{}, fmt.Errorf("profile %s: %w", path, err)
+	}
+	return Parse(data, path)
+}
+
+// readLimited reads at most MaxFileBytes+1 bytes, so an oversized file is
+// refused by Parse without being read whole.
+func readLimited(path string) ([]byte, error) {
 	f, err := os.Open(path)
 	if err != nil {
-		return Profile{}, fmt.Errorf("profile %s: %w", path, unwrapPath(err))
+		return nil, unwrapPath(err)
 	}
 	defer f.Close()
 	data, err := io.ReadAll(io.LimitReader(f, MaxFileBytes+1))
 	if err != nil {
-		return Profile{}, fmt.Errorf("profile %s: %w", path, unwrapPath(err))
+		return nil, unwrapPath(err)
 	}
-	return Parse(data, path)
+	return data, nil
 }
 
 func unwrapPath(err error) error {

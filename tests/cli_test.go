@@ -257,3 +257,54 @@ func TestCheckRefusalsAndUnsavedRecord(t *testing.T) {
 	require.Contains(t, r.stdout, "THE PATIENT GETS")
 	require.Contains(t, r.stderr, "NOT recorded")
 }
+
+func TestCalibrateWriteThenPlan(t *testing.T) {
+	dir := t.TempDir()
+	r := crankside(t, "profiles", "new", "--from", "demo-a", "--id", "ward-3", "--label", "Ward 3 unit")
+	require.Equal(t, 0, r.status, r.stderr)
+	unit := filepath.Join(dir, "ward-3.json")
+	require.NoError(t, os.WriteFile(unit, []byte(r.stdout), 0o644))
+	before := crankside(t, "plan", "--height-cm", "175", "--sex", "male", "--profile", unit, "--json")
+	require.Equal(t, 0, before.status, before.stderr)
+
+	bench := filepath.Join(dir, "bench.csv")
+	require.NoError(t, os.WriteFile(bench, []byte("hole,test_lung_compliance_ml_per_cmh2o,test_lung_resistance_cmh2o_per_l_s,rpm,measured_ml\n"+
+		"5,50,5,20,318\n8,50,5,20,408\n12,50,5,20,528\n16,50,5,20,647\n"), 0o644))
+	r = crankside(t, "calibrate", "--profile", unit, "--bench", bench, "--date", "2026-11-30", "--json")
+	require.Equal(t, 0, r.status, r.stderr)
+	var cal map[string]any
+	require.NoError(t, json.Unmarshal([]byte(r.stdout), &cal))
+	for _, k := range []string{"k", "b_ml", "points"} {
+		require.Contains(t, cal, k)
+	}
+	pt := cal["points"].([]any)[0].(map[string]any)
+	for _, k := range []string{"hole", "measured_ml", "predicted_ml", "residual_ml", "residual_pct", "within_tolerance"} {
+		require.Contains(t, pt, k)
+	}
+	require.Equal(t, false, cal["written"])
+	require.NotEmpty(t, r.stdout)
+	require.NoFileExists(t, unit+".bak", "nothing written without --write")
+
+	r = crankside(t, "calibrate", "--profile", unit, "--bench", bench, "--date", "2026-11-30", "--write")
+	require.Equal(t, 0, r.status, r.stderr)
+	require.Contains(t, r.stdout, "Written to")
+	require.FileExists(t, unit+".bak")
+	after := crankside(t, "plan", "--height-cm", "175", "--sex", "male", "--profile", unit, "--json")
+	var b, a map[string]any
+	require.NoError(t, json.Unmarshal([]byte(before.stdout), &b))
+	require.NoError(t, json.Unmarshal([]byte(after.stdout), &a))
+	require.Equal(t, "2026-11-30", a["calibration_date"])
+	require.NotEqual(t, b["effective_swept_ml"], a["effective_swept_ml"])
+
+	// An embedded demo cannot be written; a bad bench file writes nothing.
+	r = crankside(t, "calibrate", "--profile", "demo-a", "--bench", bench, "--write")
+	require.Equal(t, 2, r.status)
+	require.Contains(t, r.stderr, "embedded")
+	bad := filepath.Join(dir, "bad.csv")
+	require.NoError(t, os.WriteFile(bad, []byte("hole,test_lung_compliance_ml_per_cmh2o,test_lung_resistance_cmh2o_per_l_s,rpm,measured_ml\n5,50,5,20,x\n"), 0o644))
+	saved := mustRead(t, unit)
+	r = crankside(t, "calibrate", "--profile", unit, "--bench", bad, "--write")
+	require.Equal(t, 2, r.status)
+	require.Contains(t, r.stderr, "line 2")
+	require.Equal(t, saved, mustRead(t, unit))
+}

@@ -1,0 +1,150 @@
+package setup
+
+import (
+	"fmt"
+	"io"
+	"strings"
+	"time"
+
+	"crankside/machine"
+	"crankside/profiles"
+)
+
+// PointResult is one bench point against the fitted calibration.
+type PointResult struct {
+	Hole        string  `json:"hole"`
+	RPM         float64 `json:"rpm"`
+	SweptML     float64 `json:"swept_ml"`
+	Gain        float64 `json:"model_gain"`
+	MeasuredML  float64 `json:"measured_ml"`
+	PredictedML float64 `json:"predicted_ml"`
+	ResidualML  float64 `json:"residual_ml"`
+	ResidualPct float64 `json:"residual_pct"`
+	Within      bool    `json:"within_tolerance"`
+}
+
+// VolumeChange is one hole's calibrated swept volume before and after.
+type VolumeChange struct {
+	Hole     string  `json:"hole"`
+	SweptML  float64 `json:"swept_ml"`
+	BeforeML float64 `json:"before_ml"`
+	AfterML  float64 `json:"after_ml"`
+}
+
+// CalibrationResult is a refit from bench measurements, not yet saved.
+type CalibrationResult struct {
+	Profile       profiles.Profile // the profile carrying the new calibration
+	Before        machine.Calibration
+	K             float64
+	BML           float64
+	ThroughOrigin bool
+	Points        []PointResult
+	Holes         int
+	Date          string
+	Cautions      []Caution
+	Volumes       []VolumeChange
+}
+
+// Calibrate fits k and b to bench points for profile p. Each point is
+// turned into an effective swept volume through the breath model (measured
+// / the model's delivered-per-swept gain for that test lung and speed); a
+// least-squares line of effective against geometric swept volume gives k
+// and b. date (YYYY-MM-DD, empty for today) must not be in the future.
+func Calibrate(p profiles.Profile, points []profiles.BenchPoint, date string, now time.Time) (CalibrationResult, error) {
+	if now.IsZero() {
+		now = time.Now()
+	}
+	if date == "" {
+		date = now.Format(time.DateOnly)
+	}
+	d, err := time.Parse(time.DateOnly, date)
+	if err != nil {
+		return CalibrationResult{}, &InputError{Field: "date", Reason: fmt.Sprintf("%q is not a date written YYYY-MM-DD", date)}
+	}
+	if d.After(now) {
+		return CalibrationResult{}, &InputError{Field: "date", Reason: fmt.Sprintf("%s is in the future", date)}
+	}
+	old, err := newUnit(p, now)
+	if err != nil {
+		return CalibrationResult{}, err
+	}
+	gains, err := BenchGains(p, points)
+	if err != nil {
+		return CalibrationResult{}, err
+	}
+	fit, err := machine.FitCalibration(gains)
+	if err != nil {
+		return CalibrationResult{}, &InputError{Field: "bench", Reason: err.Error()}
+	}
+	res := CalibrationResult{Before: old.cal.Calibration, K: fit.K, BML: fit.BML, ThroughOrigin: fit.ThroughOrigin, Date: date}
+	holes := map[string]bool{}
+	outside := 0
+	for i, pt := range points {
+		r := fit.Residuals[i]
+		within := machine.WithinISOTolerance(pt.MeasuredML, r.PredictedML)
+		if !within {
+			outside++
+		}
+		holes[pt.Hole] = true
+		res.Points = append(res.Points, PointResult{Hole: pt.Hole, RPM: pt.RPM, SweptML: r4(gains[i].SweptML), Gain: r4(gains[i].Gain),
+			MeasuredML: pt.MeasuredML, PredictedML: r4(r.PredictedML), ResidualML: r4(r.ResidualML), ResidualPct: r4(r.ResidualPct), Within: within})
+	}
+	res.Holes = len(holes)
+	res.Profile = p
+	res.Profile.Calibration = &profiles.Calibration{Date: date, Points: append([]profiles.BenchPoint(nil), points...)}
+	res.Cautions = calibrationCautions(CalibrationStatus{Calibration: fit.Calibration, Date: date, AgeDays: int(now.Sub(d).Hours() / 24),
+		Points: len(points), Holes: res.Holes, Fit: &fit, Outside: outside})
+	for _, h := range p.Crank.Holes {
+		swept := machine.SweptVolumeML(p.Cylinder.BoreCm, old.crank(h))
+		res.Volumes = append(res.Volumes, VolumeChange{Hole: h.Label, SweptML: r4(swept),
+			BeforeML: r4(old.cal.EffectiveSweptML(swept)), AfterML: r4(fit.EffectiveSweptML(swept))})
+	}
+	return res, nil
+}
+
+// CalibrationJSON is the object `crankside calibrate --json` prints.
+type CalibrationJSON struct {
+	ProfileID     string         `json:"profile_id"`
+	Date          string         `json:"date"`
+	K             float64        `json:"k"`
+	BML           float64        `json:"b_ml"`
+	ThroughOrigin bool           `json:"through_origin"`
+	HolesMeasured int            `json:"holes_measured"`
+	Points        []PointResult  `json:"points"`
+	Volumes       []VolumeChange `json:"volumes"`
+	Cautions      []Caution      `json:"cautions"`
+	Written       bool           `json:"written"`
+}
+
+// JSON is the result as the --json object.
+func (r CalibrationResult) JSON(written bool) CalibrationJSON {
+	return CalibrationJSON{ProfileID: r.Profile.ID, Date: r.Date, K: r4(r.K), BML: r4(r.BML), ThroughOrigin: r.ThroughOrigin,
+		HolesMeasured: r.Holes, Points: r.Points, Volumes: r.Volumes, Cautions: roundCautions(r.Cautions), Written: written}
+}
+
+// WriteText prints the refit: the line, each point's residual, the
+// volumes before and after, and the cautions.
+func (r CalibrationResult) WriteText(w io.Writer) error {
+	var b strings.Builder
+	p := func(format string, args ...any) { fmt.Fprintf(&b, format, args...) }
+	p("Calibration of %s dated %s: effective swept = %.4f x swept %+.1f mL", r.Profile.ID, r.Date, r.K, r.BML)
+	if r.ThroughOrigin {
+		p(" (one hole measured: a ratio, b = 0)")
+	}
+	p("\n(before: k %.4f, b %.1f mL)\n\n", r.Before.K, r.Before.BML)
+	p("  %-6s %6s %10s %10s %10s %9s  %s\n", "hole", "rpm", "measured", "predicted", "residual", "resid. %", "within +/-(4 mL + 15%)")
+	for _, pt := range r.Points {
+		ok := "yes"
+		if !pt.Within {
+			ok = "NO"
+		}
+		p("  %-6s %6.1f %8.1f mL %8.1f mL %+8.1f mL %+8.1f%%  %s\n", pt.Hole, pt.RPM, pt.MeasuredML, pt.PredictedML, pt.ResidualML, pt.ResidualPct, ok)
+	}
+	p("\n  %-6s %10s %12s %12s\n", "hole", "swept mL", "before mL", "after mL")
+	for _, v := range r.Volumes {
+		p("  %-6s %10.1f %12.1f %12.1f\n", v.Hole, v.SweptML, v.BeforeML, v.AfterML)
+	}
+	writeCautions(&b, r.Cautions)
+	_, err := io.WriteString(w, b.String())
+	return err
+}
