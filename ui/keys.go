@@ -49,15 +49,20 @@ func newFormKeys() formKeys {
 	}
 }
 
-// machineKeys open the profile picker.
+// machineKeys load another profile and refit the calibration.
 type machineKeys struct {
-	Pick    key.Binding
-	Advance key.Binding
+	Pick, Bench, Write key.Binding
+	Up, Down           key.Binding
+	Advance            key.Binding
 }
 
 func newMachineKeys() machineKeys {
 	return machineKeys{
 		Pick:    key.NewBinding(key.WithKeys("p"), key.WithHelp("p", "load another profile")),
+		Bench:   key.NewBinding(key.WithKeys("b"), key.WithHelp("b", "refit from a bench file")),
+		Write:   key.NewBinding(key.WithKeys("w"), key.WithHelp("w", "save the refit")),
+		Up:      key.NewBinding(key.WithKeys("up", "k"), key.WithHelp("↑/↓", "holes")),
+		Down:    key.NewBinding(key.WithKeys("down", "j"), key.WithHelp("↑/↓", "holes")),
 		Advance: key.NewBinding(key.WithKeys("enter"), key.WithHelp("enter", "to the setting")),
 	}
 }

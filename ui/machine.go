@@ -5,11 +5,25 @@ import (
 	"strings"
 
 	"github.com/charmbracelet/bubbles/key"
+	"github.com/charmbracelet/bubbles/textinput"
 	tea "github.com/charmbracelet/bubbletea"
+
+	"crankside/setup"
+)
+
+// machineMode is what the machine panel is doing.
+type machineMode int
+
+const (
+	machineView    machineMode = iota
+	machinePath                // asking for a bench file
+	machinePreview             // showing a refit before anything is saved
 )
 
 // machinePanel shows the loaded profile: what it is, its geometry, motor
-// and controller limits, circuit, and the calibration's age.
+// and controller limits, circuit, the calibration's age and residuals, and
+// a table of the holes; it refits the calibration from a bench file with a
+// preview before saving.
 type machinePanel struct {
 	keys    machineKeys
 	styles  *Styles
@@ -17,15 +31,24 @@ type machinePanel struct {
 	sig     signals
 	focused bool
 	w, h    int
+	mode    machineMode
+	path    textinput.Model
+	offset  int // first hole row shown
+	preview *setup.CalibrationResult
+	note    string
 }
 
 func newMachinePanel(s *Styles) *machinePanel {
-	return &machinePanel{keys: newMachineKeys(), styles: s}
+	in := textinput.New()
+	in.Prompt = ""
+	in.CharLimit = 512
+	in.Width = 50
+	return &machinePanel{keys: newMachineKeys(), styles: s, path: in}
 }
 
 func (p *machinePanel) Init() tea.Cmd         { return nil }
 func (p *machinePanel) Title() string         { return "Machine" }
-func (p *machinePanel) Editing() bool         { return false }
+func (p *machinePanel) Editing() bool         { return p.mode == machinePath }
 func (p *machinePanel) Focus() tea.Cmd        { p.focused = true; return nil }
 func (p *machinePanel) Blur()                 { p.focused = false }
 func (p *machinePanel) SetOutcome(o *outcome) { p.out = o }
@@ -37,14 +60,68 @@ func (p *machinePanel) Signals() signals {
 	return s
 }
 
+// setPreview shows a refit, or why there is none.
+func (p *machinePanel) setPreview(res *setup.CalibrationResult, err error) {
+	if err != nil {
+		p.mode, p.preview, p.note = machineView, nil, "! "+err.Error()
+		return
+	}
+	p.mode, p.preview, p.note = machinePreview, res, ""
+}
+
+// setWritten leaves the preview once the refit is saved, or says why not.
+func (p *machinePanel) setWritten(path string, err error) {
+	if err != nil {
+		p.note = "! NOT saved: " + err.Error()
+		return
+	}
+	p.mode, p.preview, p.note = machineView, nil, "Saved to "+path+" (the previous file is "+path+".bak)"
+}
+
 func (p *machinePanel) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
-	if km, ok := msg.(tea.KeyMsg); ok {
+	km, ok := msg.(tea.KeyMsg)
+	if !ok {
+		return p, nil
+	}
+	switch p.mode {
+	case machinePath:
 		switch {
-		case key.Matches(km, p.keys.Pick):
-			p.sig.pick = true
-		case key.Matches(km, p.keys.Advance):
-			p.sig.advance = true
+		case km.Type == tea.KeyEsc:
+			p.mode = machineView
+			p.path.Blur()
+		case km.Type == tea.KeyEnter:
+			p.path.Blur()
+			p.sig.bench = strings.TrimSpace(p.path.Value())
+			if p.sig.bench == "" {
+				p.mode, p.note = machineView, "no bench file given"
+			}
+		default:
+			var cmd tea.Cmd
+			p.path, cmd = p.path.Update(km)
+			return p, cmd
 		}
+		return p, nil
+	case machinePreview:
+		switch {
+		case key.Matches(km, p.keys.Write):
+			p.sig.write = true
+		case km.Type == tea.KeyEsc:
+			p.mode, p.preview, p.note = machineView, nil, "refit discarded; nothing saved"
+		}
+		return p, nil
+	}
+	switch {
+	case key.Matches(km, p.keys.Pick):
+		p.sig.pick = true
+	case key.Matches(km, p.keys.Bench):
+		p.mode, p.note = machinePath, ""
+		return p, p.path.Focus()
+	case key.Matches(km, p.keys.Down):
+		p.offset++
+	case key.Matches(km, p.keys.Up):
+		p.offset = max(p.offset-1, 0)
+	case key.Matches(km, p.keys.Advance):
+		p.sig.advance = true
 	}
 	return p, nil
 }
@@ -52,33 +129,35 @@ func (p *machinePanel) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 func (p *machinePanel) View() string {
 	s := p.styles
 	if p.out == nil || p.out.summary == nil {
-		return s.Waiting.Render("no profile loaded")
+		msg := "no profile loaded"
+		if p.out != nil && p.out.loadErr != "" {
+			msg += ": " + p.out.loadErr
+		}
+		return s.Error.Render(msg)
+	}
+	if p.mode == machinePreview && p.preview != nil {
+		return fit(p.previewView(), p.w, p.h)
 	}
 	sum := p.out.summary
 	pr := sum.Profile
-	var lines []string
-	add := func(l string) { lines = append(lines, l) }
+	var top []string
+	add := func(l string) { top = append(top, l) }
 	add(s.Value.Render(pr.Label) + s.Label.Render("  id "+pr.ID+", "+p.out.source.String()))
 	if p.out.loadErr != "" {
 		add(s.Error.Render("! not loaded: " + p.out.loadErr))
 	}
-	add("")
 	crank := "in-line"
 	if !sum.InLine {
 		crank = fmt.Sprintf("offset %.2f cm", pr.Crank.OffsetCm)
 	}
-	first, last := sum.Holes[0], sum.Holes[len(sum.Holes)-1]
-	add(s.kv("Cylinder", "bore "+f1(pr.Cylinder.BoreCm), "cm") + s.Unit.Render(fmt.Sprintf(", ring friction %.0f N", pr.Cylinder.RingFrictionN)))
-	add(s.kv("Crank", fmt.Sprintf("rod %.1f", pr.Crank.RodCm), "cm") + s.Unit.Render(", "+crank))
-	add(s.kv("Holes", fmt.Sprintf("%d", len(sum.Holes)), "") + s.Unit.Render(fmt.Sprintf(": %s (r %.1f cm, %.0f mL) to %s (r %.1f cm, %.0f mL)",
-		first.Label, first.RadiusCm, first.EffectiveSweptML, last.Label, last.RadiusCm, last.EffectiveSweptML)))
+	add(s.kv("Cylinder", "bore "+f1(pr.Cylinder.BoreCm), "cm") + s.Unit.Render(fmt.Sprintf(", ring friction %.0f N; rod %.1f cm, %s", pr.Cylinder.RingFrictionN, pr.Crank.RodCm, crank)))
 	if pr.Motor.Fixed() {
 		add(s.kv("Motor", "fixed "+f1(pr.Motor.RPM), "rpm") + s.Unit.Render(fmt.Sprintf(", rated %.1f N m", pr.Motor.RatedTorqueNm)))
 	} else {
 		add(s.kv("Motor", fmt.Sprintf("%.1f-%.1f", pr.Motor.MinRPM, pr.Motor.MaxRPM), "rpm") +
 			s.Unit.Render(fmt.Sprintf(" in %.2g rpm steps, rated %.1f N m", pr.Motor.RPMStep, pr.Motor.RatedTorqueNm)))
 	}
-	add(s.kv("Dwell timer", fmt.Sprintf("%.2g s steps", pr.Controller.DwellStepS), "") + s.Unit.Render(fmt.Sprintf(", up to %.1f s", pr.Controller.MaxDwellS)))
+	add(s.kv("Dwell timer", fmt.Sprintf("%.2g", pr.Controller.DwellStepS), "s steps") + s.Unit.Render(fmt.Sprintf(", up to %.1f s", pr.Controller.MaxDwellS)))
 	add(s.kv("Circuit", f2(pr.Circuit.ComplianceMLPerCmH2O), "mL/cmH2O") +
 		s.Unit.Render(fmt.Sprintf(", exp. valve %.1f cmH2O/(L/s), relief %.0f cmH2O", pr.Circuit.ExpiratoryResistanceCmH2OPerLS, pr.Circuit.ReliefCmH2O)))
 	c := sum.Calibration
@@ -90,12 +169,80 @@ func (p *machinePanel) View() string {
 	for _, cn := range sum.Cautions {
 		add("  " + s.levelWord(cn.Level) + " " + cn.Message)
 	}
-	add("")
-	add(s.Hint.Render("Press p to load another profile (embedded demos and the profiles directory)."))
-	return fit(strings.Join(lines, "\n"), p.w, p.h)
+	switch {
+	case p.mode == machinePath:
+		add(s.FieldFocused.Render("> Bench file (CSV): ") + "[" + p.path.View() + "]")
+		add(s.Hint.Render("  header: " + benchHeaderHint))
+	case p.note != "":
+		style := s.Value
+		if strings.HasPrefix(p.note, "!") {
+			style = s.Error
+		}
+		for _, l := range wrapWords(max(p.w, 20), strings.Fields(p.note)...) {
+			add(style.Render(l))
+		}
+	}
+	table := p.holeTable(sum)
+	room := p.h - len(top) - 1
+	if room < 3 {
+		return fit(strings.Join(top, "\n"), p.w, p.h)
+	}
+	p.offset = min(p.offset, max(len(table)-room+1, 0))
+	rows := table[1:]
+	if p.offset < len(rows) {
+		rows = rows[p.offset:]
+	}
+	if len(rows) > room-1 {
+		rows = append(rows[:room-2], s.Hint.Render(fmt.Sprintf("  ... %d more (↓)", len(table)-1-p.offset-(room-2))))
+	}
+	return fit(strings.Join(top, "\n")+"\n"+table[0]+"\n"+strings.Join(rows, "\n"), p.w, p.h)
 }
 
-func (p *machinePanel) ShortHelp() []key.Binding { return []key.Binding{p.keys.Pick, p.keys.Advance} }
+const benchHeaderHint = "hole,test_lung_compliance_ml_per_cmh2o,test_lung_resistance_cmh2o_per_l_s,rpm,measured_ml"
+
+// holeTable is a header and one row per hole, with the bench residual of
+// any hole that was measured.
+func (p *machinePanel) holeTable(sum *setup.ProfileSummary) []string {
+	s := p.styles
+	resid := map[string]string{}
+	if c := sum.Calibration; c.Fit != nil {
+		for i, bp := range c.BenchRows {
+			r := c.Fit.Residuals[i]
+			resid[bp.Hole] += fmt.Sprintf(" %+.1f mL", r.ResidualML)
+		}
+	}
+	out := []string{s.Section.Render(fmt.Sprintf("  %-6s %9s %9s %11s %s", "hole", "radius", "swept", "calibrated", "bench residual"))}
+	for _, h := range sum.Holes {
+		out = append(out, fmt.Sprintf("  %-6s %6.2f cm %6.0f mL %8.0f mL %s", h.Label, h.RadiusCm, h.SweptML, h.EffectiveSweptML, s.Label.Render(resid[h.Label])))
+	}
+	return out
+}
+
+func (p *machinePanel) previewView() string {
+	s := p.styles
+	r := p.preview
+	var b strings.Builder
+	r.WriteText(&b)
+	head := s.Section.Render("REFIT PREVIEW: nothing is saved until you press w") + "\n"
+	if p.out.source.Embedded {
+		head += s.Error.Render("This is an embedded demo: it cannot be written. Save a copy with 'crankside profiles show "+r.Profile.ID+" --json'.") + "\n"
+	}
+	if p.note != "" {
+		head += s.Error.Render(p.note) + "\n"
+	}
+	return head + b.String()
+}
+
+func (p *machinePanel) ShortHelp() []key.Binding {
+	switch p.mode {
+	case machinePath:
+		return []key.Binding{key.NewBinding(key.WithKeys("enter"), key.WithHelp("enter", "read the bench file")), key.NewBinding(key.WithKeys("esc"), key.WithHelp("esc", "cancel"))}
+	case machinePreview:
+		return []key.Binding{p.keys.Write, key.NewBinding(key.WithKeys("esc"), key.WithHelp("esc", "discard"))}
+	}
+	return []key.Binding{p.keys.Pick, p.keys.Bench, p.keys.Down, p.keys.Advance}
+}
+
 func (p *machinePanel) FullHelp() [][]key.Binding {
-	return [][]key.Binding{{p.keys.Pick, p.keys.Advance}}
+	return [][]key.Binding{{p.keys.Pick, p.keys.Bench, p.keys.Write}, {p.keys.Up, p.keys.Down, p.keys.Advance}}
 }

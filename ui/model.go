@@ -58,6 +58,7 @@ type Model struct {
 	patient  *patientPanel
 	targets  *targetsPanel
 	handover *handoverPanel
+	machine  *machinePanel
 	focus    int
 	showHelp bool
 	picker   *picker
@@ -107,7 +108,8 @@ func New(opts Options) *Model {
 	m.patient = newPatientPanel(m.styles)
 	m.targets = newTargetsPanel(m.styles)
 	m.handover = newHandoverPanel(m.styles)
-	m.panels = []panel{m.patient, m.targets, newMachinePanel(m.styles), newSettingPanel(m.styles), newCautionsPanel(m.styles), m.handover}
+	m.machine = newMachinePanel(m.styles)
+	m.panels = []panel{m.patient, m.targets, m.machine, newSettingPanel(m.styles), newCautionsPanel(m.styles), m.handover}
 	m.setProfile(opts.Profile, opts.Source)
 	for name, v := range opts.Prefill {
 		if f := m.field(name); f != nil {
@@ -156,6 +158,10 @@ func (m *Model) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 		m.saved(msg)
 	case historyMsg:
 		m.showHistory(msg)
+	case benchMsg:
+		m.machine.setPreview(msg.res, msg.err)
+	case writtenMsg:
+		m.written(msg)
 	}
 	return m, nil
 }
@@ -232,6 +238,12 @@ func (m *Model) toPanel(msg tea.KeyMsg) tea.Cmd {
 	}
 	if sig.history {
 		return m.history()
+	}
+	if sig.bench != "" {
+		return m.readBench(sig.bench)
+	}
+	if sig.write {
+		return m.writeRefit()
 	}
 	if sig.advance {
 		return tea.Batch(cmd, m.focusPanel(min(m.focus+1, len(m.panels)-1)))

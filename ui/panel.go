@@ -30,12 +30,14 @@ type outcome struct {
 
 // signals are what a panel asks of the root after a key.
 type signals struct {
-	changed bool // an entry changed: recompute
-	advance bool // on to the next panel
-	pick    bool // open the profile picker
-	save    bool // record the handover check
-	card    bool // show the handover card
-	history bool // show the bed's earlier checks
+	changed bool   // an entry changed: recompute
+	advance bool   // on to the next panel
+	pick    bool   // open the profile picker
+	save    bool   // record the handover check
+	card    bool   // show the handover card
+	history bool   // show the bed's earlier checks
+	bench   string // refit the calibration from this bench file
+	write   bool   // save the previewed refit
 }
 
 // panel is one child of the root model.

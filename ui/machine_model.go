@@ -1,0 +1,75 @@
+package ui
+
+import (
+	"errors"
+	"os"
+	"time"
+
+	tea "github.com/charmbracelet/bubbletea"
+
+	"crankside/profiles"
+	"crankside/setup"
+)
+
+// benchMsg is a refit read from a bench file, not yet saved.
+type benchMsg struct {
+	res *setup.CalibrationResult
+	err error
+}
+
+// writtenMsg is the outcome of saving a refit.
+type writtenMsg struct {
+	path    string
+	profile profiles.Profile
+	err     error
+}
+
+// readBench reads and fits a bench file off the UI's goroutine, on copies.
+func (m *Model) readBench(path string) tea.Cmd {
+	p, now := m.out.profile, m.now()
+	return func() tea.Msg {
+		f, err := os.Open(path)
+		if err != nil {
+			return benchMsg{err: err}
+		}
+		defer f.Close()
+		points, err := profiles.ReadBench(f, path, p)
+		if err != nil {
+			var be *profiles.BenchError
+			if errors.As(err, &be) && len(be.Problems) > 1 {
+				return benchMsg{err: errors.New(be.Error() + "; run crankside calibrate for every line")}
+			}
+			return benchMsg{err: err}
+		}
+		res, err := setup.Calibrate(p, points, now.Format(time.DateOnly), now)
+		if err != nil {
+			return benchMsg{err: err}
+		}
+		return benchMsg{res: &res}
+	}
+}
+
+// writeRefit saves the previewed refit over the profile's file, keeping a
+// backup; an embedded demo is refused.
+func (m *Model) writeRefit() tea.Cmd {
+	prev := m.machine.preview
+	if prev == nil {
+		return nil
+	}
+	if m.out.source.Embedded {
+		m.machine.note = "! an embedded demo cannot be written; save a copy with 'crankside profiles show " + m.out.profile.ID + " --json'"
+		return nil
+	}
+	path, p := m.out.source.Path, prev.Profile
+	return func() tea.Msg {
+		return writtenMsg{path: path, profile: p, err: profiles.SaveWithBackup(path, p)}
+	}
+}
+
+func (m *Model) written(msg writtenMsg) {
+	m.machine.setWritten(msg.path, msg.err)
+	if msg.err == nil {
+		m.setProfile(msg.profile, profiles.Source{Path: msg.path})
+		m.recompute()
+	}
+}

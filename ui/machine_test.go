@@ -1,0 +1,66 @@
+package ui
+
+import (
+	"os"
+	"path/filepath"
+	"testing"
+
+	tea "github.com/charmbracelet/bubbletea"
+	"github.com/stretchr/testify/require"
+
+	"crankside/profiles"
+)
+
+func TestRefitFromABenchFileWithPreview(t *testing.T) {
+	dir := t.TempDir()
+	unit := filepath.Join(dir, "unit.json")
+	p, _ := demoProfile(t, "demo-a")
+	p.ID, p.Label = "unit-1", "Unit 1"
+	require.NoError(t, profiles.Save(unit, p))
+	bench := filepath.Join(dir, "bench.csv")
+	require.NoError(t, os.WriteFile(bench, []byte(profiles.BenchHeader()+"\n5,50,5,20,318\n8,50,5,20,408\n12,50,5,20,528\n"), 0o644))
+
+	m := New(Options{Profile: p, Source: profiles.Source{Path: unit}, ProfilesDir: dir, Now: testNow,
+		Prefill: map[string]string{"height-cm": "175", "sex": "male"}})
+	m.Update(tea.WindowSizeMsg{Width: 80, Height: 24})
+	before := m.out.plan.Hole.EffectiveSweptML
+	press(m, runes("3"), runes("b"))
+	require.True(t, m.panels[m.focus].Editing(), "the path entry takes letters")
+	press(m, runes("q")) // typed into the path, never a quit
+	press(m, tea.KeyMsg{Type: tea.KeyBackspace})
+	press(m, tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune(bench), Paste: true})
+	runCmd(m, press(m, enter))
+	require.Equal(t, machinePreview, m.machine.mode, m.machine.note)
+	require.Contains(t, screen(m), "nothing is saved until you press w")
+	unchanged, err := os.ReadFile(unit)
+	require.NoError(t, err)
+	// Discard: nothing written.
+	press(m, esc)
+	after, _ := os.ReadFile(unit)
+	require.Equal(t, unchanged, after)
+	require.NoFileExists(t, unit+".bak")
+	// Again, and save: the profile on disk and the plan both change.
+	press(m, runes("b"), ctrlU)
+	press(m, tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune(bench), Paste: true})
+	runCmd(m, press(m, enter))
+	runCmd(m, press(m, runes("w")))
+	require.Contains(t, screen(m), "Saved to")
+	require.FileExists(t, unit+".bak")
+	saved, err := profiles.ReadFile(unit)
+	require.NoError(t, err)
+	require.NotNil(t, saved.Calibration)
+	require.Len(t, saved.Calibration.Points, 3)
+	require.NotEqual(t, before, m.out.plan.Hole.EffectiveSweptML)
+}
+
+func TestRefitOfABadBenchFileSaysWhy(t *testing.T) {
+	dir := t.TempDir()
+	bench := filepath.Join(dir, "bad.csv")
+	require.NoError(t, os.WriteFile(bench, []byte(profiles.BenchHeader()+"\n99,50,5,20,318\n"), 0o644))
+	m := newTestModel(t, nil)
+	press(m, enter, runes("3"), runes("b"))
+	press(m, tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune(bench), Paste: true})
+	runCmd(m, press(m, enter))
+	require.Equal(t, machineView, m.machine.mode)
+	require.Contains(t, screen(m), "line 2")
+}
