@@ -62,5 +62,7 @@ func TestRefitOfABadBenchFileSaysWhy(t *testing.T) {
 	press(m, tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune(bench), Paste: true})
 	runCmd(m, press(m, enter))
 	require.Equal(t, machineView, m.machine.mode)
-	require.Contains(t, screen(m), "line 2")
+	require.Contains(t, m.machine.note, "line 2")
+	require.Contains(t, m.machine.note, `"99"`)
+	require.Contains(t, screen(m), "! bench file")
 }
