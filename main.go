@@ -77,7 +77,7 @@ func run(args []string, stdout, stderr io.Writer) (status int) {
 	if strings.HasPrefix(cmd, "-") {
 		return cmdUI(args, stderr)
 	}
-	return usageError(stderr, "", fmt.Sprintf("unknown command %q", cmd))
+	return usageError(stderr, "", fmt.Sprintf("unknown command %s", physiology.Quote(cmd)))
 }
 
 const topUsage = `crankside: set and check a motor-driven piston ventilator.
@@ -129,7 +129,7 @@ func (f *numberFlag) String() string {
 func (f *numberFlag) Set(s string) error {
 	v, err := physiology.ParseNumber(s)
 	if err != nil {
-		return fmt.Errorf("%q is not a number; expected %s", s, f.expect)
+		return fmt.Errorf("%s is not a number; expected %s", physiology.Quote(s), f.expect)
 	}
 	f.value, f.set = v, true
 	return nil
@@ -289,7 +289,7 @@ func cmdPlan(args []string, stdout, stderr io.Writer) int {
 		return usageError(stderr, "plan", flagError(err))
 	}
 	if f.fs.NArg() > 0 {
-		return usageError(stderr, "plan", fmt.Sprintf("unexpected argument %q", f.fs.Arg(0)))
+		return usageError(stderr, "plan", fmt.Sprintf("unexpected argument %s", physiology.Quote(f.fs.Arg(0))))
 	}
 	req, err := f.request()
 	if err != nil {
@@ -359,7 +359,7 @@ func cmdProfiles(args []string, stdout, stderr io.Writer) int {
 	case "new":
 		return profilesNew(rest, stdout, stderr)
 	default:
-		return usageError(stderr, "profiles", fmt.Sprintf("unknown sub-command %q; use list, show, validate or new", sub))
+		return usageError(stderr, "profiles", fmt.Sprintf("unknown sub-command %s; use list, show, validate or new", physiology.Quote(sub)))
 	}
 	if err := fs.Parse(interspersed(rest, fs)); err != nil {
 		if errors.Is(err, flag.ErrHelp) {
@@ -490,7 +490,7 @@ func cmdUI(args []string, stderr io.Writer) int {
 		return usageError(stderr, "", flagError(err))
 	}
 	if f.fs.NArg() > 0 {
-		return usageError(stderr, "", fmt.Sprintf("unexpected argument %q", f.fs.Arg(0)))
+		return usageError(stderr, "", fmt.Sprintf("unexpected argument %s", physiology.Quote(f.fs.Arg(0))))
 	}
 	if f.asJSON {
 		return usageError(stderr, "", "--json goes with a sub-command, such as 'crankside plan --json'")
@@ -677,7 +677,7 @@ func cmdCheck(args []string, stdout, stderr io.Writer) int {
 		return usageError(stderr, "check", flagError(err))
 	}
 	if f.fs.NArg() > 0 {
-		return usageError(stderr, "check", fmt.Sprintf("unexpected argument %q", f.fs.Arg(0)))
+		return usageError(stderr, "check", fmt.Sprintf("unexpected argument %s", physiology.Quote(f.fs.Arg(0))))
 	}
 	req, err := f.request()
 	if err != nil {
@@ -758,7 +758,7 @@ func cmdLog(args []string, stdout, stderr io.Writer) int {
 		return exitOK
 	}
 	if args[0] != "show" {
-		return usageError(stderr, "log", fmt.Sprintf("unknown sub-command %q; use show", args[0]))
+		return usageError(stderr, "log", fmt.Sprintf("unknown sub-command %s; use show", physiology.Quote(args[0])))
 	}
 	fs := flag.NewFlagSet("log show", flag.ContinueOnError)
 	fs.SetOutput(io.Discard)

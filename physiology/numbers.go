@@ -20,12 +20,23 @@ func parseFinite(text string) (float64, error) {
 	}
 	for _, r := range t {
 		if !strings.ContainsRune("0123456789.-+eE", r) {
-			return 0, fmt.Errorf("%q is not a number", text)
+			return 0, fmt.Errorf("%s is not a number", Quote(text))
 		}
 	}
 	v, err := strconv.ParseFloat(t, 64)
 	if err != nil || math.IsNaN(v) || math.IsInf(v, 0) {
-		return 0, fmt.Errorf("%q is not a finite number", text)
+		return 0, fmt.Errorf("%s is not a finite number", Quote(text))
 	}
 	return v, nil
+}
+
+// Quote quotes text a person typed for a message, cut to a readable length
+// so a pasted page never fills the screen.
+func Quote(text string) string {
+	const max = 40
+	r := []rune(text)
+	if len(r) <= max {
+		return strconv.Quote(text)
+	}
+	return strconv.Quote(string(r[:max])) + fmt.Sprintf("... (%d characters)", len(r))
 }

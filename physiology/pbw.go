@@ -32,7 +32,7 @@ func ParseSex(text string) (Sex, error) {
 	case "female", "f":
 		return Female, nil
 	}
-	return 0, fmt.Errorf("sex %q is not known; use male or female", text)
+	return 0, fmt.Errorf("sex %s is not known; use male or female", Quote(text))
 }
 
 // Heights accepted for the PBW formula. Outside these the formula is not

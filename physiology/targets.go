@@ -37,7 +37,7 @@ func ParseLung(text string) (Lung, error) {
 	case "obstructive", "copd", "asthma":
 		return Obstructive, nil
 	}
-	return 0, fmt.Errorf("lung condition %q is not known; use normal, ards or obstructive", text)
+	return 0, fmt.Errorf("lung condition %s is not known; use normal, ards or obstructive", Quote(text))
 }
 
 // Accepted entry ranges for the targets.
@@ -135,14 +135,14 @@ func ParseIE(text string) (float64, error) {
 	iv, err1 := parseFinite(i)
 	ev, err2 := parseFinite(e)
 	if err1 != nil || err2 != nil || iv <= 0 || ev <= 0 {
-		return 0, fmt.Errorf("I:E %q is not a ratio like 1:2", text)
+		return 0, fmt.Errorf("I:E %s is not a ratio like 1:2", Quote(text))
 	}
 	ratio := ev / iv
 	if ratio < IEMin {
-		return 0, fmt.Errorf("I:E %q is inverse; this machine's expiration is never shorter than inspiration: use 1:1 to 1:%g", text, IEMax)
+		return 0, fmt.Errorf("I:E %s is inverse; this machine's expiration is never shorter than inspiration: use 1:1 to 1:%g", Quote(text), IEMax)
 	}
 	if ratio > IEMax {
-		return 0, fmt.Errorf("I:E %q is outside 1:1 to 1:%g", text, IEMax)
+		return 0, fmt.Errorf("I:E %s is outside 1:1 to 1:%g", Quote(text), IEMax)
 	}
 	return ratio, nil
 }

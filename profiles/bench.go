@@ -63,7 +63,7 @@ func ReadBench(r io.Reader, source string, p Profile) ([]BenchPoint, error) {
 		head[0] = strings.TrimPrefix(head[0], "\ufeff")
 	}
 	if got := strings.Join(trimAll(head), ","); got != BenchHeader() {
-		return fail(RowProblem{1, fmt.Sprintf("header %q; it must be %s", got, BenchHeader())})
+		return fail(RowProblem{1, fmt.Sprintf("header %s; it must be %s", quote(got), BenchHeader())})
 	}
 	var points []BenchPoint
 	var problems []RowProblem
@@ -129,7 +129,7 @@ func benchRow(rec []string, p Profile) (BenchPoint, string) {
 		v, err := strconv.ParseFloat(rec[i], 64)
 		switch {
 		case err != nil || math.IsNaN(v) || math.IsInf(v, 0):
-			bad = append(bad, fmt.Sprintf("%s %q is not a number", benchHeader[i], rec[i]))
+			bad = append(bad, fmt.Sprintf("%s %s is not a number", benchHeader[i], quote(rec[i])))
 		case v <= lo || v > hi:
 			bad = append(bad, fmt.Sprintf("%s %s %s must be above %g and at most %g", benchHeader[i], rec[i], unit, lo, hi))
 		}
@@ -137,7 +137,7 @@ func benchRow(rec []string, p Profile) (BenchPoint, string) {
 	}
 	pt := BenchPoint{Hole: rec[0]}
 	if _, ok := p.HoleByLabel(pt.Hole); !ok {
-		bad = append(bad, fmt.Sprintf("hole %q is not a hole of %s (holes: %s)", pt.Hole, p.ID, holeList(p)))
+		bad = append(bad, fmt.Sprintf("hole %s is not a hole of %s (holes: %s)", quote(pt.Hole), p.ID, holeList(p)))
 	}
 	pt.TestLungComplianceMLPerCmH2O = num(1, 0, 500, "mL/cmH2O")
 	pt.TestLungResistanceCmH2OPerLS = num(2, 0, 500, "cmH2O/(L/s)")

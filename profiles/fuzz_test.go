@@ -1,6 +1,7 @@
 package profiles
 
 import (
+	"bytes"
 	"errors"
 	"math"
 	"os"
@@ -39,6 +40,31 @@ func FuzzParse(f *testing.F) {
 		}
 		if _, err := Parse(out, "again.json"); err != nil {
 			t.Fatalf("accepted profile does not parse again: %v", err)
+		}
+	})
+}
+
+func FuzzReadBench(f *testing.F) {
+	f.Add([]byte(BenchHeader() + "\n5,50,5,20,318\n8,50,5,20,408\n"))
+	f.Add([]byte(BenchHeader() + "\n99,50,abc,20,-1\n7,50\n\"unterminated\n"))
+	f.Add([]byte("\xef\xbb\xbf" + BenchHeader() + "\r\n5,50,5,20,318\r\n"))
+	f.Add([]byte{0, 1, 2, 0xff, '\n', ','})
+	p, _, err := Open("demo-a", "")
+	if err != nil {
+		f.Fatal(err)
+	}
+	f.Fuzz(func(t *testing.T, data []byte) {
+		pts, err := ReadBench(bytes.NewReader(data), "fuzz.csv", p)
+		if err != nil {
+			if !errors.Is(err, ErrBench) {
+				t.Fatalf("refusal is not a bench error: %v", err)
+			}
+			return
+		}
+		for _, pt := range pts {
+			if _, ok := p.HoleByLabel(pt.Hole); !ok || !(pt.MeasuredML > 0) || math.IsInf(pt.MeasuredML, 0) || !(pt.RPM > 0) {
+				t.Fatalf("accepted a bad bench point %+v", pt)
+			}
 		}
 	})
 }

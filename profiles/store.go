@@ -172,5 +172,5 @@ func Open(ref, dir string) (Profile, Source, error) {
 			ids = append(ids, e.ID)
 		}
 	}
-	return Profile{}, Source{}, fmt.Errorf("%w: %q (known: %s; or give a path to a .json file)", ErrNotFound, ref, strings.Join(ids, ", "))
+	return Profile{}, Source{}, fmt.Errorf("%w: %s (known: %s; or give a path to a .json file)", ErrNotFound, quote(ref), strings.Join(ids, ", "))
 }

@@ -91,7 +91,7 @@ func num(v float64) string { return fmt.Sprintf("%g", v) }
 func validate(p Profile) []FieldError {
 	c := &checker{}
 	if p.Format != FormatV1 {
-		c.add("format", "%q is not known; this version reads %q", p.Format, FormatV1)
+		c.add("format", "%s is not known; this version reads %q", quote(p.Format), FormatV1)
 	}
 	validText(c, "id", p.ID, maxIDLen, true)
 	validText(c, "label", p.Label, maxLabelLen*2, false)
@@ -115,7 +115,7 @@ func validate(p Profile) []FieldError {
 		path := fmt.Sprintf("crank.holes[%d]", i)
 		validText(c, path+".label", h.Label, maxLabelLen, false)
 		if j, dup := labels[h.Label]; dup && h.Label != "" {
-			c.add(path+".label", "%q is already the label of crank.holes[%d]; labels must differ", h.Label, j)
+			c.add(path+".label", "%s is already the label of crank.holes[%d]; labels must differ", quote(h.Label), j)
 		}
 		labels[h.Label] = i
 		if c.between(path+".radius_cm", h.RadiusCm, 0, 50, false, "cm") {
@@ -139,7 +139,7 @@ func validate(p Profile) []FieldError {
 	case MotorFixed:
 		c.between("motor.rpm", m.RPM, 0, 200, false, "rpm")
 	default:
-		c.add("motor.kind", "%q is not known; use %q or %q", m.Kind, MotorVariable, MotorFixed)
+		c.add("motor.kind", "%s is not known; use %q or %q", quote(m.Kind), MotorVariable, MotorFixed)
 	}
 	c.between("motor.rated_torque_nm", m.RatedTorqueNm, 0, 1000, false, "N m")
 	c.between("controller.dwell_step_s", p.Controller.DwellStepS, 0, 5, false, "s")
@@ -150,7 +150,7 @@ func validate(p Profile) []FieldError {
 
 	if cal := p.Calibration; cal != nil {
 		if _, err := time.Parse(time.DateOnly, cal.Date); err != nil {
-			c.add("calibration.date", "%q is not a date written YYYY-MM-DD", cal.Date)
+			c.add("calibration.date", "%s is not a date written YYYY-MM-DD", quote(cal.Date))
 		}
 		if n := len(cal.Points); n > MaxBenchPoints {
 			c.add("calibration.points", "has %d points; at most %d are allowed", n, MaxBenchPoints)
@@ -161,7 +161,7 @@ func validate(p Profile) []FieldError {
 			}
 			path := fmt.Sprintf("calibration.points[%d]", i)
 			if _, ok := p.HoleByLabel(pt.Hole); !ok {
-				c.add(path+".hole", "%q is not a hole of this profile (holes: %s)", pt.Hole, holeList(p))
+				c.add(path+".hole", "%s is not a hole of this profile (holes: %s)", quote(pt.Hole), holeList(p))
 			}
 			c.between(path+".test_lung_compliance_ml_per_cmh2o", pt.TestLungComplianceMLPerCmH2O, 0, 500, false, "mL/cmH2O")
 			c.between(path+".test_lung_resistance_cmh2o_per_l_s", pt.TestLungResistanceCmH2OPerLS, 0, 500, false, "cmH2O/(L/s)")
@@ -195,11 +195,11 @@ func validText(c *checker, path, v string, max int, idLike bool) {
 	}
 	for _, r := range v {
 		if r < 0x20 || r == 0x7f {
-			c.add(path, "%q holds a control character", v)
+			c.add(path, "%s holds a control character", quote(v))
 			return
 		}
 		if idLike && !(r >= 'a' && r <= 'z' || r >= '0' && r <= '9' || r == '-' || r == '_') {
-			c.add(path, "%q may hold only lower-case letters, digits, - and _", v)
+			c.add(path, "%s may hold only lower-case letters, digits, - and _", quote(v))
 			return
 		}
 	}

@@ -7,6 +7,7 @@ import (
 	"time"
 
 	"crankside/machine"
+	"crankside/physiology"
 	"crankside/profiles"
 )
 
@@ -59,7 +60,7 @@ func Calibrate(p profiles.Profile, points []profiles.BenchPoint, date string, no
 	}
 	d, err := time.Parse(time.DateOnly, date)
 	if err != nil {
-		return CalibrationResult{}, &InputError{Field: "date", Reason: fmt.Sprintf("%q is not a date written YYYY-MM-DD", date)}
+		return CalibrationResult{}, &InputError{Field: "date", Reason: fmt.Sprintf("%s is not a date written YYYY-MM-DD", physiology.Quote(date))}
 	}
 	if d.After(now) {
 		return CalibrationResult{}, &InputError{Field: "date", Reason: fmt.Sprintf("%s is in the future", date)}

@@ -173,7 +173,7 @@ func RunCheck(req CheckRequest, p profiles.Profile) (Check, error) {
 // checkSetting refuses a setting this machine cannot be set to.
 func checkSetting(u unit, s Setting, prefix string) error {
 	if _, ok := u.p.HoleByLabel(s.Hole); !ok {
-		return &InputError{Field: prefix + "hole", Reason: fmt.Sprintf("%q is not a hole of %s (holes: %s)", s.Hole, u.p.ID, holeLabels(u.p))}
+		return &InputError{Field: prefix + "hole", Reason: fmt.Sprintf("%s is not a hole of %s (holes: %s)", physiology.Quote(s.Hole), u.p.ID, holeLabels(u.p))}
 	}
 	m := u.p.Motor
 	if !u.motor.Settable(s.RPM) {

@@ -109,7 +109,7 @@ func CheckBedLabel(bed string) error {
 		return &InputError{Field: "bed", Reason: "a bed label is needed, like B4 (never a patient's name)"}
 	}
 	if len(bed) > max {
-		return &InputError{Field: "bed", Reason: fmt.Sprintf("%q is longer than %d characters", bed, max)}
+		return &InputError{Field: "bed", Reason: fmt.Sprintf("%s is longer than %d characters", physiology.Quote(bed), max)}
 	}
 	digit := false
 	for _, r := range bed {
@@ -118,11 +118,11 @@ func CheckBedLabel(bed string) error {
 			digit = true
 		case r < 128 && (unicode.IsLetter(r) || strings.ContainsRune("-_./", r)):
 		default:
-			return &InputError{Field: "bed", Reason: fmt.Sprintf("%q may hold only letters, digits and - _ . /", bed)}
+			return &InputError{Field: "bed", Reason: fmt.Sprintf("%s may hold only letters, digits and - _ . /", physiology.Quote(bed))}
 		}
 	}
 	if !digit {
-		return &InputError{Field: "bed", Reason: fmt.Sprintf("%q has no digit: use the bed's number, like B4, never a patient's name", bed)}
+		return &InputError{Field: "bed", Reason: fmt.Sprintf("%s has no digit: use the bed's number, like B4, never a patient's name", physiology.Quote(bed))}
 	}
 	return nil
 }
@@ -130,11 +130,11 @@ func CheckBedLabel(bed string) error {
 // CheckInitials accepts one to four letters.
 func CheckInitials(in string) error {
 	if len(in) < 1 || len(in) > 4 {
-		return &InputError{Field: "initials", Reason: fmt.Sprintf("%q: give the operator's initials, 1-4 letters", in)}
+		return &InputError{Field: "initials", Reason: fmt.Sprintf("%s: give the operator's initials, 1-4 letters", physiology.Quote(in))}
 	}
 	for _, r := range in {
 		if !(r >= 'a' && r <= 'z' || r >= 'A' && r <= 'Z') {
-			return &InputError{Field: "initials", Reason: fmt.Sprintf("%q: initials are letters only", in)}
+			return &InputError{Field: "initials", Reason: fmt.Sprintf("%s: initials are letters only", physiology.Quote(in))}
 		}
 	}
 	return nil

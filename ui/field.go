@@ -7,6 +7,7 @@ import (
 	"github.com/charmbracelet/bubbles/key"
 	"github.com/charmbracelet/bubbles/textinput"
 	tea "github.com/charmbracelet/bubbletea"
+	"github.com/charmbracelet/x/ansi"
 )
 
 // choice is one option of a choice field; its key picks it when typed.
@@ -100,7 +101,9 @@ func (f *field) update(msg tea.KeyMsg, keys formKeys) (bool, tea.Cmd) {
 		return true, nil
 	}
 	if msg.Type == tea.KeyRunes {
-		kept := filterRunes(msg.Runes, f.allowed)
+		// A paste may carry terminal escape sequences: drop them whole
+		// before keeping only the characters the field takes.
+		kept := filterRunes([]rune(ansi.Strip(string(msg.Runes))), f.allowed)
 		if len(kept) == 0 {
 			f.note = "type " + allowedWords(f.allowed)
 			return false, nil

@@ -242,3 +242,24 @@ func TestClinicalLineAndLevelWordsOnScreen(t *testing.T) {
 	}
 	require.Len(t, strings.Split(v, "\n"), 24)
 }
+
+func TestHostilePastesIntoFields(t *testing.T) {
+	m := newTestModel(t, nil)
+	// A page of digits is cut to the field's length, with a note.
+	press(m, tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune(strings.Repeat("9", 5000)), Paste: true})
+	f := m.field("height-cm")
+	require.LessOrEqual(t, len(f.Value()), 12)
+	require.Contains(t, f.note, "cut")
+	require.NotEmpty(t, f.err, "999999999999 cm is refused")
+	press(m, ctrlU)
+	// Control characters and escape sequences are dropped; digits kept.
+	press(m, tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune("1\x00\x1b[2J7\x075"), Paste: true})
+	require.Equal(t, "175", f.Value())
+	require.Contains(t, f.note, "kept only")
+	press(m, ctrlU)
+	// Digits of other scripts are not read as numbers.
+	press(m, tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune("١٧٥"), Paste: true})
+	require.Equal(t, "", f.Value())
+	require.Contains(t, f.note, "digits")
+	require.NotContains(t, screen(m), "\x1b[2J")
+}

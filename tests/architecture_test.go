@@ -1,0 +1,58 @@
+package tests
+
+import (
+	"os/exec"
+	"strings"
+	"testing"
+
+	"github.com/stretchr/testify/require"
+)
+
+// TestArchitecture keeps the dependency arrows of DESIGN.md true:
+// physiology and machine import the standard library and gonum only;
+// profiles the standard library only; setup never imports ui; and nothing
+// but ui and main imports a terminal library.
+func TestArchitecture(t *testing.T) {
+	out, err := exec.Command("go", "list", "-f", "{{.ImportPath}}|{{join .Imports \" \"}}", "crankside/...").CombinedOutput()
+	require.NoError(t, err, "%s", out)
+	imports := map[string][]string{}
+	for _, line := range strings.Split(strings.TrimSpace(string(out)), "\n") {
+		pkg, deps, _ := strings.Cut(line, "|")
+		imports[pkg] = strings.Fields(deps)
+	}
+	require.Contains(t, imports, "crankside/physiology")
+	std := func(p string) bool {
+		return !strings.Contains(strings.Split(p, "/")[0], ".") && !strings.HasPrefix(p, "crankside")
+	}
+	gonum := func(p string) bool { return strings.HasPrefix(p, "gonum.org/v1/gonum/") }
+	terminal := func(p string) bool {
+		return strings.HasPrefix(p, "github.com/charmbracelet/") || strings.HasPrefix(p, "github.com/NimbleMarkets/") ||
+			strings.HasPrefix(p, "github.com/muesli/")
+	}
+	allowed := map[string]func(string) bool{
+		"crankside/physiology": func(p string) bool { return std(p) || gonum(p) },
+		"crankside/machine":    func(p string) bool { return std(p) || gonum(p) },
+		"crankside/profiles":   std,
+		"crankside/setup": func(p string) bool {
+			return std(p) || gonum(p) || p == "crankside/physiology" || p == "crankside/machine" || p == "crankside/profiles"
+		},
+	}
+	for pkg, ok := range allowed {
+		for _, dep := range imports[pkg] {
+			require.True(t, ok(dep), "%s must not import %s", pkg, dep)
+		}
+	}
+	for pkg, deps := range imports {
+		if pkg == "crankside" || pkg == "crankside/ui" {
+			continue
+		}
+		for _, dep := range deps {
+			require.False(t, terminal(dep), "%s imports the terminal library %s: only ui and main may", pkg, dep)
+			require.NotEqual(t, "crankside/ui", dep, "%s must not import ui", pkg)
+		}
+	}
+	// The UI computes nothing of its own: it reaches the core through setup.
+	for _, dep := range imports["crankside/ui"] {
+		require.NotEqual(t, "crankside/machine", dep, "ui must not use machine directly")
+	}
+}
