@@ -133,3 +133,13 @@ func TestSimulateRefusesBadInput(t *testing.T) {
 		require.ErrorIs(t, err, ErrBadBreath, name)
 	}
 }
+
+func BenchmarkSimulateStroke(b *testing.B) {
+	s := Stroke{Crank: Crank{RadiusCm: 2.8, RodCm: 22}, BoreCm: 10, RPM: 21, Scale: 1}
+	in := StrokeInput{Stroke: s, Lung: Lung{60, 10}, CircuitMLPerCmH2O: 1.5, PEEPCmH2O: 5, RingFrictionN: 12}
+	for b.Loop() {
+		if _, err := SimulateStroke(in); err != nil {
+			b.Fatal(err)
+		}
+	}
+}

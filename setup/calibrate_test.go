@@ -102,3 +102,13 @@ func TestPlanUsesTheNewCalibration(t *testing.T) {
 	// A weaker machine needs a larger hole for the same target.
 	require.Greater(t, after.Hole.RadiusCm, before.Hole.RadiusCm)
 }
+
+func BenchmarkCalibrationFit(b *testing.B) {
+	p := profile(b, "demo-b")
+	pts := p.Calibration.Points
+	for b.Loop() {
+		if _, err := setup.Calibrate(p, pts, "2026-11-24", today); err != nil {
+			b.Fatal(err)
+		}
+	}
+}

@@ -6,6 +6,7 @@ import (
 	"strings"
 
 	"github.com/NimbleMarkets/ntcharts/canvas"
+	"github.com/NimbleMarkets/ntcharts/canvas/graph"
 	"github.com/NimbleMarkets/ntcharts/linechart"
 
 	"crankside/setup"
@@ -45,7 +46,7 @@ func breathChart(tr *setup.Trace, w, h int, s *Styles) string {
 	if limitShown {
 		ref(&pc, tr.LimitCmH2O, '=')
 	}
-	drawSeries(&pc, tr.TimeS, tr.CircuitCmH2O, w, s)
+	drawSeries(&pc, tr.TimeS, tr.CircuitCmH2O, s)
 
 	minF, maxF := 0.0, 0.0
 	for _, f := range tr.PatientLPerMin {
@@ -54,7 +55,7 @@ func breathChart(tr *setup.Trace, w, h int, s *Styles) string {
 	fc := linechart.New(w, fh, 0, period, minF*1.1, maxF*1.1+1e-9, linechart.WithXYSteps(6, 2), yLabel, xLabel, styles)
 	fc.DrawXYAxisAndLabel()
 	ref(&fc, 0, '.')
-	drawSeries(&fc, tr.TimeS, tr.PatientLPerMin, w, s)
+	drawSeries(&fc, tr.TimeS, tr.PatientLPerMin, s)
 
 	limit := fmt.Sprintf("=limit %.0f", tr.LimitCmH2O)
 	if !limitShown {
@@ -68,19 +69,24 @@ func breathChart(tr *setup.Trace, w, h int, s *Styles) string {
 	return strings.Join([]string{pc.View(), fc.View(), fit(strings.Join(legend, "\n"), w, legendLines)}, "\n")
 }
 
-// drawSeries draws a trace in braille, a few samples per column.
-func drawSeries(c *linechart.Model, xs, ys []float64, w int, s *Styles) {
-	step := max(1, len(xs)/(4*w))
-	prev := canvas.Float64Point{X: xs[0], Y: ys[0]}
-	for i := step; i < len(xs); i += step {
-		p := canvas.Float64Point{X: xs[i], Y: ys[i]}
-		c.DrawBrailleLineWithStyle(prev, p, s.ChartTrace)
+// drawSeries draws a trace in braille on one grid for the whole series,
+// then puts the grid on the chart once: drawing segment by segment would
+// rebuild the grid for every segment.
+func drawSeries(c *linechart.Model, xs, ys []float64, s *Styles) {
+	grid := graph.NewBrailleGrid(c.GraphWidth(), c.GraphHeight(), c.MinX(), c.MaxX(), c.MinY(), c.MaxY())
+	prev := grid.GridPoint(canvas.Float64Point{X: xs[0], Y: ys[0]})
+	for i := 1; i < len(xs); i++ {
+		p := grid.GridPoint(canvas.Float64Point{X: xs[i], Y: ys[i]})
+		if p == prev {
+			continue
+		}
+		for _, q := range graph.GetLinePoints(prev, p) {
+			grid.Set(q)
+		}
 		prev = p
 	}
-	last := canvas.Float64Point{X: xs[len(xs)-1], Y: ys[len(ys)-1]}
-	if last != prev {
-		c.DrawBrailleLineWithStyle(prev, last, s.ChartTrace)
-	}
+	grid.Set(prev)
+	graph.DrawBraillePatterns(&c.Canvas, canvas.Point{X: c.Origin().X + 1, Y: 0}, grid.BraillePatterns(), s.ChartTrace)
 }
 
 // wrapWords joins words into lines no wider than w.
