@@ -6,35 +6,28 @@ import (
 	tea "github.com/charmbracelet/bubbletea"
 )
 
-// BenchmarkKeystroke is one digit typed into the height field: the plan
-// and the breath are recomputed and the screen drawn, as on every key.
-func BenchmarkKeystroke(b *testing.B) {
-	m := newTestModel(b, map[string]string{"height-cm": "17", "sex": "male"})
+// keystrokes alternates typing the last digit of the height and deleting
+// it, one Update and one View per iteration: each key recomputes the plan
+// (or finds the entry incomplete) and redraws the screen.
+func keystrokes(b *testing.B, w, h int) {
+	m := newTestModel(b, map[string]string{"height-cm": "175", "sex": "male"})
+	m.Update(tea.WindowSizeMsg{Width: w, Height: h})
 	m.focusPanel(panelPatient)
-	digit := tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune("5")}
-	back := tea.KeyMsg{Type: tea.KeyBackspace}
+	keys := []tea.KeyMsg{{Type: tea.KeyBackspace}, {Type: tea.KeyRunes, Runes: []rune("5")}}
+	i := 0
 	for b.Loop() {
-		m.Update(digit)
+		m.Update(keys[i%2])
 		_ = m.View()
-		m.Update(back)
+		i++
 	}
 }
 
-// BenchmarkKeystrokeOnTheSetting is a key on the setting panel at 120x40,
-// where the chart is largest.
-func BenchmarkKeystrokeOnTheSetting(b *testing.B) {
-	m := newTestModel(b, map[string]string{"height-cm": "175", "sex": "male"})
-	m.Update(tea.WindowSizeMsg{Width: 120, Height: 40})
-	m.focusPanel(panelPatient)
-	m.patient.form.move(0)
-	digit := tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune("1")}
-	back := tea.KeyMsg{Type: tea.KeyBackspace}
-	for b.Loop() {
-		m.Update(back)
-		m.Update(digit)
-		_ = m.View()
-	}
-}
+// BenchmarkKeystroke is one key in the height field at 80x24.
+func BenchmarkKeystroke(b *testing.B) { keystrokes(b, 80, 24) }
+
+// BenchmarkKeystrokeWide is one key at 120x40, where the setting and its
+// chart are drawn under the patient panel.
+func BenchmarkKeystrokeWide(b *testing.B) { keystrokes(b, 120, 40) }
 
 // BenchmarkFirstFrame is building the model and drawing the first screen.
 func BenchmarkFirstFrame(b *testing.B) {
