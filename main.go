@@ -192,6 +192,23 @@ func newPlanFlags(stderr io.Writer) *planFlags {
 	return f
 }
 
+// parseFlags parses a command's flags. done is true, with the status to
+// exit with, when the command should go no further: help was asked for, a
+// flag was bad, or an argument was given where none is taken.
+func parseFlags(fs *flag.FlagSet, args []string, cmd, usage string, stdout, stderr io.Writer) (status int, done bool) {
+	if err := fs.Parse(args); err != nil {
+		if errors.Is(err, flag.ErrHelp) {
+			printFlags(stdout, usage, fs)
+			return exitOK, true
+		}
+		return usageError(stderr, cmd, flagError(err)), true
+	}
+	if fs.NArg() > 0 {
+		return usageError(stderr, cmd, fmt.Sprintf("unexpected argument %s", physiology.Quote(fs.Arg(0)))), true
+	}
+	return exitOK, false
+}
+
 func printFlags(w io.Writer, usage string, fs *flag.FlagSet) {
 	fmt.Fprint(w, usage)
 	fs.VisitAll(func(f *flag.Flag) {
@@ -281,15 +298,8 @@ Flags:
 
 func cmdPlan(args []string, stdout, stderr io.Writer) int {
 	f := newPlanFlags(stderr)
-	if err := f.fs.Parse(args); err != nil {
-		if errors.Is(err, flag.ErrHelp) {
-			printFlags(stdout, planUsage, f.fs)
-			return exitOK
-		}
-		return usageError(stderr, "plan", flagError(err))
-	}
-	if f.fs.NArg() > 0 {
-		return usageError(stderr, "plan", fmt.Sprintf("unexpected argument %s", physiology.Quote(f.fs.Arg(0))))
+	if status, done := parseFlags(f.fs, args, "plan", planUsage, stdout, stderr); done {
+		return status
 	}
 	req, err := f.request()
 	if err != nil {
@@ -301,12 +311,7 @@ func cmdPlan(args []string, stdout, stderr io.Writer) int {
 	}
 	pl, err := setup.MakePlan(req, p)
 	if err != nil {
-		var ie *setup.InputError
-		if errors.As(err, &ie) {
-			return usageError(stderr, "plan", "--"+ie.Field+": "+ie.Reason)
-		}
-		fmt.Fprintf(stderr, "crankside plan: %v\n", err)
-		return exitFailure
+		return jobError(stderr, "plan", err)
 	}
 	if f.asJSON {
 		return writeJSON(stdout, stderr, pl.JSON())
@@ -316,6 +321,17 @@ func cmdPlan(args []string, stdout, stderr io.Writer) int {
 		return exitFailure
 	}
 	return exitOK
+}
+
+// jobError reports an error from setup: bad input names its flag and exits
+// 2; anything else exits 1.
+func jobError(stderr io.Writer, cmd string, err error) int {
+	var ie *setup.InputError
+	if errors.As(err, &ie) {
+		return usageError(stderr, cmd, "--"+ie.Field+": "+ie.Reason)
+	}
+	fmt.Fprintf(stderr, "crankside %s: %v\n", cmd, err)
+	return exitFailure
 }
 
 func writeJSON(stdout, stderr io.Writer, v any) int {
@@ -669,15 +685,8 @@ func (f *checkFlags) request() (setup.CheckRequest, error) {
 
 func cmdCheck(args []string, stdout, stderr io.Writer) int {
 	f := newCheckFlags()
-	if err := f.fs.Parse(args); err != nil {
-		if errors.Is(err, flag.ErrHelp) {
-			printFlags(stdout, checkUsage, f.fs)
-			return exitOK
-		}
-		return usageError(stderr, "check", flagError(err))
-	}
-	if f.fs.NArg() > 0 {
-		return usageError(stderr, "check", fmt.Sprintf("unexpected argument %s", physiology.Quote(f.fs.Arg(0))))
+	if status, done := parseFlags(f.fs, args, "check", checkUsage, stdout, stderr); done {
+		return status
 	}
 	req, err := f.request()
 	if err != nil {
@@ -703,12 +712,7 @@ func cmdCheck(args []string, stdout, stderr io.Writer) int {
 	}
 	ck, err := setup.RunCheck(req, p)
 	if err != nil {
-		var ie *setup.InputError
-		if errors.As(err, &ie) {
-			return usageError(stderr, "check", "--"+ie.Field+": "+ie.Reason)
-		}
-		fmt.Fprintf(stderr, "crankside check: %v\n", err)
-		return exitFailure
+		return jobError(stderr, "check", err)
 	}
 	if f.logPath != "" || f.card {
 		rec, err = setup.NewRecord(ck, f.bed, f.initials, req.Now)
@@ -832,12 +836,8 @@ func profilesNew(args []string, stdout, stderr io.Writer) int {
 	id := fs.String("id", "", "the new profile's id (lower-case letters, digits, - and _)")
 	label := fs.String("label", "", "the new profile's label")
 	dir := fs.String("profiles", profiles.DefaultDir(), "directory of profile files")
-	if err := fs.Parse(args); err != nil {
-		if errors.Is(err, flag.ErrHelp) {
-			fmt.Fprint(stdout, profilesUsage)
-			return exitOK
-		}
-		return usageError(stderr, "profiles new", flagError(err))
+	if status, done := parseFlags(fs, args, "profiles new", profilesUsage, stdout, stderr); done {
+		return status
 	}
 	if *id == "" {
 		return usageError(stderr, "profiles new", "--id is required")
@@ -883,12 +883,8 @@ func cmdCalibrate(args []string, stdout, stderr io.Writer) int {
 	date := fs.String("date", "", "the calibration's date, YYYY-MM-DD (default today)")
 	write := fs.Bool("write", false, "store the new calibration in the profile file")
 	asJSON := fs.Bool("json", false, "print one JSON object")
-	if err := fs.Parse(args); err != nil {
-		if errors.Is(err, flag.ErrHelp) {
-			printFlags(stdout, calibrateUsage, fs)
-			return exitOK
-		}
-		return usageError(stderr, "calibrate", flagError(err))
+	if status, done := parseFlags(fs, args, "calibrate", calibrateUsage, stdout, stderr); done {
+		return status
 	}
 	if *ref == "" || *bench == "" {
 		return usageError(stderr, "calibrate", "--profile and --bench are required")
@@ -919,12 +915,7 @@ func cmdCalibrate(args []string, stdout, stderr io.Writer) int {
 	}
 	res, err := setup.Calibrate(p, points, *date, time.Now())
 	if err != nil {
-		var ie *setup.InputError
-		if errors.As(err, &ie) {
-			return usageError(stderr, "calibrate", "--"+ie.Field+": "+ie.Reason)
-		}
-		fmt.Fprintf(stderr, "crankside calibrate: %v\n", err)
-		return exitFailure
+		return jobError(stderr, "calibrate", err)
 	}
 	written := false
 	if *write {

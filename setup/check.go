@@ -110,13 +110,9 @@ func RunCheck(req CheckRequest, p profiles.Profile) (Check, error) {
 	if now.IsZero() {
 		now = time.Now()
 	}
-	pbw, err := physiology.PredictedBodyWeightKg(req.Patient.HeightCm, req.Patient.Sex)
+	pbw, err := pbwOf(req.Patient)
 	if err != nil {
-		field := "height-cm"
-		if req.Patient.Sex != physiology.Male && req.Patient.Sex != physiology.Female {
-			field = "sex"
-		}
-		return Check{}, inputErr(field, err)
+		return Check{}, err
 	}
 	r, err := resolveTargets(Targets{Lung: req.Lung, ComplianceMLPerCmH2O: req.ComplianceMLPerCmH2O,
 		ResistanceCmH2OPerLS: req.ResistanceCmH2OPerLS, CylinderWaterL: req.CylinderWaterL, CylinderBar: req.CylinderBar})

@@ -177,3 +177,16 @@ func CheckEntries(req Request) []*InputError {
 	}
 	return out
 }
+
+// pbwOf is the patient's predicted body weight, or an *InputError naming
+// the height or the sex.
+func pbwOf(p Patient) (float64, error) {
+	if p.Sex != physiology.Male && p.Sex != physiology.Female {
+		return 0, &InputError{Field: "sex", Reason: "must be male or female"}
+	}
+	pbw, err := physiology.PredictedBodyWeightKg(p.HeightCm, p.Sex)
+	if err != nil {
+		return 0, inputErr("height-cm", err)
+	}
+	return pbw, nil
+}

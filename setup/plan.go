@@ -58,16 +58,9 @@ func MakePlan(req Request, p profiles.Profile) (Plan, error) {
 	if now.IsZero() {
 		now = time.Now()
 	}
-	pbw, err := physiology.PredictedBodyWeightKg(req.Patient.HeightCm, req.Patient.Sex)
+	pbw, err := pbwOf(req.Patient)
 	if err != nil {
-		field := "height-cm"
-		if req.Patient.Sex != physiology.Male && req.Patient.Sex != physiology.Female {
-			field = "sex"
-		}
-		return Plan{}, inputErr(field, err)
-	}
-	if req.Patient.Sex != physiology.Male && req.Patient.Sex != physiology.Female {
-		return Plan{}, &InputError{Field: "sex", Reason: "must be male or female"}
+		return Plan{}, err
 	}
 	r, err := resolveTargets(req.Targets)
 	if err != nil {

@@ -11,32 +11,21 @@ import (
 // cautionsPanel lists every caution with its advice and the source of its
 // limit, most serious first.
 type cautionsPanel struct {
-	keys    scrollKeys
-	styles  *Styles
-	out     *outcome
-	sig     signals
-	offset  int
-	focused bool
-	w, h    int
+	panelBase
+	keys   scrollKeys
+	offset int
 }
 
 func newCautionsPanel(s *Styles) *cautionsPanel {
-	return &cautionsPanel{keys: newScrollKeys(), styles: s}
+	p := &cautionsPanel{keys: newScrollKeys()}
+	p.styles = s
+	return p
 }
 
-func (p *cautionsPanel) Init() tea.Cmd         { return nil }
-func (p *cautionsPanel) Title() string         { return "Cautions" }
-func (p *cautionsPanel) Editing() bool         { return false }
-func (p *cautionsPanel) Focus() tea.Cmd        { p.focused = true; return nil }
-func (p *cautionsPanel) Blur()                 { p.focused = false }
+func (p *cautionsPanel) Title() string { return "Cautions" }
+
+// SetOutcome also scrolls back to the top: the list is a new one.
 func (p *cautionsPanel) SetOutcome(o *outcome) { p.out = o; p.offset = 0 }
-func (p *cautionsPanel) SetSize(w, h int)      { p.w, p.h = w, h }
-
-func (p *cautionsPanel) Signals() signals {
-	s := p.sig
-	p.sig = signals{}
-	return s
-}
 
 func (p *cautionsPanel) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 	km, ok := msg.(tea.KeyMsg)
@@ -61,11 +50,7 @@ func (p *cautionsPanel) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 func (p *cautionsPanel) lines() []string {
 	s := p.styles
 	if p.out == nil || p.out.plan == nil {
-		var reasons []string
-		if p.out != nil {
-			reasons = p.out.waiting
-		}
-		return strings.Split(s.waitingView(reasons), "\n")
+		return strings.Split(s.waitingView(p.waiting()), "\n")
 	}
 	cs := p.out.plan.Cautions
 	if len(cs) == 0 {

@@ -28,12 +28,8 @@ func newHandoverKeys() handoverKeys {
 // reads, and shows what the patient gets, the lung the readings imply and a
 // proposed change beside the current setting.
 type handoverPanel struct {
-	form   form
-	keys   handoverKeys
-	styles *Styles
-	out    *outcome
-	sig    signals
-	w, h   int
+	formPanel
+	keys handoverKeys
 }
 
 func newHandoverPanel(s *Styles) *handoverPanel {
@@ -59,25 +55,16 @@ func newHandoverPanel(s *Styles) *handoverPanel {
 	f.fields[7].heading = "MANOMETER READS"
 	f.fields[9].heading = "O2 CYLINDER"
 	f.fields[11].heading = "PROPOSE"
-	// The record's bed and initials first, then the setting.
-	return &handoverPanel{styles: s, form: f, keys: newHandoverKeys()}
+	p := &handoverPanel{keys: newHandoverKeys()}
+	p.styles, p.form = s, f
+	return p
 }
 
-func (p *handoverPanel) Init() tea.Cmd         { return nil }
-func (p *handoverPanel) Title() string         { return "Handover" }
-func (p *handoverPanel) Editing() bool         { return p.form.editing() }
-func (p *handoverPanel) Focus() tea.Cmd        { return p.form.focus() }
-func (p *handoverPanel) Blur()                 { p.form.blur() }
-func (p *handoverPanel) SetOutcome(o *outcome) { p.out = o }
+func (p *handoverPanel) Title() string { return "Handover" }
+
 func (p *handoverPanel) SetSize(w, h int) {
 	p.w, p.h = w, h
 	p.form.width, p.form.height = formColumn, h
-}
-
-func (p *handoverPanel) Signals() signals {
-	s := p.sig
-	p.sig = signals{}
-	return s
 }
 
 // formColumn is the width of the entries beside the results.
@@ -99,10 +86,7 @@ func (p *handoverPanel) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 		p.sig.history = true
 		return p, nil
 	}
-	r, cmd := p.form.update(km)
-	p.sig.changed = p.sig.changed || r.changed
-	p.sig.advance = p.sig.advance || r.leave
-	return p, cmd
+	return p, p.updateForm(km)
 }
 
 func (p *handoverPanel) View() string {

@@ -25,12 +25,8 @@ const (
 // a table of the holes; it refits the calibration from a bench file with a
 // preview before saving.
 type machinePanel struct {
+	panelBase
 	keys    machineKeys
-	styles  *Styles
-	out     *outcome
-	sig     signals
-	focused bool
-	w, h    int
 	mode    machineMode
 	path    textinput.Model
 	offset  int // first hole row shown
@@ -43,22 +39,13 @@ func newMachinePanel(s *Styles) *machinePanel {
 	in.Prompt = ""
 	in.CharLimit = 512
 	in.Width = 50
-	return &machinePanel{keys: newMachineKeys(), styles: s, path: in}
+	p := &machinePanel{keys: newMachineKeys(), path: in}
+	p.styles = s
+	return p
 }
 
-func (p *machinePanel) Init() tea.Cmd         { return nil }
-func (p *machinePanel) Title() string         { return "Machine" }
-func (p *machinePanel) Editing() bool         { return p.mode == machinePath }
-func (p *machinePanel) Focus() tea.Cmd        { p.focused = true; return nil }
-func (p *machinePanel) Blur()                 { p.focused = false }
-func (p *machinePanel) SetOutcome(o *outcome) { p.out = o }
-func (p *machinePanel) SetSize(w, h int)      { p.w, p.h = w, h }
-
-func (p *machinePanel) Signals() signals {
-	s := p.sig
-	p.sig = signals{}
-	return s
-}
+func (p *machinePanel) Title() string { return "Machine" }
+func (p *machinePanel) Editing() bool { return p.mode == machinePath }
 
 // setPreview shows a refit, or why there is none.
 func (p *machinePanel) setPreview(res *setup.CalibrationResult, err error) {

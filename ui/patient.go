@@ -8,15 +8,13 @@ import (
 // patientPanel asks who the machine is for: height, sex, lung condition,
 // and optionally FiO2, PEEP and known mechanics.
 type patientPanel struct {
-	form   form
-	styles *Styles
-	out    *outcome
-	sig    signals
-	w, h   int
+	formPanel
 }
 
 func newPatientPanel(s *Styles) *patientPanel {
-	return &patientPanel{styles: s, form: newForm(s,
+	p := &patientPanel{}
+	p.styles = s
+	p.form = newForm(s,
 		numberField("height-cm", "Height", "cm", "required, 130-230 cm", true),
 		choiceField("sex", "Sex", "required: m or f", -1, choice{"m", "male", "male"}, choice{"f", "female", "female"}),
 		choiceField("lung", "Lung condition", "", 0,
@@ -25,32 +23,17 @@ func newPatientPanel(s *Styles) *patientPanel {
 		numberField("peep", "PEEP", "cmH2O", "blank: 5; ARDS: table", false),
 		numberField("compliance", "Compliance", "mL/cmH2O", "blank: by condition", false),
 		numberField("resistance", "Resistance", "cmH2O/(L/s)", "blank: by condition", false),
-	)}
+	)
+	return p
 }
 
-func (p *patientPanel) Init() tea.Cmd         { return nil }
-func (p *patientPanel) Title() string         { return "Patient" }
-func (p *patientPanel) Editing() bool         { return p.form.editing() }
-func (p *patientPanel) Focus() tea.Cmd        { return p.form.focus() }
-func (p *patientPanel) Blur()                 { p.form.blur() }
-func (p *patientPanel) SetOutcome(o *outcome) { p.out = o }
-func (p *patientPanel) SetSize(w, h int)      { p.w, p.h = w, h; p.form.width = w }
-
-func (p *patientPanel) Signals() signals {
-	s := p.sig
-	p.sig = signals{}
-	return s
-}
+func (p *patientPanel) Title() string { return "Patient" }
 
 func (p *patientPanel) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
-	km, ok := msg.(tea.KeyMsg)
-	if !ok {
-		return p, nil
+	if km, ok := msg.(tea.KeyMsg); ok {
+		return p, p.updateForm(km)
 	}
-	r, cmd := p.form.update(km)
-	p.sig.changed = p.sig.changed || r.changed
-	p.sig.advance = p.sig.advance || r.leave
-	return p, cmd
+	return p, nil
 }
 
 func (p *patientPanel) View() string {

@@ -14,31 +14,17 @@ import (
 // settingPanel is what to set on the machine and what the patient gets,
 // with one breath drawn beside it when there is room.
 type settingPanel struct {
-	keys    scrollKeys
-	styles  *Styles
-	out     *outcome
-	sig     signals
-	focused bool
-	w, h    int
+	panelBase
+	keys scrollKeys
 }
 
 func newSettingPanel(s *Styles) *settingPanel {
-	return &settingPanel{keys: newScrollKeys(), styles: s}
+	p := &settingPanel{keys: newScrollKeys()}
+	p.styles = s
+	return p
 }
 
-func (p *settingPanel) Init() tea.Cmd         { return nil }
-func (p *settingPanel) Title() string         { return "Setting" }
-func (p *settingPanel) Editing() bool         { return false }
-func (p *settingPanel) Focus() tea.Cmd        { p.focused = true; return nil }
-func (p *settingPanel) Blur()                 { p.focused = false }
-func (p *settingPanel) SetOutcome(o *outcome) { p.out = o }
-func (p *settingPanel) SetSize(w, h int)      { p.w, p.h = w, h }
-
-func (p *settingPanel) Signals() signals {
-	s := p.sig
-	p.sig = signals{}
-	return s
-}
+func (p *settingPanel) Title() string { return "Setting" }
 
 func (p *settingPanel) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 	if km, ok := msg.(tea.KeyMsg); ok && key.Matches(km, p.keys.Advance) {
@@ -53,11 +39,7 @@ const detailWidth = 44
 func (p *settingPanel) View() string {
 	s := p.styles
 	if p.out == nil || p.out.plan == nil {
-		var reasons []string
-		if p.out != nil {
-			reasons = p.out.waiting
-		}
-		return fit(s.waitingView(reasons), p.w, p.h)
+		return fit(s.waitingView(p.waiting()), p.w, p.h)
 	}
 	details := p.details(p.out.plan)
 	chartW := p.w - detailWidth - 2

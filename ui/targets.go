@@ -11,45 +11,27 @@ import (
 // targetsPanel shows PBW and the target volume and asks for mL/kg, rate
 // and I:E; the PEEP shown is the patient panel's, with the table's range.
 type targetsPanel struct {
-	form   form
-	styles *Styles
-	out    *outcome
-	sig    signals
-	w, h   int
+	formPanel
 }
 
 func newTargetsPanel(s *Styles) *targetsPanel {
-	ie := textField("ie", "I:E", "", "blank: 1:2 (obstructive 1:3)", false, "0123456789.:")
-	return &targetsPanel{styles: s, form: newForm(s,
+	p := &targetsPanel{}
+	p.styles = s
+	p.form = newForm(s,
 		numberField("ml-per-kg", "Tidal volume", "mL/kg PBW", "blank: 6 (ARDS Network 2000)", false),
 		numberField("rate", "Rate", "/min", "blank: 14, ARDS 18, obstructive 10", false),
-		ie,
-	)}
+		textField("ie", "I:E", "", "blank: 1:2 (obstructive 1:3)", false, "0123456789.:"),
+	)
+	return p
 }
 
-func (p *targetsPanel) Init() tea.Cmd         { return nil }
-func (p *targetsPanel) Title() string         { return "Targets" }
-func (p *targetsPanel) Editing() bool         { return p.form.editing() }
-func (p *targetsPanel) Focus() tea.Cmd        { return p.form.focus() }
-func (p *targetsPanel) Blur()                 { p.form.blur() }
-func (p *targetsPanel) SetOutcome(o *outcome) { p.out = o }
-func (p *targetsPanel) SetSize(w, h int)      { p.w, p.h = w, h; p.form.width = w }
-
-func (p *targetsPanel) Signals() signals {
-	s := p.sig
-	p.sig = signals{}
-	return s
-}
+func (p *targetsPanel) Title() string { return "Targets" }
 
 func (p *targetsPanel) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
-	km, ok := msg.(tea.KeyMsg)
-	if !ok {
-		return p, nil
+	if km, ok := msg.(tea.KeyMsg); ok {
+		return p, p.updateForm(km)
 	}
-	r, cmd := p.form.update(km)
-	p.sig.changed = p.sig.changed || r.changed
-	p.sig.advance = p.sig.advance || r.leave
-	return p, cmd
+	return p, nil
 }
 
 func (p *targetsPanel) View() string {
@@ -57,11 +39,7 @@ func (p *targetsPanel) View() string {
 	var b strings.Builder
 	b.WriteString(p.form.view() + "\n\n")
 	if p.out == nil || p.out.plan == nil {
-		var reasons []string
-		if p.out != nil {
-			reasons = p.out.waiting
-		}
-		b.WriteString(s.waitingView(reasons))
+		b.WriteString(s.waitingView(p.waiting()))
 		return fit(b.String(), p.w, p.h)
 	}
 	pl := p.out.plan
