@@ -609,7 +609,7 @@ func newCheckFlags() *checkFlags {
 	f.fs.StringVar(&f.profile, "profile", profiles.DefaultID, "machine profile: an id or a path to a .json file")
 	f.fs.StringVar(&f.profilesDir, "profiles", profiles.DefaultDir(), "directory of profile files")
 	f.fs.StringVar(&f.bed, "bed", "", "bed label for the record, like B4 (never a patient's name)")
-	f.fs.StringVar(&f.initials, "initials", "", "the checking operator's initials, for the record")
+	f.fs.StringVar(&f.initials, "initials", "", "the checking operator's initials, for the record (recommended)")
 	f.fs.StringVar(&f.logPath, "log", "", "append the check to this log file (one JSON line; with --bed)")
 	f.fs.BoolVar(&f.card, "card", false, "print a handover card (plain text, 80 columns)")
 	f.fs.BoolVar(&f.asJSON, "json", false, "print one JSON object")
@@ -643,8 +643,8 @@ func (f *checkFlags) request() (setup.CheckRequest, error) {
 	if (f.bed != "" || f.initials != "") && f.logPath == "" && !f.card {
 		return req, errors.New("--bed and --initials are for the record: add --log FILE or --card")
 	}
-	if f.logPath != "" && (f.bed == "" || f.initials == "") {
-		return req, errors.New("--log needs --bed (a bed label such as B4) and --initials")
+	if f.logPath != "" && f.bed == "" {
+		return req, errors.New("--log needs --bed (a bed label such as B4; never a patient's name)")
 	}
 	for _, z := range []struct {
 		nf   numberFlag
@@ -697,7 +697,7 @@ func cmdCheck(args []string, stdout, stderr io.Writer) int {
 		// Refuse a bad bed label or initials before anything is computed or shown.
 		bed, initials := f.bed, f.initials
 		if f.card && f.logPath == "" && bed == "" {
-			return usageError(stderr, "check", "--card needs --bed (a bed label such as B4) and --initials")
+			return usageError(stderr, "check", "--card needs --bed (a bed label such as B4; never a patient's name)")
 		}
 		if err := setup.CheckBedLabel(bed); err != nil {
 			return usageError(stderr, "check", "--bed: "+err.(*setup.InputError).Reason)

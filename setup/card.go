@@ -20,7 +20,11 @@ func WriteCard(w io.Writer, r Record) error {
 	}
 	rule := strings.Repeat("=", CardWidth)
 	b.WriteString(rule + "\n")
-	line("HANDOVER CARD  bed %s  %s UTC  checked by %s", r.Bed, r.Time.UTC().Format("2006-01-02 15:04"), r.Initials)
+	by := r.Initials
+	if by == "" {
+		by = "(initials not given)"
+	}
+	line("HANDOVER CARD  bed %s  %s UTC  checked by %s", r.Bed, r.Time.UTC().Format("2006-01-02 15:04"), by)
 	line("Machine %s, calibration %s", r.ProfileID, orNone(r.CalibrationDate))
 	line("Patient %.0f cm %s, PBW %.1f kg (no name or identifier recorded)", r.HeightCm, r.Sex, r.PBWKg)
 	b.WriteString(rule + "\n")

@@ -127,9 +127,13 @@ func CheckBedLabel(bed string) error {
 	return nil
 }
 
-// CheckInitials accepts one to four letters.
+// CheckInitials accepts one to four letters, or none: a record without
+// initials says so on its card.
 func CheckInitials(in string) error {
-	if len(in) < 1 || len(in) > 4 {
+	if in == "" {
+		return nil
+	}
+	if len(in) > 4 {
 		return &InputError{Field: "initials", Reason: fmt.Sprintf("%s: give the operator's initials, 1-4 letters", physiology.Quote(in))}
 	}
 	for _, r := range in {
