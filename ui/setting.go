@@ -44,7 +44,7 @@ func (p *settingPanel) View() string {
 	details := p.details(p.out.plan)
 	chartW := p.w - detailWidth - 2
 	if chartW >= 30 && p.h >= 12 {
-		chart := breathChart(p.out.trace, chartW, min(p.h, 22), s)
+		chart := breathChart(p.out.trace, chartW, p.h, s)
 		left := lipgloss.NewStyle().Width(detailWidth).Render(fit(details, detailWidth, p.h))
 		return fit(lipgloss.JoinHorizontal(lipgloss.Top, left, "  ", chart), p.w, p.h)
 	}
