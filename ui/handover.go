@@ -123,6 +123,9 @@ func (p *handoverPanel) results() string {
 	if ck.FitProblem != "" {
 		add(s.Error.Render("! " + ck.FitProblem))
 	}
+	for _, w := range o.checkWaiting {
+		add(s.Hint.Render(w))
+	}
 	cur := ck.Current.Figures
 	var prop *setup.Figures
 	if ck.Proposed != nil {

@@ -522,6 +522,12 @@ func (m *Model) summary() string {
 	if m.confirmQuit {
 		return truncate(s.levelWord(setup.Warn)+s.Error.Render(" The handover check is not recorded. y: quit without recording, n: stay"), m.w)
 	}
+	// On the handover panel the strip is what the machine is set to now;
+	// elsewhere it is the plan.
+	if m.focus == panelHandover && m.out.check != nil {
+		ev := m.out.check.Current
+		return m.strip("Set now: ", ev.Figures, ev.Cautions)
+	}
 	pl := m.out.plan
 	if pl == nil {
 		reason := "an entry"
@@ -530,17 +536,27 @@ func (m *Model) summary() string {
 		}
 		return truncate(s.Waiting.Render("SETTING WAITING for "+reason), m.w)
 	}
+	return m.strip("Plan: ", pl.Figures, pl.Cautions)
+}
+
+// strip is one line: the highest caution first, so a narrow window never
+// cuts it off, then the hole, speed, dwell, volume and the caution count.
+func (m *Model) strip(lead string, f setup.Figures, cs []setup.Caution) string {
+	s := m.styles
 	sep := s.Label.Render(" | ")
-	parts := []string{
-		s.Label.Render("Hole ") + s.Big.Render(pl.Hole.Label),
-		s.Big.Render(f1(pl.Timing.RPM)) + s.Unit.Render(" rpm"),
-		s.Label.Render("dwell ") + s.Big.Render(f1(pl.Timing.DwellS)) + s.Unit.Render(" s"),
-		s.Value.Render(f0(pl.Hole.DeliveredML)) + s.Unit.Render(" mL ") + s.Value.Render(f1(pl.Hole.MLPerKg)) + s.Unit.Render(" mL/kg"),
+	level := s.Label.Render("no cautions")
+	if len(cs) > 0 {
+		level = s.levelWord(setup.Highest(cs))
 	}
-	if n := len(pl.Cautions); n == 0 {
-		parts = append(parts, s.Label.Render("no cautions"))
-	} else {
-		parts = append(parts, s.Label.Render(fmt.Sprintf("%d caution%s, highest ", n, plural(n)))+s.levelWord(setup.Highest(pl.Cautions)))
+	parts := []string{
+		s.Label.Render(lead) + level,
+		s.Label.Render("Hole ") + s.Big.Render(f.Hole.Label),
+		s.Big.Render(f1(f.Timing.RPM)) + s.Unit.Render(" rpm"),
+		s.Label.Render("dwell ") + s.Big.Render(f1(f.Timing.DwellS)) + s.Unit.Render(" s"),
+		s.Value.Render(f0(f.Hole.DeliveredML)) + s.Unit.Render(" mL ") + s.Value.Render(f1(f.Hole.MLPerKg)) + s.Unit.Render(" mL/kg"),
+	}
+	if n := len(cs); n > 0 {
+		parts = append(parts, s.Label.Render(fmt.Sprintf("%d caution%s", n, plural(n))))
 	}
 	return truncate(strings.Join(parts, sep), m.w)
 }

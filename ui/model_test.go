@@ -236,7 +236,7 @@ func TestClinicalLineAndLevelWordsOnScreen(t *testing.T) {
 	m := newTestModel(t, map[string]string{"height-cm": "175", "sex": "male"})
 	v := screen(m)
 	require.Contains(t, v, "responsible clinician under local protocols")
-	require.Contains(t, v, "highest WARN")
+	require.Contains(t, v, "Plan: WARN | Hole")
 	for _, line := range strings.Split(v, "\n") {
 		require.LessOrEqual(t, ansi.StringWidth(line), 80, "line wider than the window: %q", line)
 	}
