@@ -31,9 +31,6 @@ type CalibrationStatus struct {
 	Outside int
 }
 
-// HasPoints reports whether a calibration was fitted.
-func (c CalibrationStatus) HasPoints() bool { return c.Fit != nil }
-
 func newUnit(p profiles.Profile, now time.Time) (unit, error) {
 	u := unit{p: p, controller: machine.Controller{DwellStepS: p.Controller.DwellStepS, MaxDwellS: p.Controller.MaxDwellS}}
 	if p.Motor.Fixed() {
