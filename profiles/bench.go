@@ -143,6 +143,9 @@ func benchRow(rec []string, p Profile) (BenchPoint, string) {
 	pt.TestLungResistanceCmH2OPerLS = num(2, 0, 500, "cmH2O/(L/s)")
 	pt.RPM = num(3, 0, 200, "rpm")
 	pt.MeasuredML = num(4, 0, 5000, "mL")
+	if why := benchSpeed(pt.RPM, p.Motor); why != "" && len(bad) == 0 {
+		bad = append(bad, why)
+	}
 	if len(bad) > 0 {
 		return BenchPoint{}, strings.Join(bad, "; ")
 	}
@@ -165,4 +168,16 @@ func SaveWithBackup(path string, p Profile) error {
 		}
 	}
 	return WriteAtomic(path, data, 0o644)
+}
+
+// benchSpeed says why a bench speed cannot be this machine's, or "". A
+// fixed motor is allowed half an rpm either side, as a tachometer reads it.
+func benchSpeed(rpm float64, m Motor) string {
+	switch {
+	case m.Fixed() && math.Abs(rpm-m.RPM) > 0.5:
+		return fmt.Sprintf("rpm %g: this machine's motor runs only at %g rpm", rpm, m.RPM)
+	case !m.Fixed() && (rpm < m.MinRPM || rpm > m.MaxRPM):
+		return fmt.Sprintf("rpm %g is outside this motor's %g-%g rpm", rpm, m.MinRPM, m.MaxRPM)
+	}
+	return ""
 }

@@ -113,6 +113,9 @@ func TestRefusals(t *testing.T) {
 			obj(m, "calibration")["points"].([]any)[0].(map[string]any)["hole"] = "Z"
 		}, "calibration.points[0].hole"},
 		{"bad id", func(m map[string]any) { m["id"] = "Demo B!" }, "id"},
+		{"bench speed the motor cannot run", func(m map[string]any) {
+			obj(m, "calibration")["points"].([]any)[1].(map[string]any)["rpm"] = 30
+		}, "calibration.points[1].rpm"},
 		{"too many holes", func(m map[string]any) {
 			var hs []any
 			for i := 0; i < MaxHoles+1; i++ {
@@ -285,7 +288,8 @@ func TestReadBenchReportsEveryBadLine(t *testing.T) {
 		"16,50,5,20,0\n" + // zero volume
 		"\n" +
 		"7,50,5\n" + // missing columns
-		"8,50,5,20,-4\n" // negative volume
+		"8,50,5,20,-4\n" + // negative volume
+		"9,50,5,55,400\n" // a speed the motor cannot run
 	_, err := ReadBench(strings.NewReader(text), "bench.csv", p)
 	var be *BenchError
 	require.ErrorAs(t, err, &be)
@@ -293,7 +297,8 @@ func TestReadBenchReportsEveryBadLine(t *testing.T) {
 	for _, pr := range be.Problems {
 		lines = append(lines, pr.Line)
 	}
-	require.Equal(t, []int{3, 4, 5, 7, 8}, lines)
+	require.Equal(t, []int{3, 4, 5, 7, 8, 9}, lines)
+	require.Contains(t, be.Problems[5].Reason, "outside this motor's 8-40 rpm")
 	require.Contains(t, be.Problems[0].Reason, `"99"`)
 	require.Contains(t, be.Problems[1].Reason, "not a number")
 	require.Contains(t, be.Problems[3].Reason, "columns")

@@ -165,7 +165,11 @@ func validate(p Profile) []FieldError {
 			}
 			c.between(path+".test_lung_compliance_ml_per_cmh2o", pt.TestLungComplianceMLPerCmH2O, 0, 500, false, "mL/cmH2O")
 			c.between(path+".test_lung_resistance_cmh2o_per_l_s", pt.TestLungResistanceCmH2OPerLS, 0, 500, false, "cmH2O/(L/s)")
-			c.between(path+".rpm", pt.RPM, 0, 200, false, "rpm")
+			if c.between(path+".rpm", pt.RPM, 0, 200, false, "rpm") {
+				if why := benchSpeed(pt.RPM, p.Motor); why != "" && (p.Motor.Kind == MotorFixed || p.Motor.Kind == MotorVariable) {
+					c.add(path+".rpm", "%s", why)
+				}
+			}
 			c.between(path+".measured_ml", pt.MeasuredML, 0, 5000, false, "mL")
 		}
 	}
