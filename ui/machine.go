@@ -31,7 +31,9 @@ type machinePanel struct {
 	path    textinput.Model
 	offset  int // first hole row shown
 	preview *setup.CalibrationResult
-	note    string
+	// previewOffset scrolls the preview, which is longer than a small window.
+	previewOffset int
+	note          string
 }
 
 func newMachinePanel(s *Styles) *machinePanel {
@@ -53,7 +55,7 @@ func (p *machinePanel) setPreview(res *setup.CalibrationResult, err error) {
 		p.mode, p.preview, p.note = machineView, nil, "! "+err.Error()
 		return
 	}
-	p.mode, p.preview, p.note = machinePreview, res, ""
+	p.mode, p.preview, p.note, p.previewOffset = machinePreview, res, "", 0
 }
 
 // setWritten leaves the preview once the refit is saved, or says why not.
@@ -92,6 +94,10 @@ func (p *machinePanel) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 		switch {
 		case key.Matches(km, p.keys.Write):
 			p.sig.write = true
+		case key.Matches(km, p.keys.Down):
+			p.previewOffset++
+		case key.Matches(km, p.keys.Up):
+			p.previewOffset = max(p.previewOffset-1, 0)
 		case km.Type == tea.KeyEsc:
 			p.mode, p.preview, p.note = machineView, nil, "refit discarded; nothing saved"
 		}
@@ -123,7 +129,13 @@ func (p *machinePanel) View() string {
 		return s.Error.Render(msg)
 	}
 	if p.mode == machinePreview && p.preview != nil {
-		return fit(p.previewView(), p.w, p.h)
+		lines := strings.Split(p.previewView(), "\n")
+		// The heading stays; the rest scrolls.
+		p.previewOffset = min(p.previewOffset, max(len(lines)-p.h, 0))
+		if p.previewOffset > 0 {
+			lines = append(lines[:1:1], lines[1+p.previewOffset:]...)
+		}
+		return fit(strings.Join(lines, "\n"), p.w, p.h)
 	}
 	sum := p.out.summary
 	pr := sum.Profile
@@ -225,7 +237,7 @@ func (p *machinePanel) ShortHelp() []key.Binding {
 	case machinePath:
 		return []key.Binding{key.NewBinding(key.WithKeys("enter"), key.WithHelp("enter", "read the bench file")), key.NewBinding(key.WithKeys("esc"), key.WithHelp("esc", "cancel"))}
 	case machinePreview:
-		return []key.Binding{p.keys.Write, key.NewBinding(key.WithKeys("esc"), key.WithHelp("esc", "discard"))}
+		return []key.Binding{p.keys.Write, key.NewBinding(key.WithKeys("esc"), key.WithHelp("esc", "discard")), key.NewBinding(key.WithKeys("down"), key.WithHelp("↑/↓", "scroll"))}
 	}
 	return []key.Binding{p.keys.Pick, p.keys.Bench, p.keys.Down, p.keys.Advance}
 }
