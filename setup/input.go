@@ -138,7 +138,7 @@ func resolveTargets(t Targets) (resolved, error) {
 		r.peep = physiology.Value{Value: *t.PEEPCmH2O, Source: entered}
 	case lung == physiology.ARDS:
 		r.peep = physiology.Value{Value: r.table.LowestCmH2O,
-			Source: fmt.Sprintf("lower-PEEP/FiO2 table (ARDS Network 2000) at FiO2 %.1f", r.table.FiO2Step)}
+			Source: fmt.Sprintf("ARDSNet 2000 lower-PEEP/FiO2 table at FiO2 %.1f", r.table.FiO2Step)}
 	default:
 		r.peep = d.PEEPCmH2O
 	}
