@@ -72,10 +72,10 @@ func run(args []string, stdout, stderr io.Writer) (status int) {
 		fmt.Fprint(stdout, topUsage)
 		return exitOK
 	case "":
-		return cmdUI(nil, stderr)
+		return cmdUI(nil, stdout, stderr)
 	}
 	if strings.HasPrefix(cmd, "-") {
-		return cmdUI(args, stderr)
+		return cmdUI(args, stdout, stderr)
 	}
 	return usageError(stderr, "", fmt.Sprintf("unknown command %s", physiology.Quote(cmd)))
 }
@@ -495,18 +495,11 @@ func profilesValidate(path string, stdout, stderr io.Writer) int {
 }
 
 // cmdUI opens the full-screen UI, prefilled from any plan flags given.
-func cmdUI(args []string, stderr io.Writer) int {
+func cmdUI(args []string, stdout, stderr io.Writer) int {
 	f := newPlanFlags(stderr)
 	logPath := f.fs.String("log", setup.DefaultLogPath(), "the handover log the screen records checks in")
-	if err := f.fs.Parse(args); err != nil {
-		if errors.Is(err, flag.ErrHelp) {
-			fmt.Fprint(stderr, topUsage)
-			return exitOK
-		}
-		return usageError(stderr, "", flagError(err))
-	}
-	if f.fs.NArg() > 0 {
-		return usageError(stderr, "", fmt.Sprintf("unexpected argument %s", physiology.Quote(f.fs.Arg(0))))
+	if status, done := parseFlags(f.fs, args, "", topUsage+"\nFlags of the screen:\n", stdout, stderr); done {
+		return status
 	}
 	if f.asJSON {
 		return usageError(stderr, "", "--json goes with a sub-command, such as 'crankside plan --json'")

@@ -155,12 +155,9 @@ func benchRow(rec []string, p Profile) (BenchPoint, string) {
 // SaveWithBackup saves p over path atomically after keeping the file that
 // was there as path + ".bak" (itself written atomically).
 func SaveWithBackup(path string, p Profile) error {
-	data, err := Marshal(p)
+	data, err := encodeValid(path, p)
 	if err != nil {
 		return err
-	}
-	if _, err := Parse(data, path); err != nil {
-		return fmt.Errorf("not saved: %w", err)
 	}
 	if old, err := readLimited(path); err == nil {
 		if err := WriteAtomic(path+".bak", old, 0o644); err != nil {

@@ -23,14 +23,24 @@ func Marshal(p Profile) ([]byte, error) {
 // same directory, synced, then renamed over the old file, then the
 // directory synced. On any error the old file is left as it was.
 func Save(path string, p Profile) error {
-	data, err := Marshal(p)
+	data, err := encodeValid(path, p)
 	if err != nil {
 		return err
 	}
-	if _, err := Parse(data, path); err != nil {
-		return fmt.Errorf("not saved: %w", err)
-	}
 	return WriteAtomic(path, data, 0o644)
+}
+
+// encodeValid marshals p and parses the result back, so that nothing is
+// saved that the tool would refuse to load.
+func encodeValid(path string, p Profile) ([]byte, error) {
+	data, err := Marshal(p)
+	if err != nil {
+		return nil, err
+	}
+	if _, err := Parse(data, path); err != nil {
+		return nil, fmt.Errorf("not saved: %w", err)
+	}
+	return data, nil
 }
 
 // WriteAtomic writes data to path through a synced temporary file and a

@@ -52,9 +52,7 @@ type CalibrationResult struct {
 // least-squares line of effective against geometric swept volume gives k
 // and b. date (YYYY-MM-DD, empty for today) must not be in the future.
 func Calibrate(p profiles.Profile, points []profiles.BenchPoint, date string, now time.Time) (CalibrationResult, error) {
-	if now.IsZero() {
-		now = time.Now()
-	}
+	now = orNow(now)
 	if date == "" {
 		date = now.Format(time.DateOnly)
 	}

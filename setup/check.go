@@ -106,10 +106,7 @@ type Difference struct {
 // reproduces do not stop the check: FitProblem says which to re-take and
 // the figures use the assumed mechanics.
 func RunCheck(req CheckRequest, p profiles.Profile) (Check, error) {
-	now := req.Now
-	if now.IsZero() {
-		now = time.Now()
-	}
+	now := orNow(req.Now)
 	pbw, err := pbwOf(req.Patient)
 	if err != nil {
 		return Check{}, err

@@ -190,3 +190,12 @@ func pbwOf(p Patient) (float64, error) {
 	}
 	return pbw, nil
 }
+
+// orNow is t, or the current time when t is zero (a request that does not
+// say when it is made).
+func orNow(t time.Time) time.Time {
+	if t.IsZero() {
+		return time.Now()
+	}
+	return t
+}

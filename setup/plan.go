@@ -3,7 +3,6 @@ package setup
 import (
 	"fmt"
 	"math"
-	"time"
 
 	"crankside/machine"
 	"crankside/physiology"
@@ -54,10 +53,7 @@ type Plan struct {
 
 // MakePlan turns a request into a setting on the machine described by p.
 func MakePlan(req Request, p profiles.Profile) (Plan, error) {
-	now := req.Now
-	if now.IsZero() {
-		now = time.Now()
-	}
+	now := orNow(req.Now)
 	pbw, err := pbwOf(req.Patient)
 	if err != nil {
 		return Plan{}, err
