@@ -53,7 +53,8 @@ func (p *targetsPanel) View() string {
 		s.kv("PEEP table", fmt.Sprintf("%.0f-%.0f", pl.PEEPTable.LowestCmH2O, pl.PEEPTable.HighestCmH2O), "cmH2O") +
 			src(fmt.Sprintf("lower-PEEP/FiO2 table at FiO2 %.1f", pl.PEEPTable.FiO2Step)),
 		s.kv("FiO2", f2(pl.FiO2.Value), "") + src(pl.FiO2.Source),
-		s.kv("Lung model", fmt.Sprintf("C %.0f, R %.0f", pl.Compliance.Value, pl.Resistance.Value), "mL/cmH2O, cmH2O/(L/s)"),
+		s.kv("Lung model", fmt.Sprintf("C %.0f", pl.Compliance.Value), "mL/cmH2O") + s.Value.Render(fmt.Sprintf("  R %.0f", pl.Resistance.Value)) + " " + s.Unit.Render("cmH2O/(L/s)") +
+			src(pl.Compliance.Source),
 	}
 	b.WriteString(strings.Join(lines, "\n"))
 	return fit(b.String(), p.w, p.h)
