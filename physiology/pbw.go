@@ -3,6 +3,7 @@ package physiology
 import (
 	"fmt"
 	"math"
+	"strconv"
 	"strings"
 )
 
@@ -66,7 +67,28 @@ func (e *RangeError) Error() string {
 		e.Quantity, trim(e.Value), unit, trim(e.Min), trim(e.Max), unit)
 }
 
-func trim(v float64) string { return fmt.Sprintf("%.4g", v) }
+// trim prints a number as a plain decimal with at most four significant
+// digits (140200, never 1.402e+05), and says "far above" or "far below"
+// for numbers no decimal of reasonable length can show.
+func trim(v float64) string { return PlainNumber(v) }
+
+// PlainNumber is v as a person reads it: a plain decimal with up to four
+// significant digits and no exponent.
+func PlainNumber(v float64) string {
+	switch {
+	case math.IsNaN(v) || math.IsInf(v, 0):
+		return fmt.Sprint(v)
+	case math.Abs(v) >= 1e9:
+		if v > 0 {
+			return "more than 1000000000"
+		}
+		return "less than -1000000000"
+	case v != 0 && math.Abs(v) < 1e-4:
+		return "0.0000 (nearly zero)"
+	}
+	r, _ := strconv.ParseFloat(strconv.FormatFloat(v, 'g', 4, 64), 64)
+	return strconv.FormatFloat(r, 'f', -1, 64)
+}
 
 // CheckRange returns a *RangeError unless min <= v <= max and v is finite.
 func CheckRange(quantity string, v, min, max float64, unit string) error {

@@ -43,6 +43,9 @@ type Request struct {
 type InputError struct {
 	Field  string // the flag or field, like "height-cm"
 	Reason string // the value and the accepted range
+	// Missing marks a required entry that is blank: a form shows it as
+	// waiting for the entry rather than as a mistake.
+	Missing bool
 }
 
 func (e *InputError) Error() string { return e.Field + ": " + e.Reason }

@@ -37,7 +37,8 @@ type FiguresJSON struct {
 	PEEPCmH2O                   float64  `json:"peep_cmh2o"`
 	FiO2                        float64  `json:"fio2"`
 	O2FlowLMin                  float64  `json:"o2_flow_l_min"`
-	CylinderMinutes             *float64 `json:"cylinder_minutes"`
+	CylinderMinutes             *float64 `json:"cylinder_minutes"` // null with no cylinder or no oxygen flowing
+	CylinderEntered             bool     `json:"cylinder_entered,omitempty"`
 	ComplianceMLPerCmH2O        float64  `json:"compliance_ml_per_cmh2o"`
 	ResistanceCmH2OPerLS        float64  `json:"resistance_cmh2o_per_l_s"`
 	MinuteVentilationLMin       float64  `json:"minute_ventilation_l_min"`
@@ -68,6 +69,7 @@ func figuresJSON(f Figures) FiguresJSON {
 		IntrinsicPEEPCmH2O: r4(f.IntrinsicPEEPCmH2O), TrappedVolumeML: r4(f.TrappedML), ExhalationTauS: r4(f.TauS),
 		PeakTorqueNm: r4(f.PeakTorqueNm), RatedTorqueShare: r4(f.TorqueShareOfRating),
 	}
+	j.CylinderEntered = f.CylinderGiven
 	if f.CylinderGiven && !math.IsInf(f.CylinderMinutes, 0) {
 		m := r4(f.CylinderMinutes)
 		j.CylinderMinutes = &m
@@ -161,7 +163,7 @@ func (pl Plan) WriteText(w io.Writer) error {
 	p("Target    %.1f mL/kg PBW = %.0f mL, rate %.0f /min, I:E 1:%.1f, PEEP %.0f cmH2O, FiO2 %.2f\n",
 		pl.MLPerKg.Value, pl.TargetVtML, pl.Rate.Value, pl.IE.Value, pl.PEEP.Value, pl.FiO2.Value)
 	p("Lung      C %.0f mL/cmH2O (%s), R %.0f cmH2O/(L/s) (%s)\n", pl.Compliance.Value, pl.Compliance.Source, pl.Resistance.Value, pl.Resistance.Source)
-	p("\nSET THE MACHINE\n")
+	p("\n%s\n", SettingHeading(pl.Cautions, "SET THE MACHINE"))
 	p("  Hole          %s  (swept %.0f mL, calibrated %.0f mL)\n", pl.Hole.Label, pl.Hole.SweptML, pl.Hole.EffectiveSweptML)
 	p("  Motor speed   %.1f rpm\n", pl.Timing.RPM)
 	p("  Dwell         %.1f s\n", pl.Timing.DwellS)
@@ -171,27 +173,20 @@ func (pl Plan) WriteText(w io.Writer) error {
 	} else {
 		p("  O2 bleed      none (room air)\n")
 	}
-	p("\nTHE PATIENT GETS\n")
-	p("  Tidal volume  %.0f mL = %.1f mL/kg PBW (target %.0f mL, %+.0f%%)\n", pl.Hole.DeliveredML, pl.Hole.MLPerKg, pl.TargetVtML, pl.OffTargetPct)
+	p("\nTHE PATIENT GETS (predicted)\n")
+	p("  Target        %.0f mL = %.1f mL/kg PBW; this hole is %+.0f%% off it\n", pl.TargetVtML, pl.MLPerKg.Value, pl.OffTargetPct)
 	if pl.Below != nil {
 		p("  Hole below    %s: %.0f mL = %.1f mL/kg\n", pl.Below.Label, pl.Below.DeliveredML, pl.Below.MLPerKg)
 	}
 	if pl.Above != nil {
 		p("  Hole above    %s: %.0f mL = %.1f mL/kg\n", pl.Above.Label, pl.Above.DeliveredML, pl.Above.MLPerKg)
 	}
-	p("  Rate          %.1f /min, Ti %.2f s, Te %.2f s, I:E 1:%.1f\n", pl.Timing.RateBPM, pl.Timing.TiS, pl.Timing.TeS, pl.Timing.IE)
-	p("  Minute vent.  %.1f L/min, peak flow %.0f L/min\n", pl.MinuteVentLPerMin, pl.PeakFlowLPerMin)
-	p("  Pressures     peak %.1f, end of inspiration %.1f, plateau %.1f, driving %.1f cmH2O\n", pl.PeakCmH2O, pl.EndInspCmH2O, pl.PlateauCmH2O, pl.DrivingCmH2O)
-	p("  Trapped gas   %.0f mL, intrinsic PEEP %.1f cmH2O (tau %.2f s)\n", pl.TrappedML, pl.IntrinsicPEEPCmH2O, pl.TauS)
-	p("  FiO2          %.2f estimated\n", pl.Figures.FiO2)
-	if pl.CylinderGiven {
-		if math.IsInf(pl.CylinderMinutes, 0) {
-			p("  O2 cylinder   not in use (no oxygen flow)\n")
-		} else {
-			p("  O2 cylinder   %.0f min left at %.1f L/min\n", pl.CylinderMinutes, pl.O2FlowLPerMin)
-		}
+	fj := figuresJSON(pl.Figures)
+	for _, r := range FigureRows(fj, nil) {
+		p("  %-26s %10s\n", r.Label+unitSuffix(r.Unit), r.Text)
 	}
-	p("  Crank torque  %.2f N m peak, %.0f%% of the motor's rating\n", pl.PeakTorqueNm, 100*pl.TorqueShareOfRating)
+	p("  %s\n", DrivingNote)
+	p("  Exhalation tau %.2f s; torque %.0f%% of the motor's rating\n", pl.TauS, 100*pl.TorqueShareOfRating)
 	if len(pl.Changes) > 0 {
 		p("\nWHAT THE MACHINE'S STEPS CHANGED\n")
 		for _, c := range pl.Changes {

@@ -251,7 +251,7 @@ func TestCheckRefusalsAndUnsavedRecord(t *testing.T) {
 	}{
 		{append(base, "--hole", "99", "--rpm", "21"), "--hole"},
 		{append(base, "--hole", "8", "--rpm", "21.2"), "--rpm"},
-		{append(base, "--hole", "8", "--rpm", "21", "--peak", "17"), "--end-pressure go together"},
+		{append(base, "--hole", "8", "--rpm", "21", "--peak", "17"), "--end-pressure: peak and end-pressure go together"},
 		{append(base, "--hole", "8", "--rpm", "21", "--bed", "Smith", "--initials", "ab", "--log", "x.jsonl"), "never a patient's name"},
 		{append(base, "--hole", "8", "--rpm", "21", "--log", "x.jsonl"), "--log needs --bed"},
 		{[]string{"check", "--height-cm", "175", "--sex", "male"}, "--hole is required"},

@@ -11,7 +11,7 @@ import (
 
 // Values no number flag may accept (common practice: only plain finite
 // decimals are numbers at a bedside).
-var hostileNumbers = []string{"NaN", "nan", "Inf", "-Inf", "+Inf", "1e999", "-1e999", "abc", "", " ", "0x1A", "1,5", "١٧٥", "17 5", "1e", "--", "\x7f"}
+var hostileNumbers = []string{"NaN", "nan", "Inf", "-Inf", "+Inf", "1e999", "-1e999", "abc", "", " ", "0x1A", "1,5,0", "1.5,0", "1,", "١٧٥", "17 5", "1e", "--", "\x7f"}
 
 func TestEveryNumberFlagRefusesHostileValues(t *testing.T) {
 	plan := []string{"plan", "--height-cm", "175", "--sex", "male"}
@@ -37,6 +37,19 @@ func TestEveryNumberFlagRefusesHostileValues(t *testing.T) {
 			require.Empty(t, r.stdout)
 		}
 	}
+}
+
+// A decimal comma is a decimal mark, as written in much of the world
+// (common practice): "0,9" is 0.9 on every number flag, as on the screen.
+func TestDecimalCommaIsADecimalMark(t *testing.T) {
+	r := crankside(t, "plan", "--height-cm", "175,5", "--sex", "male", "--peep", "7,5", "--fio2", "0,4", "--json")
+	require.Equal(t, 0, r.status, r.stderr)
+	require.Contains(t, r.stdout, `"peep_cmh2o": 7.5`)
+	require.Contains(t, r.stdout, `"fio2": 0.4`)
+	require.Contains(t, r.stdout, `"height_cm": 175.5`)
+	r = crankside(t, "check", "--height-cm", "175", "--sex", "male", "--hole", "8", "--rpm", "21", "--dwell-s", "1,4", "--json")
+	require.Equal(t, 0, r.status, r.stderr)
+	require.Contains(t, r.stdout, `"dwell_s": 1.4`)
 }
 
 func TestHostileTextFlags(t *testing.T) {

@@ -1,0 +1,371 @@
+package setup
+
+import (
+	"fmt"
+	"sort"
+	"strings"
+	"time"
+
+	"crankside/physiology"
+)
+
+// Entries are what a person typed, keyed by the flag's name ("height-cm",
+// "propose-rpm"): the command line's flag values and the screen's fields
+// both arrive here as text. A name that is absent or blank means "not
+// given". BuildRequest and BuildCheckRequest are the one place where such
+// text becomes numbers, defaults are applied and the rules that join two
+// entries (a cylinder needs both its capacity and its pressure) are kept.
+type Entries map[string]string
+
+// Problems are every entry that cannot be used, each naming its field, in
+// the order of the form. Missing required entries carry Missing.
+type Problems []*InputError
+
+// Err is the first problem as an error, or nil when there is none.
+func (ps Problems) Err() error {
+	if len(ps) == 0 {
+		return nil
+	}
+	return ps[0]
+}
+
+// Field returns the problem of one field, or nil.
+func (ps Problems) Field(name string) *InputError {
+	for _, p := range ps {
+		if p.Field == name {
+			return p
+		}
+	}
+	return nil
+}
+
+// entryKind says how a field's text is read.
+type entryKind int
+
+const (
+	kindNumber entryKind = iota // a decimal number; a comma is a decimal mark
+	kindText                    // text taken as it is (a hole label)
+	kindChoice                  // one of a few words (sex, lung)
+	kindRatio                   // an I:E like 1:2
+)
+
+// EntrySpec describes one entry: its flag name, what it holds, its unit,
+// and the hint shown beside an empty field (the default and its source,
+// or "required").
+type EntrySpec struct {
+	Name     string
+	Label    string
+	Unit     string
+	Kind     entryKind
+	Required bool
+	// ZeroIsDefault marks entries whose blank means a default: typing 0
+	// there is refused instead of silently meaning "default".
+	ZeroIsDefault bool
+}
+
+// IsNumber reports whether the entry is read as a decimal number.
+func (s EntrySpec) IsNumber() bool { return s.Kind == kindNumber }
+
+var planSpecs = []EntrySpec{
+	{Name: "height-cm", Label: "Height", Unit: "cm", Required: true},
+	{Name: "sex", Label: "Sex", Kind: kindChoice, Required: true},
+	{Name: "lung", Label: "Lung", Kind: kindChoice},
+	{Name: "ml-per-kg", Label: "Tidal volume", Unit: "mL/kg", ZeroIsDefault: true},
+	{Name: "rate", Label: "Rate", Unit: "/min", ZeroIsDefault: true},
+	{Name: "ie", Label: "I:E", Kind: kindRatio},
+	{Name: "peep", Label: "PEEP", Unit: "cmH2O"},
+	{Name: "fio2", Label: "FiO2", ZeroIsDefault: true},
+	{Name: "compliance", Label: "Compliance", Unit: "mL/cmH2O", ZeroIsDefault: true},
+	{Name: "resistance", Label: "Resistance", Unit: "cmH2O/(L/s)", ZeroIsDefault: true},
+	{Name: "cylinder-l", Label: "Cylinder", Unit: "L", ZeroIsDefault: true},
+	{Name: "cylinder-bar", Label: "Cylinder", Unit: "bar"},
+}
+
+var checkSpecs = []EntrySpec{
+	{Name: "height-cm", Label: "Height", Unit: "cm", Required: true},
+	{Name: "sex", Label: "Sex", Kind: kindChoice, Required: true},
+	{Name: "lung", Label: "Lung", Kind: kindChoice},
+	{Name: "compliance", Label: "Compliance", Unit: "mL/cmH2O", ZeroIsDefault: true},
+	{Name: "resistance", Label: "Resistance", Unit: "cmH2O/(L/s)", ZeroIsDefault: true},
+	{Name: "hole", Label: "Hole", Kind: kindText, Required: true},
+	{Name: "rpm", Label: "Motor speed", Unit: "rpm", Required: true},
+	{Name: "dwell-s", Label: "Dwell", Unit: "s", Required: true},
+	{Name: "peep", Label: "PEEP valve", Unit: "cmH2O"},
+	{Name: "o2-lpm", Label: "O2 flow", Unit: "L/min"},
+	{Name: "peak", Label: "Peak reading", Unit: "cmH2O"},
+	{Name: "end-pressure", Label: "End reading", Unit: "cmH2O"},
+	{Name: "cylinder-l", Label: "Cylinder", Unit: "L", ZeroIsDefault: true},
+	{Name: "cylinder-bar", Label: "Cylinder", Unit: "bar"},
+	{Name: "propose-hole", Label: "Proposed hole", Kind: kindText},
+	{Name: "propose-rpm", Label: "Proposed speed", Unit: "rpm"},
+	{Name: "propose-dwell-s", Label: "Proposed dwell", Unit: "s"},
+	{Name: "propose-peep", Label: "Proposed PEEP", Unit: "cmH2O"},
+}
+
+// PlanEntries and CheckEntrySpecs list the entries of a plan and of a
+// check, in the order a form shows them.
+func PlanEntries() []EntrySpec      { return append([]EntrySpec(nil), planSpecs...) }
+func CheckEntrySpecs() []EntrySpec { return append([]EntrySpec(nil), checkSpecs...) }
+
+// Spec returns the entry of that flag name, from the plan's or the
+// check's list.
+func Spec(name string) (EntrySpec, bool) {
+	for _, list := range [][]EntrySpec{planSpecs, checkSpecs} {
+		for _, s := range list {
+			if s.Name == name {
+				return s, true
+			}
+		}
+	}
+	return EntrySpec{}, false
+}
+
+// entryReader reads Entries field by field and gathers every problem.
+type entryReader struct {
+	e        Entries
+	problems Problems
+}
+
+func (r *entryReader) text(name string) string { return strings.TrimSpace(r.e[name]) }
+
+func (r *entryReader) given(name string) bool { return r.text(name) != "" }
+
+func (r *entryReader) fail(name, reason string) {
+	if r.problems.Field(name) == nil {
+		r.problems = append(r.problems, &InputError{Field: name, Reason: reason})
+	}
+}
+
+func (r *entryReader) missing(name, reason string) {
+	if r.problems.Field(name) == nil {
+		r.problems = append(r.problems, &InputError{Field: name, Reason: reason, Missing: true})
+	}
+}
+
+// number reads a number entry; ok is false when it is blank or bad (a bad
+// one is a problem). A typed 0 where blank means the default is refused.
+func (r *entryReader) number(name string) (v float64, ok bool) {
+	spec, _ := Spec(name)
+	text := r.text(name)
+	if text == "" {
+		if spec.Required {
+			r.missing(name, "required"+unitHint(spec.Unit))
+		}
+		return 0, false
+	}
+	v, err := physiology.ParseNumber(text)
+	if err != nil {
+		r.fail(name, err.Error()+unitHint(spec.Unit))
+		return 0, false
+	}
+	if v == 0 && spec.ZeroIsDefault {
+		r.fail(name, "0 is not allowed; leave it blank for the default")
+		return 0, false
+	}
+	return v, true
+}
+
+func unitHint(unit string) string {
+	if unit == "" {
+		return ""
+	}
+	return " (" + unit + ")"
+}
+
+// patient reads height and sex; the height's range is checked here so
+// that it is reported with the other entries.
+func (r *entryReader) patient() Patient {
+	var p Patient
+	if h, ok := r.number("height-cm"); ok {
+		if err := checkRange("height-cm", "height", h, physiology.HeightMinCm, physiology.HeightMaxCm, "cm"); err != nil {
+			r.problems = append(r.problems, err.(*InputError))
+		}
+		p.HeightCm = h
+	}
+	switch {
+	case !r.given("sex"):
+		r.missing("sex", "required: male or female")
+	default:
+		sex, err := physiology.ParseSex(r.text("sex"))
+		if err != nil {
+			r.fail("sex", err.Error())
+		}
+		p.Sex = sex
+	}
+	return p
+}
+
+func (r *entryReader) lung() physiology.Lung {
+	if !r.given("lung") {
+		return physiology.Normal
+	}
+	l, err := physiology.ParseLung(r.text("lung"))
+	if err != nil {
+		r.fail("lung", err.Error())
+		return physiology.Normal
+	}
+	return l
+}
+
+// cylinder reads the oxygen cylinder: both entries or neither.
+func (r *entryReader) cylinder() (waterL, bar float64) {
+	l, hasL := r.number("cylinder-l")
+	b, hasB := r.number("cylinder-bar")
+	switch {
+	case r.given("cylinder-l") && !r.given("cylinder-bar"):
+		r.fail("cylinder-bar", "needed with the cylinder's capacity (cylinder-l): give both or neither")
+	case r.given("cylinder-bar") && !r.given("cylinder-l"):
+		r.fail("cylinder-l", "needed with the cylinder's pressure (cylinder-bar): give both or neither")
+	case hasL && hasB:
+		return l, b
+	}
+	return 0, 0
+}
+
+// BuildRequest turns a plan's entries into a Request, with every problem
+// at once. The request is only for MakePlan when Problems is empty.
+func BuildRequest(e Entries, now time.Time) (Request, Problems) {
+	r := &entryReader{e: e}
+	req := Request{Patient: r.patient(), Now: now}
+	t := Targets{Lung: r.lung()}
+	t.MLPerKg, _ = r.number("ml-per-kg")
+	t.RateBPM, _ = r.number("rate")
+	t.FiO2, _ = r.number("fio2")
+	t.ComplianceMLPerCmH2O, _ = r.number("compliance")
+	t.ResistanceCmH2OPerLS, _ = r.number("resistance")
+	if v, ok := r.number("peep"); ok {
+		t.PEEPCmH2O = &v
+	}
+	if r.given("ie") {
+		ie, err := physiology.ParseIE(r.text("ie"))
+		if err != nil {
+			r.fail("ie", strings.TrimPrefix(err.Error(), "I:E "))
+		}
+		t.IE = ie
+	}
+	t.CylinderWaterL, t.CylinderBar = r.cylinder()
+	req.Targets = t
+	r.rangeProblems(req.Targets)
+	return req, r.sorted(planSpecs)
+}
+
+// rangeProblems checks each target on its own against its range, so that
+// all of them are marked at once.
+func (r *entryReader) rangeProblems(t Targets) {
+	for _, one := range []Targets{
+		{MLPerKg: t.MLPerKg}, {RateBPM: t.RateBPM}, {IE: t.IE}, {PEEPCmH2O: t.PEEPCmH2O}, {FiO2: t.FiO2},
+		{ComplianceMLPerCmH2O: t.ComplianceMLPerCmH2O}, {ResistanceCmH2OPerLS: t.ResistanceCmH2OPerLS},
+		{CylinderWaterL: t.CylinderWaterL, CylinderBar: t.CylinderBar},
+	} {
+		if _, err := resolveTargets(one); err != nil {
+			if ie, ok := err.(*InputError); ok && r.problems.Field(ie.Field) == nil {
+				r.problems = append(r.problems, ie)
+			}
+		}
+	}
+}
+
+// sorted puts the problems in the order of the form.
+func (r *entryReader) sorted(specs []EntrySpec) Problems {
+	rank := map[string]int{}
+	for i, s := range specs {
+		rank[s.Name] = i
+	}
+	sort.SliceStable(r.problems, func(i, j int) bool { return rank[r.problems[i].Field] < rank[r.problems[j].Field] })
+	return r.problems
+}
+
+// DefaultPEEPCmH2O is the PEEP valve assumed at a check when none is
+// entered (ARDS Network 2000 protocol: PEEP at least 5).
+const DefaultPEEPCmH2O = 5
+
+// BuildCheckRequest turns a check's entries into a CheckRequest, with every
+// problem at once. Whether the hole, speed and dwell suit this machine is
+// RunCheck's to say, since it needs the profile.
+func BuildCheckRequest(e Entries, now time.Time) (CheckRequest, Problems) {
+	r := &entryReader{e: e}
+	req := CheckRequest{Patient: r.patient(), Lung: r.lung(), Now: now}
+	req.ComplianceMLPerCmH2O, _ = r.number("compliance")
+	req.ResistanceCmH2OPerLS, _ = r.number("resistance")
+	req.Setting.Hole = r.text("hole")
+	if req.Setting.Hole == "" {
+		r.missing("hole", "required: the hole the pin is in")
+	}
+	req.Setting.RPM, _ = r.number("rpm")
+	req.Setting.DwellS, _ = r.number("dwell-s")
+	req.Setting.PEEPCmH2O = DefaultPEEPCmH2O
+	if v, ok := r.number("peep"); ok {
+		req.Setting.PEEPCmH2O = v
+	}
+	req.Setting.O2LPerMin, _ = r.number("o2-lpm")
+	peak, hasPeak := r.number("peak")
+	end, hasEnd := r.number("end-pressure")
+	switch {
+	case hasPeak && hasEnd:
+		req.Readings = &physiology.Readings{PeakCmH2O: peak, EndCmH2O: end}
+	case r.given("peak") && !r.given("end-pressure"):
+		r.fail("end-pressure", "peak and end-pressure go together: give both manometer readings or neither")
+	case r.given("end-pressure") && !r.given("peak"):
+		r.fail("peak", "peak and end-pressure go together: give both manometer readings or neither")
+	}
+	req.CylinderWaterL, req.CylinderBar = r.cylinder()
+	if h := r.text("propose-hole"); h != "" {
+		req.Proposal.Hole = &h
+	}
+	for _, pr := range []struct {
+		name string
+		dst  **float64
+	}{{"propose-rpm", &req.Proposal.RPM}, {"propose-dwell-s", &req.Proposal.DwellS}, {"propose-peep", &req.Proposal.PEEPCmH2O}} {
+		if v, ok := r.number(pr.name); ok {
+			*pr.dst = &v
+		}
+	}
+	r.rangeProblems(Targets{ComplianceMLPerCmH2O: req.ComplianceMLPerCmH2O, ResistanceCmH2OPerLS: req.ResistanceCmH2OPerLS,
+		CylinderWaterL: req.CylinderWaterL, CylinderBar: req.CylinderBar})
+	return req, r.sorted(checkSpecs)
+}
+
+// Hint is what an empty entry means, shown beside its field: the default
+// with its source for this lung condition, or that it is required.
+func Hint(name string, lung physiology.Lung) string {
+	d := physiology.DefaultsFor(lung)
+	def := func(v physiology.Value, format string) string {
+		return "blank: " + fmt.Sprintf(format, v.Value) + " (" + v.Source + ")"
+	}
+	switch name {
+	case "height-cm":
+		return fmt.Sprintf("required, %g-%g cm", physiology.HeightMinCm, physiology.HeightMaxCm)
+	case "sex":
+		return "required: m or f"
+	case "ml-per-kg":
+		return def(d.MLPerKg, "%g mL/kg")
+	case "rate":
+		return def(d.RateBPM, "%g /min")
+	case "ie":
+		return def(d.IE, "1:%g")
+	case "peep":
+		if lung == physiology.ARDS {
+			return "blank: lowest PEEP for the FiO2 (" + d.PEEPCmH2O.Source + ")"
+		}
+		return def(d.PEEPCmH2O, "%g cmH2O")
+	case "fio2":
+		return def(d.FiO2, "%.2f")
+	case "compliance":
+		return def(d.Compliance, "%g mL/cmH2O")
+	case "resistance":
+		return def(d.Resistance, "%g cmH2O/(L/s)")
+	case "hole", "rpm", "dwell-s":
+		return "required: as set on the machine"
+	case "peak", "end-pressure":
+		return "optional: both readings, or neither"
+	case "o2-lpm":
+		return "blank: none"
+	}
+	if strings.HasPrefix(name, "propose-") {
+		return "blank: as now"
+	}
+	if strings.HasPrefix(name, "cylinder-") {
+		return "optional: capacity and pressure together"
+	}
+	return ""
+}

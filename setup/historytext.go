@@ -1,0 +1,16 @@
+package setup
+
+import "fmt"
+
+// HistoryLine is one recorded check on one line, as the log listing and
+// the screen's history both show it: when, who, the setting, what the
+// patient got, and the highest caution.
+func HistoryLine(r Record) string {
+	line := fmt.Sprintf("%s UTC  %-4s  hole %s, %.1f rpm, dwell %.1f s, PEEP %.0f: %.0f mL %.1f mL/kg, %d caution(s)",
+		r.Time.UTC().Format("2006-01-02 15:04"), r.Initials, r.Setting.Hole, r.Setting.RPM, r.Setting.DwellS,
+		r.Setting.PEEPCmH2O, r.DeliveredVtML, r.MLPerKg, len(r.Cautions))
+	if len(r.Cautions) > 0 {
+		line += ", highest " + LevelWord(Highest(r.Cautions))
+	}
+	return line
+}

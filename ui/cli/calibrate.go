@@ -1,0 +1,102 @@
+package cli
+
+import (
+	"errors"
+	"fmt"
+	"os"
+	"time"
+
+	"crankside/profiles"
+	"crankside/profiles/safetext"
+	"crankside/setup"
+)
+
+const calibrateLong = `Usage: crankside calibrate --profile ID|PATH --bench FILE.csv [--date YYYY-MM-DD] [--write] [--json]
+
+Refits a machine's bench calibration. The bench file is CSV with the header
+  hole,test_lung_compliance_ml_per_cmh2o,test_lung_resistance_cmh2o_per_l_s,rpm,measured_ml
+and one row per bench breath into a test lung, delivered from rest. Each
+point's residual is shown with whether it is within +/-(4 mL + 15%).
+--write stores the new calibration and date in the profile file (the old
+file is kept as FILE.bak); without it nothing is written.
+
+Flags:
+`
+
+var calibrateCommand = &Command{
+	Name:      "calibrate",
+	UsageLine: "calibrate --profile ID|PATH --bench FILE.csv [--write]",
+	Short:     "refit a machine's bench calibration",
+	Long:      calibrateLong,
+	Run:       runCalibrate,
+}
+
+func runCalibrate(env Env) int {
+	f := newFlags("calibrate", calibrateLong)
+	ref := f.text("profile", "", "the machine profile: an id in the profiles directory, or a path")
+	dir := f.text("profiles", profiles.DefaultDir(), "directory of profile files")
+	bench := f.text("bench", "", "the bench measurements, CSV (required)")
+	date := f.text("date", "", "the calibration's date, YYYY-MM-DD (default today)")
+	write := f.boolean("write", "store the new calibration in the profile file")
+	asJSON := f.boolean("json", "print one JSON object")
+	if status, done := f.parse(env, env.Args, "calibrate", false); done {
+		return status
+	}
+	if ref() == "" || bench() == "" {
+		return UsageError(env.Stderr, "calibrate", "--profile and --bench are required")
+	}
+	p, src, err := profiles.Open(ref(), dir())
+	if err != nil {
+		return UsageError(env.Stderr, "calibrate", "--profile: "+err.Error())
+	}
+	if write() && src.Embedded {
+		return UsageError(env.Stderr, "calibrate", fmt.Sprintf("--write: %s is an embedded demo and cannot be written; save a copy with 'crankside profiles show %s --json > FILE' and calibrate that", p.ID, p.ID))
+	}
+	points, status := readBench(env, bench(), p)
+	if status != ExitOK {
+		return status
+	}
+	res, err := setup.Calibrate(p, points, date(), time.Now())
+	if err != nil {
+		return jobError(env.Stderr, "calibrate", err)
+	}
+	if write() {
+		if err := profiles.SaveWithBackup(src.Path, res.Profile); err != nil {
+			fmt.Fprintf(env.Stderr, "crankside calibrate: nothing written: %s\n", safetext.Escape(err.Error()))
+			return ExitFailure
+		}
+	}
+	if asJSON() {
+		return writeJSON(env, res.JSON(write()))
+	}
+	if status := writeText(env, "calibrate", res.WriteText); status != ExitOK {
+		return status
+	}
+	if write() {
+		fmt.Fprintf(env.Stdout, "Written to %s (the previous file is %s.bak).\n", safetext.Escape(src.Path), safetext.Escape(src.Path))
+	} else {
+		fmt.Fprintln(env.Stdout, "Nothing written: add --write to store this calibration in the profile file.")
+	}
+	return ExitOK
+}
+
+func readBench(env Env, path string, p profiles.Profile) ([]profiles.BenchPoint, int) {
+	bf, err := os.Open(path)
+	if err != nil {
+		return nil, UsageError(env.Stderr, "calibrate", "--bench: "+err.Error())
+	}
+	defer bf.Close()
+	points, err := profiles.ReadBench(bf, path, p)
+	var be *profiles.BenchError
+	switch {
+	case errors.As(err, &be):
+		for _, pr := range be.Problems {
+			fmt.Fprintf(env.Stderr, "%s: %s\n", safetext.Escape(path), safetext.Escape(pr.String()))
+		}
+		fmt.Fprintf(env.Stderr, "crankside calibrate: nothing written\n")
+		return nil, ExitUsage
+	case err != nil:
+		return nil, UsageError(env.Stderr, "calibrate", err.Error())
+	}
+	return points, ExitOK
+}

@@ -1,0 +1,149 @@
+package cli
+
+import (
+	"fmt"
+	"time"
+
+	"crankside/profiles"
+	"crankside/profiles/safetext"
+	"crankside/setup"
+)
+
+const checkLong = `Usage: crankside check --height-cm N --sex male|female --hole LABEL --rpm N --dwell-s N [flags]
+
+Shift handover: what the machine is set to and what the manometer reads ->
+the readings judged, what the patient really gets, the lung mechanics the
+readings imply, a proposed change side by side, and a record appended to
+the log. No patient name or other identifier is ever stored: only a bed
+label. A decimal comma is read as a decimal point (0,9 is 0.9).
+
+Flags:
+`
+
+var checkCommand = &Command{
+	Name:      "check",
+	UsageLine: "check --height-cm N --sex S --hole L --rpm N --dwell-s N [flags]",
+	Short:     "shift handover: what the patient gets now",
+	Long:      checkLong,
+	Run:       runCheck,
+}
+
+// checkOptions are the flags a check reads itself: where to record, and
+// how to print.
+type checkOptions struct {
+	profile, dir, bed, initials, logPath func() string
+	asJSON, card                         func() bool
+}
+
+func checkFlagSet() (*flags, checkOptions) {
+	f := newFlags("check", checkLong)
+	f.entry("height-cm", "patient's height in cm (required)")
+	f.entry("sex", "male or female (required)")
+	f.entry("hole", "the hole the pin is in (required)")
+	f.entry("rpm", "the motor speed set (required)")
+	f.entry("dwell-s", "the dwell set, in s: the motor's stop after each turn (required)")
+	f.entry("peep", "the PEEP valve, cmH2O (default 5)")
+	f.entry("o2-lpm", "oxygen bled into the intake, L/min (default 0)")
+	f.entry("peak", "manometer peak during delivery, cmH2O (with --end-pressure)")
+	f.entry("end-pressure", "manometer reading when the piston stops, cmH2O (with --peak)")
+	f.entry("lung", "lung condition for the assumed mechanics: normal, ards or obstructive")
+	f.entry("compliance", "assumed compliance when no readings are given")
+	f.entry("resistance", "assumed resistance when no readings are given")
+	f.entry("cylinder-l", "oxygen cylinder water capacity, L (with --cylinder-bar)")
+	f.entry("cylinder-bar", "oxygen cylinder pressure, bar (with --cylinder-l)")
+	f.entry("propose-hole", "a proposed hole")
+	f.entry("propose-rpm", "a proposed motor speed")
+	f.entry("propose-dwell-s", "a proposed dwell")
+	f.entry("propose-peep", "a proposed PEEP")
+	var o checkOptions
+	o.profile = f.text("profile", profiles.DefaultID, "machine profile: an id or a path to a .json file")
+	o.dir = f.text("profiles", profiles.DefaultDir(), "directory of profile files")
+	o.bed = f.text("bed", "", "bed label for the record, like B4 (never a patient's name)")
+	o.initials = f.text("initials", "", "the checking operator's initials, for the record (recommended)")
+	o.logPath = f.text("log", "", "append the check to this log file (one JSON line; with --bed)")
+	o.card = f.boolean("card", "print a handover card (plain text, 80 columns)")
+	o.asJSON = f.boolean("json", "print one JSON object")
+	return f, o
+}
+
+// recordProblem is what is wrong with the record's own flags, or "".
+func (o checkOptions) recordProblem() string {
+	bed, initials, logPath, card := o.bed(), o.initials(), o.logPath(), o.card()
+	switch {
+	case (bed != "" || initials != "") && logPath == "" && !card:
+		return "--bed and --initials are for the record: add --log FILE or --card"
+	case logPath != "" && bed == "":
+		return "--log needs --bed (a bed label such as B4; never a patient's name)"
+	case card && bed == "":
+		return "--card needs --bed (a bed label such as B4; never a patient's name)"
+	}
+	if logPath == "" && !card {
+		return ""
+	}
+	if err := setup.CheckBedLabel(bed); err != nil {
+		return "--bed: " + err.(*setup.InputError).Reason
+	}
+	if err := setup.CheckInitials(initials); err != nil {
+		return "--initials: " + err.(*setup.InputError).Reason
+	}
+	return ""
+}
+
+func runCheck(env Env) int {
+	f, o := checkFlagSet()
+	if status, done := f.parse(env, env.Args, "check", false); done {
+		return status
+	}
+	req, problems := setup.BuildCheckRequest(f.entries, time.Now())
+	if len(problems) > 0 {
+		return problemsError(env.Stderr, "check", problems)
+	}
+	// Refuse a bad bed label or initials before anything is computed or shown.
+	if msg := o.recordProblem(); msg != "" {
+		return UsageError(env.Stderr, "check", msg)
+	}
+	p, _, err := profiles.Open(o.profile(), o.dir())
+	if err != nil {
+		return UsageError(env.Stderr, "check", "--profile: "+err.Error())
+	}
+	ck, err := setup.RunCheck(req, p)
+	if err != nil {
+		return jobError(env.Stderr, "check", err)
+	}
+	var rec setup.Record
+	if o.logPath() != "" || o.card() {
+		if rec, err = setup.NewRecord(ck, o.bed(), o.initials(), req.Now); err != nil {
+			return UsageError(env.Stderr, "check", err.Error())
+		}
+	}
+	status := ExitOK
+	switch {
+	case o.asJSON():
+		status = writeJSON(env, ck.JSON())
+	case o.card():
+		status = writeText(env, "check", rec.WriteCard)
+	default:
+		status = writeText(env, "check", ck.WriteText)
+	}
+	if status != ExitOK || o.logPath() == "" {
+		return status
+	}
+	return appendRecord(env, rec, o)
+}
+
+func appendRecord(env Env, rec setup.Record, o checkOptions) int {
+	path := o.logPath()
+	if err := setup.AppendRecord(path, rec); err != nil {
+		fmt.Fprintf(env.Stderr, "crankside check: the check above was NOT recorded: %s\n", safetext.Escape(err.Error()))
+		return ExitFailure
+	}
+	note := fmt.Sprintf("Recorded for bed %s in %s.\n", safetext.Escape(rec.Bed), safetext.Escape(path))
+	switch {
+	case o.card():
+		// The card is the whole of stdout, ready to print.
+		fmt.Fprint(env.Stderr, note)
+	case !o.asJSON():
+		fmt.Fprint(env.Stdout, note)
+	}
+	return ExitOK
+}

@@ -1,0 +1,307 @@
+// Package cli holds crankside's sub-commands, one file each, behind a small
+// command table in the manner of the Go command's own source: each Command
+// has its usage line, its help, its flag set and its run function. The
+// commands only collect what was typed, as text keyed by the flag's name,
+// and hand it to setup's one entry builder (setup.BuildRequest,
+// setup.BuildCheckRequest); every number, default and rule comes from
+// there, and every figure printed comes from setup's reports.
+//
+// Bad input (a flag, a number, a profile file) gets one line on stderr
+// naming the flag, the value and the accepted range, and exit status 2;
+// a failure of the job itself exits 1. Nothing here panics on input.
+package cli
+
+import (
+	"encoding/json"
+	"errors"
+	"flag"
+	"fmt"
+	"io"
+	"strings"
+
+	"crankside/physiology"
+	"crankside/profiles/safetext"
+	"crankside/setup"
+)
+
+// Exit statuses.
+const (
+	ExitOK       = 0
+	ExitFailure  = 1
+	ExitUsage    = 2
+	ExitInternal = 70
+)
+
+// Env is what a command runs with: its arguments and its two outputs.
+type Env struct {
+	Args           []string
+	Stdout, Stderr io.Writer
+}
+
+// Command is one sub-command.
+type Command struct {
+	Name      string // as typed: "plan"
+	UsageLine string // "plan --height-cm N --sex male|female [flags]"
+	Short     string // one line for the top-level help
+	Long      string // the command's own help, before its flags
+	Run       func(env Env) int
+}
+
+// Commands is the table main dispatches on, in the order of the help.
+func Commands() []*Command {
+	return []*Command{planCommand, checkCommand, logCommand, profilesCommand, calibrateCommand}
+}
+
+// Lookup finds a command by name.
+func Lookup(name string) *Command {
+	for _, c := range Commands() {
+		if c.Name == name {
+			return c
+		}
+	}
+	return nil
+}
+
+// TopUsage is the help for crankside as a whole.
+func TopUsage() string {
+	var b strings.Builder
+	b.WriteString("crankside: set and check a motor-driven piston ventilator.\n\nUsage:\n")
+	b.WriteString("  crankside [plan flags] [--profile ID|PATH] [--profiles DIR] [--log FILE]\n")
+	b.WriteString("                                    the bedside screen, on the demo profile unless\n")
+	b.WriteString("                                    --profile names another; plan flags prefill it\n")
+	for _, c := range Commands() {
+		fmt.Fprintf(&b, "  crankside %s\n%36s%s\n", c.UsageLine, "", c.Short)
+	}
+	b.WriteString("  crankside --version\n\nRun 'crankside COMMAND --help' for a command's flags.\n\n")
+	b.WriteString(setup.ClinicalCaution + "\n")
+	return b.String()
+}
+
+// UsageError prints one line naming the command and what is wrong, and
+// returns ExitUsage.
+func UsageError(stderr io.Writer, cmd, msg string) int {
+	name := "crankside"
+	if cmd != "" {
+		name += " " + cmd
+	}
+	fmt.Fprintf(stderr, "%s: %s (run '%s --help')\n", name, safetext.Escape(msg), name)
+	return ExitUsage
+}
+
+// problemsError prints the first problem of an entry builder on one line,
+// with the names of any others, and returns ExitUsage.
+func problemsError(stderr io.Writer, cmd string, ps setup.Problems) int {
+	first := ps[0]
+	msg := "--" + first.Field + ": " + first.Reason
+	if first.Missing {
+		msg = "--" + first.Field + " is " + first.Reason
+	}
+	if len(ps) > 1 {
+		var more []string
+		for _, p := range ps[1:] {
+			more = append(more, "--"+p.Field)
+		}
+		msg += "; also check " + strings.Join(more, ", ")
+	}
+	return UsageError(stderr, cmd, msg)
+}
+
+// jobError reports an error from setup: bad input names its flag and exits
+// 2; anything else exits 1.
+func jobError(stderr io.Writer, cmd string, err error) int {
+	var ie *setup.InputError
+	if errors.As(err, &ie) {
+		return UsageError(stderr, cmd, "--"+ie.Field+": "+ie.Reason)
+	}
+	fmt.Fprintf(stderr, "crankside %s: %s\n", cmd, safetext.Escape(err.Error()))
+	return ExitFailure
+}
+
+func writeJSON(env Env, v any) int {
+	enc := json.NewEncoder(env.Stdout)
+	enc.SetIndent("", "  ")
+	if err := enc.Encode(v); err != nil {
+		fmt.Fprintf(env.Stderr, "crankside: %v\n", err)
+		return ExitFailure
+	}
+	return ExitOK
+}
+
+// writeText sends a report through the terminal-safe writer: no control
+// character or bidi override from a file or an entry reaches the terminal.
+func writeText(env Env, cmd string, write func(io.Writer) error) int {
+	sw := safetext.NewWriter(env.Stdout)
+	err := write(sw)
+	if err == nil {
+		err = sw.Flush()
+	}
+	if err != nil {
+		fmt.Fprintf(env.Stderr, "crankside %s: %v\n", cmd, err)
+		return ExitFailure
+	}
+	return ExitOK
+}
+
+// flags is a command's flag set that keeps every value as typed, refuses a
+// flag given twice, and prints its own help.
+type flags struct {
+	fs      *flag.FlagSet
+	entries setup.Entries
+	order   []string
+	usage   string
+}
+
+func newFlags(name, usage string) *flags {
+	fs := flag.NewFlagSet(name, flag.ContinueOnError)
+	fs.SetOutput(io.Discard)
+	return &flags{fs: fs, entries: setup.Entries{}, usage: usage}
+}
+
+// once is a flag value that may be given only once.
+type once struct {
+	name  string
+	dst   setup.Entries
+	multi *[]string // for flags that may repeat
+}
+
+func (o *once) String() string {
+	if o == nil || o.dst == nil {
+		return ""
+	}
+	return o.dst[o.name]
+}
+
+func (o *once) Set(s string) error {
+	if strings.TrimSpace(s) == "" {
+		return fmt.Errorf("empty: give a value, or leave the flag out for the default")
+	}
+	if o.multi != nil {
+		*o.multi = append(*o.multi, s)
+		return nil
+	}
+	if _, dup := o.dst[o.name]; dup {
+		return fmt.Errorf("given twice (%s and %s): give it once", physiology.Quote(o.dst[o.name]), physiology.Quote(s))
+	}
+	o.dst[o.name] = s
+	return nil
+}
+
+// onceBool is a boolean flag that may be given only once.
+type onceBool struct {
+	once
+}
+
+func (o *onceBool) IsBoolFlag() bool { return true }
+
+func (o *onceBool) Set(s string) error {
+	if s != "true" && s != "false" {
+		return fmt.Errorf("%s is not true or false", physiology.Quote(s))
+	}
+	return o.once.Set(s)
+}
+
+// entry declares a flag whose text goes to the entry builder.
+func (f *flags) entry(name, usage string) {
+	f.fs.Var(&once{name: name, dst: f.entries}, name, usage)
+	f.order = append(f.order, name)
+}
+
+// text declares a flag read by the command itself, with a default shown in
+// the help.
+func (f *flags) text(name, def, usage string) func() string {
+	f.fs.Var(&once{name: name, dst: f.entries}, name, usage)
+	f.fs.Lookup(name).DefValue = def
+	return func() string {
+		if v, ok := f.entries[name]; ok {
+			return v
+		}
+		return def
+	}
+}
+
+// repeated declares a flag that may be given more than once.
+func (f *flags) repeated(name, usage string) *[]string {
+	var vals []string
+	f.fs.Var(&once{name: name, multi: &vals}, name, usage)
+	return &vals
+}
+
+func (f *flags) boolean(name, usage string) func() bool {
+	f.fs.Var(&onceBool{once{name: name, dst: f.entries}}, name, usage)
+	f.fs.Lookup(name).DefValue = "false"
+	return func() bool { return f.entries[name] == "true" }
+}
+
+// given reports whether a flag was typed.
+func (f *flags) given(name string) bool { _, ok := f.entries[name]; return ok }
+
+// parse parses the arguments. done is true, with the status to exit with,
+// when the command should go no further: help was asked for, a flag was
+// bad, or an argument was given where none is taken.
+func (f *flags) parse(env Env, args []string, cmd string, positional bool) (status int, done bool) {
+	if err := f.fs.Parse(args); err != nil {
+		if errors.Is(err, flag.ErrHelp) {
+			f.printHelp(env.Stdout)
+			return ExitOK, true
+		}
+		return UsageError(env.Stderr, cmd, flagError(err)), true
+	}
+	if !positional && f.fs.NArg() > 0 {
+		return UsageError(env.Stderr, cmd, fmt.Sprintf("unexpected argument %s", physiology.Quote(f.fs.Arg(0)))), true
+	}
+	return ExitOK, false
+}
+
+func (f *flags) printHelp(w io.Writer) {
+	fmt.Fprint(w, f.usage)
+	f.fs.VisitAll(func(fl *flag.Flag) {
+		def := ""
+		if fl.DefValue != "" && fl.DefValue != "false" {
+			def = fmt.Sprintf(" (default %q)", fl.DefValue)
+		}
+		fmt.Fprintf(w, "  --%-16s %s%s\n", fl.Name, fl.Usage, def)
+	})
+	fmt.Fprintf(w, "\n%s\n", setup.ClinicalCaution)
+}
+
+// flagError turns the flag package's wording into one line naming the flag.
+func flagError(err error) string {
+	msg := err.Error()
+	if strings.HasPrefix(msg, "invalid value ") {
+		// invalid value "x" for flag -name: reason
+		if i := strings.Index(msg, " for flag -"); i >= 0 {
+			rest := msg[i+len(" for flag -"):]
+			if j := strings.Index(rest, ": "); j >= 0 {
+				return "--" + rest[:j] + ": " + rest[j+2:]
+			}
+		}
+	}
+	if strings.HasPrefix(msg, "flag provided but not defined: -") {
+		return "unknown flag --" + strings.TrimPrefix(msg, "flag provided but not defined: -")
+	}
+	return strings.Replace(msg, "flag needs an argument: -", "flag needs a value: --", 1)
+}
+
+// interspersed moves flags after positional arguments to the front, so
+// "show demo-a --json" works as people type it.
+func interspersed(args []string, fs *flag.FlagSet) []string {
+	var fl, pos []string
+	for i := 0; i < len(args); i++ {
+		a := args[i]
+		if a == "--" {
+			pos = append(pos, args[i+1:]...)
+			break
+		}
+		if strings.HasPrefix(a, "-") && len(a) > 1 {
+			fl = append(fl, a)
+			name := strings.TrimLeft(a, "-")
+			if f := fs.Lookup(name); f != nil && !strings.Contains(name, "=") && f.DefValue != "false" && i+1 < len(args) {
+				fl = append(fl, args[i+1])
+				i++
+			}
+			continue
+		}
+		pos = append(pos, a)
+	}
+	return append(fl, pos...)
+}

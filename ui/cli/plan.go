@@ -1,0 +1,69 @@
+package cli
+
+import (
+	"time"
+
+	"crankside/profiles"
+	"crankside/setup"
+)
+
+const planLong = `Usage: crankside plan --height-cm N --sex male|female [flags]
+
+A new patient's setting on one machine: PBW, target volume, the hole to pin,
+the motor speed and dwell the controller can be set to, the predictions and
+the cautions. A decimal comma is read as a decimal point (0,9 is 0.9).
+
+Flags:
+`
+
+var planCommand = &Command{
+	Name:      "plan",
+	UsageLine: "plan --height-cm N --sex male|female [flags]",
+	Short:     "a new patient's setting on one machine",
+	Long:      planLong,
+	Run:       runPlan,
+}
+
+// planFlagSet declares the plan's entries; the screen takes the same ones.
+func planFlagSet(name, usage string) (f *flags, profile, dir func() string) {
+	f = newFlags(name, usage)
+	f.entry("height-cm", "patient's height in cm (130-230; required)")
+	f.entry("sex", "male or female (required)")
+	f.entry("ml-per-kg", "tidal volume in mL per kg PBW (4-10; default 6, ARDS Network 2000)")
+	f.entry("rate", "breaths per minute (default by lung: normal 14, ards 18, obstructive 10)")
+	f.entry("ie", "I:E as 1:N (1:1 to 1:4; default 1:2, obstructive 1:3)")
+	f.entry("peep", "PEEP in cmH2O (0-25; default 5, ARDS from the lower-PEEP/FiO2 table)")
+	f.entry("fio2", "wanted FiO2 as a fraction (0.21-1; default 0.21, no oxygen)")
+	f.entry("lung", "lung condition: normal, ards or obstructive (default normal)")
+	f.entry("compliance", "lung compliance in mL/cmH2O (default by lung)")
+	f.entry("resistance", "airway resistance with tube in cmH2O/(L/s) (default by lung)")
+	f.entry("cylinder-l", "oxygen cylinder water capacity in L (optional, with --cylinder-bar)")
+	f.entry("cylinder-bar", "oxygen cylinder pressure in bar (with --cylinder-l)")
+	profile = f.text("profile", profiles.DefaultID, "machine profile: an id or a path to a .json file")
+	dir = f.text("profiles", profiles.DefaultDir(), "directory of profile files")
+	return f, profile, dir
+}
+
+func runPlan(env Env) int {
+	f, profile, dir := planFlagSet("plan", planLong)
+	asJSON := f.boolean("json", "print one JSON object")
+	if status, done := f.parse(env, env.Args, "plan", false); done {
+		return status
+	}
+	req, problems := setup.BuildRequest(f.entries, time.Now())
+	if len(problems) > 0 {
+		return problemsError(env.Stderr, "plan", problems)
+	}
+	p, _, err := profiles.Open(profile(), dir())
+	if err != nil {
+		return UsageError(env.Stderr, "plan", "--profile: "+err.Error())
+	}
+	pl, err := setup.MakePlan(req, p)
+	if err != nil {
+		return jobError(env.Stderr, "plan", err)
+	}
+	if asJSON() {
+		return writeJSON(env, pl.JSON())
+	}
+	return writeText(env, "plan", pl.WriteText)
+}

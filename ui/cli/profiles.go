@@ -1,0 +1,169 @@
+package cli
+
+import (
+	"errors"
+	"fmt"
+	"sort"
+	"time"
+
+	"crankside/physiology"
+	"crankside/profiles"
+	"crankside/profiles/safetext"
+	"crankside/setup"
+)
+
+const profilesLong = `Usage:
+  crankside profiles list [--profiles DIR]
+  crankside profiles show ID|PATH [--profiles DIR] [--json]
+  crankside profiles validate FILE
+  crankside profiles new --from ID|PATH --id NEW [--label TEXT]
+
+list shows the embedded demo profiles and every .json file in the profiles
+directory (a bad file is listed with its error). show --json prints the
+profile file itself, so it can be saved and edited. validate checks a file
+and names every problem with its field. new prints a profile to edit by
+hand for a unit being measured: a copy of another with a new id, without
+its calibration.
+`
+
+var profilesCommand = &Command{
+	Name:      "profiles",
+	UsageLine: "profiles list|show ID|validate FILE|new --from ID --id NEW",
+	Short:     "the machine profiles",
+	Long:      profilesLong,
+	Run:       runProfiles,
+}
+
+func runProfiles(env Env) int {
+	if len(env.Args) == 0 {
+		return UsageError(env.Stderr, "profiles", "name a sub-command: list, show or validate")
+	}
+	sub, rest := env.Args[0], env.Args[1:]
+	switch sub {
+	case "--help", "-h", "help":
+		fmt.Fprint(env.Stdout, profilesLong)
+		return ExitOK
+	case "new":
+		return profilesNew(env, rest)
+	case "list", "show", "validate":
+	default:
+		return UsageError(env.Stderr, "profiles", fmt.Sprintf("unknown sub-command %s; use list, show, validate or new", physiology.Quote(sub)))
+	}
+	f := newFlags("profiles "+sub, profilesLong)
+	dir := f.text("profiles", profiles.DefaultDir(), "directory of profile files")
+	asJSON := f.boolean("json", "print the profile file itself")
+	if status, done := f.parse(env, interspersed(rest, f.fs), "profiles "+sub, true); done {
+		return status
+	}
+	if sub == "list" {
+		return profilesList(env, dir())
+	}
+	if f.fs.NArg() != 1 {
+		return UsageError(env.Stderr, "profiles "+sub, "name one profile")
+	}
+	if sub == "show" {
+		return profilesShow(env, f.fs.Arg(0), dir(), asJSON())
+	}
+	return profilesValidate(env, f.fs.Arg(0))
+}
+
+func profilesList(env Env, dir string) int {
+	entries, err := profiles.List(dir)
+	if err != nil {
+		fmt.Fprintf(env.Stderr, "crankside profiles list: %s\n", safetext.Escape(err.Error()))
+		return ExitFailure
+	}
+	bad := 0
+	for _, e := range entries {
+		if e.Err != nil {
+			bad++
+			fmt.Fprintf(env.Stdout, "%-16s BAD   %s\n", safetext.Escape(e.ID), safetext.Escape(e.Err.Error()))
+			continue
+		}
+		fmt.Fprintf(env.Stdout, "%-16s %-44s %s\n", safetext.Escape(e.ID), safetext.Escape(e.Label), safetext.Escape(e.Source.String()))
+	}
+	if dir != "" {
+		fmt.Fprintf(env.Stdout, "(profiles directory: %s)\n", safetext.Escape(dir))
+	}
+	if bad > 0 {
+		return ExitFailure
+	}
+	return ExitOK
+}
+
+func profilesShow(env Env, ref, dir string, asJSON bool) int {
+	p, src, err := profiles.Open(ref, dir)
+	if err != nil {
+		return UsageError(env.Stderr, "profiles show", err.Error())
+	}
+	if asJSON {
+		data, err := profiles.Marshal(p)
+		if err != nil {
+			fmt.Fprintf(env.Stderr, "crankside profiles show: %v\n", err)
+			return ExitFailure
+		}
+		env.Stdout.Write(data)
+		return ExitOK
+	}
+	s, err := setup.DescribeProfile(p, time.Now())
+	if err != nil {
+		fmt.Fprintf(env.Stderr, "crankside profiles show: %s\n", safetext.Escape(err.Error()))
+		return ExitFailure
+	}
+	fmt.Fprintf(env.Stdout, "%s (%s)\n", safetext.Escape(p.ID), safetext.Escape(src.String()))
+	return writeText(env, "profiles show", s.WriteText)
+}
+
+func profilesValidate(env Env, path string) int {
+	_, err := profiles.ReadFile(path)
+	if err == nil {
+		fmt.Fprintf(env.Stdout, "%s: valid %s profile\n", safetext.Escape(path), profiles.FormatV1)
+		return ExitOK
+	}
+	var pe *profiles.Error
+	if errors.As(err, &pe) {
+		lines := make([]string, 0, len(pe.Problems))
+		for _, p := range pe.Problems {
+			lines = append(lines, p.Error())
+		}
+		sort.Strings(lines)
+		for _, l := range lines {
+			fmt.Fprintf(env.Stderr, "%s: %s\n", safetext.Escape(path), safetext.Escape(l))
+		}
+		return ExitUsage
+	}
+	fmt.Fprintf(env.Stderr, "crankside profiles validate: %s\n", safetext.Escape(err.Error()))
+	return ExitUsage
+}
+
+func profilesNew(env Env, args []string) int {
+	f := newFlags("profiles new", profilesLong)
+	from := f.text("from", profiles.DefaultID, "the profile to start from")
+	id := f.text("id", "", "the new profile's id (lower-case letters, digits, - and _)")
+	label := f.text("label", "", "the new profile's label")
+	dir := f.text("profiles", profiles.DefaultDir(), "directory of profile files")
+	if status, done := f.parse(env, args, "profiles new", false); done {
+		return status
+	}
+	if id() == "" {
+		return UsageError(env.Stderr, "profiles new", "--id is required")
+	}
+	p, _, err := profiles.Open(from(), dir())
+	if err != nil {
+		return UsageError(env.Stderr, "profiles new", "--from: "+err.Error())
+	}
+	p.ID, p.Calibration = id(), nil
+	p.Label = "New unit (edit me): measure every field"
+	if label() != "" {
+		p.Label = label()
+	}
+	data, err := profiles.Marshal(p)
+	if err == nil {
+		_, err = profiles.Parse(data, "the new profile")
+	}
+	if err != nil {
+		return UsageError(env.Stderr, "profiles new", err.Error())
+	}
+	env.Stdout.Write(data)
+	return ExitOK
+}

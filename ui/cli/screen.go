@@ -1,0 +1,55 @@
+package cli
+
+import (
+	"fmt"
+	"os"
+	"time"
+
+	"github.com/charmbracelet/lipgloss"
+	"github.com/muesli/termenv"
+
+	"crankside/profiles"
+	"crankside/setup"
+	"crankside/ui"
+)
+
+// RunScreen opens the full-screen UI, prefilled from any plan flags given:
+// the entries go to the screen's fields as typed, and the screen shows
+// what the entry builder makes of them.
+func RunScreen(env Env) int {
+	f, profile, dir := planFlagSet("", TopUsage()+"\nFlags of the screen:\n")
+	logPath := f.text("log", setup.DefaultLogPath(), "the handover log the screen records checks in")
+	asJSON := f.boolean("json", "(for sub-commands only)")
+	if status, done := f.parse(env, env.Args, "", false); done {
+		return status
+	}
+	if asJSON() {
+		return UsageError(env.Stderr, "", "--json goes with a sub-command, such as 'crankside plan --json'")
+	}
+	prefill := map[string]string{}
+	for _, name := range f.order {
+		if v, ok := f.entries[name]; ok {
+			prefill[name] = v
+		}
+	}
+	if _, problems := setup.BuildRequest(prefill, time.Time{}); len(problems) > 0 {
+		for _, p := range problems {
+			if !p.Missing {
+				return problemsError(env.Stderr, "", setup.Problems{p})
+			}
+		}
+	}
+	p, src, err := profiles.Open(profile(), dir())
+	if err != nil {
+		return UsageError(env.Stderr, "", "--profile: "+err.Error())
+	}
+	if os.Getenv("NO_COLOR") != "" {
+		lipgloss.SetColorProfile(termenv.Ascii)
+	}
+	err = ui.Run(ui.Options{Profile: p, Source: src, ProfilesDir: dir(), Prefill: prefill, LogPath: logPath()})
+	if err != nil {
+		fmt.Fprintf(env.Stderr, "crankside: the bedside screen could not start (%v); in scripts use 'crankside plan'\n", err)
+		return ExitFailure
+	}
+	return ExitOK
+}
