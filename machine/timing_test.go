@@ -104,6 +104,12 @@ func TestSpeedRaisedWhenNearestStepLeavesNoDwell(t *testing.T) {
 	require.True(t, tp.Raised)
 	require.InDelta(t, 20, tp.RPM, 0)
 	require.GreaterOrEqual(t, tp.DwellS, 0.0)
+	// Derived: the period is 60/19.7 = 3.0457 s and the 20 rpm turn 3 s, so
+	// the dwell of 0.0457 s rounds to 0.0 on the 0.1 s step and the machine
+	// runs 60/3 = 20/min at 1:1.
+	require.InDelta(t, 0, tp.DwellS, 1e-9)
+	require.InDelta(t, 20, tp.RateBPM, 1e-9)
+	require.InDelta(t, 1, tp.IE, 1e-9)
 }
 
 func TestIEIsNeverInverse(t *testing.T) {

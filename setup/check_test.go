@@ -23,8 +23,12 @@ func checkReq(hole string, rpm, dwell float64) setup.CheckRequest {
 func TestCheckOfAnObservedSetting(t *testing.T) {
 	ck, err := setup.RunCheck(checkReq("8", 21, 1.4), profile(t, "demo-a"))
 	require.NoError(t, err)
-	// The same setting as the plan for 175 cm male gives the plan's figures.
+	// Round trip: the plan for 175 cm male (hole 8, 21 rpm, 1.4 s), checked as
+	// an observed setting, gives the plan's figures.
 	pl := plan(t, "demo-a", setup.Patient{HeightCm: 175, Sex: physiology.Male}, setup.Targets{})
+	require.Equal(t, "8", pl.Hole.Label)
+	// Derived: 439.823 mL swept x 60/61.5 = 429.10 mL (tolerance 0.5%).
+	require.InDelta(t, 429.10, ck.Current.Figures.Hole.DeliveredML, 2.2, "delivered (derived)")
 	require.InDelta(t, pl.Hole.DeliveredML, ck.Current.Figures.Hole.DeliveredML, 1e-9)
 	require.InDelta(t, pl.PeakCmH2O, ck.Current.Figures.PeakCmH2O, 1e-9)
 	require.InDelta(t, pl.Timing.RateBPM, ck.Current.Figures.Timing.RateBPM, 1e-9)

@@ -104,7 +104,8 @@ func TestPlanDemoA175Male(t *testing.T) {
 
 func TestPlanFixedSpeedMotorDemoB(t *testing.T) {
 	pl := plan(t, "demo-b", setup.Patient{HeightCm: 170, Sex: physiology.Female}, setup.Targets{})
-	// Fixed 20 rpm: a 3 s turn, Ti 1.5 s whatever was asked (DESIGN); rate 14
+	// Fixed 20 rpm: a 3 s turn, Ti 1.5 s whatever was asked (half the turn
+	// delivers, derived from the in-line crank's pi of 2 pi); rate 14
 	// wants a 4.2857 s breath, so the dwell is 1.2857 -> 1.3 s on a 0.1 s step.
 	require.InDelta(t, 20, pl.Timing.RPM, 0)
 	require.InDelta(t, 1.5, pl.Timing.TiS, 1e-12)
@@ -213,7 +214,8 @@ func TestPlanOldCalibration(t *testing.T) {
 
 func TestPlanOffsetCrank(t *testing.T) {
 	// An offset crank's delivery is not half a turn: Ti is the delivery's
-	// share of the turn (DESIGN), and the plan settles hole and speed together.
+	// share of the turn (derived: the crank turns at constant speed), and the
+	// plan settles hole and speed together.
 	p := profile(t, "demo-a")
 	p.Crank.OffsetCm = 2
 	pl, err := setup.MakePlan(setup.Request{Patient: setup.Patient{HeightCm: 170, Sex: physiology.Male}, Now: today}, p)
