@@ -26,10 +26,14 @@ func TestConstantFlowFollowsEquationOfMotion(t *testing.T) {
 		Observe: func(ts, pc, _, v float64) { lastT, lastP, lastV = ts, pc, v },
 	})
 	require.NoError(t, err)
-	// V = Q t less what the circuit holds (0.001 x 30 cmH2O) (derived).
-	require.InDelta(t, q*dur, b.DeliveredML, 0.05, "delivered")
-	want := peep + r*q/1000 + lastV/c
-	require.InDelta(t, want, lastP, 1e-3, "Paw at t=%v: got %v want %v", lastT, lastP, want)
+	// V = Q t = 500 mL less what the circuit holds, 0.001 x (20 - 5) =
+	// 0.015 mL (derived).
+	require.InDelta(t, 500, b.DeliveredML, 0.05, "delivered (derived: Q t)")
+	// At t = 1 s: Paw = 5 + 10 x 0.5 + 500/50 = 20 cmH2O (Chatburn 2014,
+	// derived); the 0.015 mL in the circuit lowers it by 0.0003.
+	require.InDelta(t, dur, lastT, 1e-9, "last observed instant")
+	require.InDelta(t, 20, lastP, 1e-3, "Paw at t=%v: got %v want 20 (Chatburn 2014, derived)", lastT, lastP)
+	require.InDelta(t, 500, lastV, 0.05, "lung volume at t=%v (derived: Q t)", lastT)
 	// Chatburn 2014 check values: 0.5 L into 0.05 L/cmH2O at 1 L/s, R 10 -> 25.
 	b2, err := Simulate(BreathInput{
 		Flow: func(float64) float64 { return 1000 }, DurationS: 0.5,
@@ -41,18 +45,20 @@ func TestConstantFlowFollowsEquationOfMotion(t *testing.T) {
 
 func TestDeliveredTendsToComplianceShare(t *testing.T) {
 	// Derived: once the flow stops and the circuit and lung equalise, a
-	// volume pushed out of the piston is shared as C / (C + Cc).
+	// volume pushed out of the piston is shared as C / (C + Cc). Swept
+	// volume pi x 5^2 x 6 = 471.238898 mL (pi r^2 h, bore 10 cm, stroke 2r
+	// = 6 cm); C 40: x 40/40.5 = 465.421134, x 40/41.5 = 454.206167,
+	// x 40/45 = 418.879020 mL.
 	s := Stroke{Crank: Crank{RadiusCm: 3, RodCm: 22}, BoreCm: 10, RPM: 20, Scale: 1}
 	k := s.kinematics()
-	for _, cc := range []float64{0.5, 1.5, 5} {
+	for _, cs := range []struct{ cc, want float64 }{{0.5, 465.421134}, {1.5, 454.206167}, {5, 418.879020}} {
 		c := 40.0
 		b, err := Simulate(BreathInput{
 			Flow: k.flow, DurationS: k.durS + 3, // 3 s is many R Cc after the stroke
-			Lung: Lung{c, 15}, CircuitMLPerCmH2O: cc,
+			Lung: Lung{c, 15}, CircuitMLPerCmH2O: cs.cc,
 		})
 		require.NoError(t, err)
-		want := s.SweptML() * c / (c + cc)
-		require.InDelta(t, want, b.DeliveredML, 1e-6*want, "Cc %v", cc)
+		require.InDelta(t, cs.want, b.DeliveredML, 1e-6*cs.want, "Cc %v: C/(C+Cc) share (derived)", cs.cc)
 	}
 }
 
@@ -92,8 +98,20 @@ func TestDeliveredEqualsQuadratureOfPatientFlow(t *testing.T) {
 
 func TestSweptEqualsQuadratureOfPistonFlow(t *testing.T) {
 	// gonum integrate.Simpsons of piston flow over the delivery half-turn
-	// gives bore area x stroke, in-line and offset.
-	for _, cr := range []Crank{{RadiusCm: 3, RodCm: 22}, {RadiusCm: 5, RodCm: 20, OffsetCm: 2}, {RadiusCm: 6.2, RodCm: 22, OffsetCm: -1.5}} {
+	// gives bore area x stroke, in-line and offset. Derived, area 78.539816
+	// cm2 (bore 10 cm), stroke sqrt((L+r)^2 - e^2) - sqrt((L-r)^2 - e^2):
+	// r 3, L 22: 25 - 19 = 6 cm -> 471.238898 mL;
+	// r 5, L 20, e 2: 24.919872 - 14.866069 = 10.053803 cm -> 789.623829 mL;
+	// r 6.2, L 22, e -1.5: 28.160078 - 15.728636 = 12.431442 cm -> 976.363157 mL.
+	for _, c := range []struct {
+		cr      Crank
+		sweptML float64
+	}{
+		{Crank{RadiusCm: 3, RodCm: 22}, 471.238898},
+		{Crank{RadiusCm: 5, RodCm: 20, OffsetCm: 2}, 789.623829},
+		{Crank{RadiusCm: 6.2, RodCm: 22, OffsetCm: -1.5}, 976.363157},
+	} {
+		cr := c.cr
 		s := Stroke{Crank: cr, BoreCm: 10, RPM: 20, Scale: 1}
 		n := 4001
 		ts := make([]float64, n)
@@ -103,17 +121,20 @@ func TestSweptEqualsQuadratureOfPistonFlow(t *testing.T) {
 			ts[i] = d * float64(i) / float64(n-1)
 			qs[i] = s.PistonFlowMLPerS(ts[i])
 		}
-		require.InDelta(t, s.SweptML(), integrate.Simpsons(ts, qs), 1e-6*s.SweptML(), "crank %+v", cr)
+		require.InDelta(t, c.sweptML, integrate.Simpsons(ts, qs), 1e-6*c.sweptML, "crank %+v: integral of piston flow (derived)", cr)
+		require.InDelta(t, c.sweptML, s.SweptML(), 1e-6, "crank %+v: swept volume (derived)", cr)
 	}
 }
 
 func TestOffsetDeliveryAngle(t *testing.T) {
-	// Derived: the delivery spans the angle between the dead centres,
-	// pi + asin(e/(L+r)) - asin(e/(L-r)); in-line it is exactly pi.
+	// Derived: the delivery spans the angle between the dead centres, where
+	// crank and rod are in line: pi + asin(e/(L+r)) - asin(e/(L-r)); in-line
+	// it is exactly pi. r 5, L 20, e 2: asin(2/25) = 0.0800855800,
+	// asin(2/15) = 0.1337315894, so 3.1415926536 + 0.0800855800 - 0.1337315894
+	// = 3.0879466442 rad (176.93 deg).
 	require.InDelta(t, math.Pi, Crank{RadiusCm: 3, RodCm: 22}.DeliveryAngle(), 1e-12)
 	c := Crank{RadiusCm: 5, RodCm: 20, OffsetCm: 2}
-	want := math.Pi + math.Asin(2.0/25) - math.Asin(2.0/15)
-	require.InDelta(t, want, c.DeliveryAngle(), 1e-12)
+	require.InDelta(t, 3.0879466442, c.DeliveryAngle(), 1e-10, "delivery angle (derived)")
 }
 
 func TestSimulateRefusesBadInput(t *testing.T) {

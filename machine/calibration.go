@@ -38,7 +38,7 @@ func (c Calibration) EffectiveSweptML(sweptML float64) float64 {
 type FitResidual struct {
 	PredictedML float64 // gain x (k x swept + b)
 	ResidualML  float64 // measured - predicted
-	ResidualPct float64 // of predicted
+	ResidualPct float64 // percent of predicted: 100 x residual / predicted
 }
 
 // Fit is a calibration fitted to bench points.

@@ -15,13 +15,17 @@ func TestFitCalibrationByHand(t *testing.T) {
 	require.NoError(t, err)
 	require.InDelta(t, 1.0, fit.K, 1e-12)
 	require.InDelta(t, -20.0/3, fit.BML, 1e-9)
-	// Residuals: predicted 93.33, 193.33, 293.33.
-	require.InDelta(t, 95-(100-20.0/3), fit.Residuals[0].ResidualML, 1e-9)
-	require.InDelta(t, 190-(200-20.0/3), fit.Residuals[1].ResidualML, 1e-9)
+	// Residuals: predicted 93.333, 193.333, 293.333, so measured minus
+	// predicted is +1.6667, -3.3333, +1.6667 mL.
+	require.InDelta(t, 1.666666667, fit.Residuals[0].ResidualML, 1e-9)
+	require.InDelta(t, -3.333333333, fit.Residuals[1].ResidualML, 1e-9)
+	require.InDelta(t, 1.666666667, fit.Residuals[2].ResidualML, 1e-9)
 }
 
 func TestFitRecoversAKnownLineThroughTheGain(t *testing.T) {
-	// Points synthesised through a gain recover k and b exactly (derived).
+	// Round trip (a property, not a reference value): points written as
+	// gain x (k x swept + b) with k and b chosen here, not by the code,
+	// recover k and b exactly.
 	k, b := 0.93, -7.5
 	var pts []BenchPoint
 	for i, swept := range []float64{250, 330, 410, 520} {
@@ -38,10 +42,12 @@ func TestFitRecoversAKnownLineThroughTheGain(t *testing.T) {
 }
 
 func TestFitOneHoleIsARatio(t *testing.T) {
+	// Derived: one hole gives no line, only a ratio through the origin:
+	// 342/0.9 = 380 and 351/0.9 = 390 mL effective, mean 385 / 400 = 0.9625.
 	fit, err := FitCalibration([]BenchPoint{{400, 0.9, 342}, {400, 0.9, 351}})
 	require.NoError(t, err)
 	require.True(t, fit.ThroughOrigin)
-	require.InDelta(t, (380.0+390)/2/400, fit.K, 1e-12)
+	require.InDelta(t, 0.9625, fit.K, 1e-12)
 	require.Zero(t, fit.BML)
 }
 

@@ -12,9 +12,13 @@
 //
 // Valid ranges: a crank is usable only when rod > radius + |offset| and all
 // three are finite with radius and rod positive (Crank.Validate says which
-// is wrong). Simulation inputs must be positive and finite; Simulate returns
-// an error otherwise and never panics on data. Passing a nil flow function is
-// a programmer's mistake and panics.
+// is wrong). Lung compliance and resistance, circuit compliance and the
+// duration must be positive and finite, PEEP and the start volume finite;
+// Simulate and SimulateStroke return an error wrapping ErrBadBreath otherwise
+// and never panic on data. Passing neither a flow function nor flow samples,
+// or a number of samples that does not match StepGrid, is a programmer's
+// mistake and panics. FitCalibration returns an error wrapping
+// ErrCalibration for no points or a point it cannot use.
 //
 // The package imports the standard library and gonum only.
 package machine

@@ -76,7 +76,7 @@ type Timing struct {
 	DwellS  float64
 	TurnS   float64 // one turn of the wheel
 	TiS     float64 // the delivery part of the turn
-	TeS     float64 // the rest of the breath: refill half-turn plus dwell
+	TeS     float64 // the rest of the breath: the refill part of the turn (half of it in-line) plus the dwell
 	PeriodS float64
 	RateBPM float64
 	IE      float64 // E of 1:E, Te/Ti

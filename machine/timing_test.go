@@ -21,12 +21,13 @@ func TestTimingRoundsToTheMachinesSteps(t *testing.T) {
 	require.Equal(t, Reached, tp.Rate)
 	require.InDelta(t, 18, tp.RPM, 1e-9)
 	require.InDelta(t, 1.7, tp.DwellS, 1e-9)
-	// Recomputed from the rounded values: period 10/3 + 1.7 s.
-	period := 10.0/3 + 1.7
-	require.InDelta(t, 60/period, tp.RateBPM, 1e-9)
-	require.InDelta(t, 5.0/3, tp.TiS, 1e-9)
-	require.InDelta(t, period-5.0/3, tp.TeS, 1e-9)
-	require.InDelta(t, (period-5.0/3)/(5.0/3), tp.IE, 1e-9)
+	// Recomputed from the rounded values (derived): period 10/3 + 1.7 =
+	// 151/30 s = 5.0333 s, rate 60 x 30/151 = 1800/151 = 11.9205/min; Te
+	// 151/30 - 50/30 = 101/30 = 3.3667 s; I:E 1:(101/30)/(50/30) = 1:2.02.
+	require.InDelta(t, 11.920529801, tp.RateBPM, 1e-9)
+	require.InDelta(t, 1.666666667, tp.TiS, 1e-9)
+	require.InDelta(t, 3.366666667, tp.TeS, 1e-9)
+	require.InDelta(t, 2.02, tp.IE, 1e-9)
 	require.InDelta(t, 5.0/3, tp.WantedTiS, 1e-9)
 }
 
@@ -103,6 +104,12 @@ func TestSpeedRaisedWhenNearestStepLeavesNoDwell(t *testing.T) {
 	require.True(t, tp.Raised)
 	require.InDelta(t, 20, tp.RPM, 0)
 	require.GreaterOrEqual(t, tp.DwellS, 0.0)
+	// Derived: the period is 60/19.7 = 3.0457 s and the 20 rpm turn 3 s, so
+	// the dwell of 0.0457 s rounds to 0.0 on the 0.1 s step and the machine
+	// runs 60/3 = 20/min at 1:1.
+	require.InDelta(t, 0, tp.DwellS, 1e-9)
+	require.InDelta(t, 20, tp.RateBPM, 1e-9)
+	require.InDelta(t, 1, tp.IE, 1e-9)
 }
 
 func TestIEIsNeverInverse(t *testing.T) {

@@ -1,8 +1,12 @@
 // Package physiology computes the patient side of a ventilator setting:
 // predicted body weight, lung-protective targets and their defaults by lung
 // condition, the lower-PEEP/FiO2 table, the equation of motion, passive
-// exhalation and trapped gas at steady state, and oxygen (FiO2 from oxygen
-// bled into the intake, its inverse, and cylinder time left).
+// exhalation and trapped gas at steady state, oxygen (FiO2 from oxygen
+// bled into the intake, its inverse, and cylinder time left), units (the
+// conventional cmH2O, the standard atmosphere, Boyle's law), the lung's
+// compliance and resistance fitted to two manometer readings (FitMechanics,
+// which takes the pressure model as a function), and parsing of what people
+// type (ParseNumber, ParseIE, ParseSex, ParseLung, Quote).
 //
 // Units at every exported boundary: height in cm, weight in kg, volume in mL,
 // time in s, pressure in cmH2O, compliance in mL/cmH2O, resistance in
@@ -12,6 +16,8 @@
 // entries 4-10 mL/kg PBW; FiO2 0.21-1. Functions that take data a person typed
 // return an error naming the quantity, the value and the accepted range; none
 // of them panics on bad numbers, and NaN or Inf is always refused.
+// FitMechanics returns a *ReadingError (matched by ErrNoMechanics) saying
+// which reading to re-take when no plausible lung reproduces the readings.
 //
 // The package imports the standard library only.
 package physiology

@@ -40,8 +40,10 @@ type Mechanics struct {
 
 // FitMechanics finds the compliance and resistance for which model gives
 // both readings: two equations in two unknowns, solved by Newton's method
-// on log C and log R (so both stay positive) with a finite-difference
-// Jacobian and step halving. The end pressure mostly sets C (it is near the
+// on log C and log R (so both stay positive) from C 50 mL/cmH2O and R 10
+// cmH2O/(L/s), with a finite-difference Jacobian and step halving; at most
+// 60 steps. A fit outside FitCMin-FitCMax or FitRMin-FitRMax is refused as
+// a *ReadingError. The end pressure mostly sets C (it is near the
 // plateau), the gap between peak and end mostly sets R.
 func FitMechanics(rd Readings, peepCmH2O float64, model PressureModel) (Mechanics, error) {
 	for _, v := range []float64{rd.PeakCmH2O, rd.EndCmH2O, peepCmH2O} {
@@ -64,7 +66,8 @@ func FitMechanics(rd Readings, peepCmH2O float64, model PressureModel) (Mechanic
 		}
 		return p - rd.PeakCmH2O, e - rd.EndCmH2O, nil
 	}
-	// Start from the compliance the end pressure implies with no flow term.
+	// Start from a typical intubated adult lung, C 50 mL/cmH2O and R 10
+	// cmH2O/(L/s) (from memory), whatever the readings are.
 	lc, lr := math.Log(50), math.Log(10)
 	f1, f2, err := residual(lc, lr)
 	if err != nil {

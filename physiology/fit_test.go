@@ -18,12 +18,19 @@ func equationOfMotion(peep float64) PressureModel {
 }
 
 func TestFitMechanicsSolvesBothEquations(t *testing.T) {
-	for _, truth := range [][2]float64{{50, 10}, {25, 15}, {80, 5}, {40, 30}} {
-		peak, end, _ := equationOfMotion(5)(truth[0], truth[1])
-		m, err := FitMechanics(Readings{peak, end}, 5, equationOfMotion(5))
+	// Readings worked by hand from the equation of motion (Chatburn 2014,
+	// derived): peak = 5 + 500/C + 0.5 R, end = 5 + 500/C + 0.1 R.
+	// C 50, R 10: 5 + 10 + 5 = 20 and 5 + 10 + 1 = 16;
+	// C 25, R 15: 5 + 20 + 7.5 = 32.5 and 5 + 20 + 1.5 = 26.5;
+	// C 80, R 5: 5 + 6.25 + 2.5 = 13.75 and 5 + 6.25 + 0.5 = 11.75;
+	// C 40, R 30: 5 + 12.5 + 15 = 32.5 and 5 + 12.5 + 3 = 20.5.
+	for _, k := range []struct{ peak, end, c, r float64 }{
+		{20, 16, 50, 10}, {32.5, 26.5, 25, 15}, {13.75, 11.75, 80, 5}, {32.5, 20.5, 40, 30},
+	} {
+		m, err := FitMechanics(Readings{k.peak, k.end}, 5, equationOfMotion(5))
 		require.NoError(t, err)
-		require.InEpsilon(t, truth[0], m.ComplianceMLPerCmH2O, 1e-6)
-		require.InEpsilon(t, truth[1], m.ResistanceCmH2OPerLS, 1e-6)
+		require.InEpsilon(t, k.c, m.ComplianceMLPerCmH2O, 1e-6, "peak %v end %v: C (derived)", k.peak, k.end)
+		require.InEpsilon(t, k.r, m.ResistanceCmH2OPerLS, 1e-6, "peak %v end %v: R (derived)", k.peak, k.end)
 	}
 }
 

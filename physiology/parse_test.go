@@ -51,12 +51,21 @@ func TestParseSexAndLung(t *testing.T) {
 }
 
 func TestDefaultsSaySource(t *testing.T) {
-	// DESIGN.md: rate normal 14, ARDS 18, obstructive 10; I:E 1:2 (obstructive
-	// 1:3); mechanics normal C 60 R 10, ARDS C 30 R 12, obstructive C 60 R 25.
+	// The program's stated defaults: rate normal 14, ARDS 18, obstructive 10
+	// and I:E 1:2 (obstructive 1:3) (common practice); 6 mL/kg PBW (ARDSNet
+	// 2000); mechanics normal C 60 R 10, ARDS C 30 R 12, obstructive C 60
+	// R 25, inside the typical ranges (from memory): normal C 50-60 R 10-15,
+	// ARDS C 20-40 R 10-15, obstructive C 50-70 R 15-30.
 	cases := []struct {
-		lung           Lung
-		rate, ie, c, r float64
-	}{{Normal, 14, 2, 60, 10}, {ARDS, 18, 2, 30, 12}, {Obstructive, 10, 3, 60, 25}}
+		lung                   Lung
+		rate, ie, c, r         float64
+		cLo, cHi, rLo, rHi     float64
+		rateSource, peepSource string
+	}{
+		{Normal, 14, 2, 60, 10, 50, 60, 10, 15, "common practice", "ARDS Network 2000"},
+		{ARDS, 18, 2, 30, 12, 20, 40, 10, 15, "common practice", "lower-PEEP/FiO2 table"},
+		{Obstructive, 10, 3, 60, 25, 50, 70, 15, 30, "common practice", "ARDS Network 2000"},
+	}
 	for _, c := range cases {
 		d := DefaultsFor(c.lung)
 		require.Equal(t, c.rate, d.RateBPM.Value, c.lung.String())
@@ -64,9 +73,18 @@ func TestDefaultsSaySource(t *testing.T) {
 		require.Equal(t, c.c, d.Compliance.Value)
 		require.Equal(t, c.r, d.Resistance.Value)
 		require.Equal(t, 6.0, d.MLPerKg.Value)
-		for _, v := range []Value{d.MLPerKg, d.RateBPM, d.IE, d.PEEPCmH2O, d.FiO2, d.Compliance, d.Resistance} {
-			require.NotEmpty(t, v.Source)
-		}
+		require.True(t, c.cLo <= d.Compliance.Value && d.Compliance.Value <= c.cHi,
+			"%v: C %v outside the typical %v-%v (from memory)", c.lung, d.Compliance.Value, c.cLo, c.cHi)
+		require.True(t, c.rLo <= d.Resistance.Value && d.Resistance.Value <= c.rHi,
+			"%v: R %v outside the typical %v-%v (from memory)", c.lung, d.Resistance.Value, c.rLo, c.rHi)
+		// Each default names the source it was taken from, not just any text.
+		require.Contains(t, d.MLPerKg.Source, "ARDS Network 2000", c.lung.String())
+		require.Contains(t, d.RateBPM.Source, c.rateSource, c.lung.String())
+		require.Contains(t, d.IE.Source, "common practice", c.lung.String())
+		require.Contains(t, d.PEEPCmH2O.Source, c.peepSource, c.lung.String())
+		require.Contains(t, d.FiO2.Source, "room air", c.lung.String())
+		require.Contains(t, d.Compliance.Source, "from memory", c.lung.String())
+		require.Contains(t, d.Resistance.Source, "from memory", c.lung.String())
 	}
 }
 

@@ -11,7 +11,7 @@ type PEEPFiO2Pair struct {
 	PEEPCmH2O float64
 }
 
-// LowerPEEPTable is the ARDS Network (2000) lower-PEEP/FiO2 table, with the
+// lowerPEEPTable is the ARDS Network (2000) lower-PEEP/FiO2 table, with the
 // last column's 18-24 range written as its two ends.
 var lowerPEEPTable = [...]PEEPFiO2Pair{
 	{0.3, 5}, {0.4, 5}, {0.4, 8}, {0.5, 8}, {0.5, 10}, {0.6, 10}, {0.7, 10},

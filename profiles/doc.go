@@ -1,7 +1,9 @@
 // Package profiles owns the machine profile file: the version 1 JSON format
-// ("crankside-profile/1"), its strict parsing and validation, atomic saving,
-// the demo profiles embedded in the binary, and where profiles are looked
-// for.
+// ("crankside-profile/1"), its strict parsing and validation, atomic saving
+// (Save, and SaveWithBackup, which keeps the old file as .bak), reading a
+// bench CSV of calibration measurements (ReadBench, every bad line reported
+// with its number), the invented demo profiles embedded in the binary, and
+// where profiles are looked for (Open by id or path, List of a directory).
 //
 // Units are those the field names carry: cm, N, N m, rpm, s, mL/cmH2O,
 // cmH2O/(L/s), cmH2O, mL.
@@ -11,6 +13,7 @@
 // fields, duplicate keys, nesting deeper than the format has, missing
 // required fields, wrong types, non-positive or implausible sizes, duplicate
 // hole labels, a rod not longer than the largest radius plus the offset,
-// min_rpm above max_rpm, and calibration points naming no hole. No function
-// here panics on file contents.
+// min_rpm above max_rpm, more than MaxHoles holes or MaxBenchPoints bench
+// points, and calibration points naming no hole or a speed the motor cannot
+// run. No function here panics on file contents.
 package profiles

@@ -21,7 +21,8 @@ func demo(t *testing.T, id string) Profile {
 }
 
 func TestDemoAGeometry(t *testing.T) {
-	// DESIGN.md demo data: bore 10.0 cm, rod 22 cm, in-line, 25 holes "1".."25"
+	// The invented demo unit A as specified for this program (no published
+	// source: demo data are invented): bore 10.0 cm, rod 22 cm, in-line, 25 holes "1".."25"
 	// at 1.4 to 6.2 cm in 0.2 cm steps; variable 8-40 rpm in 0.5 steps rated
 	// 12 N m; dwell 0.1 s up to 10 s; circuit 1.5, valve 3, relief 40; ring 12 N;
 	// no calibration points.
@@ -42,7 +43,8 @@ func TestDemoAGeometry(t *testing.T) {
 }
 
 func TestDemoBGeometry(t *testing.T) {
-	// DESIGN.md demo data: bore 9.0, rod 25, in-line, 10 holes "A".."J" at 2.0
+	// The invented demo unit B as specified for this program (no published
+	// source): bore 9.0, rod 25, in-line, 10 holes "A".."J" at 2.0
 	// to 6.5 cm in 0.5 steps; fixed 20 rpm rated 8 N m; dwell 0.1 up to 10 s;
 	// circuit 2.0, valve 4, relief 45; ring 15 N; four bench points.
 	p := demo(t, "demo-b")
@@ -80,7 +82,8 @@ func mustJSON(t *testing.T, m map[string]any) []byte {
 func obj(m map[string]any, k string) map[string]any { return m[k].(map[string]any) }
 
 func TestRefusals(t *testing.T) {
-	// One case per refusal class in DESIGN.md; each message names the field.
+	// One case per refusal class of the v1 format (profiles/doc.go); each
+	// message names the field.
 	cases := []struct {
 		name  string
 		edit  func(m map[string]any)

@@ -23,14 +23,20 @@ func checkReq(hole string, rpm, dwell float64) setup.CheckRequest {
 func TestCheckOfAnObservedSetting(t *testing.T) {
 	ck, err := setup.RunCheck(checkReq("8", 21, 1.4), profile(t, "demo-a"))
 	require.NoError(t, err)
-	// The same setting as the plan for 175 cm male gives the plan's figures.
+	// Round trip: the plan for 175 cm male (hole 8, 21 rpm, 1.4 s), checked as
+	// an observed setting, gives the plan's figures.
 	pl := plan(t, "demo-a", setup.Patient{HeightCm: 175, Sex: physiology.Male}, setup.Targets{})
+	require.Equal(t, "8", pl.Hole.Label)
+	// Derived: 439.823 mL swept x 60/61.5 = 429.10 mL (tolerance 0.5%).
+	require.InDelta(t, 429.10, ck.Current.Figures.Hole.DeliveredML, 2.2, "delivered (derived)")
 	require.InDelta(t, pl.Hole.DeliveredML, ck.Current.Figures.Hole.DeliveredML, 1e-9)
 	require.InDelta(t, pl.PeakCmH2O, ck.Current.Figures.PeakCmH2O, 1e-9)
 	require.InDelta(t, pl.Timing.RateBPM, ck.Current.Figures.Timing.RateBPM, 1e-9)
-	// Minute ventilation = Vt x rate (derived).
+	// Minute ventilation = Vt x rate (derived): hole 8 (439.823 mL swept x
+	// 60/61.5 = 429.10 mL) at 2100/149 = 14.094/min (21 rpm, 1.4 s dwell) is
+	// 6.0477 L/min (tolerance 0.5% for the C/(C+Cc) share).
 	f := ck.Current.Figures
-	require.InDelta(t, f.Hole.DeliveredML*f.Timing.RateBPM/1000, f.MinuteVentLPerMin, 1e-9)
+	require.InDelta(t, 6.0477, f.MinuteVentLPerMin, 0.03, "minute ventilation (derived)")
 }
 
 func TestCheckRefusesASettingTheMachineCannotRun(t *testing.T) {
@@ -133,7 +139,12 @@ func TestProposedChangeSideBySide(t *testing.T) {
 		}
 	}
 	require.Less(t, vt.Change, 0.0, "a smaller hole delivers less")
-	require.InDelta(t, vt.Proposed-vt.Current, vt.Change, 1e-12)
+	// Derived: hole 8 delivers about 439.823 x 60/61.5 = 429.10 mL, hole 7
+	// 408.407 x 60/61.5 = 398.45 mL; PEEP does not change the volume of this
+	// linear model, so the change is -30.65 mL (tolerance 0.5% of each).
+	require.InDelta(t, 429.10, vt.Current, 2.2, "current tidal volume (derived)")
+	require.InDelta(t, 398.45, vt.Proposed, 2.0, "proposed tidal volume (derived)")
+	require.InDelta(t, -30.65, vt.Change, 0.5, "change (derived)")
 	// A proposal the machine cannot run is refused, naming the proposal's flag.
 	bad := 33.3
 	req.Proposal = setup.Proposal{RPM: &bad}
@@ -150,8 +161,10 @@ func TestCheckCylinderAndFiO2(t *testing.T) {
 	ck, err := setup.RunCheck(req, profile(t, "demo-a"))
 	require.NoError(t, err)
 	f := ck.Current.Figures
-	// FiO2 = 0.21 + 0.79 x 2 / VE (derived); 2 L x 30 bar = 60 L -> 30 min (common practice).
-	require.InDelta(t, 0.21+0.79*2/f.MinuteVentLPerMin, f.FiO2, 1e-9)
+	// FiO2 = 0.21 + 0.79 x 2 / VE (derived) with VE 6.0477 L/min (see
+	// TestCheckOfAnObservedSetting): 0.21 + 1.58 / 6.0477 = 0.4713;
+	// 2 L x 30 bar = 60 L -> 30 min (common practice).
+	require.InDelta(t, 0.4713, f.FiO2, 0.002, "FiO2 (derived)")
 	require.InDelta(t, 30, f.CylinderMinutes, 1e-9)
 	require.True(t, hasCaution(ck.Current.Cautions, "o2-cylinder-low"))
 }

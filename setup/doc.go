@@ -1,8 +1,15 @@
-// Package setup is the job itself. Plan takes a patient, targets and a
+// Package setup is the job itself. MakePlan takes a patient, targets and a
 // machine profile and returns the crank hole to pin, the motor speed and
 // dwell the controller can really be set to, every predicted figure, and the
-// cautions that apply. Cautions are computed here, in one place, from the
-// figures; nothing that shows a plan computes one.
+// cautions that apply. RunCheck is the handover check: what the machine is
+// set to and, when given, the manometer's peak and end-inspiratory readings
+// (the lung is fitted to them, or FitProblem says which to re-take), with an
+// optional proposed change evaluated beside it. Calibrate refits a profile's
+// calibration from bench points; DescribeProfile and BreathTrace serve the
+// machine and chart views. NewRecord, AppendRecord, ReadLog and History keep
+// the log of checks (one JSON line each); WriteCard prints the handover card.
+// Cautions are computed here, in one place, from the figures; nothing that
+// shows a plan or a check computes one.
 //
 // Units follow the names: cm, kg, mL, s, cmH2O, mL/cmH2O, cmH2O/(L/s), L/min
 // for flows shown to people, rpm, N m. The ranges a person may enter are in

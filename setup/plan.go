@@ -45,13 +45,22 @@ type Plan struct {
 	// at either end.
 	Below, Above *HoleFigure
 	Holes        []HoleFigure // every hole at the planned speed, in profile order
-	OffTargetPct float64      // (delivered - target) / target
+	OffTargetPct float64      // percent: 100 x (delivered - target) / target, negative below the target
 
 	Changes  []Change
 	Cautions []Caution
 }
 
-// MakePlan turns a request into a setting on the machine described by p.
+// MakePlan turns a request into a setting on the machine described by p:
+// PBW from the patient, the targets with their defaults and sources, the
+// motor speed and dwell rounded to what the motor and controller can be set
+// to (PlanTiming), every hole simulated from rest at that speed and the one
+// whose delivered volume is nearest the target chosen (a tie goes to the
+// smaller volume), its neighbours, the O2 flow for the wanted FiO2, the
+// figures at the steady state of trapped gas, what rounding changed, and the
+// cautions. Bad entries and a profile the model cannot run return an
+// *InputError naming the field; a setting that cannot be reached is not an
+// error but a stop caution.
 func MakePlan(req Request, p profiles.Profile) (Plan, error) {
 	now := orNow(req.Now)
 	pbw, err := pbwOf(req.Patient)

@@ -8,7 +8,7 @@ import (
 	"github.com/stretchr/testify/require"
 )
 
-// TestArchitecture keeps the dependency arrows of DESIGN.md true:
+// TestArchitecture keeps the dependency arrows of DEVELOPERS.md true:
 // physiology and machine import the standard library and gonum only;
 // profiles the standard library only; setup never imports ui; and nothing
 // but ui and main imports a terminal library.

@@ -29,7 +29,8 @@ func TestPredictedBodyWeight(t *testing.T) {
 		{"ARDSNet 2000, derived", 152.4, physiology.Female, 45.5, 1e-9},
 		// ARDSNet protocol card row: 70 in male -> 73 kg. The card uses the inch
 		// form 50 + 2.3 (in - 60); the cm form's 0.91 differs by up to ~0.17 kg.
-		{"ARDSNet 2000 protocol card (inch form), tolerance 0.2 kg", 177.8, physiology.Male, 50 + 2.3*10, 0.2},
+		// 70 in: 50 + 2.3 x (70 - 60) = 73.0 kg.
+		{"ARDSNet 2000 protocol card (inch form), tolerance 0.2 kg", 177.8, physiology.Male, 73.0, 0.2},
 		{"ARDSNet 2000, derived: 73.1 kg", 177.8, physiology.Male, 73.1, 0.02},
 		{"ARDSNet 2000, derived", 160, physiology.Female, 52.4, 0.02},
 		{"ARDSNet 2000, derived", 170, physiology.Male, 66.0, 0.02},
@@ -74,7 +75,8 @@ func TestTidalVolumeRows(t *testing.T) {
 }
 
 func TestHeightOutsideRangeIsRefused(t *testing.T) {
-	// DESIGN: heights outside 130-230 cm are refused (common practice: adult range).
+	// Heights outside 130-230 cm are refused (this program's entry range;
+	// common practice: the adult range).
 	for _, h := range []float64{129.9, 230.1, math.NaN(), math.Inf(1), -170} {
 		if _, err := physiology.PredictedBodyWeightKg(h, physiology.Male); err == nil {
 			t.Errorf("height %v: want an error", h)
@@ -92,7 +94,9 @@ func TestEquationOfMotion(t *testing.T) {
 	// R 10 cmH2O/(L/s), flow 1 L/s -> 25 cmH2O; plateau 15; driving 10.
 	near(t, "Paw (Chatburn 2014)", physiology.AirwayPressureCmH2O(5, 500, 50, 10, 1), 25, 1e-12)
 	near(t, "plateau (Chatburn 2014)", physiology.AirwayPressureCmH2O(5, 500, 50, 10, 0), 15, 1e-12)
-	near(t, "driving (Chatburn 2014)", 500.0/50, 10, 1e-12)
+	// Driving pressure is plateau minus PEEP: 15 - 5 = 10 cmH2O (Chatburn 2014).
+	near(t, "driving (Chatburn 2014)", physiology.AirwayPressureCmH2O(5, 500, 50, 10, 0)-5, 10, 1e-12)
+	near(t, "driving at zero PEEP (Chatburn 2014)", physiology.AirwayPressureCmH2O(0, 500, 50, 10, 0), 10, 1e-12)
 }
 
 func TestPassiveExhalation(t *testing.T) {
@@ -146,12 +150,15 @@ func TestSliderCrankKinematics(t *testing.T) {
 			near(t, fmt.Sprintf("a(%v deg) (KMODDL)", k.thetaDeg), c.AccelerationCmPerS2(th, 1), k.a, 5e-5)
 		}
 	}
-	// Offset e 20 mm, r 50 mm, L 200 mm -> stroke 100.54 mm (REFERENCES, derived).
+	// Offset e 20 mm, r 50 mm, L 200 mm -> stroke 100.54 mm (derived from the
+	// KMODDL position formula: sqrt(250^2 - 20^2) - sqrt(150^2 - 20^2)
+	// = 249.199 - 148.661 = 100.538 mm).
 	off := machine.Crank{RadiusCm: 5, RodCm: 20, OffsetCm: 2}
 	near(t, "offset stroke (derived)", off.StrokeCm()*10, 100.54, 0.005)
-	// The stroke is also x at the top dead centre minus x at the bottom one.
+	// The stroke is also x at the top dead centre minus x at the bottom one:
+	// the same 100.54 mm (derived above), found through DeadCentres and PositionCm.
 	b, top := off.DeadCentres()
-	near(t, "stroke from the dead centres (derived)", off.PositionCm(top)-off.PositionCm(b), off.StrokeCm(), 1e-9)
+	near(t, "stroke from the dead centres (derived: 100.54 mm)", (off.PositionCm(top)-off.PositionCm(b))*10, 100.54, 0.005)
 	near(t, "velocity zero at bottom dead centre (derived)", off.DxDTheta(b), 0, 1e-9)
 	near(t, "velocity zero at top dead centre (derived)", off.DxDTheta(top), 0, 1e-9)
 	// In-line: stroke is 2r (derived).
@@ -173,14 +180,17 @@ func TestSliderCrankDerivativesMatchFiniteDifferences(t *testing.T) {
 }
 
 func TestCrankTorque(t *testing.T) {
-	// REFERENCES: F 100 N, r 0.05 m, L 0.2 m: 30 deg 3.0455 N m; 60 deg
-	// 4.8845; 90 deg 5.000 (derived from T = F r sin(theta+phi)/cos(phi)).
+	// Norton, Design of Machinery (from memory): F 100 N, r 0.05 m, L 0.2 m:
+	// 30 deg 3.0455 N m; 60 deg 4.8845; 90 deg 5.000 (derived from
+	// T = F r sin(theta+phi)/cos(phi); e.g. 30 deg: sin(phi) = 0.125,
+	// phi = 7.181 deg, 100 x 0.05 x sin(37.181 deg) / cos(7.181 deg) = 3.0455).
 	c := machine.Crank{RadiusCm: 5, RodCm: 20}
 	for _, k := range []struct{ deg, want float64 }{{30, 3.0455}, {60, 4.8845}, {90, 5.000}} {
 		th := k.deg * math.Pi / 180
 		got := c.TorqueNm(th, 100)
 		near(t, fmt.Sprintf("torque %v deg (derived)", k.deg), got, k.want, 5e-5)
-		// The identity T = F |dx/dtheta| (REFERENCES, a good identity test).
+		// The identity T = F |dx/dtheta| (virtual work; Norton, from memory):
+		// TorqueNm uses the rod angle, DxDTheta the position's derivative.
 		near(t, fmt.Sprintf("torque = F |dx/dtheta| at %v deg", k.deg), got, 100*math.Abs(c.DxDTheta(th))/100, 1e-9)
 	}
 }
@@ -190,8 +200,9 @@ func TestUnitsAndGas(t *testing.T) {
 	if physiology.PascalPerCmH2O != 98.0665 {
 		t.Errorf("cmH2O = %v Pa, want 98.0665 (NIST SP 811)", physiology.PascalPerCmH2O)
 	}
-	// 1 atm = 101325 Pa (NIST SP 811).
-	near(t, "atm in cmH2O (NIST SP 811)", physiology.CmH2OPerAtm, 101325/98.0665, 1e-12)
+	// 1 atm = 101325 Pa (NIST SP 811); 101325 / 98.0665 = 1033.2275 cmH2O
+	// (derived, by hand: 98.0665 x 1033 = 101302.69, remainder 22.31 / 98.0665 = 0.2275).
+	near(t, "atm in cmH2O (NIST SP 811, derived 1033.2275)", physiology.CmH2OPerAtm, 1033.2275, 5e-5)
 	// Boyle's law, isothermal: 500 mL at 1 atm raised by 30 cmH2O -> 485.89 mL (derived).
 	near(t, "Boyle (derived)", physiology.CompressedVolumeML(500, 30), 485.89, 0.005)
 }
