@@ -346,3 +346,43 @@ func TestNextProtocolStepRefusesAState(t *testing.T) {
 			(name == "vt" && strings.Contains(err.Error(), "tidal volume")), "%s: %v", name, err)
 	}
 }
+
+// FuzzProtocolStep: whatever the numbers, the step never panics, and a step
+// it returns stays inside the protocol's limits: the rate within 10-35 /min
+// (or where it already was), Vt within 4-6 mL/kg PBW of a 1 mL/kg step (or
+// where it was), and PEEP/FiO2 either kept or a pair of the table (ARDS
+// Network protocol card).
+func FuzzProtocolStep(f *testing.F) {
+	f.Add(70.0, 6.0, 20.0, 8.0, 0.5, 27.0, 50.0, 7.25, 50.0, 87.0, 0.0)
+	f.Add(50.0, 4.0, 35.0, 24.0, 1.0, 40.0, 40.0, 7.05, 90.0, 80.0, 300.0)
+	f.Add(90.0, 8.0, 10.0, 5.0, 0.21, 12.0, 120.0, 7.6, 20.0, 99.0, 50.0)
+	f.Fuzz(func(t *testing.T, pbw, mlkg, rate, peep, fio2, plateau, pao2, pH, paco2, spo2, vd float64) {
+		st := ProtocolState{PBWKg: pbw, MLPerKg: mlkg, RateBPM: rate, PEEPCmH2O: peep, FiO2: fio2, PlateauCmH2O: plateau, ApparatusDeadSpaceML: &vd}
+		s, err := NextProtocolStep(st, GasReadings{PaO2MmHg: &pao2, PH: &pH, PaCO2MmHg: &paco2, SpO2Pct: &spo2})
+		if err != nil {
+			return
+		}
+		for _, v := range []float64{s.RateBPM, s.MLPerKg, s.PEEPCmH2O, s.FiO2, s.DeadSpaceML} {
+			if math.IsNaN(v) || math.IsInf(v, 0) {
+				t.Fatalf("not finite: %+v", s)
+			}
+		}
+		if s.RateChanged && (s.RateBPM > math.Max(ProtocolRateMaxBPM, rate)+1e-9 || s.RateBPM < math.Min(ProtocolRateFloorBPM, rate)-1e-9) {
+			t.Fatalf("rate %v from %v outside the protocol's rates", s.RateBPM, rate)
+		}
+		if s.VtChanged && (s.MLPerKg > math.Max(VtUpToMLPerKg, mlkg)+1e-9 || s.MLPerKg < math.Min(VtFloorMLPerKg, mlkg)-1e-9 || math.Abs(s.MLPerKg-mlkg) > VtStepMLPerKg+1e-9) {
+			t.Fatalf("Vt %v from %v is not one protocol step", s.MLPerKg, mlkg)
+		}
+		if (s.PEEPChanged || s.FiO2Changed) && !onTable(s.FiO2, s.PEEPCmH2O) {
+			t.Fatalf("PEEP %v FiO2 %v is not a pair of the table", s.PEEPCmH2O, s.FiO2)
+		}
+		if len(s.Rules) < 3 {
+			t.Fatalf("rules missing: %+v", s.Rules)
+		}
+		for _, r := range s.Rules {
+			if r.ID == "" || r.Source == "" || r.Action == "" || r.Status == 0 {
+				t.Fatalf("rule without id, source, action or status: %+v", r)
+			}
+		}
+	})
+}

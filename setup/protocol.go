@@ -106,7 +106,8 @@ func ProtocolProposal(req CheckRequest, readings GasReadings, p profiles.Profile
 	}
 	step, err := physiology.NextProtocolStep(st, readings.physiology())
 	if err != nil {
-		return ProtocolStepResult{}, &InputError{Field: "readings", Reason: err.Error()}
+		// The readings were checked above: what is left is the setting.
+		return ProtocolStepResult{}, &InputError{Field: "setting", Reason: "no protocol step at this setting: " + err.Error()}
 	}
 	res := ProtocolStepResult{Readings: readings, Step: step, Check: ck,
 		TargetMLPerKg: step.MLPerKg, TargetVtML: step.MLPerKg * ck.PBWKg}
