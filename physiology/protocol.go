@@ -366,7 +366,10 @@ func oxygenationRule(st ProtocolState, g GasReadings) (RuleResult, PEEPFiO2Pair)
 	}
 	r.Value, r.HasValue = v, true
 	now := fmt.Sprintf("FiO2 %.2f, PEEP %.0f", st.FiO2, st.PEEPCmH2O)
-	if !onTable(st.FiO2, st.PEEPCmH2O) {
+	switch {
+	case st.FiO2 <= RoomAirFiO2+tableFiO2Tol:
+		now += " (room air)"
+	case !onTable(st.FiO2, st.PEEPCmH2O):
 		now += " (not a pair of the table)"
 	}
 	var pair PEEPFiO2Pair
@@ -388,6 +391,9 @@ func oxygenationRule(st ProtocolState, g GasReadings) (RuleResult, PEEPFiO2Pair)
 		if !ok {
 			r.Status = RuleNoStep
 			r.Action = "above goal at " + now + ": no lower pair in the table; lowering FiO2 toward room air, PEEP at least 5, is the clinician's decision" + disagree
+			if st.FiO2 <= RoomAirFiO2+tableFiO2Tol {
+				r.Action = "above goal at " + now + ": no oxygen to take away; the protocol keeps PEEP at 5 or more" + disagree
+			}
 			return r, pair
 		}
 		r.Action = fmt.Sprintf("above goal: the pair below on the table, FiO2 %.1f, PEEP %.0f cmH2O (from %s)%s", pair.FiO2, pair.PEEPCmH2O, now, disagree)

@@ -188,7 +188,12 @@ func TestOxygenationRuleAtTheEndsOfTheTable(t *testing.T) {
 		require.InDelta(t, c.fio2W, s.FiO2, 1e-9, c.name)
 		require.InDelta(t, c.pW, s.PEEPCmH2O, 1e-9, c.name)
 	}
-	s, _ := NextProtocolStep(patientAt(1.0, 24), low)
+	s, _ := NextProtocolStep(patientAt(0.21, 5), low)
+	require.Contains(t, ruleOf(t, s, "oxygenation").Action, "(room air)")
+	s, _ = NextProtocolStep(patientAt(0.21, 5), high)
+	require.Equal(t, RuleNoStep, ruleOf(t, s, "oxygenation").Status)
+	require.Contains(t, ruleOf(t, s, "oxygenation").Action, "no oxygen to take away")
+	s, _ = NextProtocolStep(patientAt(1.0, 24), low)
 	require.Contains(t, ruleOf(t, s, "oxygenation").Action, "call the clinician")
 	require.False(t, s.Changed())
 	s, _ = NextProtocolStep(patientAt(0.45, 8), low)

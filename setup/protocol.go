@@ -94,7 +94,7 @@ func ProtocolProposal(req CheckRequest, readings GasReadings, p profiles.Profile
 		return ProtocolStepResult{}, err
 	}
 	cur := ck.Current
-	plateauSrc := "predicted with " + ck.Mechanics.Source
+	plateauSrc := "predicted; compliance " + ck.Mechanics.Source
 	if ck.Fitted != nil {
 		plateauSrc = "fitted to the manometer readings"
 	}
