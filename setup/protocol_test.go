@@ -216,3 +216,24 @@ func TestProtocolStepJSONKeys(t *testing.T) {
 	require.Contains(t, string(b), `"id":"ph","reading":"pH","value":null`)
 	require.Nil(t, res.Check.Proposed, "in goal everywhere: nothing proposed")
 }
+
+func TestProtocolRateFollowsTheHolesVolume(t *testing.T) {
+	// demo-b hole D at 20 rpm, 1.0 s dwell: about 5.7 mL/kg PBW with the
+	// plateau near 12, so the plateau rule wants Vt up to 6 (ARDS Network
+	// protocol card), and pH 7.25 wants the rate for that volume. The hole
+	// nearest 6 mL/kg is still D, so the volume does not change; the rate
+	// that keeps the step's alveolar ventilation at D's own volume is then
+	// the rate at the same Vt: 15 x 10^(7.35 - 7.25) = 18.9 /min, whatever
+	// the dead space (derived: rate_step x (Vt_step - Vd) / (Vt_D - Vd) with
+	// rate_step = 15 x (Vt_D - Vd) / (Vt_step - Vd) x 10^0.1).
+	res, err := setup.ProtocolProposal(protocolReq("D", 20, 1.0, 5, 0),
+		setup.GasReadings{PH: gas(7.25), PaCO2MmHg: gas(50)}, profile(t, "demo-b"))
+	require.NoError(t, err)
+	require.True(t, res.Step.VtChanged)
+	require.Equal(t, "D", res.Proposed.Hole)
+	require.Less(t, res.Step.RateBPM, 18.9, "the step's rate was for the larger volume")
+	c, ok := hasChange(res.Changes, "rate for the hole's volume")
+	require.True(t, ok, "%+v", res.Changes)
+	require.InDelta(t, 18.9, c.Got, 0.05)
+	require.Contains(t, strings.Join(res.Notes, "\n"), "the tidal volume does not change on this machine")
+}
