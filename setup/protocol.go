@@ -143,7 +143,7 @@ func (res *ProtocolStepResult) placeOnMachine(u unit, st physiology.ProtocolStat
 	rpm, dwell := cur.Setting.RPM, cur.Setting.DwellS
 	ie := cur.Figures.Timing.IE
 	if res.Step.RateChanged && ie < physiology.IEMin {
-		res.Notes = append(res.Notes, fmt.Sprintf("I:E now 1:%.2f is inverse; the new rate is planned at 1:1", ie))
+		res.note(fmt.Sprintf("I:E now 1:%.2f is inverse; the new rate is planned at 1:1", ie))
 		ie = physiology.IEMin
 	}
 	want := res.Step.RateBPM
@@ -194,7 +194,7 @@ func (res *ProtocolStepResult) placeOnMachine(u unit, st physiology.ProtocolStat
 	if err != nil {
 		return &InputError{Field: "profile " + u.p.ID, Reason: err.Error()}
 	}
-	if res.rateScalesWithVt() && math.Abs(hf.DeliveredML-res.TargetVtML) > 0.5 && res.Timing != nil {
+	if res.Timing != nil && res.rateScalesWithVt() && math.Abs(res.Timing.WantedRateBPM-res.Step.RateBPM) > 0.05 {
 		res.note(fmt.Sprintf("the hole delivers %.0f mL, not the step's %.0f mL: for the same alveolar ventilation (dead space %.0f mL) the rate is %.1f /min, not %.1f",
 			hf.DeliveredML, res.TargetVtML, res.Step.DeadSpaceML, res.Timing.WantedRateBPM, res.Step.RateBPM))
 	}
