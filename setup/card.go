@@ -25,4 +25,3 @@ func wrap(text string, width int) []string {
 	}
 	return append(out, text)
 }
-

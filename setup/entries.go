@@ -3,6 +3,7 @@ package setup
 import (
 	"fmt"
 	"sort"
+	"strconv"
 	"strings"
 	"time"
 
@@ -104,7 +105,7 @@ var checkSpecs = []EntrySpec{
 
 // PlanEntries and CheckEntrySpecs list the entries of a plan and of a
 // check, in the order a form shows them.
-func PlanEntries() []EntrySpec      { return append([]EntrySpec(nil), planSpecs...) }
+func PlanEntries() []EntrySpec     { return append([]EntrySpec(nil), planSpecs...) }
 func CheckEntrySpecs() []EntrySpec { return append([]EntrySpec(nil), checkSpecs...) }
 
 // Spec returns the entry of that flag name, from the plan's or the
@@ -368,4 +369,15 @@ func Hint(name string, lung physiology.Lung) string {
 		return "optional: capacity and pressure together"
 	}
 	return ""
+}
+
+// Understood is how a number entry is read, as a plain decimal, so that a
+// form can echo it beside the field ("0,9" is read as "0.9"); ok is false
+// when the text is not a number.
+func Understood(text string) (string, bool) {
+	v, err := physiology.ParseNumber(text)
+	if err != nil {
+		return "", false
+	}
+	return strconv.FormatFloat(v, 'f', -1, 64), true
 }

@@ -14,3 +14,13 @@ func HistoryLine(r Record) string {
 	}
 	return line
 }
+
+// ProposalLine is a record's proposed setting on one line, or "".
+func ProposalLine(r Record) string {
+	if r.Proposed == nil {
+		return ""
+	}
+	s := r.Proposed.Setting
+	return fmt.Sprintf("hole %s, %.1f rpm, dwell %.1f s, PEEP %.0f: %.0f mL %.1f mL/kg",
+		s.Hole, s.RPM, s.DwellS, s.PEEPCmH2O, r.Proposed.DeliveredVtML, r.Proposed.MLPerKg)
+}

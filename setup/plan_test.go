@@ -314,7 +314,7 @@ func TestBreathTraceMatchesThePlan(t *testing.T) {
 	// trapped (derived in TestPlanDemoA170Female) / 0.78 s = 12.89 mL/s =
 	// 0.7735 L/min (tolerance 0.5% for the share).
 	require.InDelta(t, 0.7735, tr.EndExpiratoryLPerMin, 0.004, "end-expiratory flow (derived)")
-	require.Equal(t, 40.0, tr.LimitCmH2O)
+	require.Equal(t, 40.0, tr.ReliefCmH2O, "demo-a relief valve (the invented profile)")
 }
 
 func TestCheckEntriesFindsEveryBadEntry(t *testing.T) {

@@ -36,17 +36,17 @@ type rowSpec struct {
 var figureRows = []rowSpec{
 	{id: "delivered_vt_ml", label: "Tidal volume", unit: "mL", format: "%.0f", get: func(f FiguresJSON) float64 { return f.DeliveredVtML }},
 	{id: "ml_per_kg", label: "  per kg PBW", unit: "mL/kg", format: "%.1f", get: func(f FiguresJSON) float64 { return f.MLPerKg }},
-	{id: "rate_bpm", label: "Rate", unit: "/min", format: "%.1f", get: func(f FiguresJSON) float64 { return f.RateBPM }},
-	{id: "ti_s", label: "Ti", unit: "s", format: "%.2f", get: func(f FiguresJSON) float64 { return f.TiS }},
-	{id: "te_s", label: "Te (with dwell)", unit: "s", format: "%.2f", get: func(f FiguresJSON) float64 { return f.TeS }},
-	{id: "ie_ratio", label: "I:E", format: "1:%.1f", get: func(f FiguresJSON) float64 { return f.IERatio }},
-	{id: "minute_ventilation_l_min", label: "Minute vent.", unit: "L/min", format: "%.1f", get: func(f FiguresJSON) float64 { return f.MinuteVentilationLMin }},
-	{id: "peak_flow_l_min", label: "Peak flow", unit: "L/min", format: "%.0f", get: func(f FiguresJSON) float64 { return f.PeakFlowLMin }},
 	{id: "peak_pressure_cmh2o", label: "Peak", unit: "cmH2O", format: "%.1f", get: func(f FiguresJSON) float64 { return f.PeakPressureCmH2O }},
-	{id: "end_inspiratory_pressure_cmh2o", label: "End-insp.", unit: "cmH2O", format: "%.1f", get: func(f FiguresJSON) float64 { return f.EndInspiratoryPressureCmH2O }},
 	{id: "plateau_pressure_cmh2o", label: "Plateau", unit: "cmH2O", format: "%.1f", get: func(f FiguresJSON) float64 { return f.PlateauPressureCmH2O }},
 	{id: "driving_pressure_cmh2o", label: "Driving*", unit: "cmH2O", format: "%.1f", get: func(f FiguresJSON) float64 { return f.DrivingPressureCmH2O }},
 	{id: "intrinsic_peep_cmh2o", label: "Intrinsic PEEP", unit: "cmH2O", format: "%.1f", get: func(f FiguresJSON) float64 { return f.IntrinsicPEEPCmH2O }},
+	{id: "rate_bpm", label: "Rate", unit: "/min", format: "%.1f", get: func(f FiguresJSON) float64 { return f.RateBPM }},
+	{id: "ti_s", label: "Ti", unit: "s", format: "%.2f", get: func(f FiguresJSON) float64 { return f.TiS }},
+	{id: "te_s", label: "Te", unit: "s", format: "%.2f", get: func(f FiguresJSON) float64 { return f.TeS }},
+	{id: "ie_ratio", label: "I:E", format: "1:%.1f", get: func(f FiguresJSON) float64 { return f.IERatio }},
+	{id: "minute_ventilation_l_min", label: "Minute vent.", unit: "L/min", format: "%.1f", get: func(f FiguresJSON) float64 { return f.MinuteVentilationLMin }},
+	{id: "peak_flow_l_min", label: "Peak flow", unit: "L/min", format: "%.0f", get: func(f FiguresJSON) float64 { return f.PeakFlowLMin }},
+	{id: "end_inspiratory_pressure_cmh2o", label: "End-insp.", unit: "cmH2O", format: "%.1f", get: func(f FiguresJSON) float64 { return f.EndInspiratoryPressureCmH2O }},
 	{id: "trapped_ml", label: "Trapped gas", unit: "mL", format: "%.0f", get: func(f FiguresJSON) float64 { return f.TrappedVolumeML }},
 	{id: "fio2", label: "FiO2 (est.)", format: "%.2f", get: func(f FiguresJSON) float64 { return f.FiO2 }},
 	{id: "cylinder_minutes", label: "O2 cylinder", unit: "min", format: "%.0f", get: func(f FiguresJSON) float64 {
@@ -155,3 +155,6 @@ func SettingRows(cur Setting, prop *Setting) []SettingRow {
 		row("o2_flow_l_min", "O2 bleed", "L/min", "%.1f", func(s Setting) any { return s.O2LPerMin }),
 	}
 }
+
+// FigureRows are the plan's figures as rows.
+func (pl Plan) FigureRows() []Row { return FigureRows(figuresJSON(pl.Figures), nil) }

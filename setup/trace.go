@@ -18,8 +18,9 @@ type Trace struct {
 	PEEPCmH2O      float64
 	PlateauCmH2O   float64
 	PeakCmH2O      float64
-	// LimitCmH2O is the lower of the relief valve and the 40 cmH2O ceiling.
-	LimitCmH2O float64
+	// ReliefCmH2O is the profile's relief valve: the circuit pressure
+	// never rises above it.
+	ReliefCmH2O float64
 	// EndExpiratoryLPerMin is the flow still leaving when the next breath
 	// starts: zero when exhalation finishes.
 	EndExpiratoryLPerMin float64
@@ -38,7 +39,7 @@ func BreathTrace(pl Plan, p profiles.Profile) (Trace, error) {
 	u.cal = pl.Calibration
 	c, r := pl.ComplianceMLPerCmH2O, pl.ResistanceCmH2OPerLS
 	tr := Trace{TiS: pl.Timing.TiS, PeriodS: pl.Timing.PeriodS, PEEPCmH2O: pl.PEEPCmH2O,
-		PlateauCmH2O: pl.PlateauCmH2O, PeakCmH2O: pl.PeakCmH2O, LimitCmH2O: math.Min(p.Circuit.ReliefCmH2O, PeakMaxCmH2O)}
+		PlateauCmH2O: pl.PlateauCmH2O, PeakCmH2O: pl.PeakCmH2O, ReliefCmH2O: p.Circuit.ReliefCmH2O}
 	var endV float64
 	_, err := machine.SimulateStroke(machine.StrokeInput{
 		Stroke: u.stroke(h, pl.Timing.RPM, pl.Calibration.Calibration),

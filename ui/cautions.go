@@ -42,7 +42,7 @@ func (p *cautionsPanel) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 			p.offset--
 		}
 	case key.Matches(km, p.keys.Advance):
-		p.sig.advance = true
+		return p, ask(advanceRequested{})
 	}
 	return p, nil
 }
@@ -77,10 +77,10 @@ func (p *cautionsPanel) lines() []string {
 
 func (p *cautionsPanel) View() string {
 	l := p.lines()
-	if p.offset > 0 && p.offset < len(l) {
-		l = l[p.offset:]
+	if off := min(p.offset, len(l)-1); off > 0 {
+		l = append([]string{p.styles.Hint.Render(fmt.Sprintf("^ %d line%s above (up arrow)", off, plural(off)))}, l[off:]...)
 	}
-	return fit(strings.Join(l, "\n"), p.w, p.h)
+	return strings.Join(l, "\n")
 }
 
 func (p *cautionsPanel) ShortHelp() []key.Binding { return []key.Binding{p.keys.Down, p.keys.Advance} }

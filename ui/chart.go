@@ -13,8 +13,8 @@ import (
 )
 
 // breathChart draws one breath: circuit pressure over flow, against time,
-// with the PEEP, plateau and limit lines. Reference lines use their own
-// characters (- PEEP, ~ plateau, = limit) so they read without colour.
+// with the PEEP, plateau and relief-valve lines. Reference lines use their
+// own characters (- PEEP, ~ plateau, = relief) so they read without colour.
 func breathChart(tr *setup.Trace, w, h int, s *Styles) string {
 	if tr == nil || w < 24 || h < 7 || len(tr.TimeS) < 2 {
 		return ""
@@ -28,9 +28,9 @@ func breathChart(tr *setup.Trace, w, h int, s *Styles) string {
 	period := tr.PeriodS
 
 	maxP := math.Max(tr.PeakCmH2O*1.2, tr.PlateauCmH2O+5)
-	limitShown := tr.LimitCmH2O <= maxP*1.05
+	limitShown := tr.ReliefCmH2O <= maxP*1.05
 	if limitShown {
-		maxP = math.Max(maxP, tr.LimitCmH2O+2)
+		maxP = math.Max(maxP, tr.ReliefCmH2O+2)
 	}
 	yLabel := linechart.WithYLabelFormatter(func(_ int, v float64) string { return fmt.Sprintf("%4.0f", v) })
 	xLabel := linechart.WithXLabelFormatter(func(_ int, v float64) string { return fmt.Sprintf("%.1f", v) })
@@ -44,7 +44,7 @@ func breathChart(tr *setup.Trace, w, h int, s *Styles) string {
 	ref(&pc, tr.PEEPCmH2O, '-')
 	ref(&pc, tr.PlateauCmH2O, '~')
 	if limitShown {
-		ref(&pc, tr.LimitCmH2O, '=')
+		ref(&pc, tr.ReliefCmH2O, '=')
 	}
 	drawSeries(&pc, tr.TimeS, tr.CircuitCmH2O, s)
 
@@ -57,16 +57,16 @@ func breathChart(tr *setup.Trace, w, h int, s *Styles) string {
 	ref(&fc, 0, '.')
 	drawSeries(&fc, tr.TimeS, tr.PatientLPerMin, s)
 
-	limit := fmt.Sprintf("=limit %.0f", tr.LimitCmH2O)
+	limit := fmt.Sprintf("=relief %.0f", tr.ReliefCmH2O)
 	if !limitShown {
-		limit = fmt.Sprintf("limit %.0f off scale", tr.LimitCmH2O)
+		limit = fmt.Sprintf("relief %.0f off scale", tr.ReliefCmH2O)
 	}
 	legend := wrapWords(w, "cmH2O:", fmt.Sprintf("-PEEP %.0f", tr.PEEPCmH2O), fmt.Sprintf("~plateau %.1f", tr.PlateauCmH2O), limit,
 		"| L/min by s;", fmt.Sprintf("%.1f L/min still out at next breath", tr.EndExpiratoryLPerMin))
 	for i := range legend {
 		legend[i] = s.Label.Render(legend[i])
 	}
-	return strings.Join([]string{pc.View(), fc.View(), fit(strings.Join(legend, "\n"), w, legendLines)}, "\n")
+	return strings.Join([]string{pc.View(), fc.View(), strings.Join(legend, "\n")}, "\n")
 }
 
 // drawSeries draws a trace in braille on one grid for the whole series,

@@ -4,53 +4,88 @@ import (
 	"strings"
 	"unicode/utf8"
 
+	"github.com/charmbracelet/bubbles/cursor"
 	"github.com/charmbracelet/bubbles/key"
 	"github.com/charmbracelet/bubbles/textinput"
 	tea "github.com/charmbracelet/bubbletea"
 	"github.com/charmbracelet/x/ansi"
+
+	"crankside/setup"
 )
+
+// fieldKind is what a field holds; it decides which characters it takes.
+type fieldKind int
+
+const (
+	kindNumber   fieldKind = iota // digits and one decimal mark (point or comma)
+	kindRatio                     // an I:E like 1:2
+	kindLabel                     // a bed or hole label: letters, digits, - _ . /
+	kindInitials                  // letters
+	kindChoice                    // one of a few options, picked by letter or arrows
+)
+
+// allowedRunes are the characters each kind of text field takes.
+var allowedRunes = map[fieldKind]string{
+	kindNumber:   "0123456789.,",
+	kindRatio:    "0123456789.,:",
+	kindLabel:    "abcdefghijklmnopqrstuvwxyzABCDEFGHIJKLMNOPQRSTUVWXYZ0123456789-_./",
+	kindInitials: "abcdefghijklmnopqrstuvwxyzABCDEFGHIJKLMNOPQRSTUVWXYZ",
+}
+
+var kindWords = map[fieldKind]string{
+	kindNumber:   "a number (digits and one decimal point or comma)",
+	kindRatio:    "a ratio like 1:2",
+	kindLabel:    "letters, digits and - _ . /",
+	kindInitials: "letters",
+}
 
 // choice is one option of a choice field; its key picks it when typed.
 type choice struct {
 	key, label, value string
 }
 
-// field is one entry of a form: a number typed in, or a choice.
+// field is one entry of a form: a number or label typed in, or a choice.
 type field struct {
-	name     string // the setup field it feeds ("height-cm"), used to place errors
-	label    string
-	unit     string
-	hint     string // what leaving it empty means
-	required bool
-	allowed  string // runes a text field accepts
-	input    textinput.Model
-	choices  []choice
-	chosen   int    // index into choices, -1 for none
-	err      string // why the entry cannot be used, shown beside it
-	note     string // a passing remark, such as "digits only"
-	heading  string // a section title drawn above the field
+	name    string // the flag name it feeds ("height-cm"), used to place problems
+	label   string
+	unit    string
+	hint    string // what leaving it empty means
+	kind    fieldKind
+	input   textinput.Model
+	choices []choice
+	chosen  int    // index into choices, -1 for none
+	err     string // why the entry cannot be used, shown beside it
+	note    string // a passing remark, such as why a key was refused
+	// selected is true when the field took the focus holding a value: the
+	// first character typed replaces it; an arrow, Home or End edits it.
+	selected bool
+	// from says where a value came from when it was not typed here
+	// ("from the record at 14:05").
+	from string
 }
 
 const fieldWidth = 8
 
-func numberField(name, label, unit, hint string, required bool) *field {
-	return textField(name, label, unit, hint, required, "0123456789.")
+func numberField(name, label, unit, hint string) *field {
+	return textField(name, label, unit, hint, kindNumber)
 }
 
-func textField(name, label, unit, hint string, required bool, allowed string) *field {
+func textField(name, label, unit, hint string, kind fieldKind) *field {
 	in := textinput.New()
 	in.Prompt = ""
 	in.CharLimit = 12
 	in.Width = fieldWidth
 	in.Placeholder = ""
-	return &field{name: name, label: label, unit: unit, hint: hint, required: required, allowed: allowed, input: in, chosen: -1}
+	// A steady cursor: nothing runs in the background between keys.
+	in.Cursor.SetMode(cursor.CursorStatic)
+	return &field{name: name, label: label, unit: unit, hint: hint, kind: kind, input: in, chosen: -1}
 }
 
 func choiceField(name, label, hint string, chosen int, choices ...choice) *field {
-	return &field{name: name, label: label, hint: hint, choices: choices, chosen: chosen}
+	return &field{name: name, label: label, hint: hint, kind: kindChoice, choices: choices, chosen: chosen}
 }
 
-func (f *field) isText() bool { return f.choices == nil }
+func (f *field) isText() bool { return f.kind != kindChoice }
 
 // Value is the text typed, or the chosen option's value ("" for none).
 func (f *field) Value() string {
@@ -70,24 +105,41 @@ func (f *field) SetValue(v string) {
 		f.input.CursorEnd()
 		return
 	}
+	// A prefilled choice may be its value ("male") or its key ("m").
 	for i, c := range f.choices {
-		if c.value == v {
+		if strings.EqualFold(c.value, v) || strings.EqualFold(c.key, v) {
 			f.chosen = i
 		}
 	}
 }
 
 func (f *field) focus() tea.Cmd {
-	if f.isText() {
-		return f.input.Focus()
+	if !f.isText() {
+		return nil
 	}
-	return nil
+	f.selected = f.Value() != ""
+	f.input.CursorEnd()
+	return f.input.Focus()
 }
 
 func (f *field) blur() {
+	f.selected = false
 	if f.isText() {
 		f.input.Blur()
 	}
+}
+
+// echo is what a number entry was read as, when that differs from the
+// text typed (a decimal comma): shown beside the field.
+func (f *field) echo() string {
+	text := f.Value()
+	if f.kind != kindNumber || !strings.Contains(text, ",") {
+		return ""
+	}
+	if v, ok := setup.Understood(text); ok {
+		return "read as " + v
+	}
+	return ""
 }
 
 // update handles a key for the field and reports whether its value changed.
@@ -96,36 +148,65 @@ func (f *field) update(msg tea.KeyMsg, keys formKeys) (bool, tea.Cmd) {
 	if !f.isText() {
 		return f.updateChoice(msg, keys), nil
 	}
-	if key.Matches(msg, keys.Clear) {
-		f.input.SetValue("")
-		return true, nil
-	}
-	if msg.Type == tea.KeyRunes {
-		// A paste may carry terminal escape sequences: drop them whole
-		// before keeping only the characters the field takes.
-		kept := filterRunes([]rune(ansi.Strip(string(msg.Runes))), f.allowed)
-		if len(kept) == 0 {
-			f.note = "type " + allowedWords(f.allowed)
-			return false, nil
-		}
-		if len(kept) < len(msg.Runes) {
-			f.note = "kept only " + allowedWords(f.allowed)
-		}
-		room := f.input.CharLimit - utf8.RuneCountInString(f.input.Value())
-		if room <= 0 {
-			f.note = "that is as long as an entry can be"
-			return false, nil
-		}
-		if len(kept) > room {
-			kept = kept[:room]
-			f.note = "cut to fit the field"
-		}
-		msg.Runes = kept
-	}
 	before := f.input.Value()
+	switch {
+	case key.Matches(msg, keys.Clear):
+		f.input.SetValue("")
+		f.selected = false
+		return before != "", nil
+	case msg.Type == tea.KeyRunes:
+		if !f.typeRunes(msg.Runes) {
+			return false, nil
+		}
+		return f.input.Value() != before, nil
+	case msg.Type == tea.KeyBackspace || msg.Type == tea.KeyDelete:
+		if f.selected {
+			f.input.SetValue("")
+			f.selected = false
+			return before != "", nil
+		}
+	default:
+		// An arrow, Home or End moves into the value to edit it.
+		f.selected = false
+	}
 	var cmd tea.Cmd
 	f.input, cmd = f.input.Update(msg)
 	return f.input.Value() != before, cmd
+}
+
+// typeRunes types characters into the field, or refuses them all with a
+// note: text is never reduced to the characters that happen to fit.
+func (f *field) typeRunes(rs []rune) bool {
+	// A paste may carry terminal escape sequences: drop them whole.
+	rs = []rune(ansi.Strip(string(rs)))
+	allowed := allowedRunes[f.kind]
+	for _, r := range rs {
+		if !strings.ContainsRune(allowed, r) {
+			f.note = quoteRune(r) + " cannot go here: " + f.label + " takes " + kindWords[f.kind] + "; nothing typed"
+			return false
+		}
+	}
+	if len(rs) == 0 {
+		return false
+	}
+	if f.selected {
+		f.input.SetValue("")
+		f.selected = false
+	}
+	room := f.input.CharLimit - utf8.RuneCountInString(f.input.Value())
+	if len(rs) > room {
+		f.note = "that is longer than an entry can be; nothing typed"
+		return false
+	}
+	f.input, _ = f.input.Update(tea.KeyMsg{Type: tea.KeyRunes, Runes: rs})
+	return true
+}
+
+func quoteRune(r rune) string {
+	if r < 0x20 || r == 0x7f {
+		return "a control character"
+	}
+	return "'" + string(r) + "'"
 }
 
 func (f *field) updateChoice(msg tea.KeyMsg, keys formKeys) bool {
@@ -141,13 +222,14 @@ func (f *field) updateChoice(msg tea.KeyMsg, keys formKeys) bool {
 		f.chosen = (f.chosen + 1) % len(f.choices)
 	case msg.Type == tea.KeyRunes:
 		typed := strings.ToLower(string(msg.Runes))
+		found := false
 		for i, c := range f.choices {
 			if typed == c.key {
-				f.chosen = i
+				f.chosen, found = i, true
 			}
 		}
-		if f.chosen == before {
-			f.note = "type " + f.choiceKeys()
+		if !found {
+			f.note = "'" + string(msg.Runes) + "' is not a choice here: type " + f.choiceKeys()
 		}
 	}
 	return f.chosen != before
@@ -160,31 +242,3 @@ func (f *field) choiceKeys() string {
 	}
 	return strings.Join(parts, ", ")
 }
-
-func filterRunes(rs []rune, allowed string) []rune {
-	var out []rune
-	for _, r := range rs {
-		if strings.ContainsRune(allowed, r) {
-			out = append(out, r)
-		}
-	}
-	return out
-}
-
-func allowedWords(allowed string) string {
-	switch {
-	case strings.ContainsRune(allowed, ':'):
-		return "digits and ':' (like 1:2)"
-	case strings.ContainsRune(allowed, 'a') && strings.ContainsRune(allowed, '0'):
-		return "letters, digits and - _ . /"
-	case strings.ContainsRune(allowed, 'a'):
-		return "letters"
-	}
-	return "digits and a decimal point"
-}
-
-// Runes a label field accepts: ASCII letters and digits and a few marks.
-const (
-	labelRunes   = "abcdefghijklmnopqrstuvwxyzABCDEFGHIJKLMNOPQRSTUVWXYZ0123456789-_./"
-	lettersRunes = "abcdefghijklmnopqrstuvwxyzABCDEFGHIJKLMNOPQRSTUVWXYZ"
-)

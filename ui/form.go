@@ -24,10 +24,25 @@ type form struct {
 	// height, when set, is the most lines the form may draw; it then
 	// scrolls to keep the cursor in view.
 	height int
+	// headings are the section titles drawn above their first field.
+	headings map[*field]string
 }
 
-func newForm(styles *Styles, fields ...*field) form {
-	return form{fields: fields, keys: newFormKeys(), styles: styles}
+// section is a titled group of a form's fields; the title may be empty.
+type section struct {
+	title  string
+	fields []*field
+}
+
+func newForm(styles *Styles, sections ...section) form {
+	f := form{keys: newFormKeys(), styles: styles, headings: map[*field]string{}}
+	for _, sec := range sections {
+		if sec.title != "" && len(sec.fields) > 0 {
+			f.headings[sec.fields[0]] = sec.title
+		}
+		f.fields = append(f.fields, sec.fields...)
+	}
+	return f
 }
 
 func (f *form) current() *field { return f.fields[f.cursor] }
@@ -110,8 +125,8 @@ func (f *form) view() string {
 	var lines []string
 	cursorLine := 0
 	for i, fl := range f.fields {
-		if fl.heading != "" {
-			lines = append(lines, s.Section.Render(fl.heading))
+		if h := f.headings[fl]; h != "" {
+			lines = append(lines, s.Section.Render(h))
 		}
 		if i == f.cursor {
 			cursorLine = len(lines)
@@ -123,17 +138,24 @@ func (f *form) view() string {
 			label = s.FieldFocused.Render(fmt.Sprintf("%-*s", lw, fl.label))
 		}
 		var entry string
-		if fl.isText() {
+		switch {
+		case fl.isText() && fl.selected && f.focused && i == f.cursor:
+			// The value is selected: the first character typed replaces it.
+			entry = "[" + s.Selected.Render(fl.input.Value()) + padRight("", fieldWidth+1-lipgloss.Width(fl.input.Value())) + "]"
+		case fl.isText():
 			entry = "[" + padRight(fl.input.View(), fieldWidth+1) + "]"
-		} else {
+		default:
 			entry = f.choiceView(fl, f.focused && i == f.cursor)
 		}
 		line := mark + label + entry
 		if f.compact {
-			if fl.err != "" {
+			switch {
+			case fl.err != "":
 				line += s.Error.Render("!")
+			case fl.echo() != "":
+				line += s.Value.Render("=" + strings.TrimPrefix(fl.echo(), "read as "))
 			}
-			lines = append(lines, truncate(line, f.width))
+			lines = append(lines, line)
 			continue
 		}
 		if fl.unit != "" {
@@ -144,14 +166,18 @@ func (f *form) view() string {
 		case fl.err != "":
 			after = s.Error.Render("! " + fl.err)
 		case fl.note != "" && f.focused && i == f.cursor:
-			after = s.Hint.Render(fl.note)
+			after = s.Error.Render(fl.note)
+		case fl.echo() != "":
+			after = s.Value.Render(fl.echo())
+		case fl.from != "":
+			after = s.Hint.Render(fl.from)
 		case fl.Value() == "" && fl.hint != "":
 			after = s.Hint.Render(fl.hint)
 		}
 		if after != "" {
 			line += "  " + after
 		}
-		lines = append(lines, truncate(line, f.width))
+		lines = append(lines, line)
 	}
 	return strings.Join(scrollTo(lines, cursorLine, f.height), "\n")
 }
@@ -165,15 +191,15 @@ func scrollTo(lines []string, at, h int) []string {
 	start := min(max(at-h/2, 0), len(lines)-h)
 	out := append([]string(nil), lines[start:start+h]...)
 	if start > 0 {
-		out[0] = "  ..."
+		out[0] = "  ^ more above"
 	}
 	if start+h < len(lines) {
-		out[h-1] = "  ..."
+		out[h-1] = "  v more below"
 	}
 	return out
 }
 
-const compactLabelWidth = 12
+const compactLabelWidth = 11
 
 func (f *form) choiceView(fl *field, active bool) string {
 	var parts []string

@@ -11,7 +11,7 @@ func f2(v float64) string { return fmt.Sprintf("%.2f", v) }
 
 // kv is one "label  value unit" line.
 func (s Styles) kv(label, value, unit string) string {
-	line := s.Label.Render(fmt.Sprintf("%-14s", label)) + s.Value.Render(value)
+	line := s.Label.Render(fmt.Sprintf("%-16s", label)) + s.Value.Render(value)
 	if unit != "" {
 		line += " " + s.Unit.Render(unit)
 	}
@@ -22,7 +22,7 @@ func (s Styles) kv(label, value, unit string) string {
 // invalid: the reasons, never the figures of an earlier entry.
 func (s Styles) waitingView(reasons []string) string {
 	var b strings.Builder
-	b.WriteString(s.Waiting.Render("… waiting: figures appear when every entry can be used"))
+	b.WriteString(s.Waiting.Render("WAITING: figures appear when every entry can be used"))
 	for _, r := range reasons {
 		b.WriteString("\n" + s.Error.Render("  ! "+r))
 	}

@@ -32,10 +32,10 @@ func TestGoldenScreens(t *testing.T) {
 		keys    []tea.KeyMsg
 	}{
 		{"start-80x24", 80, 24, nil, nil},
-		{"setting-80x24", 80, 24, nil, []tea.KeyMsg{runes("175"), enter, runes("m"), runes("4")}},
-		{"targets-80x24", 80, 24, map[string]string{"height-cm": "162", "sex": "female", "lung": "ards", "fio2": "0.6"}, []tea.KeyMsg{runes("2")}},
-		{"machine-80x24", 80, 24, map[string]string{"height-cm": "175", "sex": "male"}, []tea.KeyMsg{runes("3")}},
-		{"cautions-80x24", 80, 24, map[string]string{"height-cm": "175", "sex": "male", "ml-per-kg": "9.5", "compliance": "12"}, []tea.KeyMsg{runes("5")}},
+		{"setting-80x24", 80, 24, nil, []tea.KeyMsg{runes("175"), enter, runes("m"), fkey(4)}},
+		{"targets-80x24", 80, 24, map[string]string{"height-cm": "162", "sex": "female", "lung": "ards", "fio2": "0.6"}, []tea.KeyMsg{fkey(2)}},
+		{"machine-80x24", 80, 24, map[string]string{"height-cm": "175", "sex": "male"}, []tea.KeyMsg{fkey(3)}},
+		{"cautions-80x24", 80, 24, map[string]string{"height-cm": "175", "sex": "male", "ml-per-kg": "9.5", "compliance": "12"}, []tea.KeyMsg{fkey(5)}},
 		{"invalid-80x24", 80, 24, nil, []tea.KeyMsg{runes("300")}},
 		{"help-80x24", 80, 24, nil, []tea.KeyMsg{runes("?")}},
 		{"patient-120x40", 120, 40, nil, []tea.KeyMsg{runes("175"), enter, runes("m")}},
@@ -61,6 +61,7 @@ func TestRandomKeysAndSizes(t *testing.T) {
 		runes("m"), runes("f"), runes("a"), runes("o"), runes("n"), runes("p"), runes("?"), runes("é"), runes("١"),
 		{Type: tea.KeyRunes, Runes: []rune(strings.Repeat("9", 500)), Paste: true},
 		{Type: tea.KeyRunes, Runes: []rune("1\x00\x1b[2J;rm -rf"), Paste: true},
+		fkey(1), fkey(2), fkey(3), fkey(4), fkey(5), fkey(6), pgDn, ctrlP, ctrlB, ctrlW, ctrlS, ctrlO, ctrlR,
 	}
 	rng := rand.New(rand.NewSource(1))
 	for run := 0; run < 20; run++ {
@@ -70,10 +71,7 @@ func TestRandomKeysAndSizes(t *testing.T) {
 				m.Update(tea.WindowSizeMsg{Width: rng.Intn(200), Height: rng.Intn(70)})
 			}
 			k := keys[rng.Intn(len(keys))]
-			if k.String() == "q" {
-				continue
-			}
-			m.Update(k)
+			press(m, k)
 			if v := m.View(); v == "" && m.w > 0 && m.h > 0 {
 				t.Fatalf("empty view after %d keys at %dx%d", i, m.w, m.h)
 			}

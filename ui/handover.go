@@ -26,7 +26,9 @@ func newHandoverKeys() handoverKeys {
 
 // handoverPanel asks what the machine is set to and what the manometer
 // reads, and shows what the patient gets, the lung the readings imply and a
-// proposed change beside the current setting.
+// proposed change beside the current setting. The patient it computes for
+// is pinned at its top, so that the last bed's height never carries into
+// the next one unseen.
 type handoverPanel struct {
 	formPanel
 	keys handoverKeys
@@ -34,27 +36,31 @@ type handoverPanel struct {
 
 func newHandoverPanel(s *Styles) *handoverPanel {
 	f := newForm(s,
-		textField("bed", "Bed label", "", "like B4", true, labelRunes),
-		textField("initials", "Initials", "", "", true, lettersRunes),
-		textField("hole", "Hole", "", "", true, labelRunes),
-		numberField("rpm", "Motor rpm", "rpm", "", true),
-		numberField("dwell-s", "Dwell s", "s", "", true),
-		numberField("peep-valve", "PEEP valve", "cmH2O", "blank: 5", false),
-		numberField("o2-lpm", "O2 L/min", "L/min", "blank: none", false),
-		numberField("peak", "Peak", "cmH2O", "", false),
-		numberField("end-pressure", "End insp.", "cmH2O", "", false),
-		numberField("cylinder-l", "Cyl. L", "L", "", false),
-		numberField("cylinder-bar", "Cyl. bar", "bar", "", false),
-		textField("propose-hole", "Hole", "", "", false, labelRunes),
-		numberField("propose-rpm", "Motor rpm", "rpm", "", false),
-		numberField("propose-dwell-s", "Dwell s", "s", "", false),
-		numberField("propose-peep", "PEEP", "cmH2O", "", false),
+		section{title: "THE MACHINE IS SET TO", fields: []*field{
+			textField("bed", "Bed label", "", "like B4", kindLabel),
+			textField("initials", "Initials", "", "", kindInitials),
+			textField("hole", "Hole", "", "", kindLabel),
+			numberField("rpm", "Motor rpm", "rpm", ""),
+			numberField("dwell-s", "Dwell s", "s", ""),
+			numberField("peep", "PEEP valve", "cmH2O", "blank: 5"),
+			numberField("o2-lpm", "O2 L/min", "L/min", "blank: none"),
+		}},
+		section{title: "MANOMETER READS", fields: []*field{
+			numberField("peak", "Peak", "cmH2O", ""),
+			numberField("end-pressure", "End insp.", "cmH2O", ""),
+		}},
+		section{title: "O2 CYLINDER", fields: []*field{
+			numberField("cylinder-l", "Cyl. L", "L", ""),
+			numberField("cylinder-bar", "Cyl. bar", "bar", ""),
+		}},
+		section{title: "PROPOSE", fields: []*field{
+			textField("propose-hole", "Hole", "", "", kindLabel),
+			numberField("propose-rpm", "Motor rpm", "rpm", ""),
+			numberField("propose-dwell-s", "Dwell s", "s", ""),
+			numberField("propose-peep", "PEEP", "cmH2O", ""),
+		}},
 	)
 	f.compact = true
-	f.fields[0].heading = "THE MACHINE IS SET TO"
-	f.fields[7].heading = "MANOMETER READS"
-	f.fields[9].heading = "O2 CYLINDER"
-	f.fields[11].heading = "PROPOSE"
 	p := &handoverPanel{keys: newHandoverKeys()}
 	p.styles, p.form = s, f
 	return p
@@ -64,11 +70,13 @@ func (p *handoverPanel) Title() string { return "Handover" }
 
 func (p *handoverPanel) SetSize(w, h int) {
 	p.w, p.h = w, h
-	p.form.width, p.form.height = formColumn, h
+	// The form scrolls inside its column to keep the focused field in
+	// view, under the pinned patient line.
+	p.form.width, p.form.height = formColumn, max(h-3, 4)
 }
 
 // formColumn is the width of the entries beside the results.
-const formColumn = 26
+const formColumn = 29
 
 func (p *handoverPanel) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 	km, ok := msg.(tea.KeyMsg)
@@ -77,22 +85,35 @@ func (p *handoverPanel) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 	}
 	switch {
 	case key.Matches(km, p.keys.Save):
-		p.sig.save = true
-		return p, nil
+		return p, ask(recordRequested{})
 	case key.Matches(km, p.keys.Card):
-		p.sig.card = true
-		return p, nil
+		return p, ask(cardRequested{})
 	case key.Matches(km, p.keys.History):
-		p.sig.history = true
-		return p, nil
+		return p, ask(historyRequested{})
 	}
 	return p, p.updateForm(km)
 }
 
 func (p *handoverPanel) View() string {
-	left := lipgloss.NewStyle().Width(formColumn).Render(fit(p.form.view(), formColumn, p.h))
-	right := fit(p.results(), max(p.w-formColumn-2, 10), p.h)
-	return fit(lipgloss.JoinHorizontal(lipgloss.Top, left, "  ", right), p.w, p.h)
+	s := p.styles
+	head := s.Label.Render("For ") + s.Value.Render(p.patientLine()) + s.Hint.Render(" (F1 to change)")
+	rw := max(p.w-formColumn-2, 20)
+	left := lipgloss.NewStyle().Width(formColumn).Render(p.form.view())
+	right := strings.Join(wrapBlock(p.results(), rw), "\n")
+	return head + "\n" + lipgloss.JoinHorizontal(lipgloss.Top, left, "  ", right)
+}
+
+// patientLine is who the check is computed for.
+func (p *handoverPanel) patientLine() string {
+	if p.out == nil || p.out.check == nil {
+		if p.out != nil && p.out.plan != nil {
+			pl := p.out.plan
+			return fmt.Sprintf("%.0f cm %s, PBW %.1f kg, lung %s", pl.Patient.HeightCm, pl.Patient.Sex, pl.PBWKg, pl.Lung)
+		}
+		return "no patient yet: height and sex on F1"
+	}
+	ck := p.out.check
+	return fmt.Sprintf("%.0f cm %s, PBW %.1f kg, lung %s", ck.Patient.HeightCm, ck.Patient.Sex, ck.PBWKg, p.out.checkLung)
 }
 
 func (p *handoverPanel) results() string {
@@ -102,8 +123,8 @@ func (p *handoverPanel) results() string {
 	add := func(x string) { l = append(l, x) }
 	if o != nil && o.saveNote != "" {
 		add(o.saveNote)
-	} else {
-		add(s.Hint.Render("Bed label only: no name or identifier is kept."))
+	} else if o != nil {
+		add(s.Hint.Render(o.logNote))
 	}
 	if o == nil || o.check == nil {
 		var reasons []string
@@ -114,63 +135,87 @@ func (p *handoverPanel) results() string {
 		return strings.Join(l, "\n")
 	}
 	ck := o.check
+	for _, w := range o.checkWaiting {
+		add(s.Hint.Render(w))
+	}
+	if st := setup.FirstStop(ck.Current.Cautions); st != nil {
+		add(s.levelWord(setup.Stop) + " " + s.Error.Render("DO NOT USE THIS SETTING AS IT IS: "+st.Message))
+	}
 	lung := fmt.Sprintf("C %.0f mL/cmH2O, R %.0f cmH2O/(L/s)", ck.Mechanics.Value, ck.Resistance.Value)
 	if ck.Fitted != nil {
 		add(s.Label.Render("Fitted lung ") + s.Value.Render(lung))
 	} else {
-		add(s.Label.Render("Assumed lung ") + s.Value.Render(lung))
+		add(s.Label.Render("Assumed lung ") + s.Value.Render(lung) + s.Hint.Render(" ("+ck.Mechanics.Source+")"))
 	}
 	if ck.FitProblem != "" {
 		add(s.Error.Render("! " + ck.FitProblem))
 	}
-	for _, w := range o.checkWaiting {
-		add(s.Hint.Render(w))
-	}
-	cur := ck.Current.Figures
-	var prop *setup.Figures
+	j := ck.JSON()
+	p.settingTable(add, j)
+	p.figureTable(add, j)
+	p.cautionLines(add, "Now", ck.Current.Cautions)
 	if ck.Proposed != nil {
-		prop = &ck.Proposed.Figures
-	}
-	head := fmt.Sprintf("%-15s %8s", "", "now")
-	if prop != nil {
-		head += fmt.Sprintf(" %9s %7s", "proposed", "change")
-	}
-	add(s.Section.Render(head))
-	row := func(label, unit string, get func(f setup.Figures) float64, format string) {
-		line := s.Label.Render(fmt.Sprintf("%-15s", label)) + s.Value.Render(fmt.Sprintf(" %8s", fmt.Sprintf(format, get(cur))))
-		if prop != nil {
-			d := get(*prop) - get(cur)
-			line += s.Value.Render(fmt.Sprintf(" %9s", fmt.Sprintf(format, get(*prop)))) + s.Unit.Render(fmt.Sprintf(" %+7.1f", d))
-		}
-		add(line + " " + s.Unit.Render(unit))
-	}
-	row("Tidal volume", "mL", func(f setup.Figures) float64 { return f.Hole.DeliveredML }, "%.0f")
-	row("  per kg PBW", "mL/kg", func(f setup.Figures) float64 { return f.Hole.MLPerKg }, "%.1f")
-	row("Rate", "/min", func(f setup.Figures) float64 { return f.Timing.RateBPM }, "%.1f")
-	row("Ti", "s", func(f setup.Figures) float64 { return f.Timing.TiS }, "%.2f")
-	row("I:E  1:", "", func(f setup.Figures) float64 { return f.Timing.IE }, "%.1f")
-	row("Minute vent.", "L/min", func(f setup.Figures) float64 { return f.MinuteVentLPerMin }, "%.1f")
-	row("Peak flow", "L/min", func(f setup.Figures) float64 { return f.PeakFlowLPerMin }, "%.0f")
-	row("Peak", "cmH2O", func(f setup.Figures) float64 { return f.PeakCmH2O }, "%.1f")
-	row("Plateau", "cmH2O", func(f setup.Figures) float64 { return f.PlateauCmH2O }, "%.1f")
-	row("Driving", "cmH2O", func(f setup.Figures) float64 { return f.DrivingCmH2O }, "%.1f")
-	row("Intrinsic PEEP", "cmH2O", func(f setup.Figures) float64 { return f.IntrinsicPEEPCmH2O }, "%.1f")
-	row("FiO2", "", func(f setup.Figures) float64 { return f.FiO2 }, "%.2f")
-	if cur.CylinderGiven {
-		row("Cylinder left", "min", func(f setup.Figures) float64 { return f.CylinderMinutes }, "%.0f")
-	}
-	cautions := func(label string, cs []setup.Caution) {
-		if len(cs) == 0 {
-			add(s.Label.Render(label + ": no cautions"))
-			return
-		}
-		add(s.Label.Render(fmt.Sprintf("%s: %d, highest ", label, len(cs))) + s.levelWord(setup.Highest(cs)) + " " + s.Caution.Render(cs[0].Message))
-	}
-	cautions("Now", ck.Current.Cautions)
-	if ck.Proposed != nil {
-		cautions("Proposed", ck.Proposed.Cautions)
+		p.cautionLines(add, "Proposed", ck.Proposed.Cautions)
 	}
 	return strings.Join(l, "\n")
+}
+
+func (p *handoverPanel) settingTable(add func(string), j setup.CheckJSON) {
+	s := p.styles
+	var prop *setup.Setting
+	if j.Proposed != nil {
+		prop = &j.Proposed.Setting
+	}
+	rows := setup.SettingRows(j.Setting, prop)
+	head := fmt.Sprintf("%-12s %7s", "SETTING", "now")
+	if prop != nil {
+		head += fmt.Sprintf(" %8s", "proposed")
+	}
+	add(s.Section.Render(head))
+	for _, r := range rows {
+		line := s.Label.Render(fmt.Sprintf("%-12s", r.Label)) + s.Value.Render(fmt.Sprintf(" %7s", r.Now))
+		if prop != nil {
+			line += s.Value.Render(fmt.Sprintf(" %8s", r.Proposed))
+			if r.Changed {
+				line += s.Caution.Render(" *")
+			}
+		}
+		add(line + " " + s.Unit.Render(r.Unit))
+	}
+}
+
+func (p *handoverPanel) figureTable(add func(string), j setup.CheckJSON) {
+	s := p.styles
+	var prop *setup.FiguresJSON
+	if j.Proposed != nil {
+		prop = &j.Proposed.FiguresJSON
+	}
+	head := fmt.Sprintf("%-15s %7s", "PATIENT GETS", "now")
+	if prop != nil {
+		head += fmt.Sprintf(" %8s %6s", "proposed", "change")
+	}
+	add(s.Section.Render(head))
+	for _, r := range setup.FigureRows(j.FiguresJSON, prop) {
+		line := s.Label.Render(fmt.Sprintf("%-15s", r.Label)) + s.Value.Render(fmt.Sprintf(" %7s", r.Text))
+		if prop != nil {
+			line += s.Value.Render(fmt.Sprintf(" %8s", r.ProposedText)) + s.Unit.Render(fmt.Sprintf(" %6s", r.ChangeText))
+		}
+		add(line + " " + s.Unit.Render(r.Unit))
+	}
+	add(s.Hint.Render(setup.DrivingNote))
+}
+
+// cautionLines lists every caution in full: none is cut short.
+func (p *handoverPanel) cautionLines(add func(string), label string, cs []setup.Caution) {
+	s := p.styles
+	if len(cs) == 0 {
+		add(s.Label.Render(label + ": no cautions"))
+		return
+	}
+	add(s.Label.Render(fmt.Sprintf("%s: %d caution%s, highest ", label, len(cs), plural(len(cs)))) + s.levelWord(setup.Highest(cs)))
+	for _, c := range cs {
+		add(" " + s.levelWord(c.Level) + " " + s.Caution.Render(c.Message))
+	}
 }
 
 func (p *handoverPanel) ShortHelp() []key.Binding {

@@ -7,26 +7,19 @@ import (
 
 	tea "github.com/charmbracelet/bubbletea"
 
-	"crankside/physiology"
 	"crankside/setup"
 )
 
-// checkFieldNames maps setup's field names to the handover form's where
-// they differ: the plan's PEEP target and the machine's PEEP valve are
-// different entries.
-var checkFieldNames = map[string]string{"peep": "peep-valve"}
+func (m *Model) checkField(name string) *field { return m.handover.form.byName(name) }
 
-func (m *Model) checkField(name string) *field {
-	if n, ok := checkFieldNames[name]; ok {
-		name = n
-	}
-	return m.handover.form.byName(name)
-}
+// patientEntries are the entries of the Patient panel that a check uses.
+var patientEntries = []string{"height-cm", "sex", "lung", "compliance", "resistance"}
 
 // recomputeCheck runs the handover check of what the machine is set to,
-// for the patient on the patient panel. It waits, saying why, until the
-// patient and the setting can both be used.
-func (m *Model) recomputeCheck(planReq setup.Request, patientOK bool) {
+// for the patient on the Patient panel: the entries as typed go to setup's
+// check builder, and every problem is marked beside its field. It waits,
+// saying why, until the patient and the setting can both be used.
+func (m *Model) recomputeCheck(plan setup.Entries, planProblems setup.Problems) {
 	h := &m.handover.form
 	h.clearErrors()
 	m.out.check, m.out.checkWaiting = nil, nil
@@ -35,83 +28,36 @@ func (m *Model) recomputeCheck(planReq setup.Request, patientOK bool) {
 		wait("enter the hole, motor speed and dwell the machine is set to")
 		return
 	}
-	ok := true
-	fail := func(name, reason string) {
-		ok = false
-		if f := m.checkField(name); f != nil {
-			f.err = reason
-			wait(f.label + ": " + reason)
-			return
-		}
-		wait(name + ": " + reason)
+	e := setup.Entries{}
+	for _, name := range patientEntries {
+		e[name] = plan[name]
 	}
-	number := func(name string, required bool) (float64, bool) {
-		f := m.checkField(name)
-		text := f.Value()
-		if text == "" {
-			if required {
-				ok = false
-				wait(f.label + ": required")
+	for _, f := range h.fields {
+		e[f.name] = f.Value()
+	}
+	req, problems := setup.BuildCheckRequest(e, m.now())
+	m.out.checkLung = req.Lung.String()
+	for _, p := range problems {
+		if f := m.checkField(p.Field); f != nil {
+			if !p.Missing {
+				f.err = p.Reason
 			}
-			return 0, false
+			wait(f.label + ": " + p.Reason)
+			continue
 		}
-		v, err := physiology.ParseNumber(text)
-		if err != nil {
-			fail(name, fmt.Sprintf("%q is not a number", text))
-			return 0, false
-		}
-		return v, true
+		wait("the patient (F1 Patient): " + p.Field + ": " + p.Reason)
 	}
-	req := setup.CheckRequest{Patient: planReq.Patient, Lung: planReq.Targets.Lung,
-		ComplianceMLPerCmH2O: planReq.Targets.ComplianceMLPerCmH2O, ResistanceCmH2OPerLS: planReq.Targets.ResistanceCmH2OPerLS, Now: m.now()}
-	req.Setting.Hole = m.checkField("hole").Value()
-	if req.Setting.Hole == "" {
-		ok = false
-		wait("Hole: required")
-	}
-	req.Setting.RPM, _ = number("rpm", true)
-	req.Setting.DwellS, _ = number("dwell-s", true)
-	req.Setting.PEEPCmH2O = 5
-	if v, given := number("peep-valve", false); given {
-		req.Setting.PEEPCmH2O = v
-	}
-	req.Setting.O2LPerMin, _ = number("o2-lpm", false)
-	peak, hasPeak := number("peak", false)
-	end, hasEnd := number("end-pressure", false)
-	switch {
-	case hasPeak && hasEnd:
-		req.Readings = setup.ReadingsOf(peak, end)
-	case hasPeak != hasEnd:
-		wait("enter both manometer readings to fit the lung (peak and end of inspiration)")
-	}
-	cl, hasL := number("cylinder-l", false)
-	cb, hasB := number("cylinder-bar", false)
-	if hasL && hasB {
-		req.CylinderWaterL, req.CylinderBar = cl, cb
-	}
-	if v := m.checkField("propose-hole").Value(); v != "" {
-		req.Proposal.Hole = &v
-	}
-	for _, pr := range []struct {
-		name string
-		dst  **float64
-	}{{"propose-rpm", &req.Proposal.RPM}, {"propose-dwell-s", &req.Proposal.DwellS}, {"propose-peep", &req.Proposal.PEEPCmH2O}} {
-		if v, given := number(pr.name, false); given {
-			*pr.dst = &v
-		}
-	}
-	if !patientOK {
-		ok = false
-		wait("the patient's height and sex (panel 1)")
-	}
-	if !ok || m.out.summary == nil {
+	if len(problems) > 0 || m.out.summary == nil {
 		return
 	}
 	ck, err := setup.RunCheck(req, m.out.profile)
 	var ie *setup.InputError
 	switch {
 	case errors.As(err, &ie):
-		fail(ie.Field, ie.Reason)
+		if f := m.checkField(ie.Field); f != nil {
+			f.err = ie.Reason
+		}
+		wait(ie.Field + ": " + ie.Reason)
 	case err != nil:
 		wait(err.Error())
 	default:
@@ -137,6 +83,18 @@ func (m *Model) record() (setup.Record, error) {
 		return setup.Record{}, errors.New(ie.Reason)
 	}
 	return rec, err
+}
+
+// recordAsked records the check; a check already recorded is recorded a
+// second time only when the key is pressed again.
+func (m *Model) recordAsked() tea.Cmd {
+	if m.recordedAt != "" && !m.confirmRecord {
+		m.confirmRecord = true
+		m.out.saveNote = m.styles.Error.Render("! this check was already recorded at " + m.recordedAt + " UTC: Ctrl+S again records it a second time")
+		return nil
+	}
+	m.confirmRecord = false
+	return m.save()
 }
 
 // save records the check with a command: the write runs off the UI's
@@ -167,7 +125,8 @@ func (m *Model) saved(msg savedMsg) {
 		return
 	}
 	m.unsaved = false
-	m.out.saveNote = m.styles.Value.Render(fmt.Sprintf("Recorded for bed %s at %s UTC in %s", msg.bed, msg.at.UTC().Format("15:04"), msg.path))
+	m.recordedAt = msg.at.UTC().Format("15:04")
+	m.out.saveNote = m.styles.Value.Render(fmt.Sprintf("Recorded for bed %s at %s UTC in %s", msg.bed, m.recordedAt, msg.path))
 }
 
 func (m *Model) card() {
@@ -207,12 +166,16 @@ func (m *Model) showHistory(msg historyMsg) {
 	case len(msg.history) == 0:
 		l = append(l, "No checks recorded for bed "+msg.bed+".")
 	default:
-		for _, e := range msg.history[0].Entries {
-			r := e.Record
-			l = append(l, s.Value.Render(fmt.Sprintf("%s UTC  %s", r.Time.UTC().Format("2006-01-02 15:04"), r.Initials))+
-				fmt.Sprintf("  hole %s, %.1f rpm, dwell %.1f s, PEEP %.0f: %.0f mL %.1f mL/kg", r.Setting.Hole, r.Setting.RPM, r.Setting.DwellS, r.Setting.PEEPCmH2O, r.DeliveredVtML, r.MLPerKg))
+		entries := msg.history[0].Entries
+		l = append(l, s.Label.Render(fmt.Sprintf("%d check%s, newest first", len(entries), plural(len(entries)))))
+		for i := len(entries) - 1; i >= 0; i-- {
+			e := entries[i]
+			l = append(l, s.Value.Render(setup.HistoryLine(e.Record)))
+			if e.Record.Proposed != nil {
+				l = append(l, s.Label.Render("    proposed: "+setup.ProposalLine(e.Record)))
+			}
 			if len(e.Changes) > 0 {
-				l = append(l, s.Label.Render("    changed: "+strings.Join(e.Changes, "; ")))
+				l = append(l, s.Label.Render("    changed since the one before: "+strings.Join(e.Changes, "; ")))
 			}
 		}
 	}
@@ -224,9 +187,20 @@ func (m *Model) showHistory(msg historyMsg) {
 
 // quit asks first when a computed check has not been recorded.
 func (m *Model) quit() tea.Cmd {
-	if m.unsaved && m.out.check != nil {
+	if (m.unsaved && m.out.check != nil) || m.machine.mode == machinePreview {
 		m.confirmQuit = true
 		return nil
 	}
 	return tea.Quit
+}
+
+// logNote says where the screen records checks and whether it can.
+func logNote(path string) string {
+	if path == "" {
+		return "Not recording: start with --log FILE to keep a record of checks."
+	}
+	if err := setup.CheckLogWritable(path); err != nil {
+		return "Cannot record in " + path + ": " + err.Error()
+	}
+	return "Bed label only; no name is kept. Records go to " + path
 }

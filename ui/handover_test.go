@@ -27,7 +27,7 @@ func handoverModel(t *testing.T) (*Model, string) {
 	m := New(Options{Profile: p, Source: src, ProfilesDir: t.TempDir(), Now: testNow, LogPath: logPath,
 		Prefill: map[string]string{"height-cm": "175", "sex": "male"}})
 	m.Update(tea.WindowSizeMsg{Width: 80, Height: 24})
-	press(m, runes("6"))
+	press(m, fkey(6))
 	require.Equal(t, panelHandover, m.focus)
 	return m, logPath
 }
@@ -52,7 +52,7 @@ func TestHandoverCheckMatchesSetup(t *testing.T) {
 	v := screen(m)
 	require.Contains(t, v, "Fitted lung C "+f0(want.Fitted.ComplianceMLPerCmH2O))
 	require.Contains(t, v, "proposed")
-	require.Contains(t, v, "no name or identifier")
+	require.Contains(t, v, "no name is kept")
 }
 
 func TestHandoverRefusesWhatTheMachineCannotRun(t *testing.T) {
@@ -60,7 +60,7 @@ func TestHandoverRefusesWhatTheMachineCannotRun(t *testing.T) {
 	press(m, runes("B4"), enter, runes("ab"), enter, runes("8"), enter, runes("21.3"), enter, runes("1.4"))
 	require.Nil(t, m.out.check)
 	require.Contains(t, m.checkField("rpm").err, "0.5 rpm steps")
-	require.Contains(t, screen(m), "waiting")
+	require.Contains(t, screen(m), "WAITING")
 }
 
 func TestHandoverRecordQuitAndHistory(t *testing.T) {
@@ -70,8 +70,10 @@ func TestHandoverRecordQuitAndHistory(t *testing.T) {
 	// Unrecorded: quitting asks first, and n stays.
 	require.False(t, isQuit(press(m, tea.KeyMsg{Type: tea.KeyCtrlC})))
 	require.True(t, m.confirmQuit)
-	require.Contains(t, screen(m), "not recorded")
+	require.Contains(t, screen(m), "Not recorded")
 	press(m, runes("n"))
+	require.True(t, m.confirmQuit, "a letter does not answer the question")
+	press(m, esc)
 	require.False(t, m.confirmQuit)
 	// Record it: one line in the log, and quitting no longer asks.
 	runCmd(m, press(m, tea.KeyMsg{Type: tea.KeyCtrlS}))

@@ -2,31 +2,41 @@ package ui
 
 import "github.com/charmbracelet/bubbles/key"
 
-// globalKeys work on every panel. The panel numbers and q only work when
-// no text field has focus; Tab, Shift+Tab and Ctrl+C always work.
+// Keys come in two kinds that never overlap. Keys that type (digits,
+// letters, the decimal point and comma) only ever go to the focused field;
+// where no field has the focus they are refused with a visible note. Keys
+// that act or navigate are never characters a field accepts: function
+// keys, Ctrl or Alt chords, Tab, arrows, Enter, Esc, page keys. So no habit
+// learned on one panel can change a value on another.
+
+// globalKeys work on every panel.
 type globalKeys struct {
 	Next, Prev key.Binding
 	Panel      [6]key.Binding
-	Yes, No    key.Binding
 	Help       key.Binding
 	Quit       key.Binding
-	ForceQuit  key.Binding
+	// Confirm quits without recording once the screen has asked; Stay
+	// closes the question.
+	Confirm, Stay  key.Binding
+	PageUp, PageDn key.Binding
 }
 
 func newGlobalKeys() globalKeys {
 	k := globalKeys{
-		Next:      key.NewBinding(key.WithKeys("tab"), key.WithHelp("tab", "next panel")),
-		Prev:      key.NewBinding(key.WithKeys("shift+tab"), key.WithHelp("shift+tab", "previous panel")),
-		Help:      key.NewBinding(key.WithKeys("?"), key.WithHelp("?", "all keys")),
-		Quit:      key.NewBinding(key.WithKeys("q"), key.WithHelp("q", "quit")),
-		ForceQuit: key.NewBinding(key.WithKeys("ctrl+c"), key.WithHelp("ctrl+c", "quit")),
+		Next:    key.NewBinding(key.WithKeys("tab"), key.WithHelp("tab", "next panel")),
+		Prev:    key.NewBinding(key.WithKeys("shift+tab"), key.WithHelp("shift+tab", "previous panel")),
+		Help:    key.NewBinding(key.WithKeys("?"), key.WithHelp("?", "all keys")),
+		Quit:    key.NewBinding(key.WithKeys("ctrl+c", "ctrl+q"), key.WithHelp("ctrl+c", "quit")),
+		Confirm: key.NewBinding(key.WithKeys("ctrl+c", "ctrl+q"), key.WithHelp("ctrl+c", "quit without recording")),
+		Stay:    key.NewBinding(key.WithKeys("esc"), key.WithHelp("esc", "stay")),
+		PageUp:  key.NewBinding(key.WithKeys("pgup"), key.WithHelp("pgup/pgdn", "scroll the panel")),
+		PageDn:  key.NewBinding(key.WithKeys("pgdown"), key.WithHelp("pgup/pgdn", "scroll the panel")),
 	}
-	k.Yes = key.NewBinding(key.WithKeys("y"), key.WithHelp("y", "quit without recording"))
-	k.No = key.NewBinding(key.WithKeys("n", "esc"), key.WithHelp("n", "stay"))
 	names := [6]string{"patient", "targets", "machine", "setting", "cautions", "handover"}
 	for i := range k.Panel {
-		d := string(rune('1' + i))
-		k.Panel[i] = key.NewBinding(key.WithKeys(d), key.WithHelp(d, names[i]))
+		f := "f" + string(rune('1'+i))
+		alt := "alt+" + string(rune('1'+i))
+		k.Panel[i] = key.NewBinding(key.WithKeys(f, alt), key.WithHelp(f+"/"+alt, names[i]))
 	}
 	return k
 }
@@ -42,9 +52,9 @@ func newFormKeys() formKeys {
 	return formKeys{
 		Down:    key.NewBinding(key.WithKeys("down"), key.WithHelp("↓", "next field")),
 		Up:      key.NewBinding(key.WithKeys("up"), key.WithHelp("↑", "previous field")),
-		Advance: key.NewBinding(key.WithKeys("enter"), key.WithHelp("enter", "next")),
-		Left:    key.NewBinding(key.WithKeys("left"), key.WithHelp("←/→", "choose")),
-		Right:   key.NewBinding(key.WithKeys("right"), key.WithHelp("←/→", "choose")),
+		Advance: key.NewBinding(key.WithKeys("enter"), key.WithHelp("enter", "next field")),
+		Left:    key.NewBinding(key.WithKeys("left"), key.WithHelp("←/→", "choose or edit")),
+		Right:   key.NewBinding(key.WithKeys("right"), key.WithHelp("←/→", "choose or edit")),
 		Clear:   key.NewBinding(key.WithKeys("ctrl+u"), key.WithHelp("ctrl+u", "clear field")),
 	}
 }
@@ -58,11 +68,11 @@ type machineKeys struct {
 
 func newMachineKeys() machineKeys {
 	return machineKeys{
-		Pick:    key.NewBinding(key.WithKeys("p"), key.WithHelp("p", "load another profile")),
-		Bench:   key.NewBinding(key.WithKeys("b"), key.WithHelp("b", "refit from a bench file")),
-		Write:   key.NewBinding(key.WithKeys("w"), key.WithHelp("w", "save the refit")),
-		Up:      key.NewBinding(key.WithKeys("up", "k"), key.WithHelp("↑/↓", "holes")),
-		Down:    key.NewBinding(key.WithKeys("down", "j"), key.WithHelp("↑/↓", "holes")),
+		Pick:    key.NewBinding(key.WithKeys("ctrl+p"), key.WithHelp("ctrl+p", "load another profile")),
+		Bench:   key.NewBinding(key.WithKeys("ctrl+b"), key.WithHelp("ctrl+b", "refit from a bench file")),
+		Write:   key.NewBinding(key.WithKeys("ctrl+w"), key.WithHelp("ctrl+w", "save the refit")),
+		Up:      key.NewBinding(key.WithKeys("up"), key.WithHelp("↑/↓", "scroll")),
+		Down:    key.NewBinding(key.WithKeys("down"), key.WithHelp("↑/↓", "scroll")),
 		Advance: key.NewBinding(key.WithKeys("enter"), key.WithHelp("enter", "to the setting")),
 	}
 }
@@ -74,8 +84,8 @@ type pickerKeys struct {
 
 func newPickerKeys() pickerKeys {
 	return pickerKeys{
-		Up:     key.NewBinding(key.WithKeys("up", "k"), key.WithHelp("↑", "up")),
-		Down:   key.NewBinding(key.WithKeys("down", "j"), key.WithHelp("↓", "down")),
+		Up:     key.NewBinding(key.WithKeys("up"), key.WithHelp("↑", "up")),
+		Down:   key.NewBinding(key.WithKeys("down"), key.WithHelp("↓", "down")),
 		Choose: key.NewBinding(key.WithKeys("enter"), key.WithHelp("enter", "load")),
 		Cancel: key.NewBinding(key.WithKeys("esc"), key.WithHelp("esc", "cancel")),
 	}
@@ -88,8 +98,8 @@ type scrollKeys struct {
 
 func newScrollKeys() scrollKeys {
 	return scrollKeys{
-		Up:      key.NewBinding(key.WithKeys("up", "k"), key.WithHelp("↑/↓", "scroll")),
-		Down:    key.NewBinding(key.WithKeys("down", "j"), key.WithHelp("↑/↓", "scroll")),
+		Up:      key.NewBinding(key.WithKeys("up"), key.WithHelp("↑/↓", "scroll")),
+		Down:    key.NewBinding(key.WithKeys("down"), key.WithHelp("↑/↓", "scroll")),
 		Advance: key.NewBinding(key.WithKeys("enter"), key.WithHelp("enter", "next panel")),
 	}
 }

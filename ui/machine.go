@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"strings"
 
+	"github.com/charmbracelet/bubbles/cursor"
 	"github.com/charmbracelet/bubbles/key"
 	"github.com/charmbracelet/bubbles/textinput"
 	tea "github.com/charmbracelet/bubbletea"
@@ -41,6 +42,7 @@ func newMachinePanel(s *Styles) *machinePanel {
 	in.Prompt = ""
 	in.CharLimit = 512
 	in.Width = 50
+	in.Cursor.SetMode(cursor.CursorStatic)
 	p := &machinePanel{keys: newMachineKeys(), path: in}
 	p.styles = s
 	return p
@@ -80,10 +82,12 @@ func (p *machinePanel) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 			p.path.Blur()
 		case km.Type == tea.KeyEnter:
 			p.path.Blur()
-			p.sig.bench = strings.TrimSpace(p.path.Value())
-			if p.sig.bench == "" {
+			path := strings.TrimSpace(p.path.Value())
+			if path == "" {
 				p.mode, p.note = machineView, "no bench file given"
+				return p, nil
 			}
+			return p, ask(benchChosen{path: path})
 		default:
 			var cmd tea.Cmd
 			p.path, cmd = p.path.Update(km)
@@ -93,9 +97,9 @@ func (p *machinePanel) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 	case machinePreview:
 		switch {
 		case key.Matches(km, p.keys.Write):
-			p.sig.write = true
+			return p, ask(refitWriteRequest{})
 		case key.Matches(km, p.keys.Down):
-			p.previewOffset++
+			p.previewOffset = min(p.previewOffset+1, 200)
 		case key.Matches(km, p.keys.Up):
 			p.previewOffset = max(p.previewOffset-1, 0)
 		case km.Type == tea.KeyEsc:
@@ -105,16 +109,16 @@ func (p *machinePanel) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 	}
 	switch {
 	case key.Matches(km, p.keys.Pick):
-		p.sig.pick = true
+		return p, ask(pickRequested{})
 	case key.Matches(km, p.keys.Bench):
 		p.mode, p.note = machinePath, ""
 		return p, p.path.Focus()
 	case key.Matches(km, p.keys.Down):
-		p.offset++
+		p.offset = min(p.offset+1, len(p.holes()))
 	case key.Matches(km, p.keys.Up):
 		p.offset = max(p.offset-1, 0)
 	case key.Matches(km, p.keys.Advance):
-		p.sig.advance = true
+		return p, ask(advanceRequested{})
 	}
 	return p, nil
 }
@@ -131,11 +135,11 @@ func (p *machinePanel) View() string {
 	if p.mode == machinePreview && p.preview != nil {
 		lines := strings.Split(p.previewView(), "\n")
 		// The heading stays; the rest scrolls.
-		p.previewOffset = min(p.previewOffset, max(len(lines)-p.h, 0))
-		if p.previewOffset > 0 {
-			lines = append(lines[:1:1], lines[1+p.previewOffset:]...)
+		off := min(p.previewOffset, max(len(lines)-p.h, 0))
+		if off > 0 {
+			lines = append(lines[:1:1], lines[1+off:]...)
 		}
-		return fit(strings.Join(lines, "\n"), p.w, p.h)
+		return strings.Join(lines, "\n")
 	}
 	sum := p.out.summary
 	pr := sum.Profile
@@ -182,19 +186,21 @@ func (p *machinePanel) View() string {
 		}
 	}
 	table := p.holeTable(sum)
+	top = wrapBlock(strings.Join(top, "\n"), p.w)
 	room := p.h - len(top) - 1
 	if room < 3 {
-		return fit(strings.Join(top, "\n"), p.w, p.h)
+		// The panel scrolls as a whole (PgUp/PgDn) when the top is long.
+		return strings.Join(append(top, table...), "\n")
 	}
-	p.offset = min(p.offset, max(len(table)-room+1, 0))
+	off := min(p.offset, max(len(table)-room+1, 0))
 	rows := table[1:]
-	if p.offset < len(rows) {
-		rows = rows[p.offset:]
+	if off < len(rows) {
+		rows = rows[off:]
 	}
 	if len(rows) > room-1 {
-		rows = append(rows[:room-2], s.Hint.Render(fmt.Sprintf("  ... %d more (↓)", len(table)-1-p.offset-(room-2))))
+		rows = append(rows[:room-2], s.Hint.Render(fmt.Sprintf("  v %d more holes (down arrow)", len(table)-1-off-(room-2))))
 	}
-	return fit(strings.Join(top, "\n")+"\n"+table[0]+"\n"+strings.Join(rows, "\n"), p.w, p.h)
+	return strings.Join(top, "\n") + "\n" + table[0] + "\n" + strings.Join(rows, "\n")
 }
 
 const benchHeaderHint = "hole,test_lung_compliance_ml_per_cmh2o,test_lung_resistance_cmh2o_per_l_s,rpm,measured_ml"
@@ -222,7 +228,7 @@ func (p *machinePanel) previewView() string {
 	r := p.preview
 	var b strings.Builder
 	r.WriteText(&b)
-	head := s.Section.Render("REFIT PREVIEW: nothing is saved until you press w") + "\n"
+	head := s.Section.Render("REFIT PREVIEW: nothing is saved until you press Ctrl+W") + "\n"
 	if p.out.source.Embedded {
 		head += s.Error.Render("This is an embedded demo: it cannot be written. Save a copy with 'crankside profiles show "+r.Profile.ID+" --json'.") + "\n"
 	}
@@ -244,4 +250,12 @@ func (p *machinePanel) ShortHelp() []key.Binding {
 
 func (p *machinePanel) FullHelp() [][]key.Binding {
 	return [][]key.Binding{{p.keys.Pick, p.keys.Bench, p.keys.Write}, {p.keys.Up, p.keys.Down, p.keys.Advance}}
+}
+
+// holes are the loaded profile's holes, for clamping the table's scroll.
+func (p *machinePanel) holes() []setup.HoleGeometry {
+	if p.out == nil || p.out.summary == nil {
+		return nil
+	}
+	return p.out.summary.Holes
 }

@@ -24,14 +24,14 @@ func TestRefitFromABenchFileWithPreview(t *testing.T) {
 		Prefill: map[string]string{"height-cm": "175", "sex": "male"}})
 	m.Update(tea.WindowSizeMsg{Width: 80, Height: 24})
 	before := m.out.plan.Hole.EffectiveSweptML
-	press(m, runes("3"), runes("b"))
+	press(m, fkey(3), ctrlB)
 	require.True(t, m.panels[m.focus].Editing(), "the path entry takes letters")
 	press(m, runes("q")) // typed into the path, never a quit
 	press(m, tea.KeyMsg{Type: tea.KeyBackspace})
 	press(m, tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune(bench), Paste: true})
 	runCmd(m, press(m, enter))
 	require.Equal(t, machinePreview, m.machine.mode, m.machine.note)
-	require.Contains(t, screen(m), "nothing is saved until you press w")
+	require.Contains(t, screen(m), "nothing is saved until you press Ctrl+W")
 	unchanged, err := os.ReadFile(unit)
 	require.NoError(t, err)
 	// Discard: nothing written.
@@ -40,10 +40,10 @@ func TestRefitFromABenchFileWithPreview(t *testing.T) {
 	require.Equal(t, unchanged, after)
 	require.NoFileExists(t, unit+".bak")
 	// Again, and save: the profile on disk and the plan both change.
-	press(m, runes("b"), ctrlU)
+	press(m, ctrlB, ctrlU)
 	press(m, tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune(bench), Paste: true})
 	runCmd(m, press(m, enter))
-	runCmd(m, press(m, runes("w")))
+	runCmd(m, press(m, ctrlW))
 	require.Contains(t, screen(m), "Saved to")
 	require.FileExists(t, unit+".bak")
 	saved, err := profiles.ReadFile(unit)
@@ -58,7 +58,7 @@ func TestRefitOfABadBenchFileSaysWhy(t *testing.T) {
 	bench := filepath.Join(dir, "bad.csv")
 	require.NoError(t, os.WriteFile(bench, []byte(profiles.BenchHeader()+"\n99,50,5,20,318\n"), 0o644))
 	m := newTestModel(t, nil)
-	press(m, enter, runes("3"), runes("b"))
+	press(m, enter, fkey(3), ctrlB)
 	press(m, tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune(bench), Paste: true})
 	runCmd(m, press(m, enter))
 	require.Equal(t, machineView, m.machine.mode)

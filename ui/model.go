@@ -11,7 +11,6 @@ import (
 	tea "github.com/charmbracelet/bubbletea"
 	"github.com/charmbracelet/lipgloss"
 
-	"crankside/physiology"
 	"crankside/profiles"
 	"crankside/setup"
 )
@@ -60,7 +59,6 @@ type Model struct {
 	handover *handoverPanel
 	machine  *machinePanel
 	focus    int
-	showHelp bool
 	picker   *picker
 	out      outcome
 	dir      string
@@ -69,14 +67,24 @@ type Model struct {
 	w, h     int
 	// overlay is a text view over the panels (the card, the history).
 	overlay *textOverlay
+	// scroll is each panel's first line shown, moved by the page keys.
+	scroll [6]int
 	// unsaved is true while a computed handover check has not been recorded.
 	unsaved     bool
 	confirmQuit bool
+	// recordedAt is when the current check was recorded; recording it
+	// again asks first (confirmRecord).
+	recordedAt    string
+	confirmRecord bool
+	// note is a passing remark on the status strip, such as a typing key
+	// refused where nothing can be typed.
+	note string
 }
 
 // textOverlay is a titled block of text shown in place of the panels.
 type textOverlay struct {
 	title, text string
+	offset      int
 }
 
 // savedMsg is the outcome of recording a check.
@@ -101,6 +109,7 @@ func New(opts Options) *Model {
 	if m.now == nil {
 		m.now = time.Now
 	}
+	m.help.Ellipsis = ""
 	m.help.Styles.ShortKey = styles.Value
 	m.help.Styles.ShortDesc = styles.Help
 	m.help.Styles.FullKey = styles.Value
@@ -116,6 +125,7 @@ func New(opts Options) *Model {
 			f.SetValue(v)
 		}
 	}
+	m.out.logNote = logNote(m.logPath)
 	m.recompute()
 	if len(opts.Prefill) > 0 && m.out.plan != nil {
 		m.focus = panelSetting
@@ -146,14 +156,34 @@ func (m *Model) setProfile(p profiles.Profile, src profiles.Source) {
 	m.out.loadErr = ""
 }
 
-// Update routes a message: sizes to every child, keys to the focused one.
+// Update routes a message: sizes to every child, keys to the focused one,
+// and each panel's wish to the method that carries it out.
 func (m *Model) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 	switch msg := msg.(type) {
 	case tea.WindowSizeMsg:
 		m.resize(msg.Width, msg.Height)
-		return m, nil
 	case tea.KeyMsg:
 		return m, m.handleKey(msg)
+	case entryChanged:
+		m.entryChanged()
+	case advanceRequested:
+		return m, m.focusPanel(min(m.focus+1, len(m.panels)-1))
+	case pickRequested:
+		m.picker = newPicker(m.dir, m.out.profile.ID, m.styles)
+	case recordRequested:
+		// Entries typed just before the key are in the fields already:
+		// record what they give, never an earlier computation.
+		m.recompute()
+		return m, m.recordAsked()
+	case cardRequested:
+		m.recompute()
+		m.card()
+	case historyRequested:
+		return m, m.history()
+	case benchChosen:
+		return m, m.readBench(msg.path)
+	case refitWriteRequest:
+		return m, m.writeRefit()
 	case savedMsg:
 		m.saved(msg)
 	case historyMsg:
@@ -166,89 +196,107 @@ func (m *Model) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 	return m, nil
 }
 
-func (m *Model) handleKey(msg tea.KeyMsg) tea.Cmd {
-	if m.confirmQuit {
-		switch {
-		case key.Matches(msg, m.keys.Yes), key.Matches(msg, m.keys.ForceQuit):
-			return tea.Quit
-		case key.Matches(msg, m.keys.No):
-			m.confirmQuit = false
-		}
-		return nil
+func (m *Model) entryChanged() {
+	m.recompute()
+	if m.out.check != nil {
+		m.unsaved = true
+		m.recordedAt = ""
+		m.out.saveNote = ""
 	}
-	if key.Matches(msg, m.keys.ForceQuit) {
-		return m.quit()
-	}
-	if m.overlay != nil {
-		if msg.Type == tea.KeyEsc || key.Matches(msg, m.keys.Quit) || msg.Type == tea.KeyEnter {
-			m.overlay = nil
-		}
-		return nil
-	}
-	if m.picker != nil {
-		return m.handlePicker(msg)
-	}
-	if m.showHelp {
-		if key.Matches(msg, m.keys.Help) || msg.Type == tea.KeyEsc || key.Matches(msg, m.keys.Quit) {
-			m.showHelp = false
-		}
-		return nil
-	}
-	switch {
-	case key.Matches(msg, m.keys.Next):
-		return m.focusPanel((m.focus + 1) % len(m.panels))
-	case key.Matches(msg, m.keys.Prev):
-		return m.focusPanel((m.focus + len(m.panels) - 1) % len(m.panels))
-	case key.Matches(msg, m.keys.Help):
-		m.showHelp = true
-		return nil
-	}
-	if !m.panels[m.focus].Editing() {
-		if key.Matches(msg, m.keys.Quit) {
-			return m.quit()
-		}
-		for i, b := range m.keys.Panel {
-			if key.Matches(msg, b) && i < len(m.panels) {
-				return m.focusPanel(i)
-			}
-		}
-	}
-	return m.toPanel(msg)
 }
 
-func (m *Model) toPanel(msg tea.KeyMsg) tea.Cmd {
-	p := m.panels[m.focus]
-	_, cmd := p.Update(msg)
-	sig := p.Signals()
-	if sig.changed {
-		m.recompute()
-		if m.out.check != nil {
-			m.unsaved = true
-			m.out.saveNote = ""
+func (m *Model) handleKey(msg tea.KeyMsg) tea.Cmd {
+	m.note = ""
+	if !key.Matches(msg, m.panels[panelHandover].(*handoverPanel).keys.Save) {
+		m.confirmRecord = false
+	}
+	switch {
+	case m.confirmQuit:
+		return m.confirmingQuit(msg)
+	case m.overlay != nil:
+		return m.overlayKey(msg)
+	case m.picker != nil:
+		return m.handlePicker(msg)
+	}
+	if cmd, done := m.globalKey(msg); done {
+		return cmd
+	}
+	if isTyping(msg) && !m.panels[m.focus].Editing() {
+		m.note = "nothing to type into here (" + m.panels[m.focus].Title() + "): go to a panel with entries with F1, F2 or F6, or Tab"
+		return nil
+	}
+	_, cmd := m.panels[m.focus].Update(msg)
+	return cmd
+}
+
+// isTyping reports whether a key types: a printable character or a space.
+// Only the focused field takes these.
+func isTyping(msg tea.KeyMsg) bool {
+	return (msg.Type == tea.KeyRunes && !msg.Alt) || msg.Type == tea.KeySpace
+}
+
+// globalKey handles the keys that act on every panel.
+func (m *Model) globalKey(msg tea.KeyMsg) (tea.Cmd, bool) {
+	switch {
+	case key.Matches(msg, m.keys.Quit):
+		return m.quit(), true
+	case key.Matches(msg, m.keys.Next):
+		return m.focusPanel((m.focus + 1) % len(m.panels)), true
+	case key.Matches(msg, m.keys.Prev):
+		return m.focusPanel((m.focus + len(m.panels) - 1) % len(m.panels)), true
+	case key.Matches(msg, m.keys.Help):
+		// The keys are an overlay like the card: it scrolls, Esc closes.
+		m.overlay = &textOverlay{title: "Keys", text: m.fullHelp()}
+		return nil, true
+	case key.Matches(msg, m.keys.PageDn):
+		m.scroll[m.focus] = min(m.scroll[m.focus]+max(m.h/2, 1), m.maxScroll(m.focus))
+		return nil, true
+	case key.Matches(msg, m.keys.PageUp):
+		m.scroll[m.focus] = max(m.scroll[m.focus]-max(m.h/2, 1), 0)
+		return nil, true
+	}
+	for i, b := range m.keys.Panel {
+		if key.Matches(msg, b) && i < len(m.panels) {
+			return m.focusPanel(i), true
 		}
 	}
-	if sig.pick {
-		m.picker = newPicker(m.dir, m.out.profile.ID, m.styles)
+	return nil, false
+}
+
+func (m *Model) confirmingQuit(msg tea.KeyMsg) tea.Cmd {
+	switch {
+	case key.Matches(msg, m.keys.Confirm):
+		return tea.Quit
+	case key.Matches(msg, m.keys.Stay):
+		m.confirmQuit = false
+	default:
+		m.note = "the screen is asking: Ctrl+C again quits without recording, Esc stays"
 	}
-	if sig.save {
-		return m.save()
+	return nil
+}
+
+func (m *Model) overlayKey(msg tea.KeyMsg) tea.Cmd {
+	o := m.overlay
+	switch {
+	case key.Matches(msg, m.keys.Quit):
+		return m.quit()
+	case msg.Type == tea.KeyEsc || msg.Type == tea.KeyEnter:
+		m.overlay = nil
+	case msg.Type == tea.KeyDown:
+		o.offset++
+	case msg.Type == tea.KeyUp:
+		o.offset = max(o.offset-1, 0)
+	case key.Matches(msg, m.keys.PageDn):
+		o.offset += max(m.h/2, 1)
+	case key.Matches(msg, m.keys.PageUp):
+		o.offset = max(o.offset-max(m.h/2, 1), 0)
+	case msg.Type == tea.KeyHome:
+		o.offset = 0
+	case isTyping(msg):
+		m.note = "nothing to type into here: Esc closes this view"
 	}
-	if sig.card {
-		m.card()
-	}
-	if sig.history {
-		return m.history()
-	}
-	if sig.bench != "" {
-		return m.readBench(sig.bench)
-	}
-	if sig.write {
-		return m.writeRefit()
-	}
-	if sig.advance {
-		return tea.Batch(cmd, m.focusPanel(min(m.focus+1, len(m.panels)-1)))
-	}
-	return cmd
+	o.offset = min(o.offset, m.overlayMax())
+	return nil
 }
 
 func (m *Model) handlePicker(msg tea.KeyMsg) tea.Cmd {
@@ -271,30 +319,30 @@ func (m *Model) focusPanel(i int) tea.Cmd {
 	m.panels[m.focus].Blur()
 	m.focus = i
 	m.layout()
+	m.scroll[i] = 0
 	return m.panels[i].Focus()
 }
 
-// recompute builds the request from the entries and asks setup for the
-// plan. Until every entry can be used, the figures wait: they are never
-// left showing an earlier entry's numbers.
+// recompute hands the entries, as typed, to setup's entry builder and
+// marks every problem beside its field; only when there is none does it ask
+// setup for the plan. Until then the figures wait: they are never left
+// showing an earlier entry's numbers.
 func (m *Model) recompute() {
 	m.patient.form.clearErrors()
 	m.targets.form.clearErrors()
 	m.out.plan, m.out.trace, m.out.waiting = nil, nil, nil
-	req, ok := m.request()
-	for _, ie := range setup.CheckEntries(req) {
-		if f := m.field(ie.Field); f != nil && f.err == "" && f.Value() != "" {
-			m.fail(ie.Field, ie.Reason)
-			ok = false
-		}
+	e := m.planEntries()
+	req, problems := setup.BuildRequest(e, m.now())
+	m.patient.setHints(req.Targets.Lung)
+	for _, p := range problems {
+		m.fail(p)
 	}
-	if ok && m.out.summary != nil {
-		req.Now = m.now()
+	if len(problems) == 0 && m.out.summary != nil {
 		pl, err := setup.MakePlan(req, m.out.profile)
 		var ie *setup.InputError
 		switch {
 		case errors.As(err, &ie):
-			m.fail(ie.Field, ie.Reason)
+			m.fail(ie)
 		case err != nil:
 			m.out.waiting = append(m.out.waiting, err.Error())
 		default:
@@ -307,84 +355,33 @@ func (m *Model) recompute() {
 	if m.out.summary == nil {
 		m.out.waiting = append(m.out.waiting, "the profile could not be used: "+m.out.loadErr)
 	}
-	m.recomputeCheck(req, ok)
+	m.recomputeCheck(e, problems)
 	for _, p := range m.panels {
 		p.SetOutcome(&m.out)
 	}
 }
 
-// fail puts a reason beside its field, or in the waiting list when no
-// field has that name.
-func (m *Model) fail(name, reason string) {
-	if f := m.field(name); f != nil {
-		f.err = reason
-		m.out.waiting = append(m.out.waiting, f.label+": "+reason)
-		return
+// planEntries are the patient's and the targets' fields as typed.
+func (m *Model) planEntries() setup.Entries {
+	e := setup.Entries{}
+	for _, f := range append(append([]*field(nil), m.patient.form.fields...), m.targets.form.fields...) {
+		e[f.name] = f.Value()
 	}
-	m.out.waiting = append(m.out.waiting, name+": "+reason)
+	return e
 }
 
-// request reads the entries. Blank optional entries mean the default; a
-// typed 0 is refused rather than taken as "default".
-func (m *Model) request() (setup.Request, bool) {
-	var req setup.Request
-	ok := true
-	number := func(name string, required bool) float64 {
-		f := m.field(name)
-		text := f.Value()
-		if text == "" {
-			if required {
-				ok = false
-				m.out.waiting = append(m.out.waiting, f.label+": "+f.hint)
-			}
-			return 0
+// fail puts a problem beside its field (a missing entry waits rather than
+// errs), and in the waiting list.
+func (m *Model) fail(p *setup.InputError) {
+	f := m.field(p.Field)
+	label := p.Field
+	if f != nil {
+		label = f.label
+		if !p.Missing {
+			f.err = p.Reason
 		}
-		v, err := physiology.ParseNumber(text)
-		if err != nil {
-			ok = false
-			m.fail(name, fmt.Sprintf("%q is not a number", text))
-			return 0
-		}
-		if v == 0 && name != "peep" {
-			ok = false
-			m.fail(name, "0 is not allowed; leave it blank for the default")
-		}
-		return v
 	}
-	req.Patient.HeightCm = number("height-cm", true)
-	switch m.field("sex").Value() {
-	case "male":
-		req.Patient.Sex = physiology.Male
-	case "female":
-		req.Patient.Sex = physiology.Female
-	default:
-		ok = false
-		m.out.waiting = append(m.out.waiting, "Sex: choose m (male) or f (female)")
-	}
-	lung, err := physiology.ParseLung(m.field("lung").Value())
-	if err != nil {
-		lung = physiology.Normal
-	}
-	t := setup.Targets{Lung: lung}
-	t.MLPerKg = number("ml-per-kg", false)
-	t.RateBPM = number("rate", false)
-	t.FiO2 = number("fio2", false)
-	t.ComplianceMLPerCmH2O = number("compliance", false)
-	t.ResistanceCmH2OPerLS = number("resistance", false)
-	if m.field("peep").Value() != "" {
-		v := number("peep", false)
-		t.PEEPCmH2O = &v
-	}
-	if text := m.field("ie").Value(); text != "" {
-		e, err := physiology.ParseIE(text)
-		if err != nil {
-			ok = false
-			m.fail("ie", strings.TrimPrefix(err.Error(), "I:E "))
-		}
-		t.IE = e
-	}
-	req.Targets = t
-	return req, ok
+	m.out.waiting = append(m.out.waiting, label+": "+p.Reason)
 }
 
 func (m *Model) resize(w, h int) {
@@ -454,18 +451,16 @@ func (m *Model) View() string {
 	bodyH := m.h - fixedRows
 	switch {
 	case m.picker != nil:
-		body = m.box("Profiles", m.picker.view(m.w-4, bodyH-2), bodyH, true)
-	case m.showHelp:
-		body = m.box("Keys", m.fullHelp(), bodyH, true)
+		body = m.box("Profiles", m.picker.view(m.w-4, bodyH-3), bodyH, true, 0)
 	case m.overlay != nil:
-		body = m.box(m.overlay.title, m.overlay.text, bodyH, true)
+		body = m.box(m.overlay.title, m.overlay.text, bodyH, true, m.overlay.offset)
 	default:
 		top, bottom := m.split(bodyH)
 		p := m.panels[m.focus]
-		body = m.box(p.Title(), p.View(), top, true)
+		body = m.box(p.Title(), p.View(), top, true, m.scroll[m.focus])
 		if bottom > 0 {
 			q := m.panels[m.secondPanel()]
-			body += "\n" + m.box(q.Title(), q.View(), bottom, false)
+			body += "\n" + m.box(q.Title(), q.View(), bottom, false, 0)
 		}
 	}
 	lines := []string{m.titleBar(), body, m.summary(), m.helpLine(), m.clinicalLine()}
@@ -480,47 +475,76 @@ func (m *Model) clinicalLine() string {
 	return m.styles.Hint.Render(truncate(text, m.w))
 }
 
-func (m *Model) box(title, content string, h int, focused bool) string {
+// box draws a panel's content in its frame: long lines wrap, and content
+// taller than the box scrolls from the panel's offset, with markers.
+func (m *Model) box(title, content string, h int, focused bool, offset int) string {
 	st := m.styles.Panel
 	if focused {
 		st = m.styles.PanelFocused
 	}
 	fw, fh := st.GetHorizontalFrameSize(), st.GetVerticalFrameSize()
-	inner := fit(m.styles.PanelTitle.Render(title)+"\n"+content, m.w-fw, h-fh)
+	lines := window(wrapBlock(content, m.w-fw), h-fh-1, offset)
+	inner := m.styles.PanelTitle.Render(title) + "\n" + strings.Join(lines, "\n")
 	// Pad to the full height so the strip below never moves.
-	n := strings.Count(inner, "\n") + 1
-	if n < h-fh {
+	if n := len(lines) + 1; n < h-fh {
 		inner += strings.Repeat("\n", h-fh-n)
 	}
 	return st.Width(m.w - fw + st.GetHorizontalPadding()).Render(inner)
+}
+
+// maxScroll is how far panel i's content can scroll at the current size.
+func (m *Model) maxScroll(i int) int {
+	fw, fh := m.panelFrame()
+	top, _ := m.split(m.h - fixedRows)
+	n := len(wrapBlock(m.panels[i].View(), m.w-fw))
+	return max(n-(top-fh-1), 0)
+}
+
+func (m *Model) overlayMax() int {
+	if m.overlay == nil {
+		return 0
+	}
+	fw, fh := m.panelFrame()
+	n := len(wrapBlock(m.overlay.text, m.w-fw))
+	return max(n-(m.h-fixedRows-fh-1), 0)
 }
 
 func (m *Model) titleBar() string {
 	s := m.styles
 	var tabs []string
 	for i, p := range m.panels {
-		name := fmt.Sprintf("%d %s", i+1, p.Title())
+		name := fmt.Sprintf("F%d %s", i+1, p.Title())
 		if i == panelCautions && m.out.plan != nil {
 			name += fmt.Sprintf("(%d)", len(m.out.plan.Cautions))
 		}
 		if i == m.focus {
 			tabs = append(tabs, s.TabActive.Render("["+name+"]"))
+		} else if m.w < 100 {
+			tabs = append(tabs, s.Tab.Render(" "+name))
 		} else {
 			tabs = append(tabs, s.Tab.Render(" "+name+" "))
 		}
 	}
-	lead := s.Title.Render("crankside") + s.Label.Render(" · "+m.out.profile.ID+" ")
+	bar := strings.Join(tabs, "")
 	if m.w < 100 {
-		lead = s.Label.Render(m.out.profile.ID + " |")
+		// Narrow: the tabs first; the profile after them when it fits.
+		if id := " | " + m.out.profile.ID; lipgloss.Width(bar)+len(id) <= m.w {
+			bar += s.Label.Render(id)
+		}
+		return truncate(bar, m.w)
 	}
-	return truncate(lead+" "+strings.Join(tabs, ""), m.w)
+	lead := s.Title.Render("crankside") + s.Label.Render(" · "+m.out.profile.ID+" ")
+	return truncate(lead+" "+bar, m.w)
 }
 
 // summary is the strip that stays on every panel.
 func (m *Model) summary() string {
 	s := m.styles
 	if m.confirmQuit {
-		return truncate(s.levelWord(setup.Warn)+s.Error.Render(" The handover check is not recorded. y: quit without recording, n: stay"), m.w)
+		return truncate(s.levelWord(setup.Warn)+s.Error.Render(" Not recorded or not saved. Ctrl+C again: quit anyway; Esc: stay"), m.w)
+	}
+	if m.note != "" {
+		return truncate(s.Error.Render("! "+m.note), m.w)
 	}
 	// On the handover panel the strip is what the machine is set to now;
 	// elsewhere it is the plan.
@@ -575,18 +599,15 @@ func (m *Model) helpLine() string {
 	case m.picker != nil:
 		b = m.picker.ShortHelp()
 	case m.confirmQuit:
-		b = []key.Binding{m.keys.Yes, m.keys.No}
-	case m.showHelp:
-		b = []key.Binding{key.NewBinding(key.WithKeys("?"), key.WithHelp("? / esc", "close"))}
+		b = []key.Binding{m.keys.Confirm, m.keys.Stay}
 	case m.overlay != nil:
-		b = []key.Binding{key.NewBinding(key.WithKeys("esc"), key.WithHelp("esc", "close"))}
+		b = []key.Binding{key.NewBinding(key.WithKeys("esc"), key.WithHelp("esc", "close")),
+			key.NewBinding(key.WithKeys("pgdown"), key.WithHelp("↑/↓ pgup/pgdn", "scroll"))}
 	default:
-		b = m.panels[m.focus].ShortHelp()
-		b = append(b, m.keys.Next)
-		if !m.panels[m.focus].Editing() {
-			b = append(b, key.NewBinding(key.WithKeys("1"), key.WithHelp("1-6", "panel")), m.keys.Quit)
-		}
-		b = append(b, m.keys.Help)
+		// The general keys first, so that a narrow window drops a panel's
+		// own keys rather than how to find every key.
+		b = []key.Binding{m.keys.Help, key.NewBinding(key.WithKeys("f1"), key.WithHelp("F1-F6", "panel")), m.keys.Next, m.keys.Quit}
+		b = append(b, m.panels[m.focus].ShortHelp()...)
 	}
 	return truncate(m.help.ShortHelpView(b), m.w)
 }
@@ -594,16 +615,21 @@ func (m *Model) helpLine() string {
 func (m *Model) fullHelp() string {
 	s := m.styles
 	p := m.panels[m.focus]
-	groups := append(p.FullHelp(), []key.Binding{m.keys.Next, m.keys.Prev, m.keys.Help, m.keys.Quit, m.keys.ForceQuit}, m.keys.Panel[:])
+	groups := append(p.FullHelp(), []key.Binding{m.keys.Next, m.keys.Prev, m.keys.PageDn, m.keys.Help, m.keys.Quit}, m.keys.Panel[:])
 	var l []string
 	l = append(l, m.help.FullHelpView(groups), "")
-	l = append(l,
-		s.Label.Render("In a number field, letters and digits belong to the field: Tab, Enter, arrows and"),
-		s.Label.Render("Ctrl+C still work there. Choices take their letter (m or f; n, a or o) or arrows."),
-		s.Label.Render("Blank optional entries use the default shown beside them, with its source."),
-		s.Label.Render("Every figure comes from the computation the command line uses (crankside plan)."),
-		s.Label.Render("Levels: STOP do not use this setting; WARN needs a clinician's decision; NOTE."),
-	)
+	for _, t := range []string{
+		"Keys that type (digits, letters, the decimal point or comma) only ever go into the field with the cursor; where there is none they are refused with a note.",
+		"Keys that act are never characters: F1-F6 or Alt+1-6 choose a panel, Tab and Shift+Tab the next or previous one, arrows and Enter move between fields, Ctrl keys record, show the card and the history, Esc closes, Ctrl+C quits (it asks first when a check is not recorded).",
+		"A field that holds a value shows it selected when the cursor arrives: the first character typed replaces it; an arrow, Home or End edits it instead.",
+		"0,9 means 0.9 in every number field; what was read is shown beside the field.",
+		"Choices take their letter (m or f; n, a or o) or the arrows.",
+		"Blank optional entries use the default shown beside them, with its source.",
+		"Every figure comes from the computation the command line uses (crankside plan).",
+		"Levels: STOP do not use this setting; WARN needs a clinician's decision; NOTE.",
+	} {
+		l = append(l, s.Label.Render(t))
+	}
 	return strings.Join(l, "\n")
 }
 

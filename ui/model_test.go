@@ -60,19 +60,50 @@ var (
 	ctrlU    = tea.KeyMsg{Type: tea.KeyCtrlU}
 )
 
-// press sends keys one by one; typed text is split into single runes.
+// press sends keys one by one, as a terminal would; typed text is split
+// into single runes. The commands a key returns are run at once and their
+// messages fed back, as the program does; it returns tea.Quit when one of
+// them quit.
 func press(m *Model, keys ...tea.KeyMsg) tea.Cmd {
-	var last tea.Cmd
+	quit := false
 	for _, k := range keys {
 		if k.Type == tea.KeyRunes && len(k.Runes) > 1 && !k.Paste {
 			for _, r := range k.Runes {
-				_, last = m.Update(tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune{r}})
+				_, cmd := m.Update(tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune{r}})
+				quit = drain(m, cmd) || quit
 			}
 			continue
 		}
-		_, last = m.Update(k)
+		_, cmd := m.Update(k)
+		quit = drain(m, cmd) || quit
 	}
-	return last
+	if quit {
+		return tea.Quit
+	}
+	return nil
+}
+
+// drain runs a command and every command its messages lead to, and
+// reports whether one of them quit.
+func drain(m *Model, cmd tea.Cmd) bool {
+	if cmd == nil {
+		return false
+	}
+	switch msg := cmd().(type) {
+	case nil:
+		return false
+	case tea.QuitMsg:
+		return true
+	case tea.BatchMsg:
+		quit := false
+		for _, c := range msg {
+			quit = drain(m, c) || quit
+		}
+		return quit
+	default:
+		_, next := m.Update(msg)
+		return drain(m, next)
+	}
 }
 
 func isQuit(cmd tea.Cmd) bool {
@@ -82,6 +113,21 @@ func isQuit(cmd tea.Cmd) bool {
 	_, ok := cmd().(tea.QuitMsg)
 	return ok
 }
+
+// Action keys: never characters a field accepts.
+var (
+	fkey = func(n int) tea.KeyMsg {
+		return tea.KeyMsg{Type: []tea.KeyType{tea.KeyF1, tea.KeyF2, tea.KeyF3, tea.KeyF4, tea.KeyF5, tea.KeyF6}[n-1]}
+	}
+	ctrlC = tea.KeyMsg{Type: tea.KeyCtrlC}
+	ctrlS = tea.KeyMsg{Type: tea.KeyCtrlS}
+	ctrlO = tea.KeyMsg{Type: tea.KeyCtrlO}
+	ctrlR = tea.KeyMsg{Type: tea.KeyCtrlR}
+	ctrlP = tea.KeyMsg{Type: tea.KeyCtrlP}
+	ctrlB = tea.KeyMsg{Type: tea.KeyCtrlB}
+	ctrlW = tea.KeyMsg{Type: tea.KeyCtrlW}
+	pgDn  = tea.KeyMsg{Type: tea.KeyPgDown}
+)
 
 func screen(m *Model) string { return ansi.Strip(m.View()) }
 
@@ -104,7 +150,7 @@ func TestStartsInTheHeightField(t *testing.T) {
 
 func TestNewPatientFlowReachesTheSetting(t *testing.T) {
 	m := newTestModel(t, nil)
-	press(m, runes("175"), enter, runes("m"), runes("4"))
+	press(m, runes("175"), enter, runes("m"), fkey(4))
 	require.Equal(t, panelSetting, m.focus)
 	require.NotNil(t, m.out.plan)
 	want := wantPlan(t, 175, physiology.Male, "demo-a")
@@ -112,40 +158,47 @@ func TestNewPatientFlowReachesTheSetting(t *testing.T) {
 	require.Equal(t, want.Timing.RPM, m.out.plan.Timing.RPM)
 	require.Equal(t, want.Timing.DwellS, m.out.plan.Timing.DwellS)
 	v := screen(m)
-	require.Contains(t, v, "Pin hole     "+want.Hole.Label+" ")
+	require.Regexp(t, `Pin hole\s+`+want.Hole.Label+` `, v)
 	require.Contains(t, v, "Hole "+want.Hole.Label+" | "+f1(want.Timing.RPM)+" rpm | dwell "+f1(want.Timing.DwellS)+" s")
 }
 
 func TestALetterInAFieldNeverSwitchesOrQuits(t *testing.T) {
 	m := newTestModel(t, nil)
-	for _, k := range []string{"q", "x", "?"} {
+	for _, k := range []string{"q", "x", "y", "n"} {
 		cmd := press(m, runes(k))
 		require.False(t, isQuit(cmd), "%q quit from a field", k)
+		require.Contains(t, m.field("height-cm").note, "nothing typed", "%q is refused visibly", k)
 	}
-	m.showHelp = false
 	require.Equal(t, panelPatient, m.focus)
 	require.Equal(t, "", m.field("height-cm").Value())
 	// A digit in a number field is typed, not a panel switch.
 	press(m, runes("2"))
 	require.Equal(t, panelPatient, m.focus)
 	require.Equal(t, "2", m.field("height-cm").Value())
-	require.Contains(t, m.field("height-cm").note, "", "no note for a digit")
+	require.Empty(t, m.field("height-cm").note, "no note for a digit")
 	press(m, runes("z"))
-	require.Contains(t, m.field("height-cm").note, "digits")
+	require.Contains(t, m.field("height-cm").note, "takes a number")
+	require.Equal(t, "2", m.field("height-cm").Value(), "a refused key changes nothing")
 }
 
-func TestPanelKeysWorkOutsideTextFields(t *testing.T) {
+func TestPanelKeysAreNeverCharacters(t *testing.T) {
 	m := newTestModel(t, nil)
-	press(m, enter) // on to the sex choice: not a text field
-	require.False(t, m.panels[m.focus].Editing())
-	press(m, runes("3"))
+	press(m, enter) // on to the sex choice
+	press(m, fkey(3))
 	require.Equal(t, panelMachine, m.focus)
 	press(m, tab)
 	require.Equal(t, panelSetting, m.focus)
 	press(m, shiftTab, shiftTab, shiftTab)
 	require.Equal(t, panelPatient, m.focus)
-	require.True(t, isQuit(press(m, runes("3"), runes("q"))))
-	require.True(t, isQuit(press(newTestModel(t, nil), tea.KeyMsg{Type: tea.KeyCtrlC})))
+	press(m, tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune("6"), Alt: true})
+	require.Equal(t, panelHandover, m.focus)
+	// A digit where no field has the focus is refused visibly, never a
+	// panel switch.
+	press(m, fkey(4), runes("3"))
+	require.Equal(t, panelSetting, m.focus)
+	require.Contains(t, screen(m), "nothing to type into here")
+	require.True(t, isQuit(press(newTestModel(t, nil), ctrlC)))
+	require.False(t, isQuit(press(m, runes("q"))), "q is a letter, never quit")
 }
 
 func TestValidationMessageBesideTheField(t *testing.T) {
@@ -163,7 +216,7 @@ func TestValidationMessageBesideTheField(t *testing.T) {
 	press(m, tab, tab)
 	require.Equal(t, panelSetting, m.focus)
 	v := screen(m)
-	require.Contains(t, v, "waiting")
+	require.Contains(t, v, "WAITING")
 	require.NotContains(t, v, "Pin hole")
 	require.Contains(t, v, "SETTING WAITING")
 }
@@ -171,7 +224,7 @@ func TestValidationMessageBesideTheField(t *testing.T) {
 func TestTypedZeroIsNotTheDefault(t *testing.T) {
 	m := newTestModel(t, map[string]string{"height-cm": "170", "sex": "female"})
 	require.NotNil(t, m.out.plan)
-	press(m, runes("2")) // to targets: the cursor is on mL/kg
+	press(m, fkey(2)) // to targets: the cursor is on mL/kg
 	press(m, runes("0"))
 	require.Nil(t, m.out.plan)
 	require.Contains(t, m.field("ml-per-kg").err, "blank for the default")
@@ -191,7 +244,7 @@ func TestPickerLoadsAnotherProfileAndListsBadFiles(t *testing.T) {
 	p, src := demoProfile(t, "demo-a")
 	m := New(Options{Profile: p, Source: src, ProfilesDir: dir, Prefill: map[string]string{"height-cm": "175", "sex": "male"}, Now: testNow})
 	m.Update(tea.WindowSizeMsg{Width: 80, Height: 24})
-	press(m, runes("3"), runes("p"))
+	press(m, fkey(3), ctrlP)
 	require.NotNil(t, m.picker)
 	v := screen(m)
 	require.Contains(t, v, "broken")
@@ -199,7 +252,7 @@ func TestPickerLoadsAnotherProfileAndListsBadFiles(t *testing.T) {
 	require.Contains(t, v, "demo-b")
 	press(m, esc)
 	require.Nil(t, m.picker)
-	press(m, runes("p"))
+	press(m, ctrlP)
 	for m.picker.entries[m.picker.cursor].ID != "demo-b" {
 		press(m, down)
 	}
@@ -210,7 +263,7 @@ func TestPickerLoadsAnotherProfileAndListsBadFiles(t *testing.T) {
 	require.Equal(t, want.Hole.Label, m.out.plan.Hole.Label)
 	require.InDelta(t, 20, m.out.plan.Timing.RPM, 0)
 	// A bad file cannot be chosen.
-	press(m, runes("p"))
+	press(m, ctrlP)
 	for m.picker.entries[m.picker.cursor].ID != "broken" {
 		press(m, down)
 	}
@@ -222,14 +275,17 @@ func TestPickerLoadsAnotherProfileAndListsBadFiles(t *testing.T) {
 func TestHelpViewAndTooSmall(t *testing.T) {
 	m := newTestModel(t, nil)
 	press(m, runes("?"))
-	require.True(t, m.showHelp)
-	require.Contains(t, screen(m), "Ctrl+C still work")
+	require.NotNil(t, m.overlay)
+	require.Equal(t, "Keys", m.overlay.title)
+	require.Contains(t, screen(m), "Keys that act are never characters")
+	press(m, pgDn)
+	require.Contains(t, screen(m), "Levels: STOP")
 	press(m, esc)
-	require.False(t, m.showHelp)
+	require.Nil(t, m.overlay)
 	m.Update(tea.WindowSizeMsg{Width: 40, Height: 10})
 	require.Contains(t, screen(m), "Make the window larger")
 	m.Update(tea.WindowSizeMsg{Width: 80, Height: 24})
-	require.Contains(t, screen(m), "1 Patient")
+	require.Contains(t, screen(m), "F1 Patient")
 }
 
 func TestClinicalLineAndLevelWordsOnScreen(t *testing.T) {
@@ -245,21 +301,23 @@ func TestClinicalLineAndLevelWordsOnScreen(t *testing.T) {
 
 func TestHostilePastesIntoFields(t *testing.T) {
 	m := newTestModel(t, nil)
-	// A page of digits is cut to the field's length, with a note.
+	// A page of digits is refused whole, with a note: never cut to fit.
 	press(m, tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune(strings.Repeat("9", 5000)), Paste: true})
 	f := m.field("height-cm")
-	require.LessOrEqual(t, len(f.Value()), 12)
-	require.Contains(t, f.note, "cut")
-	require.NotEmpty(t, f.err, "999999999999 cm is refused")
-	press(m, ctrlU)
-	// Control characters and escape sequences are dropped; digits kept.
-	press(m, tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune("1\x00\x1b[2J7\x075"), Paste: true})
+	require.Equal(t, "", f.Value())
+	require.Contains(t, f.note, "nothing typed")
+	// Escape sequences are dropped whole; a paste with any other
+	// character a number cannot hold is refused, never reduced to its
+	// digits.
+	press(m, tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune("1\x1b[2J75"), Paste: true})
 	require.Equal(t, "175", f.Value())
-	require.Contains(t, f.note, "kept only")
 	press(m, ctrlU)
+	press(m, tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune("1\x007\x075"), Paste: true})
+	require.Equal(t, "", f.Value())
+	require.Contains(t, f.note, "control character")
 	// Digits of other scripts are not read as numbers.
 	press(m, tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune("١٧٥"), Paste: true})
 	require.Equal(t, "", f.Value())
-	require.Contains(t, f.note, "digits")
+	require.Contains(t, f.note, "takes a number")
 	require.NotContains(t, screen(m), "\x1b[2J")
 }

@@ -1,6 +1,7 @@
 package ui
 
 import (
+	"fmt"
 	"strings"
 
 	"github.com/charmbracelet/bubbles/help"
@@ -16,6 +17,9 @@ import (
 type outcome struct {
 	plan    *setup.Plan
 	trace   *setup.Trace
+	chart   string // the breath chart drawn for plan at chartW x chartH
+	chartW  int
+	chartH  int
 	waiting []string
 	profile profiles.Profile
 	source  profiles.Source
@@ -25,19 +29,10 @@ type outcome struct {
 	// The handover check of what the machine is set to; nil while waiting.
 	check        *setup.Check
 	checkWaiting []string
+	checkLung    string // the lung condition the check's assumed mechanics are for
 	saveNote     string // the last record's outcome, shown on the handover panel
-}
-
-// signals are what a panel asks of the root after a key.
-type signals struct {
-	changed bool   // an entry changed: recompute
-	advance bool   // on to the next panel
-	pick    bool   // open the profile picker
-	save    bool   // record the handover check
-	card    bool   // show the handover card
-	history bool   // show the bed's earlier checks
-	bench   string // refit the calibration from this bench file
-	write   bool   // save the previewed refit
+	// logNote says where the screen records checks and whether it can.
+	logNote string
 }
 
 // panel is one child of the root model.
@@ -47,16 +42,15 @@ type panel interface {
 	SetSize(w, h int)
 	Focus() tea.Cmd
 	Blur()
-	// Editing is true while a text field has the cursor: the root then
-	// sends it every printable key.
+	// Editing is true while one of the panel's fields has the focus: the
+	// root then sends it the keys that type; elsewhere they are refused.
 	Editing() bool
 	Title() string
 	SetOutcome(o *outcome)
-	// Signals returns and clears what the last key asked for.
-	Signals() signals
 }
 
-// truncate cuts a styled line to w cells.
+// truncate cuts a styled line to w cells; it is kept for the one-line
+// strips (title bar, help line), never for safety text, which wraps.
 func truncate(s string, w int) string {
 	if w <= 0 {
 		return ""
@@ -64,14 +58,60 @@ func truncate(s string, w int) string {
 	return ansi.Truncate(s, w, "…")
 }
 
-// fit cuts a block to w x h.
+// wrapBlock wraps every line of a block to w cells, at spaces where it can.
+func wrapBlock(s string, w int) []string {
+	if w <= 0 {
+		return nil
+	}
+	var out []string
+	for _, l := range strings.Split(s, "\n") {
+		if ansi.StringWidth(l) <= w {
+			out = append(out, l)
+			continue
+		}
+		if ansi.StringWidth(strings.TrimRight(ansi.Strip(l), " ")) <= w {
+			// Only padding overflows: drop it, nothing is lost.
+			out = append(out, ansi.Truncate(l, w, ""))
+			continue
+		}
+		if w <= 8 {
+			out = append(out, strings.Split(ansi.Wrap(l, w, ""), "\n")...)
+			continue
+		}
+		// Continuation lines are indented, so a wrapped line reads as one.
+		for i, c := range strings.Split(ansi.Wrap(l, w-4, ""), "\n") {
+			if i > 0 {
+				c = "    " + c
+			}
+			out = append(out, c)
+		}
+	}
+	return out
+}
+
+// fit wraps a block to w and shows h lines of it from line off, with a
+// marker on the first or last line when more lies above or below. It
+// never cuts a line short.
 func fit(s string, w, h int) string {
-	lines := strings.Split(s, "\n")
-	if len(lines) > h {
-		lines = lines[:max(h, 0)]
+	return strings.Join(window(wrapBlock(s, w), h, 0), "\n")
+}
+
+// window shows h lines from off (clamped), marking what is hidden.
+func window(lines []string, h, off int) []string {
+	if h <= 0 {
+		return nil
 	}
-	for i, l := range lines {
-		lines[i] = truncate(l, w)
+	if len(lines) <= h {
+		return lines
 	}
-	return strings.Join(lines, "\n")
+	off = min(max(off, 0), len(lines)-h)
+	out := append([]string(nil), lines[off:off+h]...)
+	if off > 0 {
+		out[0] = fmt.Sprintf("^ %d more line%s above (PgUp)", off, plural(off))
+	}
+	if below := len(lines) - off - h; below > 0 {
+		below++
+		out[h-1] = fmt.Sprintf("v %d more line%s below (PgDn)", below, plural(below))
+	}
+	return out
 }

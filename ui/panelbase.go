@@ -3,11 +3,10 @@ package ui
 import tea "github.com/charmbracelet/bubbletea"
 
 // panelBase is what every panel holds and does the same way: the shared
-// styles and outcome, the signals for the root, and the size.
+// styles and outcome, and the size.
 type panelBase struct {
 	styles *Styles
 	out    *outcome
-	sig    signals
 	w, h   int
 }
 
@@ -17,13 +16,6 @@ func (b *panelBase) SetSize(w, h int)      { b.w, b.h = w, h }
 func (b *panelBase) Focus() tea.Cmd        { return nil }
 func (b *panelBase) Blur()                 {}
 func (b *panelBase) Editing() bool         { return false }
-
-// Signals returns and clears what the last key asked of the root.
-func (b *panelBase) Signals() signals {
-	s := b.sig
-	b.sig = signals{}
-	return s
-}
 
 // waiting is the reasons the figures are not shown, if any.
 func (b *panelBase) waiting() []string {
@@ -40,7 +32,7 @@ type formPanel struct {
 	form form
 }
 
-func (p *formPanel) Editing() bool  { return p.form.editing() }
+func (p *formPanel) Editing() bool  { return p.form.focused }
 func (p *formPanel) Focus() tea.Cmd { return p.form.focus() }
 func (p *formPanel) Blur()          { p.form.blur() }
 
@@ -49,10 +41,16 @@ func (p *formPanel) SetSize(w, h int) {
 	p.form.width = w
 }
 
-// updateForm passes a key to the form and notes what it asks for.
+// updateForm passes a key to the form and asks the root for what it
+// needs: a recompute after a change, the next panel after the last field.
 func (p *formPanel) updateForm(km tea.KeyMsg) tea.Cmd {
 	r, cmd := p.form.update(km)
-	p.sig.changed = p.sig.changed || r.changed
-	p.sig.advance = p.sig.advance || r.leave
-	return cmd
+	var cmds []tea.Cmd
+	if r.changed {
+		cmds = append(cmds, ask(entryChanged{}))
+	}
+	if r.leave {
+		cmds = append(cmds, ask(advanceRequested{}))
+	}
+	return tea.Batch(append(cmds, cmd)...)
 }

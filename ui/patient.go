@@ -3,10 +3,14 @@ package ui
 import (
 	"github.com/charmbracelet/bubbles/key"
 	tea "github.com/charmbracelet/bubbletea"
+
+	"crankside/physiology"
+	"crankside/setup"
 )
 
 // patientPanel asks who the machine is for: height, sex, lung condition,
-// and optionally FiO2, PEEP and known mechanics.
+// and optionally FiO2, PEEP and known mechanics. The hints beside empty
+// fields come from setup, with their sources.
 type patientPanel struct {
 	formPanel
 }
@@ -14,17 +18,26 @@ type patientPanel struct {
 func newPatientPanel(s *Styles) *patientPanel {
 	p := &patientPanel{}
 	p.styles = s
-	p.form = newForm(s,
-		numberField("height-cm", "Height", "cm", "required, 130-230 cm", true),
-		choiceField("sex", "Sex", "required: m or f", -1, choice{"m", "male", "male"}, choice{"f", "female", "female"}),
+	p.form = newForm(s, section{fields: []*field{
+		numberField("height-cm", "Height", "cm", setup.Hint("height-cm", physiology.Normal)),
+		choiceField("sex", "Sex", setup.Hint("sex", physiology.Normal), -1, choice{"m", "male", "male"}, choice{"f", "female", "female"}),
 		choiceField("lung", "Lung condition", "", 0,
 			choice{"n", "normal", "normal"}, choice{"a", "ARDS", "ards"}, choice{"o", "obstructive", "obstructive"}),
-		numberField("fio2", "FiO2 wanted", "", "blank: 0.21, no oxygen", false),
-		numberField("peep", "PEEP", "cmH2O", "blank: 5; ARDS: table", false),
-		numberField("compliance", "Compliance", "mL/cmH2O", "blank: by condition", false),
-		numberField("resistance", "Resistance", "cmH2O/(L/s)", "blank: by condition", false),
-	)
+		numberField("fio2", "FiO2 wanted", "", setup.Hint("fio2", physiology.Normal)),
+		numberField("peep", "PEEP", "cmH2O", setup.Hint("peep", physiology.Normal)),
+		numberField("compliance", "Compliance", "mL/cmH2O", setup.Hint("compliance", physiology.Normal)),
+		numberField("resistance", "Resistance", "cmH2O/(L/s)", setup.Hint("resistance", physiology.Normal)),
+	}})
 	return p
+}
+
+// setHints shows the defaults of the lung condition chosen.
+func (p *patientPanel) setHints(lung physiology.Lung) {
+	for _, fl := range p.form.fields {
+		if h := setup.Hint(fl.name, lung); h != "" && fl.name != "lung" {
+			fl.hint = h
+		}
+	}
 }
 
 func (p *patientPanel) Title() string { return "Patient" }
@@ -45,7 +58,7 @@ func (p *patientPanel) View() string {
 		foot = s.Label.Render("PBW ") + s.Value.Render(f1(pl.PBWKg)) + s.Unit.Render(" kg") +
 			s.Label.Render("  (ARDS Network 2000 formula)") + "\n" + foot
 	}
-	return fit(body+"\n\n"+foot, p.w, p.h)
+	return body + "\n\n" + foot
 }
 
 func (p *patientPanel) ShortHelp() []key.Binding {

@@ -38,6 +38,7 @@ type Styles struct {
 	Error, Waiting           lipgloss.Style
 	Section                  lipgloss.Style
 	FieldFocused             lipgloss.Style
+	Selected                 lipgloss.Style // a value the first typed character replaces
 	Summary, Caution         lipgloss.Style
 	Help                     lipgloss.Style
 	Level                    map[setup.Level]lipgloss.Style
@@ -67,6 +68,7 @@ func NewStyles() Styles {
 		Waiting:      lipgloss.NewStyle().Foreground(p.muted).Italic(true),
 		Section:      lipgloss.NewStyle().Bold(true).Foreground(p.text),
 		FieldFocused: lipgloss.NewStyle().Foreground(p.focus).Bold(true),
+		Selected:     lipgloss.NewStyle().Reverse(true),
 		Summary:      lipgloss.NewStyle().Foreground(p.text),
 		Caution:      lipgloss.NewStyle().Foreground(p.muted),
 		Help:         lipgloss.NewStyle().Foreground(p.muted),

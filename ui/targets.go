@@ -6,6 +6,9 @@ import (
 
 	"github.com/charmbracelet/bubbles/key"
 	tea "github.com/charmbracelet/bubbletea"
+
+	"crankside/physiology"
+	"crankside/setup"
 )
 
 // targetsPanel shows PBW and the target volume and asks for mL/kg, rate
@@ -17,11 +20,11 @@ type targetsPanel struct {
 func newTargetsPanel(s *Styles) *targetsPanel {
 	p := &targetsPanel{}
 	p.styles = s
-	p.form = newForm(s,
-		numberField("ml-per-kg", "Tidal volume", "mL/kg PBW", "blank: 6 (ARDS Network 2000)", false),
-		numberField("rate", "Rate", "/min", "blank: 14, ARDS 18, obstructive 10", false),
-		textField("ie", "I:E", "", "blank: 1:2 (obstructive 1:3)", false, "0123456789.:"),
-	)
+	p.form = newForm(s, section{fields: []*field{
+		numberField("ml-per-kg", "Tidal volume", "mL/kg PBW", setup.Hint("ml-per-kg", physiology.Normal)),
+		numberField("rate", "Rate", "/min", setup.Hint("rate", physiology.Normal)),
+		textField("ie", "I:E", "", setup.Hint("ie", physiology.Normal), kindRatio),
+	}})
 	return p
 }
 
@@ -40,7 +43,7 @@ func (p *targetsPanel) View() string {
 	b.WriteString(p.form.view() + "\n\n")
 	if p.out == nil || p.out.plan == nil {
 		b.WriteString(s.waitingView(p.waiting()))
-		return fit(b.String(), p.w, p.h)
+		return b.String()
 	}
 	pl := p.out.plan
 	src := func(v string) string { return s.Hint.Render("  " + v) }
@@ -57,7 +60,7 @@ func (p *targetsPanel) View() string {
 			src(pl.Compliance.Source),
 	}
 	b.WriteString(strings.Join(lines, "\n"))
-	return fit(b.String(), p.w, p.h)
+	return b.String()
 }
 
 func trimFloat(v float64) string {

@@ -26,7 +26,7 @@ func TestWholeFlowInATerminal(t *testing.T) {
 			tm.Type("175")
 			tm.Send(tea.KeyMsg{Type: tea.KeyEnter})
 			tm.Type("m")
-			tm.Type("4")
+			tm.Send(tea.KeyMsg{Type: tea.KeyF4})
 			want := wantPlan(t, 175, physiology.Male, "demo-a")
 			strip := regexp.MustCompile(regexp.QuoteMeta(fmt.Sprintf("Hole %s | %.1f rpm | dwell %.1f s", want.Hole.Label, want.Timing.RPM, want.Timing.DwellS)))
 			teatest.WaitFor(t, tm.Output(), func(b []byte) bool {
