@@ -154,7 +154,10 @@ func (f *field) update(msg tea.KeyMsg, keys formKeys) (bool, tea.Cmd) {
 		f.input.SetValue("")
 		f.selected = false
 		return before != "", nil
-	case msg.Type == tea.KeyRunes:
+	case msg.Type == tea.KeyRunes || msg.Type == tea.KeySpace:
+		if msg.Type == tea.KeySpace {
+			msg.Runes = []rune{' '}
+		}
 		if !f.typeRunes(msg.Runes) {
 			return false, nil
 		}
@@ -203,22 +206,22 @@ func (f *field) typeRunes(rs []rune) bool {
 }
 
 func quoteRune(r rune) string {
-	if r < 0x20 || r == 0x7f {
+	switch {
+	case r < 0x20 || r == 0x7f:
 		return "a control character"
+	case r == ' ':
+		return "a space"
 	}
 	return "'" + string(r) + "'"
 }
 
 func (f *field) updateChoice(msg tea.KeyMsg, keys formKeys) bool {
 	before := f.chosen
+	// Only typing keys choose: a letter, or Space for the next option.
+	// Arrows never change a value, so an arrow pressed to move on can
+	// never change the patient's sex or lung condition.
 	switch {
-	case key.Matches(msg, keys.Left):
-		if f.chosen <= 0 {
-			f.chosen = len(f.choices) - 1
-		} else {
-			f.chosen--
-		}
-	case key.Matches(msg, keys.Right), msg.Type == tea.KeySpace:
+	case msg.Type == tea.KeySpace:
 		f.chosen = (f.chosen + 1) % len(f.choices)
 	case msg.Type == tea.KeyRunes:
 		typed := strings.ToLower(string(msg.Runes))
@@ -228,8 +231,11 @@ func (f *field) updateChoice(msg tea.KeyMsg, keys formKeys) bool {
 				f.chosen, found = i, true
 			}
 		}
-		if !found {
+		switch {
+		case !found:
 			f.note = "'" + string(msg.Runes) + "' is not a choice here: type " + f.choiceKeys()
+		case f.chosen == before:
+			f.note = "already " + f.choices[f.chosen].label
 		}
 	}
 	return f.chosen != before

@@ -97,6 +97,11 @@ func (p *handoverPanel) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 func (p *handoverPanel) View() string {
 	s := p.styles
 	head := s.Label.Render("For ") + s.Value.Render(p.patientLine()) + s.Hint.Render(" (F1 to change)")
+	if f := p.form.current(); p.form.focused && f.note != "" {
+		// The form beside the results is compact: a refused key's
+		// reason goes here, where it can be read.
+		head += "\n" + s.Error.Render("! "+f.note)
+	}
 	rw := max(p.w-formColumn-2, 20)
 	left := lipgloss.NewStyle().Width(formColumn).Render(p.form.view())
 	right := strings.Join(wrapBlock(p.results(), rw), "\n")

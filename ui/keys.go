@@ -45,6 +45,7 @@ func newGlobalKeys() globalKeys {
 type formKeys struct {
 	Down, Up, Advance key.Binding
 	Left, Right       key.Binding
+	Choose            key.Binding
 	Clear             key.Binding
 }
 
@@ -53,8 +54,9 @@ func newFormKeys() formKeys {
 		Down:    key.NewBinding(key.WithKeys("down"), key.WithHelp("↓", "next field")),
 		Up:      key.NewBinding(key.WithKeys("up"), key.WithHelp("↑", "previous field")),
 		Advance: key.NewBinding(key.WithKeys("enter"), key.WithHelp("enter", "next field")),
-		Left:    key.NewBinding(key.WithKeys("left"), key.WithHelp("←/→", "choose or edit")),
-		Right:   key.NewBinding(key.WithKeys("right"), key.WithHelp("←/→", "choose or edit")),
+		Left:    key.NewBinding(key.WithKeys("left"), key.WithHelp("←/→", "move in the value")),
+		Right:   key.NewBinding(key.WithKeys("right"), key.WithHelp("←/→", "move in the value")),
+		Choose:  key.NewBinding(key.WithKeys(" "), key.WithHelp("letter/space", "choose")),
 		Clear:   key.NewBinding(key.WithKeys("ctrl+u"), key.WithHelp("ctrl+u", "clear field")),
 	}
 }

@@ -66,10 +66,10 @@ func (p *patientPanel) ShortHelp() []key.Binding {
 	if p.form.current().isText() {
 		return []key.Binding{k.Advance, k.Up, k.Down}
 	}
-	return []key.Binding{k.Left, k.Advance, k.Up, k.Down}
+	return []key.Binding{k.Choose, k.Advance, k.Up, k.Down}
 }
 
 func (p *patientPanel) FullHelp() [][]key.Binding {
 	k := p.form.keys
-	return [][]key.Binding{{k.Advance, k.Up, k.Down}, {k.Left, k.Clear}}
+	return [][]key.Binding{{k.Advance, k.Up, k.Down}, {k.Choose, k.Left, k.Clear}}
 }
