@@ -173,30 +173,7 @@ func assess(a assessment) []Caution {
 			Message: fmt.Sprintf("tidal volume %.1f mL/kg PBW is below %.0f", mlkg, VtLowMLPerKg),
 			Advice:  "watch CO2; consider a larger hole or a higher rate", Source: srcARDSNet})
 	}
-	if f.PlateauCmH2O > PlateauStopCmH2O {
-		add(Caution{ID: "plateau-high", Level: Stop, Value: f.PlateauCmH2O, Limit: PlateauStopCmH2O, Unit: "cmH2O",
-			Message: fmt.Sprintf("plateau pressure %.1f cmH2O is above %.0f, the limit of an emergency ventilator", f.PlateauCmH2O, PlateauStopCmH2O),
-			Advice:  "do not use: smaller hole; check the lung model against a measured plateau", Source: srcMHRA})
-	} else if f.PlateauCmH2O > PlateauMaxCmH2O {
-		add(Caution{ID: "plateau-high", Level: Warn, Value: f.PlateauCmH2O, Limit: PlateauMaxCmH2O, Unit: "cmH2O",
-			Message: fmt.Sprintf("plateau pressure %.1f cmH2O is above %.0f", f.PlateauCmH2O, PlateauMaxCmH2O),
-			Advice:  "reduce tidal volume (smaller hole)", Source: srcARDSNet})
-	}
-	if f.DrivingCmH2O > DrivingMaxCmH2O {
-		add(Caution{ID: "driving-pressure-high", Level: Warn, Value: f.DrivingCmH2O, Limit: DrivingMaxCmH2O, Unit: "cmH2O",
-			Message: fmt.Sprintf("driving pressure (plateau above total PEEP) %.1f cmH2O is above %.0f", f.DrivingCmH2O, DrivingMaxCmH2O),
-			Advice:  "reduce tidal volume; review PEEP", Source: srcAmato})
-	}
-	if a.reliefCmH2O > 0 && f.PeakCmH2O > a.reliefCmH2O {
-		add(Caution{ID: "peak-above-relief", Level: Stop, Value: f.PeakCmH2O, Limit: a.reliefCmH2O, Unit: "cmH2O",
-			Message: fmt.Sprintf("peak pressure %.1f cmH2O is above this machine's relief valve at %.0f: the breath is pressure-limited and the patient gets less than shown", f.PeakCmH2O, a.reliefCmH2O),
-			Advice:  "use a smaller hole or a slower motor speed", Source: srcProfile})
-	}
-	if f.PeakCmH2O > PeakMaxCmH2O {
-		add(Caution{ID: "peak-high", Level: Stop, Value: f.PeakCmH2O, Limit: PeakMaxCmH2O, Unit: "cmH2O",
-			Message: fmt.Sprintf("peak pressure %.1f cmH2O is above %.0f", f.PeakCmH2O, PeakMaxCmH2O),
-			Advice:  "the patient must never see more than 40 cmH2O; smaller hole or slower speed", Source: srcMHRA})
-	}
+	out = append(out, pressureCautions(a)...)
 	if r := f.Timing.RateBPM; r > RateMaxBPM {
 		add(Caution{ID: "rate-high", Level: Warn, Value: r, Limit: RateMaxBPM, Unit: "/min",
 			Message: fmt.Sprintf("rate %.1f /min is above %.0f", r, RateMaxBPM),
@@ -205,20 +182,6 @@ func assess(a assessment) []Caution {
 		add(Caution{ID: "rate-low", Level: Warn, Value: r, Limit: RateMinBPM, Unit: "/min",
 			Message: fmt.Sprintf("rate %.1f /min is below %.0f", r, RateMinBPM),
 			Advice:  "check minute ventilation and CO2", Source: srcCommon})
-	}
-	if f.IntrinsicPEEPCmH2O > IntrinsicPEEPStop {
-		add(Caution{ID: "intrinsic-peep", Level: Stop, Value: f.IntrinsicPEEPCmH2O, Limit: IntrinsicPEEPStop, Unit: "cmH2O",
-			Message: fmt.Sprintf("intrinsic PEEP %.1f cmH2O is above %.0f: gas builds up breath after breath (%.0f mL trapped)", f.IntrinsicPEEPCmH2O, IntrinsicPEEPStop, f.TrappedML),
-			Advice:  "do not use: lower the rate or lengthen expiration (longer dwell)", Source: srcCommon})
-	} else if f.IntrinsicPEEPCmH2O > IntrinsicPEEPMax {
-		add(Caution{ID: "intrinsic-peep", Level: Warn, Value: f.IntrinsicPEEPCmH2O, Limit: IntrinsicPEEPMax, Unit: "cmH2O",
-			Message: fmt.Sprintf("intrinsic PEEP %.1f cmH2O is above %.0f: exhalation does not finish (%.0f mL trapped)", f.IntrinsicPEEPCmH2O, IntrinsicPEEPMax, f.TrappedML),
-			Advice:  "lower the rate or lengthen expiration (longer dwell)", Source: srcCommon})
-	}
-	if f.PEEPCmH2O < PEEPMinCmH2O {
-		add(Caution{ID: "peep-low", Level: Warn, Value: f.PEEPCmH2O, Limit: PEEPMinCmH2O, Unit: "cmH2O",
-			Message: fmt.Sprintf("PEEP %.1f cmH2O is below %.0f", f.PEEPCmH2O, PEEPMinCmH2O),
-			Advice:  "the protocol keeps PEEP at 5 or more", Source: srcARDSNet})
 	}
 	out = append(out, timingCautions(a)...)
 	out = append(out, ventilationCautions(a)...)
@@ -248,6 +211,52 @@ func assess(a assessment) []Caution {
 		}
 	}
 	sort.SliceStable(out, func(i, j int) bool { return out[i].Level > out[j].Level })
+	return out
+}
+
+// pressureCautions are the predicted pressures against their limits.
+func pressureCautions(a assessment) []Caution {
+	var out []Caution
+	add := func(c Caution) { out = append(out, c) }
+	f := a.f
+	if f.PlateauCmH2O > PlateauStopCmH2O {
+		add(Caution{ID: "plateau-high", Level: Stop, Value: f.PlateauCmH2O, Limit: PlateauStopCmH2O, Unit: "cmH2O",
+			Message: fmt.Sprintf("plateau pressure %.1f cmH2O is above %.0f, the limit of an emergency ventilator", f.PlateauCmH2O, PlateauStopCmH2O),
+			Advice:  "do not use: smaller hole; check the lung model against a measured plateau", Source: srcMHRA})
+	} else if f.PlateauCmH2O > PlateauMaxCmH2O {
+		add(Caution{ID: "plateau-high", Level: Warn, Value: f.PlateauCmH2O, Limit: PlateauMaxCmH2O, Unit: "cmH2O",
+			Message: fmt.Sprintf("plateau pressure %.1f cmH2O is above %.0f", f.PlateauCmH2O, PlateauMaxCmH2O),
+			Advice:  "reduce tidal volume (smaller hole)", Source: srcARDSNet})
+	}
+	if f.DrivingCmH2O > DrivingMaxCmH2O {
+		add(Caution{ID: "driving-pressure-high", Level: Warn, Value: f.DrivingCmH2O, Limit: DrivingMaxCmH2O, Unit: "cmH2O",
+			Message: fmt.Sprintf("driving pressure (plateau above total PEEP) %.1f cmH2O is above %.0f", f.DrivingCmH2O, DrivingMaxCmH2O),
+			Advice:  "reduce tidal volume; review PEEP", Source: srcAmato})
+	}
+	if a.reliefCmH2O > 0 && f.PeakCmH2O > a.reliefCmH2O {
+		add(Caution{ID: "peak-above-relief", Level: Stop, Value: f.PeakCmH2O, Limit: a.reliefCmH2O, Unit: "cmH2O",
+			Message: fmt.Sprintf("peak pressure %.1f cmH2O is above this machine's relief valve at %.0f: the breath is pressure-limited and the patient gets less than shown", f.PeakCmH2O, a.reliefCmH2O),
+			Advice:  "use a smaller hole or a slower motor speed", Source: srcProfile})
+	}
+	if f.PeakCmH2O > PeakMaxCmH2O {
+		add(Caution{ID: "peak-high", Level: Stop, Value: f.PeakCmH2O, Limit: PeakMaxCmH2O, Unit: "cmH2O",
+			Message: fmt.Sprintf("peak pressure %.1f cmH2O is above %.0f", f.PeakCmH2O, PeakMaxCmH2O),
+			Advice:  "the patient must never see more than 40 cmH2O; smaller hole or slower speed", Source: srcMHRA})
+	}
+	if f.IntrinsicPEEPCmH2O > IntrinsicPEEPStop {
+		add(Caution{ID: "intrinsic-peep", Level: Stop, Value: f.IntrinsicPEEPCmH2O, Limit: IntrinsicPEEPStop, Unit: "cmH2O",
+			Message: fmt.Sprintf("intrinsic PEEP %.1f cmH2O is above %.0f: gas builds up breath after breath (%.0f mL trapped)", f.IntrinsicPEEPCmH2O, IntrinsicPEEPStop, f.TrappedML),
+			Advice:  "do not use: lower the rate or lengthen expiration (longer dwell)", Source: srcCommon})
+	} else if f.IntrinsicPEEPCmH2O > IntrinsicPEEPMax {
+		add(Caution{ID: "intrinsic-peep", Level: Warn, Value: f.IntrinsicPEEPCmH2O, Limit: IntrinsicPEEPMax, Unit: "cmH2O",
+			Message: fmt.Sprintf("intrinsic PEEP %.1f cmH2O is above %.0f: exhalation does not finish (%.0f mL trapped)", f.IntrinsicPEEPCmH2O, IntrinsicPEEPMax, f.TrappedML),
+			Advice:  "lower the rate or lengthen expiration (longer dwell)", Source: srcCommon})
+	}
+	if f.PEEPCmH2O < PEEPMinCmH2O {
+		add(Caution{ID: "peep-low", Level: Warn, Value: f.PEEPCmH2O, Limit: PEEPMinCmH2O, Unit: "cmH2O",
+			Message: fmt.Sprintf("PEEP %.1f cmH2O is below %.0f", f.PEEPCmH2O, PEEPMinCmH2O),
+			Advice:  "the protocol keeps PEEP at 5 or more", Source: srcARDSNet})
+	}
 	return out
 }
 
@@ -426,9 +435,13 @@ func ProfileCautions(p profiles.Profile, now time.Time) ([]Caution, error) {
 	if err != nil {
 		return nil, err
 	}
-	out := append(reliefCautions(p.Circuit.ReliefCmH2O), calibrationCautions(u.cal)...)
+	return profileCautions(p, u.cal), nil
+}
+
+func profileCautions(p profiles.Profile, cal CalibrationStatus) []Caution {
+	out := append(reliefCautions(p.Circuit.ReliefCmH2O), calibrationCautions(cal)...)
 	sort.SliceStable(out, func(i, j int) bool { return out[i].Level > out[j].Level })
-	return out, nil
+	return out
 }
 
 // calibrationCautions are what a profile's bench calibration says on its

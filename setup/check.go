@@ -92,6 +92,12 @@ type Check struct {
 	Differences []Difference
 }
 
+// Unexplained reports whether no lung explains the readings: then none of
+// the current setting's predicted figures is what the patient gets, and a
+// screen must show the FitProblem in their place (the JSON prints them as
+// null; see CheckJSON.Unexplained).
+func (ck Check) Unexplained() bool { return ck.FitProblem != "" }
+
 // Difference is one figure of the current and proposed settings.
 type Difference struct {
 	What     string  `json:"what"`
