@@ -3,7 +3,7 @@ package setup_test
 import (
 	"bytes"
 	"encoding/json"
-
+	"os"
 	"path/filepath"
 	"strings"
 	"testing"
@@ -228,4 +228,20 @@ func TestErrorsPrintPlainDecimals(t *testing.T) {
 	_, err = setup.RunCheck(checkReq("8", 21, 140200.5), profile(t, "demo-a"))
 	require.Error(t, err)
 	require.NotContains(t, err.Error(), "e+")
+}
+
+func TestUnexplainedCardGolden(t *testing.T) {
+	// The 120/100 case with a proposal of hole 7, as the bedside
+	// folder would keep it. Regenerate with go test ./setup -run Card -update.
+	rec, err := setup.NewRecord(unexplainedCheck(t, true), "B4", "jk", today)
+	require.NoError(t, err)
+	var b bytes.Buffer
+	require.NoError(t, setup.WriteCard(&b, rec))
+	path := filepath.Join("testdata", "card-unexplained.golden")
+	if *update {
+		require.NoError(t, os.WriteFile(path, b.Bytes(), 0o644))
+	}
+	want, err := os.ReadFile(path)
+	require.NoError(t, err, "run go test ./setup -run Card -update")
+	require.Equal(t, string(want), b.String())
 }
