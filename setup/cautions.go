@@ -366,11 +366,11 @@ func timingCautions(a assessment) []Caution {
 	}
 	if tp.Speed == machine.SpeedLimited || tp.Raised {
 		pct := 100 * (t.TiS - tp.WantedTiS) / tp.WantedTiS
-		level, limit := Warn, tp.WantedTiS
+		level := Warn
 		if a.fixedMotor && math.Abs(pct) < TiChangeFixedNotePct {
 			level = Note
 		}
-		add(Caution{ID: "ti-not-reachable", Level: level, Value: t.TiS, Limit: limit, Unit: "s",
+		add(Caution{ID: "ti-not-reachable", Level: level, Value: t.TiS, Limit: tp.WantedTiS, Unit: "s",
 			Message: fmt.Sprintf("inspiratory time %.2f s wanted needs %.1f rpm; the motor is set to %.1f rpm, giving Ti %.2f s (%+.0f%%), I:E 1:%.1f",
 				tp.WantedTiS, tp.WantedRPM, t.RPM, t.TiS, pct, t.IE),
 			Advice: "accept the changed Ti and I:E or choose another rate", Source: srcProfile})
