@@ -92,7 +92,7 @@ func Calibrate(p profiles.Profile, points []profiles.BenchPoint, date string, no
 	res.Profile = p
 	res.Profile.Calibration = &profiles.Calibration{Date: date, Points: append([]profiles.BenchPoint(nil), points...)}
 	res.Cautions = calibrationCautions(CalibrationStatus{Calibration: fit.Calibration, Date: date, AgeDays: int(now.Sub(d).Hours() / 24),
-		Points: len(points), Holes: res.Holes, Fit: &fit, Outside: outside})
+		Points: len(points), Holes: res.Holes, Fit: &fit, Outside: outside, SweptMinML: old.cal.SweptMinML, SweptMaxML: old.cal.SweptMaxML})
 	for _, h := range p.Crank.Holes {
 		swept := machine.SweptVolumeML(p.Cylinder.BoreCm, old.crank(h))
 		res.Volumes = append(res.Volumes, VolumeChange{Hole: h.Label, SweptML: r4(swept),

@@ -24,7 +24,8 @@ func clean() assessment {
 		reliefCmH2O:  40,
 		timing:       &machine.TimingPlan{WantedTiS: 1.4},
 		targetMLPerK: 6, offTargetPct: 2,
-		cal:         CalibrationStatus{Fit: &machine.Fit{}, AgeDays: 5, Holes: 4, Date: "2026-11-26"},
+		cal: CalibrationStatus{Calibration: machine.Calibration{K: 0.95}, Fit: &machine.Fit{}, AgeDays: 5, Holes: 4, Date: "2026-11-26",
+			SweptMinML: 150, SweptMaxML: 1200},
 		ratedTorque: 12,
 	}
 }

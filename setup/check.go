@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"sort"
 	"time"
 
 	"crankside/machine"
@@ -91,6 +92,12 @@ type Check struct {
 	Differences []Difference
 }
 
+// Unexplained reports whether no lung explains the readings: then none of
+// the current setting's predicted figures is what the patient gets, and a
+// screen must show the FitProblem in their place (the JSON prints them as
+// null; see CheckJSON.Unexplained).
+func (ck Check) Unexplained() bool { return ck.FitProblem != "" }
+
 // Difference is one figure of the current and proposed settings.
 type Difference struct {
 	What     string  `json:"what"`
@@ -103,8 +110,11 @@ type Difference struct {
 // RunCheck evaluates an observed setting. A setting the machine cannot run
 // (an unknown hole, a speed off the motor's range or step, a dwell off the
 // controller's step) is refused with the reason. Readings that no lung
-// reproduces do not stop the check: FitProblem says which to re-take and
-// the figures use the assumed mechanics.
+// reproduces do not stop the check: FitProblem says which to re-take, the
+// current cautions carry the readings-unexplained stop, and the figures
+// use the assumed mechanics (the JSON and every report then withhold the
+// current setting's predicted figures). The readings are judged on their
+// own (ReadingCautions) whatever the fit gives.
 func RunCheck(req CheckRequest, p profiles.Profile) (Check, error) {
 	now := orNow(req.Now)
 	pbw, err := pbwOf(req.Patient)
@@ -145,6 +155,7 @@ func RunCheck(req CheckRequest, p profiles.Profile) (Check, error) {
 	if err != nil {
 		return Check{}, err
 	}
+	ck.Current.Cautions = checkCautions(req.Readings, cur.PEEPCmH2O, u.p.Circuit.ReliefCmH2O, ck.FitProblem, ck.Current.Cautions)
 	if !req.Proposal.Empty() {
 		next := req.Proposal.Apply(cur)
 		if err := checkSetting(u, next, "propose-"); err != nil {
@@ -153,6 +164,10 @@ func RunCheck(req CheckRequest, p profiles.Profile) (Check, error) {
 		ev, err := evaluateSetting(u, next, lung, pbw, req)
 		if err != nil {
 			return Check{}, err
+		}
+		if ck.FitProblem != "" {
+			ev.Cautions = append([]Caution{assumedLungCaution()}, ev.Cautions...)
+			sort.SliceStable(ev.Cautions, func(i, j int) bool { return ev.Cautions[i].Level > ev.Cautions[j].Level })
 		}
 		ck.Proposed = &ev
 		ck.Differences = differences(ck.Current.Figures, ev.Figures)
@@ -171,12 +186,12 @@ func checkSetting(u unit, s Setting, prefix string) error {
 	m := u.p.Motor
 	if !u.motor.Settable(s.RPM) {
 		if m.Fixed() {
-			return &InputError{Field: prefix + "rpm", Reason: fmt.Sprintf("%g rpm: this motor runs only at %g rpm", s.RPM, m.RPM)}
+			return &InputError{Field: prefix + "rpm", Reason: fmt.Sprintf("%s rpm: this motor runs only at %s rpm", plain(s.RPM), plain(m.RPM))}
 		}
-		return &InputError{Field: prefix + "rpm", Reason: fmt.Sprintf("%g rpm is not a speed of this motor: %g-%g rpm in %g rpm steps", s.RPM, m.MinRPM, u.motor.TopRPM(), m.RPMStep)}
+		return &InputError{Field: prefix + "rpm", Reason: fmt.Sprintf("%s rpm is not a speed of this motor: %s-%s rpm in %s rpm steps", plain(s.RPM), plain(m.MinRPM), plain(u.motor.TopRPM()), plain(m.RPMStep))}
 	}
 	if !u.controller.Settable(s.DwellS) {
-		return &InputError{Field: prefix + "dwell-s", Reason: fmt.Sprintf("%g s is not a dwell of this controller: 0-%g s in %g s steps", s.DwellS, u.controller.MaxSettableDwellS(), u.controller.DwellStepS)}
+		return &InputError{Field: prefix + "dwell-s", Reason: fmt.Sprintf("%s s is not a dwell of this controller: 0-%s s in %s s steps", plain(s.DwellS), plain(u.controller.MaxSettableDwellS()), plain(u.controller.DwellStepS))}
 	}
 	if err := checkRange(prefix+"peep", "PEEP", s.PEEPCmH2O, physiology.PEEPMin, physiology.PEEPMax, "cmH2O"); err != nil {
 		return err
@@ -186,6 +201,9 @@ func checkSetting(u unit, s Setting, prefix string) error {
 	}
 	return nil
 }
+
+// plain prints a number in an error as a plain decimal, never 1.402e+05.
+func plain(v float64) string { return physiology.PlainNumber(v) }
 
 func holeLabels(p profiles.Profile) string {
 	var out string
@@ -209,7 +227,7 @@ func evaluateSetting(u unit, s Setting, lung machine.Lung, pbw float64, req Chec
 		return Evaluation{}, &InputError{Field: "setting", Reason: err.Error()}
 	}
 	cs := assess(assessment{heightCm: req.Patient.HeightCm, pbwKg: pbw, f: f, reliefCmH2O: u.p.Circuit.ReliefCmH2O,
-		cal: u.cal, ratedTorque: u.p.Motor.RatedTorqueNm})
+		cal: u.cal, ratedTorque: u.p.Motor.RatedTorqueNm, fixedMotor: u.p.Motor.Fixed()})
 	return Evaluation{Setting: s, Figures: f, Cautions: cs}, nil
 }
 

@@ -47,6 +47,26 @@ func SettingHeading(cs []Caution, instruction string) string {
 	return instruction
 }
 
+// StopLine names the first stop in full, for the line over a setting that
+// must not be used; "" without a stop.
+func StopLine(cs []Caution) string {
+	if s := FirstStop(cs); s != nil {
+		return "STOP  " + s.ID + ": " + s.Message
+	}
+	return ""
+}
+
+// UnexplainedLine says, with the level word, that the readings cannot be
+// explained and why, in full.
+func UnexplainedLine(fitProblem string) string {
+	return "STOP  THE READINGS CANNOT BE EXPLAINED: " + fitProblem +
+		". Nothing here is what the patient gets now: check the patient and the circuit, then re-take both readings."
+}
+
+// AssumedLungLabel heads a proposal's figures when the readings could not
+// be explained.
+const AssumedLungLabel = "with the ASSUMED lung (the readings could not be explained)"
+
 func (w *reportWriter) checkBody(j CheckJSON) {
 	cur := j.Setting
 	var prop *Setting
@@ -54,25 +74,56 @@ func (w *reportWriter) checkBody(j CheckJSON) {
 	if j.Proposed != nil {
 		prop, propFigures = &j.Proposed.Setting, &j.Proposed.FiguresJSON
 	}
-	if s := FirstStop(j.Cautions); s != nil {
-		w.line("STOP  %s", s.Message)
+	if j.Unexplained() {
+		w.line("%s", UnexplainedLine(j.FitProblem))
+	}
+	if s := FirstStop(j.Cautions); s != nil && s.ID != "readings-unexplained" {
+		w.line("%s", StopLine(j.Cautions))
 	}
 	w.settingTable(cur, prop, j.Cautions)
 	if j.Readings != nil {
 		w.line("MANOMETER  peak %.1f cmH2O, end of inspiration %.1f cmH2O", j.Readings.PeakCmH2O, j.Readings.EndCmH2O)
 	}
-	if j.FittedComplianceMLPerCmH2O != nil {
+	switch {
+	case j.FittedComplianceMLPerCmH2O != nil:
 		w.line("LUNG (fitted)  C %.0f mL/cmH2O, R %.0f cmH2O/(L/s)", *j.FittedComplianceMLPerCmH2O, *j.FittedResistanceCmH2OPerLS)
-	} else {
+	case j.Unexplained():
+		w.line("LUNG (ASSUMED, the readings could not be explained)  C %.0f mL/cmH2O, R %.0f cmH2O/(L/s) (%s)", j.ComplianceMLPerCmH2O, j.ResistanceCmH2OPerLS, j.MechanicsSource)
+	default:
 		w.line("LUNG (assumed)  C %.0f mL/cmH2O, R %.0f cmH2O/(L/s) (%s)", j.ComplianceMLPerCmH2O, j.ResistanceCmH2OPerLS, j.MechanicsSource)
 	}
-	if j.FitProblem != "" {
-		w.line("READINGS  %s", j.FitProblem)
+	if j.Unexplained() {
+		w.unexplainedFigures(j.FiguresJSON, propFigures)
+	} else {
+		w.figureTable("THE PATIENT GETS", FigureRows(j.FiguresJSON, propFigures))
 	}
-	w.figureTable(FigureRows(j.FiguresJSON, propFigures))
 	w.cautionList("NOW", j.Cautions)
 	if j.Proposed != nil {
-		w.cautionList("PROPOSED", j.Proposed.Cautions)
+		label := "PROPOSED"
+		if j.Unexplained() {
+			label += " " + AssumedLungLabel
+		}
+		w.cautionList(label, j.Proposed.Cautions)
+	}
+}
+
+// lungFreeRows are the figures the machine's timing alone sets.
+var lungFreeRows = []string{"rate_bpm", "ti_s", "te_s", "ie_ratio"}
+
+// unexplainedFigures replaces THE PATIENT GETS when no lung explains the
+// readings: the machine's own timing, and a proposal's figures labelled as
+// resting on the assumed lung.
+func (w *reportWriter) unexplainedFigures(cur FiguresJSON, prop *FiguresJSON) {
+	w.line("THE PATIENT GETS: NOT KNOWN (the readings cannot be explained; no predicted figure is shown for this setting)")
+	w.line("THE MACHINE'S TIMING NOW (does not depend on the lung)")
+	rows := FigureRows(cur, nil)
+	for _, id := range lungFreeRows {
+		if r, ok := RowByID(rows, id); ok {
+			w.line("%-28s %10s", "  "+r.Label+unitSuffix(r.Unit), r.Text)
+		}
+	}
+	if prop != nil {
+		w.figureTable("PROPOSED, "+AssumedLungLabel, FigureRows(*prop, nil))
 	}
 }
 
@@ -103,12 +154,12 @@ func unitSuffix(unit string) string {
 	return " (" + unit + ")"
 }
 
-func (w *reportWriter) figureTable(rows []Row) {
+func (w *reportWriter) figureTable(title string, rows []Row) {
 	proposal := len(rows) > 0 && rows[0].HasProposal
 	if proposal {
-		w.line("%-28s %10s %10s %8s", "THE PATIENT GETS", "now", "proposed", "change")
+		w.line("%-28s %10s %10s %8s", title, "now", "proposed", "change")
 	} else {
-		w.line("THE PATIENT GETS")
+		w.line("%s", title)
 	}
 	for _, r := range rows {
 		label := "  " + r.Label + unitSuffix(r.Unit)
@@ -157,6 +208,9 @@ func WriteCard(w io.Writer, r Record) error {
 	by := r.Initials
 	if by == "" {
 		by = "(initials not given)"
+	}
+	if r.Unexplained() {
+		rw.line("STOP: READINGS UNEXPLAINED - NOTHING ON THIS CARD IS WHAT THE PATIENT GETS")
 	}
 	if s := FirstStop(r.Cautions); s != nil {
 		rw.line("STOP: THIS SETTING IS NOT TO BE USED AS IT IS (%s)", s.ID)

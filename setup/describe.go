@@ -25,8 +25,10 @@ type ProfileSummary struct {
 	Holes       []HoleGeometry
 	Calibration CalibrationStatus
 	InLine      bool
-	// Cautions are the calibration's: missing, old, dated ahead, points
-	// outside tolerance, too few holes.
+	// Cautions are the profile's own (ProfileCautions): a relief valve
+	// above 40 cmH2O, and the calibration's: missing, old, dated ahead,
+	// points outside tolerance, too few holes, an implausible k, an
+	// effective volume above the geometric one.
 	Cautions []Caution
 }
 
@@ -37,7 +39,7 @@ func DescribeProfile(p profiles.Profile, now time.Time) (ProfileSummary, error) 
 	if err != nil {
 		return ProfileSummary{}, err
 	}
-	s := ProfileSummary{Profile: p, Calibration: u.cal, InLine: p.Crank.OffsetCm == 0, Cautions: calibrationCautions(u.cal)}
+	s := ProfileSummary{Profile: p, Calibration: u.cal, InLine: p.Crank.OffsetCm == 0, Cautions: profileCautions(p, u.cal)}
 	for _, h := range p.Crank.Holes {
 		c := u.crank(h)
 		swept := machine.SweptVolumeML(p.Cylinder.BoreCm, c)
@@ -78,6 +80,12 @@ func (s ProfileSummary) WriteText(w io.Writer) error {
 	fmt.Fprintf(&b, "\n  %-6s %10s %10s %10s %12s\n", "hole", "radius cm", "stroke cm", "swept mL", "calibr. mL")
 	for _, h := range s.Holes {
 		fmt.Fprintf(&b, "  %-6s %10.2f %10.2f %10.1f %12.1f\n", h.Label, h.RadiusCm, h.StrokeCm, h.SweptML, h.EffectiveSweptML)
+	}
+	if len(s.Cautions) > 0 {
+		fmt.Fprintf(&b, "\nCAUTIONS (%d, highest %s)\n", len(s.Cautions), LevelWord(Highest(s.Cautions)))
+	}
+	for _, c := range s.Cautions {
+		fmt.Fprintf(&b, "  %-4s %s: %s; %s [%s]\n", LevelWord(c.Level), c.ID, c.Message, c.Advice, c.Source)
 	}
 	_, err := io.WriteString(w, b.String())
 	return err

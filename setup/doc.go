@@ -11,6 +11,15 @@
 // Cautions are computed here, in one place, from the figures; nothing that
 // shows a plan or a check computes one.
 //
+// A handover check judges the manometer's readings on their own first
+// (ReadingCautions: a measured peak above 40 cmH2O or the relief valve, an
+// end reading at or below PEEP, a peak below the end reading are stops,
+// whatever a lung model makes of them). When no lung explains the readings
+// the check carries a readings-unexplained stop, its JSON and record print
+// the current setting's predicted figures as null (WithheldFigureKeys), and
+// the text and the card say so in their place; a proposal is still
+// evaluated, on the assumed lung, and labelled so.
+//
 // Units follow the names: cm, kg, mL, s, cmH2O, mL/cmH2O, cmH2O/(L/s), L/min
 // for flows shown to people, rpm, N m. The ranges a person may enter are in
 // package physiology (heights 130-230 cm, 4-10 mL/kg PBW, I:E 1:1 to 1:4,

@@ -88,7 +88,7 @@ func evaluate(u unit, h profiles.Hole, t machine.Timing, ls lungState, o2LPerMin
 	f.TauS = physiology.TimeConstantS(ls.lung.ResistanceCmH2OPerLS+u.p.Circuit.ExpiratoryResistanceCmH2OPerLS, c)
 	f.TrappedML = physiology.TrappedVolumeML(rest.DeliveredML, t.TeS, f.TauS)
 	if math.IsInf(f.TrappedML, 0) || math.IsNaN(f.TrappedML) {
-		return Figures{}, fmt.Errorf("setup: no time to exhale (Te %.3g s)", t.TeS)
+		return Figures{}, fmt.Errorf("setup: no time to exhale (Te %s s)", physiology.PlainNumber(t.TeS))
 	}
 	r, err := machine.SimulateStroke(machine.StrokeInput{
 		Stroke: u.stroke(h, t.RPM, u.cal.Calibration), Lung: ls.lung,

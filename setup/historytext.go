@@ -9,6 +9,11 @@ func HistoryLine(r Record) string {
 	line := fmt.Sprintf("%s UTC  %-4s  hole %s, %.1f rpm, dwell %.1f s, PEEP %.0f: %.0f mL %.1f mL/kg, %d caution(s)",
 		r.Time.UTC().Format("2006-01-02 15:04"), r.Initials, r.Setting.Hole, r.Setting.RPM, r.Setting.DwellS,
 		r.Setting.PEEPCmH2O, r.DeliveredVtML, r.MLPerKg, len(r.Cautions))
+	if r.Unexplained() {
+		line = fmt.Sprintf("%s UTC  %-4s  hole %s, %.1f rpm, dwell %.1f s, PEEP %.0f: STOP readings unexplained, volume not known, %d caution(s)",
+			r.Time.UTC().Format("2006-01-02 15:04"), r.Initials, r.Setting.Hole, r.Setting.RPM, r.Setting.DwellS,
+			r.Setting.PEEPCmH2O, len(r.Cautions))
+	}
 	if len(r.Cautions) > 0 {
 		line += ", highest " + LevelWord(Highest(r.Cautions))
 	}

@@ -219,7 +219,12 @@ func recordChanges(a, b Record) []string {
 	num("dwell", a.Setting.DwellS, b.Setting.DwellS, "s", 1e-9)
 	num("PEEP", a.Setting.PEEPCmH2O, b.Setting.PEEPCmH2O, "cmH2O", 1e-9)
 	num("O2", a.Setting.O2LPerMin, b.Setting.O2LPerMin, "L/min", 1e-9)
-	num("tidal volume", a.DeliveredVtML, b.DeliveredVtML, "mL", 0.5)
+	if a.Unexplained() || b.Unexplained() {
+		// No volume is known for a check whose readings no lung explains.
+		str("readings", explainedWord(a), explainedWord(b))
+	} else {
+		num("tidal volume", a.DeliveredVtML, b.DeliveredVtML, "mL", 0.5)
+	}
 	if a.Readings != nil && b.Readings != nil {
 		num("peak reading", a.Readings.PeakCmH2O, b.Readings.PeakCmH2O, "cmH2O", 1e-9)
 		num("end reading", a.Readings.EndCmH2O, b.Readings.EndCmH2O, "cmH2O", 1e-9)
@@ -231,6 +236,13 @@ func recordChanges(a, b Record) []string {
 		out = append(out, "no change")
 	}
 	return out
+}
+
+func explainedWord(r Record) string {
+	if r.Unexplained() {
+		return "unexplained"
+	}
+	return "explained"
 }
 
 // EnsureLogDir creates the log's directory, owner-only, if it is missing:

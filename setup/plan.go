@@ -129,7 +129,7 @@ func MakePlan(req Request, p profiles.Profile) (Plan, error) {
 	pl.Cautions = assess(assessment{
 		heightCm: req.Patient.HeightCm, pbwKg: pbw, f: pl.Figures, reliefCmH2O: p.Circuit.ReliefCmH2O,
 		timing: &pl.Timing, targetMLPerK: r.mlPerKg.Value, offTargetPct: pl.OffTargetPct,
-		cal: u.cal, ratedTorque: p.Motor.RatedTorqueNm,
+		cal: u.cal, ratedTorque: p.Motor.RatedTorqueNm, fixedMotor: p.Motor.Fixed(),
 	})
 	if err := finite(pl); err != nil {
 		return Plan{}, err

@@ -111,8 +111,11 @@ func TestPlanFixedSpeedMotorDemoB(t *testing.T) {
 	require.InDelta(t, 1.5, pl.Timing.TiS, 1e-12)
 	require.InDelta(t, 1.3, pl.Timing.DwellS, 1e-9)
 	require.InDelta(t, 13.953488372, pl.Timing.RateBPM, 1e-9, "60 / 4.3 s (derived)")
-	// The wanted Ti (1.43 s) needs 21 rpm: not silently clamped.
-	require.True(t, has(pl, "ti-not-reachable", setup.Warn))
+	// The wanted Ti (1.43 s) needs 21 rpm: not silently clamped. On a
+	// fixed-speed motor a Ti 5% off the wanted one (1.5 / 1.4286 - 1,
+	// derived) is under the 20% that makes it a warn (issue 10): a note.
+	require.True(t, has(pl, "ti-not-reachable", setup.Note))
+	require.False(t, has(pl, "ti-not-reachable", setup.Warn))
 	// The bench calibration is applied: effective = k x swept + b, with k
 	// 0.946536 and b -4.368 mL worked by hand from the demo's four bench
 	// points (see TestCalibrateDemoBBenchByHand). Hole C (r 3.0 cm, bore
@@ -175,7 +178,9 @@ func TestPlanHighVolumeAndPressureCautions(t *testing.T) {
 	pl := plan(t, "demo-a", setup.Patient{HeightCm: 180, Sex: physiology.Male},
 		setup.Targets{MLPerKg: 9.5, ComplianceMLPerCmH2O: 12})
 	require.True(t, has(pl, "tidal-volume-high", setup.Warn))
-	require.True(t, has(pl, "plateau-high", setup.Warn))
+	// Plateau above 35 is a stop (MHRA RMVS001 2020: plateau limited to 35).
+	require.Greater(t, pl.PlateauCmH2O, 35.0)
+	require.True(t, has(pl, "plateau-high", setup.Stop))
 	require.True(t, has(pl, "driving-pressure-high", setup.Warn))
 	require.True(t, has(pl, "peak-above-relief", setup.Stop))
 	require.True(t, has(pl, "peak-high", setup.Stop))

@@ -1,6 +1,8 @@
 package setup
 
 import (
+	"bytes"
+	"encoding/json"
 	"fmt"
 	"strings"
 	"time"
@@ -44,11 +46,103 @@ type CheckJSON struct {
 	ClinicalCaution string        `json:"clinical_caution"`
 }
 
+// Unexplained reports whether no lung explains the readings: then no
+// predicted figure of the current setting is what the patient gets, the
+// JSON prints each of them as null (WithheldFigureKeys) and every report
+// says so in their place.
+func (j CheckJSON) Unexplained() bool { return j.FitProblem != "" }
+
+// WithheldFigureKeys are the current setting's predicted figures, which
+// depend on the lung: null in the JSON when the readings are unexplained.
+// The setting's own values (hole, swept volumes, speed, dwell, rate, Ti,
+// Te, I:E, PEEP valve, oxygen flow and cylinder time) do not depend on the
+// lung and stay.
+var WithheldFigureKeys = []string{
+	"delivered_vt_ml", "ml_per_kg", "fio2", "minute_ventilation_l_min", "peak_flow_l_min",
+	"peak_pressure_cmh2o", "end_inspiratory_pressure_cmh2o", "plateau_pressure_cmh2o",
+	"driving_pressure_cmh2o", "intrinsic_peep_cmh2o", "trapped_volume_ml", "exhalation_tau_s",
+	"peak_torque_nm", "rated_torque_share",
+}
+
+// checkJSONFields has CheckJSON's fields without its methods.
+type checkJSONFields CheckJSON
+
+// MarshalJSON writes the check with every key in order; when the readings
+// are unexplained the current setting's predicted figures are null.
+func (j CheckJSON) MarshalJSON() ([]byte, error) {
+	b, err := json.Marshal(checkJSONFields(j))
+	if err != nil || !j.Unexplained() {
+		return b, err
+	}
+	return nullTopLevel(b, WithheldFigureKeys)
+}
+
+// nullTopLevel rewrites the values of the named keys of a JSON object (its
+// own keys, not those of nested objects) as null, keeping the key order.
+func nullTopLevel(obj []byte, keys []string) ([]byte, error) {
+	withheld := map[string]bool{}
+	for _, k := range keys {
+		withheld[k] = true
+	}
+	dec := json.NewDecoder(bytes.NewReader(obj))
+	if t, err := dec.Token(); err != nil || t != json.Delim('{') {
+		return nil, fmt.Errorf("setup: check JSON is not an object")
+	}
+	var out bytes.Buffer
+	out.WriteByte('{')
+	for i := 0; dec.More(); i++ {
+		t, err := dec.Token()
+		if err != nil {
+			return nil, err
+		}
+		key, _ := t.(string)
+		var v json.RawMessage
+		if err := dec.Decode(&v); err != nil {
+			return nil, err
+		}
+		if withheld[key] {
+			v = json.RawMessage("null")
+		}
+		kb, _ := json.Marshal(key)
+		if i > 0 {
+			out.WriteByte(',')
+		}
+		out.Write(kb)
+		out.WriteByte(':')
+		out.Write(v)
+	}
+	out.WriteByte('}')
+	return out.Bytes(), nil
+}
+
 // ProposedJSON is a proposed change's setting, figures and differences.
 type ProposedJSON struct {
 	Setting Setting `json:"setting"`
 	EvaluationJSON
-	Differences []Difference `json:"differences"`
+	Differences []DifferenceJSON `json:"differences"`
+}
+
+// DifferenceJSON is one figure now and proposed. Current and change are
+// null when the readings are unexplained and the figure depends on the
+// lung: nothing is then known of what the patient gets now.
+type DifferenceJSON struct {
+	What     string   `json:"what"`
+	Unit     string   `json:"unit"`
+	Current  *float64 `json:"current"`
+	Proposed float64  `json:"proposed"`
+	Change   *float64 `json:"change"`
+}
+
+// lungFree are the differences that the machine's timing alone sets.
+var lungFree = map[string]bool{"rate": true, "Ti": true, "Te": true, "I:E (E of 1:E)": true, "PEEP": true}
+
+func differenceJSON(d Difference, unexplained bool) DifferenceJSON {
+	j := DifferenceJSON{What: d.What, Unit: d.Unit, Proposed: r4(d.Proposed)}
+	if !unexplained || lungFree[d.What] {
+		c, ch := r4(d.Current), r4(d.Change)
+		j.Current, j.Change = &c, &ch
+	}
+	return j
 }
 
 func evaluationJSON(e Evaluation) EvaluationJSON {
@@ -73,7 +167,7 @@ func (ck Check) JSON() CheckJSON {
 	if ck.Proposed != nil {
 		p := &ProposedJSON{Setting: ck.Proposed.Setting, EvaluationJSON: evaluationJSON(*ck.Proposed)}
 		for _, d := range ck.Differences {
-			p.Differences = append(p.Differences, Difference{What: d.What, Unit: d.Unit, Current: r4(d.Current), Proposed: r4(d.Proposed), Change: r4(d.Change)})
+			p.Differences = append(p.Differences, differenceJSON(d, ck.FitProblem != ""))
 		}
 		j.Proposed = p
 	}
@@ -88,6 +182,32 @@ type Record struct {
 	Bed      string    `json:"bed"`
 	Initials string    `json:"initials"`
 	CheckJSON
+}
+
+// recordHead is a record's own keys, before the check's.
+type recordHead struct {
+	Format   string    `json:"format"`
+	Time     time.Time `json:"time"`
+	Bed      string    `json:"bed"`
+	Initials string    `json:"initials"`
+}
+
+// MarshalJSON writes the record's own keys, then the check's as
+// CheckJSON writes them (its MarshalJSON would otherwise stand for the
+// whole record, since the check is embedded).
+func (r Record) MarshalJSON() ([]byte, error) {
+	head, err := json.Marshal(recordHead{Format: r.Format, Time: r.Time, Bed: r.Bed, Initials: r.Initials})
+	if err != nil {
+		return nil, err
+	}
+	body, err := r.CheckJSON.MarshalJSON()
+	if err != nil {
+		return nil, err
+	}
+	if len(body) <= 2 {
+		return head, nil
+	}
+	return append(append(head[:len(head)-1], ','), body[1:]...), nil
 }
 
 // NewRecord stamps a check with its bed, initials and time.

@@ -163,6 +163,9 @@ func (pl Plan) WriteText(w io.Writer) error {
 	p("Target    %.1f mL/kg PBW = %.0f mL, rate %.0f /min, I:E 1:%.1f, PEEP %.0f cmH2O, FiO2 %.2f\n",
 		pl.MLPerKg.Value, pl.TargetVtML, pl.Rate.Value, pl.IE.Value, pl.PEEP.Value, pl.FiO2.Value)
 	p("Lung      C %.0f mL/cmH2O (%s), R %.0f cmH2O/(L/s) (%s)\n", pl.Compliance.Value, pl.Compliance.Source, pl.Resistance.Value, pl.Resistance.Source)
+	if line := StopLine(pl.Cautions); line != "" {
+		p("\n%s", line)
+	}
 	p("\n%s\n", SettingHeading(pl.Cautions, "SET THE MACHINE"))
 	p("  Hole          %s  (swept %.0f mL, calibrated %.0f mL)\n", pl.Hole.Label, pl.Hole.SweptML, pl.Hole.EffectiveSweptML)
 	p("  Motor speed   %.1f rpm\n", pl.Timing.RPM)

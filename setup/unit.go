@@ -29,6 +29,10 @@ type CalibrationStatus struct {
 	BenchRows []profiles.BenchPoint
 	// Outside counts bench points outside +/-(4 mL + 15%) of the fitted model.
 	Outside int
+	// SweptMinML and SweptMaxML are the smallest and largest geometric
+	// swept volumes of the machine's holes (the calibration is linear, so
+	// these two tell whether any hole's effective volume exceeds its own).
+	SweptMinML, SweptMaxML float64
 }
 
 func newUnit(p profiles.Profile, now time.Time) (unit, error) {
@@ -72,6 +76,7 @@ func (u unit) stroke(h profiles.Hole, rpm float64, cal machine.Calibration) mach
 // swept volume.
 func fitCalibration(u unit, now time.Time) (CalibrationStatus, error) {
 	st := CalibrationStatus{Calibration: machine.Identity}
+	st.SweptMinML, st.SweptMaxML = sweptRange(u.p)
 	c := u.p.Calibration
 	if c == nil {
 		return st, nil
@@ -101,6 +106,20 @@ func fitCalibration(u unit, now time.Time) (CalibrationStatus, error) {
 	}
 	st.Holes = len(holes)
 	return st, nil
+}
+
+// sweptRange is the smallest and largest geometric swept volume of p's holes.
+func sweptRange(p profiles.Profile) (minML, maxML float64) {
+	for i, h := range p.Crank.Holes {
+		v := machine.SweptVolumeML(p.Cylinder.BoreCm, machine.Crank{RadiusCm: h.RadiusCm, RodCm: p.Crank.RodCm, OffsetCm: p.Crank.OffsetCm})
+		if i == 0 || v < minML {
+			minML = v
+		}
+		if i == 0 || v > maxML {
+			maxML = v
+		}
+	}
+	return minML, maxML
 }
 
 // BenchGains runs the breath model for each bench point (test lung, speed,

@@ -107,7 +107,7 @@ func TestPlanTextCarriesUnitsLevelsAndTheClinicalLine(t *testing.T) {
 	r := crankside(t, "plan", "--height-cm", "175", "--sex", "male", "--profile", "demo-b")
 	require.Equal(t, 0, r.status, r.stderr)
 	for _, want := range []string{"PBW 70.6 kg", "Hole          ", "Motor speed   20.0 rpm", "Dwell", " s\n",
-		"cmH2O", "L/min", "WARN ti-not-reachable", "responsible clinician under local protocols"} {
+		"cmH2O", "L/min", "WARN relief-above-40", "NOTE ti-not-reachable", "responsible clinician under local protocols"} {
 		require.Contains(t, r.stdout, want)
 	}
 }

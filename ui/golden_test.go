@@ -1,6 +1,7 @@
 package ui
 
 import (
+	"fmt"
 	"math/rand"
 	"os"
 	"path/filepath"
@@ -81,4 +82,50 @@ func TestRandomKeysAndSizes(t *testing.T) {
 		m.Update(tea.WindowSizeMsg{Width: 80, Height: 24})
 		require.Contains(t, screen(m), "responsible clinician")
 	}
+}
+
+// The handover panel with a proposal, a stop plan on the Setting panel and
+// a reading no lung explains, at the smallest window and a common one.
+func TestHandoverAndStopGoldens(t *testing.T) {
+	check := func(t *testing.T, entries map[string]string) *Model {
+		m, _ := handoverModel(t)
+		// A log path that is the same on every run, for the golden.
+		m.logPath = "handover.jsonl"
+		m.out.logNote = logNote(m.logPath)
+		for name, v := range entries {
+			m.checkField(name).SetValue(v)
+		}
+		m.recompute()
+		return m
+	}
+	proposal := map[string]string{"bed": "B4", "initials": "ab", "hole": "8", "rpm": "21", "dwell-s": "1.4",
+		"peak": "17", "end-pressure": "14", "propose-hole": "7", "propose-peep": "8"}
+	unexplained := map[string]string{"bed": "B4", "initials": "ab", "hole": "8", "rpm": "21", "dwell-s": "1.4",
+		"peak": "120", "end-pressure": "100"}
+	for _, size := range [][2]int{{80, 24}, {120, 40}} {
+		name := func(what string) string { return fmt.Sprintf("%s-%dx%d", what, size[0], size[1]) }
+		t.Run(name("handover-proposal"), func(t *testing.T) {
+			m := check(t, proposal)
+			m.Update(tea.WindowSizeMsg{Width: size[0], Height: size[1]})
+			golden(t, name("handover-proposal"), screen(m))
+		})
+		t.Run(name("handover-unexplained"), func(t *testing.T) {
+			m := check(t, unexplained)
+			m.Update(tea.WindowSizeMsg{Width: size[0], Height: size[1]})
+			v := screen(m)
+			require.Contains(t, v, "STOP")
+			require.Contains(t, v, "CANNOT BE EXPLAINED")
+			require.Contains(t, v, "NOT KNOWN")
+			require.NotContains(t, v, "429 mL", "no predicted volume anywhere on the screen")
+			golden(t, name("handover-unexplained"), v)
+		})
+	}
+	t.Run("setting-stop-80x24", func(t *testing.T) {
+		m := newTestModel(t, map[string]string{"height-cm": "175", "sex": "male", "ml-per-kg": "9.5", "compliance": "12"})
+		press(m, fkey(4))
+		v := screen(m)
+		require.Contains(t, v, "STOP: DO NOT USE THIS SETTING")
+		require.NotContains(t, v, "SET ON THE MACHINE")
+		golden(t, "setting-stop-80x24", v)
+	})
 }

@@ -128,10 +128,11 @@ func (p *handoverPanel) results() string {
 	add := func(x string) { l = append(l, x) }
 	if o != nil && o.saveNote != "" {
 		add(o.saveNote)
-	} else if o != nil {
-		add(s.Hint.Render(o.logNote))
 	}
 	if o == nil || o.check == nil {
+		if o != nil && o.saveNote == "" {
+			add(s.Hint.Render(o.logNote))
+		}
 		var reasons []string
 		if o != nil {
 			reasons = o.checkWaiting
@@ -143,24 +144,44 @@ func (p *handoverPanel) results() string {
 	for _, w := range o.checkWaiting {
 		add(s.Hint.Render(w))
 	}
+	if ck.Unexplained() {
+		// A measured alarm is never replaced by a calm prediction: the
+		// reason comes first, in full, and no figure is shown as what
+		// the patient gets.
+		add(s.levelWord(setup.Stop) + " " + s.Error.Render(strings.TrimPrefix(setup.UnexplainedLine(ck.FitProblem), "STOP  ")))
+	}
 	if st := setup.FirstStop(ck.Current.Cautions); st != nil {
 		add(s.levelWord(setup.Stop) + " " + s.Error.Render("DO NOT USE THIS SETTING AS IT IS: "+st.Message))
 	}
 	lung := fmt.Sprintf("C %.0f mL/cmH2O, R %.0f cmH2O/(L/s)", ck.Mechanics.Value, ck.Resistance.Value)
-	if ck.Fitted != nil {
+	switch {
+	case ck.Fitted != nil:
 		add(s.Label.Render("Fitted lung ") + s.Value.Render(lung))
-	} else {
+	case ck.Unexplained():
+		add(s.Label.Render("ASSUMED lung (readings unexplained) ") + s.Value.Render(lung))
+	default:
 		add(s.Label.Render("Assumed lung ") + s.Value.Render(lung) + s.Hint.Render(" ("+ck.Mechanics.Source+")"))
-	}
-	if ck.FitProblem != "" {
-		add(s.Error.Render("! " + ck.FitProblem))
 	}
 	j := ck.JSON()
 	p.settingTable(add, j)
-	p.figureTable(add, j)
+	if ck.Unexplained() {
+		add(s.Error.Render("THE PATIENT GETS: NOT KNOWN (the readings cannot be explained)"))
+		if ck.Proposed != nil {
+			add(s.Section.Render("PROPOSED " + setup.AssumedLungLabel))
+			prop := j.Proposed.FiguresJSON
+			for _, r := range setup.FigureRows(prop, nil) {
+				add(s.Label.Render(fmt.Sprintf("%-15s", r.Label)) + s.Value.Render(fmt.Sprintf(" %7s", r.Text)) + " " + s.Unit.Render(r.Unit))
+			}
+		}
+	} else {
+		p.figureTable(add, j)
+	}
 	p.cautionLines(add, "Now", ck.Current.Cautions)
 	if ck.Proposed != nil {
 		p.cautionLines(add, "Proposed", ck.Proposed.Cautions)
+	}
+	if o.saveNote == "" {
+		add(s.Hint.Render(o.logNote))
 	}
 	return strings.Join(l, "\n")
 }

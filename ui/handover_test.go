@@ -52,7 +52,7 @@ func TestHandoverCheckMatchesSetup(t *testing.T) {
 	v := screen(m)
 	require.Contains(t, v, "Fitted lung C "+f0(want.Fitted.ComplianceMLPerCmH2O))
 	require.Contains(t, v, "proposed")
-	require.Contains(t, v, "no name is kept")
+	require.Contains(t, m.handover.View(), "no name is kept", "the record note is on the panel, below the figures")
 }
 
 func TestHandoverRefusesWhatTheMachineCannotRun(t *testing.T) {

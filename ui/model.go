@@ -549,8 +549,11 @@ func (m *Model) summary() string {
 	// On the handover panel the strip is what the machine is set to now;
 	// elsewhere it is the plan.
 	if m.focus == panelHandover && m.out.check != nil {
-		ev := m.out.check.Current
-		return m.strip("Set now: ", ev.Figures, ev.Cautions)
+		ck := m.out.check
+		if ck.Unexplained() {
+			return truncate(s.levelWord(setup.Stop)+s.Error.Render(" Set now: readings unexplained, what the patient gets is NOT KNOWN"), m.w)
+		}
+		return m.strip("Set now: ", ck.Current.Figures, ck.Current.Cautions)
 	}
 	pl := m.out.plan
 	if pl == nil {
