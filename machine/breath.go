@@ -120,8 +120,12 @@ type torqueTrack struct {
 
 func (tr *torqueTrack) at(i int, pistonCmH2O float64) {
 	force := pistonCmH2O*tr.newtonPerCmH2O + tr.frictionN
-	tr.peakTorqueNm = max(tr.peakTorqueNm, math.Abs(torqueNm(force, tr.dx[i])))
-	tr.peakFlow = max(tr.peakFlow, tr.flows[i])
+	if t := math.Abs(torqueNm(force, tr.dx[i])); t > tr.peakTorqueNm {
+		tr.peakTorqueNm = t
+	}
+	if q := tr.flows[i]; q > tr.peakFlow {
+		tr.peakFlow = q
+	}
 }
 
 // runExact steps the version 1 model over the piston flow samples with the

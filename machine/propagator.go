@@ -31,14 +31,14 @@ func newProp(ct, rML, cl, g, h float64) prop {
 	sq := math.Sqrt((m00-m11)*(m00-m11) + 4*m01*m10)
 	l1 := (tr - sq) / 2 // the fast eigenvalue; tr < 0 so no cancellation
 	l2 := det / l1      // the slow one, 0 when there is no leak
-	// f(M) = f(l2) I + f[l1, l2] (M - l2 I) for each scalar function f.
-	fs := func(f func(float64) float64) (at2, dd float64) {
-		f1, f2 := f(l1), f(l2)
-		return f2, (f1 - f2) / (l1 - l2)
-	}
-	e2, ed := fs(func(l float64) float64 { return math.Exp(l * h) })
-	i2, id := fs(func(l float64) float64 { return phi1(l*h) * h })
-	r2, rd := fs(func(l float64) float64 { return phi2(l*h) * h * h })
+	// f(M) = f(l2) I + f[l1, l2] (M - l2 I) for each scalar function f:
+	// the exponential, its integral over the step (h phi1) and the ramp's
+	// integral (h^2 phi2).
+	x1, x2, dl := l1*h, l2*h, l1-l2
+	e2, i2, r2 := math.Exp(x2), h*phi1(x2), h*h*phi2(x2)
+	ed := (math.Exp(x1) - e2) / dl
+	id := (h*phi1(x1) - i2) / dl
+	rd := (h*h*phi2(x1) - r2) / dl
 	// Only the first column of the input integrals matters: w enters dp/dt as a w.
 	return prop{
 		pp: e2 + ed*(m00-l2), pv: ed * m01, pw: a * (i2 + id*(m00-l2)), pd: a * (r2 + rd*(m00-l2)),
