@@ -182,6 +182,12 @@ func (sim *Simulator) strokeV2(in StrokeInput, x []float64, tr *torqueTrack, h f
 	}
 	res := StrokeResult{PeakPistonFlowMLPerS: tr.peakFlow, PeakTorqueNm: tr.peakTorqueNm, Gas: r.out}
 	res.Gas.DeliveredRoomML = r.v - start
+	if r.g > 0 {
+		// Each step's exact map conserves volume, so the leak is what the
+		// piston moved less what everything else took.
+		res.Gas.LeakedML = r.out.PistonML - res.Gas.DeliveredRoomML - r.out.CompressionLossML - r.out.ReliefVentedML -
+			r.cc*(r.p-start/r.cl)
+	}
 	res.Breath = Breath{
 		DeliveredML: f * (r.v - start), PeakCmH2O: r.peak + r.peep, EndCmH2O: r.p + r.peep,
 		PeakPatientFlowMLPerS: f * r.peakQ, StepS: h, Steps: len(r.flows) - 1,
@@ -214,9 +220,6 @@ func (r *v2run) precompress() int {
 		p1, v1 := r.base.prop.advance(r.p, r.v, -gp, -gp)
 		need1 := r.needML(p1 + r.peep)
 		if d1 < need1 {
-			if r.g > 0 {
-				r.out.LeakedML += -r.cc*(p1-r.p) - (v1 - r.v)
-			}
 			r.p, r.v, d, need = p1, v1, d1, need1
 			r.mark(i+1, shut(d))
 			continue
@@ -240,9 +243,6 @@ func (r *v2run) precompress() int {
 		r.out.ValveOpensS = (float64(i) + tau) * r.h
 		first := newProp(r.cc, r.rML, r.cl, r.g, tau*r.h)
 		pa, va := first.advance(r.p, r.v, -gp, -gp)
-		if r.g > 0 {
-			r.out.LeakedML += -r.cc*(pa-r.p) - (va - r.v)
-		}
 		r.p, r.v = pa, va
 		xMid := r.x[i] + (r.x[i+1]-r.x[i])*(1+tau)/2
 		ctot := r.cc + r.cylinderML(xMid)/r.patm
@@ -283,9 +283,6 @@ func (r *v2run) deliver(i0 int) {
 func (r *v2run) openStep(pr *prop, ctot, u0, u1, h float64) {
 	gp := r.g * r.peep
 	p1, v1 := pr.advance(r.p, r.v, u0-gp, u1-gp)
-	if r.g > 0 { // by conservation: what neither the compliances nor the lung took
-		r.out.LeakedML += (u0+u1)/2*h - ctot*(p1-r.p) - (v1 - r.v)
-	}
 	rise := p1 - r.p
 	if p1 > r.reliefP {
 		r.out.ReliefVentedML += ctot * (p1 - r.reliefP)
@@ -309,7 +306,6 @@ func (r *v2run) ventStep(u0, u1 float64) bool {
 	if u0-r.patient(r.p, r.v)-r.g*(r.reliefP+r.peep) < 0 || vent < 0 {
 		return false
 	}
-	r.out.LeakedML += leak
 	r.out.ReliefVentedML += vent
 	r.v = v1
 	return true

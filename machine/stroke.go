@@ -171,10 +171,10 @@ func (sim *Simulator) SimulateStroke(in StrokeInput) (StrokeResult, error) {
 			return StrokeResult{}, err
 		}
 	}
-	sim.grow(n + 1)
-	x := sim.x[:n+1]
-	if !v2 {
-		x = nil
+	sim.grow(n+1, v2)
+	var x []float64
+	if v2 {
+		x = sim.x[:n+1]
 	}
 	dx, flows := sim.dx[:n+1], sim.flows[:n+1]
 	k.fillMotion(dx, x, h)
@@ -193,9 +193,13 @@ func (sim *Simulator) SimulateStroke(in StrokeInput) (StrokeResult, error) {
 	return StrokeResult{Breath: b, PeakPistonFlowMLPerS: tr.peakFlow, PeakTorqueNm: tr.peakTorqueNm}, nil
 }
 
-func (sim *Simulator) grow(n int) {
+// grow makes the buffers hold n samples; positions only when asked.
+func (sim *Simulator) grow(n int, positions bool) {
 	if cap(sim.dx) < n {
-		sim.dx, sim.x, sim.flows = make([]float64, n), make([]float64, n), make([]float64, n)
+		sim.dx, sim.flows = make([]float64, n), make([]float64, n)
+	}
+	if positions && cap(sim.x) < n {
+		sim.x = make([]float64, n)
 	}
 }
 
