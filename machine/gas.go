@@ -49,7 +49,7 @@ type GasOutcome struct {
 	// rise in circuit pressure while delivering.
 	CompressionLossML float64
 	PreCompressionML  float64
-	ValveOpensS       float64 // time from the bottom dead centre to the outlet valve opening
+	ValveOpensS       float64 // from the bottom dead centre to the outlet valve opening; the stroke's duration if it never opened
 	LeakedML          float64
 	ReliefVentedML    float64
 	PressureLimited   bool // the relief valve opened: the breath is the vented one
@@ -252,7 +252,7 @@ func (r *v2run) precompress() int {
 		return i + 1
 	}
 	r.out.PreCompressionML = d
-	r.out.ValveOpensS = math.Inf(1)
+	r.out.ValveOpensS = float64(n) * r.h // never: the whole stroke went into the cylinder's gas
 	return n
 }
 

@@ -218,3 +218,26 @@ func BenchmarkSimulateStrokeReused(b *testing.B) {
 		}
 	}
 }
+
+func TestPreCompressionIsBoyles(t *testing.T) {
+	// Derived (Boyle, isothermal): with no leak the circuit stays at PEEP
+	// (8 cmH2O) until the valve opens, so the piston first displaces
+	// V0 x P / (Patm + P) of the cylinder's V0 = area x (head - x at the
+	// bottom dead centre) = 78.540 cm2 x (29.2 - 19.2) cm = 785.40 mL:
+	// 785.40 x 8 / (1033.23 + 8) = 6.0343 mL.
+	in := demoStroke(2.8)
+	in.StartVolumeML = 0
+	in.Gas = GasPath{HeadPositionCm: 29.2}
+	r := run(t, in)
+	require.InDelta(t, 6.0343, r.Gas.PreCompressionML, 0.0005)
+	// The valve opens where the piston has moved that far: in-line crank,
+	// x = r cos(theta) + sqrt(L^2 - r^2 sin^2 theta), from theta = pi.
+	omega := 2 * math.Pi * 21 / 60
+	pos := func(ts float64) float64 {
+		s, c := math.Sincos(math.Pi + omega*ts)
+		return 2.8*c + math.Sqrt(22*22-2.8*2.8*s*s)
+	}
+	moved := math.Pi * 25 * (pos(r.Gas.ValveOpensS) - pos(0))
+	require.InDelta(t, 6.0343, moved, 0.005, "opening at %v s", r.Gas.ValveOpensS)
+	require.Greater(t, r.Gas.CompressionLossML, r.Gas.PreCompressionML, "the gas is compressed further while delivering")
+}
