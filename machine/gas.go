@@ -90,12 +90,15 @@ func (g GasPath) validate(c Crank, peep float64) error {
 	return nil
 }
 
-// gasBlockSteps is how many steps share one frozen cylinder-gas
-// compliance, taken at the block's middle. Cg changes smoothly over a
-// stroke; against an RK4 reference at 0.1 ms (gas_rk4_test.go) blocks of 1,
-// 8 and 32 steps all agree within 2e-5 of the delivered volume, so 16 steps
-// (16 ms at the default step) cost a tenth of a step-by-step update.
-const gasBlockSteps = 16
+// gasBlockS is how long one frozen cylinder-gas compliance, taken at the
+// block's middle, is used for: a whole number of steps, at least one. Cg
+// changes smoothly over a stroke; against an RK4 reference at 0.1 ms
+// (gas_rk4_test.go) blocks of 1, 8 and 32 ms all agree within 2e-5 of the
+// delivered volume, so 16 ms costs a tenth of a step-by-step update at the
+// default step, and coarser steps do not lengthen the blocks.
+const gasBlockS = 0.016
+
+func gasBlockSteps(h float64) int { return max(1, int(math.Round(gasBlockS/h))) }
 
 // v2run is one version 2 stroke in progress. p is the circuit pressure
 // above PEEP, v the lung volume above relaxed in room mL.
@@ -247,7 +250,8 @@ func (r *v2run) precompress() int {
 		xMid := r.x[i] + (r.x[i+1]-r.x[i])*(1+tau)/2
 		ctot := r.cc + r.cylinderML(xMid)/r.patm
 		rest := newProp(ctot, r.rML, r.cl, r.g, (1-tau)*r.h)
-		r.openStep(&rest, ctot, u0+(u1-u0)*tau, u1, (1-tau)*r.h)
+		pb, vb := rest.advance(r.p, r.v, u0+(u1-u0)*tau-gp, u1-gp)
+		r.p, r.v = r.limit(r.p, pb, ctot), vb
 		r.mark(i+1, r.p+r.peep)
 		return i + 1
 	}
@@ -258,40 +262,60 @@ func (r *v2run) precompress() int {
 
 // deliver runs the steps from grid index i0 to the end with the outlet valve
 // open: cylinder and circuit are one compartment of compliance Cc + Cg(t).
+// The loop keeps its state in locals (it is most of a plan's time) and
+// does what mark does for each grid point.
 func (r *v2run) deliver(i0 int) {
 	n := len(r.flows) - 1
 	pr, ctot := &r.base.prop, r.cc
 	var blk prop
+	flows, tr, gp, block := r.flows, r.tr, r.g*r.peep, gasBlockSteps(r.h)
+	p, v, peak, peakQ := r.p, r.v, r.peak, r.peakQ
 	for i := i0; i < n; i++ {
-		if r.gasOn && (i-i0)%gasBlockSteps == 0 {
-			ctot = r.cc + r.cylinderML(r.x[min(i+gasBlockSteps/2, n)])/r.patm
+		if r.gasOn && (i-i0)%block == 0 {
+			// The middle of the block; x is sampled on the grid, so for an
+			// odd block it is half a step off the middle.
+			ctot = r.cc + r.cylinderML(r.x[min(i+block/2, n)])/r.patm
 			blk = newProp(ctot, r.rML, r.cl, r.g, r.h)
 			pr = &blk
 		}
-		u0, u1 := r.flows[i], r.flows[i+1]
-		if !r.clamped || !r.ventStep(u0, u1) {
-			r.clamped = false
-			r.openStep(pr, ctot, u0, u1, r.h)
+		u0, u1 := flows[i], flows[i+1]
+		vented := false
+		if r.clamped {
+			r.p, r.v = p, v
+			vented = r.ventStep(u0, u1)
+			v = r.v
 		}
-		r.mark(i+1, r.p+r.peep)
+		if !vented {
+			r.clamped = false
+			p1, v1 := pr.advance(p, v, u0-gp, u1-gp)
+			p, v = r.limit(p, p1, ctot), v1
+		}
+		q := (p - v*r.invCl) * r.invR
+		if p > peak {
+			peak = p
+		}
+		if q > peakQ {
+			peakQ = q
+		}
+		tr.at(i+1, p+r.peep)
+		if r.observe != nil {
+			r.observe(float64(i+1)*r.h, p+r.peep, r.f*q, r.f*v)
+		}
 	}
+	r.p, r.v, r.peak, r.peakQ = p, v, peak, peakQ
 }
 
-// openStep advances one step (or part of one) of length h with the
-// compliance ctot frozen, then holds the circuit at the relief pressure if
-// it went above it, venting the excess.
-func (r *v2run) openStep(pr *prop, ctot, u0, u1, h float64) {
-	gp := r.g * r.peep
-	p1, v1 := pr.advance(r.p, r.v, u0-gp, u1-gp)
-	rise := p1 - r.p
+// limit takes a step's end pressure p1 from p0 with the compliance ctot,
+// holds it at the relief pressure if it went above, venting the excess, and
+// counts what the cylinder's gas took. It returns the pressure kept.
+func (r *v2run) limit(p0, p1, ctot float64) float64 {
 	if p1 > r.reliefP {
 		r.out.ReliefVentedML += ctot * (p1 - r.reliefP)
-		rise = r.reliefP - r.p
 		p1 = r.reliefP
 		r.clamped, r.out.PressureLimited = true, true
 	}
-	r.out.CompressionLossML += (ctot - r.cc) * rise
-	r.p, r.v = p1, v1
+	r.out.CompressionLossML += (ctot - r.cc) * (p1 - p0)
+	return p1
 }
 
 // ventStep advances one step with the circuit held at the relief pressure:
