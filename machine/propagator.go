@@ -34,11 +34,13 @@ func newProp(ct, rML, cl, g, h float64) prop {
 	// f(M) = f(l2) I + f[l1, l2] (M - l2 I) for each scalar function f:
 	// the exponential, its integral over the step (h phi1) and the ramp's
 	// integral (h^2 phi2).
+	// Each eigenvalue needs one expm1: e^x, phi1 and phi2 all come from it.
 	x1, x2, dl := l1*h, l2*h, l1-l2
-	e2, i2, r2 := math.Exp(x2), h*phi1(x2), h*h*phi2(x2)
-	ed := (math.Exp(x1) - e2) / dl
-	id := (h*phi1(x1) - i2) / dl
-	rd := (h*h*phi2(x1) - r2) / dl
+	m1, m2 := math.Expm1(x1), math.Expm1(x2)
+	e2, i2, r2 := m2+1, h*phi1(x2, m2), h*h*phi2(x2, m2)
+	ed := (m1 - m2) / dl
+	id := (h*phi1(x1, m1) - i2) / dl
+	rd := (h*h*phi2(x1, m1) - r2) / dl
 	// Only the first column of the input integrals matters: w enters dp/dt as a w.
 	return prop{
 		pp: e2 + ed*(m00-l2), pv: ed * m01, pw: a * (i2 + id*(m00-l2)), pd: a * (r2 + rd*(m00-l2)),
@@ -47,21 +49,22 @@ func newProp(ct, rML, cl, g, h float64) prop {
 	}
 }
 
-// phi1 is (e^x - 1)/x, 1 at x = 0.
-func phi1(x float64) float64 {
+// phi1 is (e^x - 1)/x, 1 at x = 0, from em = e^x - 1 (math.Expm1).
+func phi1(x, em float64) float64 {
 	if x == 0 {
 		return 1
 	}
-	return math.Expm1(x) / x
+	return em / x
 }
 
-// phi2 is (e^x - 1 - x)/x^2, 1/2 at x = 0; a series near 0 where the
-// difference would cancel (the first omitted term is below 1e-12).
-func phi2(x float64) float64 {
+// phi2 is (e^x - 1 - x)/x^2, 1/2 at x = 0, from em = e^x - 1; a series
+// near 0 where the difference would cancel (the first omitted term is
+// below 1e-12).
+func phi2(x, em float64) float64 {
 	if math.Abs(x) < 0.05 {
 		return 1.0/2 + x*(1.0/6+x*(1.0/24+x*(1.0/120+x*(1.0/720+x/5040))))
 	}
-	return (math.Expm1(x) - x) / (x * x)
+	return (em - x) / (x * x)
 }
 
 func (s *prop) advance(p, v, w0, w1 float64) (float64, float64) {
