@@ -241,3 +241,31 @@ func TestPreCompressionIsBoyles(t *testing.T) {
 	require.InDelta(t, 6.0343, moved, 0.005, "opening at %v s", r.Gas.ValveOpensS)
 	require.Greater(t, r.Gas.CompressionLossML, r.Gas.PreCompressionML, "the gas is compressed further while delivering")
 }
+
+func TestReliefHoldsAcrossHolesAndLungs(t *testing.T) {
+	// Relief valve (DESIGN version 2), over a sweep of holes, lungs and
+	// relief pressures: the circuit never exceeds the relief, the limited
+	// breath never delivers more than the free one, and every figure is finite.
+	for _, radius := range []float64{1.4, 3.0, 4.6, 6.2} {
+		for _, lung := range []Lung{{15, 20}, {30, 12}, {60, 10}, {120, 5}} {
+			for _, relief := range []float64{20, 35, 60} {
+				in := demoStroke(radius)
+				in.Lung = lung
+				in.Gas = demoGas()
+				free := run(t, in)
+				in.Gas.ReliefCmH2O = relief
+				var highest float64
+				in.Observe = func(_, pc, _, _ float64) { highest = max(highest, pc) }
+				lim := run(t, in)
+				name := []any{"radius %v lung %+v relief %v", radius, lung, relief}
+				require.LessOrEqual(t, highest, relief+1e-9, name...)
+				require.LessOrEqual(t, lim.PeakCmH2O, relief+1e-9, name...)
+				require.LessOrEqual(t, lim.DeliveredML, free.DeliveredML+1e-9, name...)
+				require.Equal(t, free.PeakCmH2O > relief, lim.Gas.PressureLimited, name...)
+				for _, v := range []float64{lim.DeliveredML, lim.Gas.LeakedML, lim.Gas.ReliefVentedML, lim.Gas.CompressionLossML, lim.PeakTorqueNm} {
+					require.False(t, math.IsNaN(v) || math.IsInf(v, 0), name...)
+				}
+			}
+		}
+	}
+}
