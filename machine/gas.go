@@ -175,7 +175,7 @@ func (sim *Simulator) strokeV2(in StrokeInput, x []float64, tr *torqueTrack, h f
 	i0 := 0
 	if r.gasOn {
 		i0 = r.precompress()
-		r.out.CompressionLossML = r.out.PreCompressionML
+		r.out.CompressionLossML += r.out.PreCompressionML
 	} else {
 		r.mark(0, r.p+r.peep)
 	}
@@ -288,7 +288,14 @@ func (r *v2run) deliver(i0 int) {
 		if !vented {
 			r.clamped = false
 			p1, v1 := pr.advance(p, v, u0-gp, u1-gp)
-			p, v = r.limit(p, p1, ctot), v1
+			if p1 > r.reliefP {
+				var qCross float64
+				p, v, qCross = r.enterRelief(p, v, p1, u0, u1, ctot)
+				// The lung's flow peaks where the pressure stops rising, between grid points.
+				peakQ = max(peakQ, qCross)
+			} else {
+				p, v = r.limit(p, p1, ctot), v1
+			}
 		}
 		q := (p - v*r.invCl) * r.invR
 		if p > peak {
@@ -316,6 +323,32 @@ func (r *v2run) limit(p0, p1, ctot float64) float64 {
 	}
 	r.out.CompressionLossML += (ctot - r.cc) * (p1 - p0)
 	return p1
+}
+
+// enterRelief redoes a step whose end pressure p1 went above the relief:
+// open up to where the pressure reaches it (by linear interpolation of p
+// across the step), then held at the relief for the rest of the step, as
+// ventStep does for a whole one. The crossing then costs O(h^2), not O(h).
+// It returns the new pressure and volume and the lung's flow at the crossing.
+func (r *v2run) enterRelief(p0, v0, p1, u0, u1, ctot float64) (float64, float64, float64) {
+	tau := min(1, max(0, (r.reliefP-p0)/(p1-p0)))
+	gp := r.g * r.peep
+	ua := u0 + (u1-u0)*tau
+	pa, va := p0, v0
+	if tau > 0 {
+		first := newProp(ctot, r.rML, r.cl, r.g, tau*r.h)
+		pa, va = first.advance(p0, v0, u0-gp, ua-gp)
+	}
+	rest := (1 - tau) * r.h
+	veq := r.cl * r.reliefP
+	v1 := veq + (va-veq)*math.Exp(-rest/(r.rML*r.cl))
+	leak := r.g * (r.reliefP + r.peep) * rest
+	// What the piston moved in the rest of the step, less the lung's share,
+	// the leak and what brings the compliances from pa to the relief, vents.
+	r.out.ReliefVentedML += (ua+u1)/2*rest - (v1 - va) - leak - ctot*(r.reliefP-pa)
+	r.out.CompressionLossML += (ctot - r.cc) * (r.reliefP - p0)
+	r.clamped, r.out.PressureLimited = true, true
+	return r.reliefP, v1, r.patient(min(pa, r.reliefP), va)
 }
 
 // ventStep advances one step with the circuit held at the relief pressure:
