@@ -18,8 +18,10 @@ type GasPath struct {
 	// HeadPositionCm is the cylinder head's distance from the wheel's centre
 	// along the piston's line (CylinderHeadCm gives it from the largest hole
 	// and the clearance). The gas between piston and head is compressible:
-	// Cg = bore area x (head - x) / barometric. 0: the cylinder's gas is not
-	// modelled (as in version 1).
+	// Cg = bore area x (head - x) / barometric. Until the outlet valve opens
+	// the piston's effective displacement (Stroke.Scale included) compresses
+	// that gas from the room's pressure to the circuit's (Boyle, exactly).
+	// 0: the cylinder's gas is not modelled (as in version 1).
 	HeadPositionCm float64
 	// BarometricCmH2O is the room's pressure; 0 means one standard
 	// atmosphere (about 1033.2 cmH2O). It matters only with a head position.
