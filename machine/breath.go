@@ -71,48 +71,82 @@ func Simulate(in BreathInput) (Breath, error) {
 		panic("machine: Simulate needs a flow function or flow samples")
 	}
 	c, r, cc := in.Lung.ComplianceMLPerCmH2O, in.Lung.ResistanceCmH2OPerLS, in.CircuitMLPerCmH2O
-	for _, v := range []struct {
-		name string
-		v    float64
-	}{{"lung compliance", c}, {"lung resistance", r}, {"circuit compliance", cc}, {"duration", in.DurationS}} {
-		if !(v.v > 0) || math.IsInf(v.v, 0) {
-			return Breath{}, fmt.Errorf("%w: %s %v must be positive and finite", ErrBadBreath, v.name, v.v)
-		}
-	}
-	if math.IsNaN(in.PEEPCmH2O) || math.IsInf(in.PEEPCmH2O, 0) || math.IsNaN(in.StartVolumeML) || math.IsInf(in.StartVolumeML, 0) {
-		return Breath{}, fmt.Errorf("%w: PEEP %v and start volume %v must be finite", ErrBadBreath, in.PEEPCmH2O, in.StartVolumeML)
+	if err := checkBreath(c, r, cc, in.DurationS, in.PEEPCmH2O, in.StartVolumeML); err != nil {
+		return Breath{}, err
 	}
 	n, h, err := StepGrid(in.DurationS, in.StepS)
 	if err != nil {
 		return Breath{}, err
 	}
-	flow := in.Flow
-	if in.FlowSamples != nil {
-		if len(in.FlowSamples) != n+1 {
-			panic(fmt.Sprintf("machine: %d flow samples for %d steps", len(in.FlowSamples), n))
+	flows := in.FlowSamples
+	if flows != nil {
+		if len(flows) != n+1 {
+			panic(fmt.Sprintf("machine: %d flow samples for %d steps", len(flows), n))
 		}
-		flow = nil
-	}
-	sample := func(i int) float64 {
-		if flow == nil {
-			return in.FlowSamples[i]
+	} else {
+		flows = make([]float64, n+1)
+		for i := range flows {
+			flows[i] = in.Flow(float64(i) * h)
 		}
-		return flow(float64(i) * h)
 	}
 	st := newStepper(c, r, cc, h)
+	return runExact(&st, c, in.PEEPCmH2O, in.StartVolumeML, flows, in.Observe, nil)
+}
 
+// checkBreath refuses a lung, circuit, duration, PEEP or start volume the
+// model cannot run.
+func checkBreath(c, r, cc, durS, peep, startML float64) error {
+	for _, v := range []struct {
+		name string
+		v    float64
+	}{{"lung compliance", c}, {"lung resistance", r}, {"circuit compliance", cc}, {"duration", durS}} {
+		if !(v.v > 0) || math.IsInf(v.v, 0) {
+			return fmt.Errorf("%w: %s %v must be positive and finite", ErrBadBreath, v.name, v.v)
+		}
+	}
+	if math.IsNaN(peep) || math.IsInf(peep, 0) || math.IsNaN(startML) || math.IsInf(startML, 0) {
+		return fmt.Errorf("%w: PEEP %v and start volume %v must be finite", ErrBadBreath, peep, startML)
+	}
+	return nil
+}
+
+// torqueTrack follows the crank torque and piston flow of a stroke as the
+// simulation passes each grid point.
+type torqueTrack struct {
+	dx, flows                 []float64
+	newtonPerCmH2O, frictionN float64
+	peakTorqueNm, peakFlow    float64
+}
+
+func (tr *torqueTrack) at(i int, pistonCmH2O float64) {
+	force := pistonCmH2O*tr.newtonPerCmH2O + tr.frictionN
+	if t := math.Abs(torqueNm(force, tr.dx[i])); t > tr.peakTorqueNm {
+		tr.peakTorqueNm = t
+	}
+	if q := tr.flows[i]; q > tr.peakFlow {
+		tr.peakFlow = q
+	}
+}
+
+// runExact steps the version 1 model over the piston flow samples with the
+// exact one-step map st. Observe and tr, when not nil, see every grid point.
+func runExact(st *stepper, c, peep, startML float64, flows []float64, observe func(tS, circuitCmH2O, patientFlowMLPerS, volumeML float64), tr *torqueTrack) (Breath, error) {
+	n, h := len(flows)-1, st.h
 	// p is the circuit pressure above PEEP, v the lung volume above relaxed.
-	v := in.StartVolumeML
+	v := startML
 	p := v / c
-	u := sample(0)
+	u := flows[0]
 	invC, invR := 1/c, 1/st.rML
 	patient := func(p, v float64) float64 { return (p - v*invC) * invR }
 	peak, peakFlow := p, patient(p, v)
-	if in.Observe != nil {
-		in.Observe(0, p+in.PEEPCmH2O, peakFlow, v)
+	if tr != nil {
+		tr.at(0, p+peep)
+	}
+	if observe != nil {
+		observe(0, p+peep, peakFlow, v)
 	}
 	for i := 1; i <= n; i++ {
-		un := sample(i)
+		un := flows[i]
 		p, v = st.advance(p, v, u, un)
 		u = un
 		q := patient(p, v)
@@ -122,13 +156,16 @@ func Simulate(in BreathInput) (Breath, error) {
 		if q > peakFlow {
 			peakFlow = q
 		}
-		if in.Observe != nil {
-			in.Observe(float64(i)*h, p+in.PEEPCmH2O, q, v)
+		if tr != nil {
+			tr.at(i, p+peep)
+		}
+		if observe != nil {
+			observe(float64(i)*h, p+peep, q, v)
 		}
 	}
-	out := Breath{PeakCmH2O: peak + in.PEEPCmH2O, PeakPatientFlowMLPerS: peakFlow, StepS: h, Steps: n}
-	out.DeliveredML = v - in.StartVolumeML
-	out.EndCmH2O = p + in.PEEPCmH2O
+	out := Breath{PeakCmH2O: peak + peep, PeakPatientFlowMLPerS: peakFlow, StepS: h, Steps: n}
+	out.DeliveredML = v - startML
+	out.EndCmH2O = p + peep
 	if math.IsNaN(out.DeliveredML) || math.IsInf(out.DeliveredML, 0) || math.IsNaN(out.PeakCmH2O) {
 		return Breath{}, fmt.Errorf("%w: the simulation did not give a finite result", ErrBadBreath)
 	}
@@ -182,6 +219,22 @@ func newStepper(c, rLPerS, cc, h float64) stepper {
 		pp: e.At(0, 0), pv: e.At(0, 1), pu: e.At(0, 2), pd: e.At(0, 3),
 		vp: e.At(1, 0), vv: e.At(1, 1), vu: e.At(1, 2), vd: e.At(1, 3),
 	}
+}
+
+// stepperCache keeps the last exact one-step map: its matrix exponential
+// depends only on the lung, the circuit and the step.
+type stepperCache struct {
+	ok          bool
+	c, r, cc, h float64
+	st          stepper
+}
+
+func (sc *stepperCache) get(c, r, cc, h float64) *stepper {
+	if !sc.ok || sc.c != c || sc.r != r || sc.cc != cc || sc.h != h {
+		sc.st = newStepper(c, r, cc, h)
+		sc.ok, sc.c, sc.r, sc.cc, sc.h = true, c, r, cc, h
+	}
+	return &sc.st
 }
 
 func (s *stepper) advance(p, v, u, un float64) (float64, float64) {

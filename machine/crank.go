@@ -43,10 +43,17 @@ func (c Crank) PositionCm(theta float64) float64 {
 
 // DxDTheta is the piston's displacement per radian of crank, in cm/rad.
 func (c Crank) DxDTheta(theta float64) float64 {
-	sin, cos := math.Sincos(theta)
+	_, dx := c.slide(math.Sincos(theta))
+	return dx
+}
+
+// slide is the piston's position (cm from the wheel's centre) and dx/dtheta
+// (cm/rad) from the sine and cosine of the crank angle: the one place the
+// simulation and the exported functions get the piston's motion from.
+func (c Crank) slide(sin, cos float64) (xCm, dxDThetaCm float64) {
 	s := c.RadiusCm*sin - c.OffsetCm
 	w := math.Sqrt(c.RodCm*c.RodCm - s*s)
-	return -c.RadiusCm*sin - s*c.RadiusCm*cos/w
+	return c.RadiusCm*cos + w, -c.RadiusCm*sin - s*c.RadiusCm*cos/w
 }
 
 // D2xDTheta2 is the second derivative of position with crank angle, cm/rad^2.
@@ -96,6 +103,12 @@ func (c Crank) DeliveryAngle() float64 {
 	return t - b
 }
 
+// topCm is the piston's position at the top dead centre, x_max.
+func (c Crank) topCm() float64 {
+	r, l, e := c.RadiusCm, c.RodCm, c.OffsetCm
+	return math.Sqrt((l+r)*(l+r) - e*e)
+}
+
 // StrokeCm is x_max - x_min: 2r for an in-line crank.
 func (c Crank) StrokeCm() float64 {
 	r, l, e := c.RadiusCm, c.RodCm, c.OffsetCm
@@ -103,10 +116,17 @@ func (c Crank) StrokeCm() float64 {
 }
 
 // TorqueNm is the crank torque needed to push the piston with force N:
-// F r sin(theta + phi) / cos(phi). It equals F |dx/dtheta| (in metres).
+// F r sin(theta + phi) / cos(phi), which is -F dx/dtheta (in metres) by
+// virtual work (Norton, Design of Machinery); it is computed that way, by
+// the same function the stroke simulation uses.
 func (c Crank) TorqueNm(theta, forceN float64) float64 {
-	phi := c.RodAngle(theta)
-	return forceN * c.RadiusCm / 100 * math.Sin(theta+phi) / math.Cos(phi)
+	return torqueNm(forceN, c.DxDTheta(theta))
+}
+
+// torqueNm is the crank torque for a force on the piston where the piston
+// moves dxDThetaCm per radian: -F dx/dtheta, with dx/dtheta in m/rad.
+func torqueNm(forceN, dxDThetaCm float64) float64 {
+	return -forceN * dxDThetaCm / 100
 }
 
 // BoreAreaCm2 is the piston's area for a bore diameter in cm.

@@ -52,26 +52,31 @@ func (k *kinematics) flow(tS float64) float64 {
 	return k.flowPerDxDTheta * k.crank.DxDTheta(k.angle(tS))
 }
 
-// dxSamples is dx/dtheta at t = 0, h, ... n h into the delivery. The crank
+// fillMotion writes dx/dtheta at t = 0, h, ... n h into the delivery into
+// dx[0..n], and the piston's position into x when x is not nil. The crank
 // angle advances by the same amount each step, so sin and cos are carried
 // forward by a rotation instead of being recomputed, and resynchronised
 // every 128 steps to keep the rounding from drifting.
-func (k *kinematics) dxSamples(n int, h float64) []float64 {
-	out := make([]float64, n+1)
+func (k *kinematics) fillMotion(dx, x []float64, h float64) {
+	n := len(dx) - 1
 	rs, rc := math.Sincos(k.omega * h)
-	r, l2, e := k.crank.RadiusCm, k.crank.RodCm*k.crank.RodCm, k.crank.OffsetCm
 	var sin, cos float64
-	for i := range out {
+	for i := range dx {
 		if i%128 == 0 {
 			sin, cos = math.Sincos(k.angle(float64(i) * h))
 		} else {
 			sin, cos = sin*rc+cos*rs, cos*rc-sin*rs
 		}
-		s := r*sin - e
-		out[i] = -r*sin - s*r*cos/math.Sqrt(l2-s*s)
+		xi, d := k.crank.slide(sin, cos)
+		dx[i] = d
+		if x != nil {
+			x[i] = xi
+		}
 	}
-	out[n] = 0 // the top dead centre, exactly
-	return out
+	dx[n] = 0 // the top dead centre, exactly
+	if x != nil {
+		x[n] = k.crank.topCm()
+	}
 }
 
 // PistonFlowMLPerS is bore area x omega x dx/dtheta, times Scale, t seconds
@@ -104,6 +109,10 @@ type StrokeInput struct {
 	RingFrictionN     float64
 	StepS             float64
 	Observe           func(tS, circuitCmH2O, patientFlowMLPerS, volumeML float64)
+	// Gas is the version 2 physics (body conditions, the cylinder's gas,
+	// the leak, the relief valve); the zero value is the version 1 model,
+	// exactly.
+	Gas GasPath
 }
 
 // StrokeResult is a simulated delivery with the crank torque it needs.
@@ -111,56 +120,95 @@ type StrokeResult struct {
 	Breath
 	PeakPistonFlowMLPerS float64
 	PeakTorqueNm         float64
+	// Gas is what version 2 adds; zero when the input's Gas was zero.
+	Gas GasOutcome
 }
 
 // SimulateStroke runs the breath model for one delivery half-turn and finds
-// the peak crank torque: the force on the piston, (Pc in Pa) x bore area +
-// ring friction, times |dx/dtheta|.
+// the peak crank torque: the force on the piston, (cylinder pressure in Pa)
+// x bore area + ring friction, through the crank (torqueNm). With a zero
+// Gas it is the version 1 model; see GasPath for version 2. It uses a fresh
+// Simulator: a caller running many strokes should keep one instead.
 func SimulateStroke(in StrokeInput) (StrokeResult, error) {
+	var sim Simulator
+	return sim.SimulateStroke(in)
+}
+
+// Simulator runs strokes one after another and keeps what they share: the
+// exact one-step map of the last lung, circuit and step (a matrix
+// exponential, recomputed only when one of them changes) and the buffers of
+// piston motion, so a stroke allocates nothing once the buffers have grown.
+// The zero value is ready to use. A Simulator is not safe for use by more
+// than one goroutine at a time; give each goroutine its own. Its results
+// are exactly SimulateStroke's.
+type Simulator struct {
+	v1           stepperCache
+	v2           propCache
+	dx, x, flows []float64
+}
+
+// SimulateStroke is the package function SimulateStroke, reusing the
+// Simulator's cached step and buffers.
+func (sim *Simulator) SimulateStroke(in StrokeInput) (StrokeResult, error) {
 	if err := in.Stroke.validate(); err != nil {
 		return StrokeResult{}, err
 	}
 	if in.RingFrictionN < 0 || math.IsNaN(in.RingFrictionN) || math.IsInf(in.RingFrictionN, 0) {
 		return StrokeResult{}, fmt.Errorf("%w: ring friction %v N must be zero or positive", ErrBadBreath, in.RingFrictionN)
 	}
+	c, r, cc := in.Lung.ComplianceMLPerCmH2O, in.Lung.ResistanceCmH2OPerLS, in.CircuitMLPerCmH2O
 	k := in.Stroke.kinematics()
+	if err := checkBreath(c, r, cc, k.durS, in.PEEPCmH2O, in.StartVolumeML); err != nil {
+		return StrokeResult{}, err
+	}
 	n, h, err := StepGrid(k.durS, in.StepS)
 	if err != nil {
 		return StrokeResult{}, err
 	}
-	dx := k.dxSamples(n, h)
-	flows := make([]float64, len(dx))
+	v2 := in.Gas.active()
+	if v2 {
+		if err := in.Gas.validate(in.Stroke.Crank, in.PEEPCmH2O); err != nil {
+			return StrokeResult{}, err
+		}
+	}
+	sim.grow(n+1, v2)
+	var x []float64
+	if v2 {
+		x = sim.x[:n+1]
+	}
+	dx, flows := sim.dx[:n+1], sim.flows[:n+1]
+	k.fillMotion(dx, x, h)
 	for i, d := range dx {
 		flows[i] = k.flowPerDxDTheta * d
 	}
-	areaM2 := BoreAreaCm2(in.Stroke.BoreCm) / 1e4
-	var out StrokeResult
-	i := 0 // Simulate observes each grid point once, in order
-	observe := func(t, pc, q, v float64) {
-		force := pc*pascalPerCmH2O*areaM2 + in.RingFrictionN
-		out.PeakTorqueNm = max(out.PeakTorqueNm, force*math.Abs(dx[i])/100)
-		out.PeakPistonFlowMLPerS = max(out.PeakPistonFlowMLPerS, flows[i])
-		i++
-		if in.Observe != nil {
-			in.Observe(t, pc, q, v)
-		}
+	tr := torqueTrack{dx: dx, flows: flows, frictionN: in.RingFrictionN,
+		newtonPerCmH2O: pascalPerCmH2O * BoreAreaCm2(in.Stroke.BoreCm) / 1e4}
+	if v2 {
+		return sim.strokeV2(in, x, &tr, h)
 	}
-	b, err := Simulate(BreathInput{
-		FlowSamples:       flows,
-		DurationS:         k.durS,
-		Lung:              in.Lung,
-		CircuitMLPerCmH2O: in.CircuitMLPerCmH2O,
-		PEEPCmH2O:         in.PEEPCmH2O,
-		StartVolumeML:     in.StartVolumeML,
-		StepS:             in.StepS,
-		Observe:           observe,
-	})
+	b, err := runExact(sim.v1.get(c, r, cc, h), c, in.PEEPCmH2O, in.StartVolumeML, flows, in.Observe, &tr)
 	if err != nil {
 		return StrokeResult{}, err
 	}
-	out.Breath = b
-	return out, nil
+	return StrokeResult{Breath: b, PeakPistonFlowMLPerS: tr.peakFlow, PeakTorqueNm: tr.peakTorqueNm}, nil
 }
 
-// pascalPerCmH2O is the conventional centimetre of water (NIST SP 811).
+// grow makes the buffers hold n samples; positions only when asked.
+func (sim *Simulator) grow(n int, positions bool) {
+	if cap(sim.dx) < n {
+		sim.dx, sim.flows = make([]float64, n), make([]float64, n)
+	}
+	if positions && cap(sim.x) < n {
+		sim.x = make([]float64, n)
+	}
+}
+
+// pascalPerCmH2O is the conventional centimetre of water (NIST SP 811,
+// B.8). physiology.PascalPerCmH2O is the exported constant for everyone
+// else; machine may import only the standard library and gonum, so this
+// unexported copy serves the torque and the standard atmosphere here, and
+// TestPascalPerCmH2O holds it to the NIST value.
 const pascalPerCmH2O = 98.0665
+
+// cmH2OPerAtm is one standard atmosphere (101325 Pa) in cmH2O, about 1033.2.
+const cmH2OPerAtm = 101325 / pascalPerCmH2O

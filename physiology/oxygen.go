@@ -41,3 +41,24 @@ func CylinderMinutesLeft(waterCapacityL, pressureBar, flowLPerMin float64) float
 	}
 	return CylinderGasL(waterCapacityL, pressureBar) / flowLPerMin
 }
+
+// PistonIntakeLPerMin is what the piston draws from the intake reservoir
+// each minute: its effective swept volume (mL) every turn, at rateBPM turns
+// per minute. The whole stroke is drawn in, whatever part of it reaches the
+// lung, so this and not the delivered minute volume dilutes the oxygen.
+func PistonIntakeLPerMin(effectiveSweptML, rateBPM float64) float64 {
+	return effectiveSweptML * rateBPM / 1000
+}
+
+// FiO2FromPistonIntake estimates FiO2 when o2LPerMin of oxygen is bled
+// into the reservoir that the piston empties at effectiveSweptML per turn
+// and rateBPM turns per minute: 0.21 + 0.79 min(1, Q / (swept x rate)).
+func FiO2FromPistonIntake(o2LPerMin, effectiveSweptML, rateBPM float64) float64 {
+	return FiO2FromBleed(o2LPerMin, PistonIntakeLPerMin(effectiveSweptML, rateBPM))
+}
+
+// O2FlowForFiO2AtPistonIntake is the inverse of FiO2FromPistonIntake: the
+// oxygen flow in L/min for fio2 (held to 0.21-1) at that intake.
+func O2FlowForFiO2AtPistonIntake(fio2, effectiveSweptML, rateBPM float64) float64 {
+	return O2FlowForFiO2(fio2, PistonIntakeLPerMin(effectiveSweptML, rateBPM))
+}
