@@ -8,8 +8,11 @@ import (
 	"path/filepath"
 )
 
-// Marshal writes a profile in the v1 format, indented, ending in a newline.
+// Marshal writes a profile in the current format (FormatCurrent, version 2),
+// indented, ending in a newline; a version 1 profile is written as version
+// 2 with its defaults written out.
 func Marshal(p Profile) ([]byte, error) {
+	p.Format = FormatCurrent
 	var b bytes.Buffer
 	enc := json.NewEncoder(&b)
 	enc.SetIndent("", "  ")
