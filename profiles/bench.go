@@ -152,19 +152,12 @@ func benchRow(rec []string, p Profile) (BenchPoint, string) {
 	return pt, ""
 }
 
-// SaveWithBackup saves p over path atomically after keeping the file that
-// was there as path + ".bak" (itself written atomically).
+// SaveWithBackup saves p over path as Save does, after keeping the file
+// that was there as path + ".bak" (itself written atomically, with the old
+// file's mode). SaveWithBackupIfUnchanged also checks that the file is the
+// one that was read.
 func SaveWithBackup(path string, p Profile) error {
-	data, err := encodeValid(path, p)
-	if err != nil {
-		return err
-	}
-	if old, err := readLimited(path); err == nil {
-		if err := WriteAtomic(path+".bak", old, 0o644); err != nil {
-			return fmt.Errorf("not saved: the backup %s.bak could not be written: %w", path, err)
-		}
-	}
-	return WriteAtomic(path, data, 0o644)
+	return guardedSave(path, p, true, nil)
 }
 
 // benchSpeed says why a bench speed cannot be this machine's, or "". A

@@ -9,6 +9,8 @@ import (
 	"path/filepath"
 	"sort"
 	"strings"
+
+	"crankside/profiles/safetext"
 )
 
 //go:embed demo/*.json
@@ -78,24 +80,38 @@ func DefaultDir() string {
 func ReadFile(path string) (Profile, error) {
 	data, err := readLimited(path)
 	if err != nil {
-		return Profile{}, fmt.Errorf("profile %s: %w", path, err)
+		return Profile{}, fmt.Errorf("profile %s: %w", safetext.Escape(path), err)
 	}
 	return Parse(data, path)
 }
 
 // readLimited reads at most MaxFileBytes+1 bytes, so an oversized file is
 // refused by Parse without being read whole.
+// It refuses anything that is not a regular file (a FIFO, a device such as
+// /dev/zero, a folder) before reading, without blocking on it.
 func readLimited(path string) ([]byte, error) {
-	f, err := os.Open(path)
+	data, _, err := readLimitedStat(path)
+	return data, err
+}
+
+func readLimitedStat(path string) ([]byte, os.FileInfo, error) {
+	f, err := os.OpenFile(path, os.O_RDONLY|openReadFlags, 0)
 	if err != nil {
-		return nil, unwrapPath(err)
+		return nil, nil, unwrapPath(err)
 	}
 	defer f.Close()
+	info, err := f.Stat()
+	if err != nil {
+		return nil, nil, unwrapPath(err)
+	}
+	if !info.Mode().IsRegular() {
+		return nil, nil, fmt.Errorf("is not a regular file (%s); a profile is a plain .json file", info.Mode().Type())
+	}
 	data, err := io.ReadAll(io.LimitReader(f, MaxFileBytes+1))
 	if err != nil {
-		return nil, unwrapPath(err)
+		return nil, nil, unwrapPath(err)
 	}
-	return data, nil
+	return data, info, nil
 }
 
 func unwrapPath(err error) error {
