@@ -8,6 +8,8 @@ import (
 	"math"
 	"strconv"
 	"strings"
+
+	"crankside/profiles/safetext"
 )
 
 // BenchHeader is the first line of a bench file, column by column.
@@ -30,15 +32,17 @@ type BenchError struct {
 	Problems []RowProblem
 }
 
+// Error is the first bad line and a count of the rest, made safe to print
+// with safetext.Escape (the file name and the row's text are from outside).
 func (e *BenchError) Error() string {
 	if len(e.Problems) == 0 {
-		return "bench file " + e.Source + ": invalid"
+		return "bench file " + safetext.Escape(e.Source) + ": invalid"
 	}
 	msg := "bench file " + e.Source + ": " + e.Problems[0].String()
 	if n := len(e.Problems) - 1; n > 0 {
 		msg += fmt.Sprintf(" (and %d more bad line%s)", n, plural(n))
 	}
-	return msg
+	return safetext.Escape(msg)
 }
 
 // ErrBench is matched by errors.Is for every *BenchError.

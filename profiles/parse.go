@@ -209,7 +209,7 @@ func join(path, key string) string {
 	return path + "." + key
 }
 
-// maxDepth is deeper than any v1 profile goes (top, crank, holes, a hole).
+// maxDepth is deeper than any v1 or v2 profile goes (top, crank, holes, a hole).
 const maxDepth = 8
 
 // scan walks the JSON tokens once, before decoding, to refuse what

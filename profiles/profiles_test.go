@@ -220,8 +220,25 @@ func TestListShowsBadFilesAndDuplicates(t *testing.T) {
 	require.Error(t, byID["broken"][0].Err)
 	require.Len(t, byID["demo-a"], 2)
 	for _, e := range byID["demo-a"] {
-		require.ErrorContains(t, e.Err, "also used by")
+		if e.Source.Embedded {
+			require.NoError(t, e.Err, "the built-in keeps its id")
+			continue
+		}
+		require.ErrorContains(t, e.Err, "built-in demo's")
 	}
+	// Two files with one id both carry an error.
+	require.NoError(t, Save(filepath.Join(dir, "ward-3-copy.json"), good))
+	entries, err = List(dir)
+	require.NoError(t, err)
+	n := 0
+	for _, e := range entries {
+		if e.ID == "ward-3" {
+			n++
+			require.ErrorContains(t, e.Err, "also used by")
+		}
+	}
+	require.Equal(t, 2, n)
+	require.NoError(t, os.Remove(filepath.Join(dir, "ward-3-copy.json")))
 	require.NoError(t, byID["demo-b"][0].Err)
 	// Open by id finds the directory's profile; by path the file itself.
 	p, src, err := Open("ward-3", dir)
