@@ -181,32 +181,39 @@ func validate(p Profile) []FieldError {
 	c.plausible("circuit.relief_cmh2o", p.Circuit.ReliefCmH2O, minReliefCmH2O, maxReliefCmH2O, "cmH2O")
 	c.plausible("circuit.leak_l_min_at_20_cmh2o", p.Circuit.LeakLMinAt20CmH2O, 0, maxLeakLMin, "L/min")
 
-	if cal := p.Calibration; cal != nil {
-		if _, err := time.Parse(time.DateOnly, cal.Date); err != nil {
-			c.add("calibration.date", "%s is not a date written YYYY-MM-DD", quote(cal.Date))
-		}
-		if n := len(cal.Points); n > MaxBenchPoints {
-			c.add("calibration.points", "has %d points; at most %d are allowed", n, MaxBenchPoints)
-		}
-		for i, pt := range cal.Points {
-			if i >= MaxBenchPoints {
-				break
-			}
-			path := fmt.Sprintf("calibration.points[%d]", i)
-			if _, ok := p.HoleByLabel(pt.Hole); !ok {
-				c.add(path+".hole", "%s is not a hole of this profile (holes: %s)", quote(pt.Hole), holeList(p))
-			}
-			c.between(path+".test_lung_compliance_ml_per_cmh2o", pt.TestLungComplianceMLPerCmH2O, 0, 500, false, "mL/cmH2O")
-			c.between(path+".test_lung_resistance_cmh2o_per_l_s", pt.TestLungResistanceCmH2OPerLS, 0, 500, false, "cmH2O/(L/s)")
-			if c.between(path+".rpm", pt.RPM, 0, 200, false, "rpm") {
-				if why := benchSpeed(pt.RPM, p.Motor); why != "" && (p.Motor.Kind == MotorFixed || p.Motor.Kind == MotorVariable) {
-					c.add(path+".rpm", "%s", why)
-				}
-			}
-			c.between(path+".measured_ml", pt.MeasuredML, 0, 5000, false, "mL")
-		}
-	}
+	validateCalibration(c, p)
 	return c.problems
+}
+
+// validateCalibration checks the bench calibration, when there is one.
+func validateCalibration(c *checker, p Profile) {
+	cal := p.Calibration
+	if cal == nil {
+		return
+	}
+	if _, err := time.Parse(time.DateOnly, cal.Date); err != nil {
+		c.add("calibration.date", "%s is not a date written YYYY-MM-DD", quote(cal.Date))
+	}
+	if n := len(cal.Points); n > MaxBenchPoints {
+		c.add("calibration.points", "has %d points; at most %d are allowed", n, MaxBenchPoints)
+	}
+	for i, pt := range cal.Points {
+		if i >= MaxBenchPoints {
+			break
+		}
+		path := fmt.Sprintf("calibration.points[%d]", i)
+		if _, ok := p.HoleByLabel(pt.Hole); !ok {
+			c.add(path+".hole", "%s is not a hole of this profile (holes: %s)", quote(pt.Hole), holeList(p))
+		}
+		c.between(path+".test_lung_compliance_ml_per_cmh2o", pt.TestLungComplianceMLPerCmH2O, 0, 500, false, "mL/cmH2O")
+		c.between(path+".test_lung_resistance_cmh2o_per_l_s", pt.TestLungResistanceCmH2OPerLS, 0, 500, false, "cmH2O/(L/s)")
+		if c.between(path+".rpm", pt.RPM, 0, 200, false, "rpm") {
+			if why := benchSpeed(pt.RPM, p.Motor); why != "" && (p.Motor.Kind == MotorFixed || p.Motor.Kind == MotorVariable) {
+				c.add(path+".rpm", "%s", why)
+			}
+		}
+		c.between(path+".measured_ml", pt.MeasuredML, 0, 5000, false, "mL")
+	}
 }
 
 func holeList(p Profile) string {
@@ -231,7 +238,7 @@ func validText(c *checker, path, v string, max int, idLike bool) {
 		return
 	}
 	if r, at, found := safetext.FirstUnsafe(v); found {
-		c.add(path, "contains %s %s at position %d; type it again without it", safetext.Kind(r), codePoint(r), utf8.RuneCountInString(v[:at])+1)
+		c.add(path, "contains %s %s at position %d; remove it", safetext.Kind(r), codePoint(r), utf8.RuneCountInString(v[:at])+1)
 		return
 	}
 	for _, r := range v {
