@@ -173,3 +173,23 @@ func TestSaveRemovesStaleTemporaryFiles(t *testing.T) {
 		require.NoError(t, err, "%s is kept", f)
 	}
 }
+
+func TestOpenGivesTheStampForASafeSave(t *testing.T) {
+	// The stamp Open returns lets a read-change-write refuse a file that
+	// someone else wrote in between (the calibrate --write case).
+	path, _ := unitFile(t, 0o600)
+	p, src, err := Open(path, "")
+	require.NoError(t, err)
+	require.True(t, src.Stamp.Exists)
+	q, byID, err := Open("unit-b", filepath.Dir(path))
+	require.NoError(t, err)
+	require.Equal(t, src.Stamp, byID.Stamp)
+	q.Label = "someone else's save"
+	require.NoError(t, SaveWithBackupIfUnchanged(byID.Path, q, byID.Stamp))
+	p.Label = "my save"
+	err = SaveWithBackupIfUnchanged(src.Path, p, src.Stamp)
+	require.ErrorIs(t, err, ErrChanged)
+	got, err := ReadFile(path)
+	require.NoError(t, err)
+	require.Equal(t, "someone else's save", got.Label)
+}

@@ -24,6 +24,9 @@ const DefaultID = "demo-a"
 type Source struct {
 	Embedded bool
 	Path     string // the file, when not embedded
+	// Stamp identifies the bytes that were parsed, for SaveIfUnchanged and
+	// SaveWithBackupIfUnchanged; zero for an embedded demo.
+	Stamp Stamp
 }
 
 // String is the source for a message or a list: the path made safe to
@@ -188,8 +191,8 @@ func dirFiles(dir string) ([]string, error) {
 // readEntry reads one file into an Entry; a failure names the entry by its
 // file name.
 func readEntry(f string) Entry {
-	p, err := ReadFile(f)
-	e := Entry{ID: p.ID, Label: p.Label, FileName: filepath.Base(f), Source: Source{Path: f}, Profile: p, Err: err}
+	p, st, err := ReadFileStamped(f)
+	e := Entry{ID: p.ID, Label: p.Label, FileName: filepath.Base(f), Source: Source{Path: f, Stamp: st}, Profile: p, Err: err}
 	if err != nil {
 		// Escaped: the name may hold anything, and callers print the ID.
 		e.ID = safetext.Escape(strings.TrimSuffix(filepath.Base(f), ".json"))
@@ -226,8 +229,8 @@ var ErrNotFound = errors.New("profile not found")
 // id (neither named ID.json) are refused: open one by its path.
 func Open(ref, dir string) (Profile, Source, error) {
 	if strings.ContainsRune(ref, os.PathSeparator) || strings.ContainsRune(ref, '/') || strings.HasSuffix(ref, ".json") {
-		p, err := ReadFile(ref)
-		return p, Source{Path: ref}, err
+		p, st, err := ReadFileStamped(ref)
+		return p, Source{Path: ref, Stamp: st}, err
 	}
 	if p, ok, err := openEmbedded(ref); ok || err != nil {
 		return p, Source{Embedded: true}, err
@@ -235,9 +238,9 @@ func Open(ref, dir string) (Profile, Source, error) {
 	var named error // the error of dir/ID.json, when it exists but fails
 	if dir != "" {
 		f := filepath.Join(dir, ref+".json")
-		p, err := ReadFile(f)
+		p, st, err := ReadFileStamped(f)
 		if err == nil && p.ID == ref {
-			return p, Source{Path: f}, nil
+			return p, Source{Path: f, Stamp: st}, nil
 		}
 		if err != nil && !errors.Is(err, fs.ErrNotExist) {
 			named = err
