@@ -8,6 +8,8 @@ import (
 	"math"
 	"strconv"
 	"strings"
+
+	"crankside/profiles/safetext"
 )
 
 // BenchHeader is the first line of a bench file, column by column.
@@ -30,15 +32,17 @@ type BenchError struct {
 	Problems []RowProblem
 }
 
+// Error is the first bad line and a count of the rest, made safe to print
+// with safetext.Escape (the file name and the row's text are from outside).
 func (e *BenchError) Error() string {
 	if len(e.Problems) == 0 {
-		return "bench file " + e.Source + ": invalid"
+		return "bench file " + safetext.Escape(e.Source) + ": invalid"
 	}
 	msg := "bench file " + e.Source + ": " + e.Problems[0].String()
 	if n := len(e.Problems) - 1; n > 0 {
 		msg += fmt.Sprintf(" (and %d more bad line%s)", n, plural(n))
 	}
-	return msg
+	return safetext.Escape(msg)
 }
 
 // ErrBench is matched by errors.Is for every *BenchError.
@@ -152,19 +156,12 @@ func benchRow(rec []string, p Profile) (BenchPoint, string) {
 	return pt, ""
 }
 
-// SaveWithBackup saves p over path atomically after keeping the file that
-// was there as path + ".bak" (itself written atomically).
+// SaveWithBackup saves p over path as Save does, after keeping the file
+// that was there as path + ".bak" (itself written atomically, with the old
+// file's mode). SaveWithBackupIfUnchanged also checks that the file is the
+// one that was read.
 func SaveWithBackup(path string, p Profile) error {
-	data, err := encodeValid(path, p)
-	if err != nil {
-		return err
-	}
-	if old, err := readLimited(path); err == nil {
-		if err := WriteAtomic(path+".bak", old, 0o644); err != nil {
-			return fmt.Errorf("not saved: the backup %s.bak could not be written: %w", path, err)
-		}
-	}
-	return WriteAtomic(path, data, 0o644)
+	return guardedSave(path, p, true, nil)
 }
 
 // benchSpeed says why a bench speed cannot be this machine's, or "". A

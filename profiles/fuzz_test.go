@@ -7,6 +7,8 @@ import (
 	"os"
 	"path/filepath"
 	"testing"
+
+	"crankside/profiles/safetext"
 )
 
 func FuzzParse(f *testing.F) {
@@ -26,7 +28,20 @@ func FuzzParse(f *testing.F) {
 			if !errors.Is(err, ErrProfile) {
 				t.Fatalf("refusal is not a profile error: %v", err)
 			}
+			if _, _, found := safetext.FirstUnsafe(err.Error()); found {
+				t.Fatalf("the message holds a character unsafe to print: %q", err.Error())
+			}
 			return
+		}
+		// No text accepted can act on a terminal or hide a character.
+		texts := []string{p.ID, p.Label}
+		for _, h := range p.Crank.Holes {
+			texts = append(texts, h.Label)
+		}
+		for _, s := range texts {
+			if r, _, found := safetext.FirstUnsafe(s); found {
+				t.Fatalf("accepted text %q holding %U", s, r)
+			}
 		}
 		// Whatever is accepted is finite, valid, and survives a round trip.
 		for _, v := range []float64{p.Cylinder.BoreCm, p.Crank.RodCm, p.Crank.OffsetCm, p.Motor.MinRPM, p.Motor.MaxRPM, p.Motor.RPM} {

@@ -8,6 +8,9 @@ import (
 	"io"
 	"reflect"
 	"strings"
+	"unicode/utf8"
+
+	"crankside/profiles/safetext"
 )
 
 // MaxFileBytes is the largest profile file read; a real profile is a few kB.
@@ -22,11 +25,14 @@ type FieldError struct {
 	Problem string // the value and what is allowed
 }
 
+// Error is the path and the problem on one line. Both may hold text from
+// the file (an unknown key, a quoted value), so both are made safe to print
+// with safetext.Escape.
 func (e FieldError) Error() string {
 	if e.Path == "" {
-		return e.Problem
+		return safetext.Escape(e.Problem)
 	}
-	return e.Path + ": " + e.Problem
+	return safetext.Escape(e.Path) + ": " + safetext.Escape(e.Problem)
 }
 
 // Error lists every problem found in a profile.
@@ -39,7 +45,7 @@ func (e *Error) Error() string {
 	var b strings.Builder
 	b.WriteString("profile")
 	if e.Source != "" {
-		b.WriteString(" " + e.Source)
+		b.WriteString(" " + safetext.Escape(e.Source))
 	}
 	b.WriteString(": ")
 	if len(e.Problems) == 0 {
@@ -62,14 +68,24 @@ func plural(n int) string {
 	return "s"
 }
 
-// Parse reads a version 1 profile strictly and validates it. source names
-// the file in messages.
+// utf8BOM is the UTF-8 encoding of the byte order mark U+FEFF, which some
+// editors put at the start of a file.
+const utf8BOM = "\xef\xbb\xbf"
+
+// Parse reads a version 1 or 2 profile strictly and validates it. source
+// names the file in messages. A UTF-8 byte order mark at the start is
+// skipped; optional version 2 fields that are absent get their defaults,
+// listed in Profile.Defaults.
 func Parse(data []byte, source string) (Profile, error) {
 	fail := func(p ...FieldError) (Profile, error) {
 		return Profile{}, &Error{Source: source, Problems: p}
 	}
 	if len(data) > MaxFileBytes {
 		return fail(FieldError{Problem: fmt.Sprintf("file is %d bytes; a profile may be at most %d (1 MiB)", len(data), MaxFileBytes)})
+	}
+	data = bytes.TrimPrefix(data, []byte(utf8BOM))
+	if problem, ok := checkUTF8(data); !ok {
+		return fail(problem)
 	}
 	present, problems := scan(data)
 	if len(problems) > 0 {
@@ -81,13 +97,32 @@ func Parse(data []byte, source string) (Profile, error) {
 	if err := dec.Decode(&p); err != nil {
 		return fail(decodeProblem(err, data))
 	}
-	if problems := requireFields(present, p); len(problems) > 0 {
+	if problems := append(requireFields(present, p), versionFields(present, p.Format)...); len(problems) > 0 {
 		return fail(problems...)
 	}
+	applyDefaults(present, &p)
 	if problems := validate(p); len(problems) > 0 {
 		return fail(problems...)
 	}
 	return p, nil
+}
+
+// checkUTF8 refuses bytes that are not UTF-8: encoding/json would replace
+// them silently with U+FFFD, so two labels could differ in the file and look
+// the same on screen.
+func checkUTF8(data []byte) (FieldError, bool) {
+	if utf8.Valid(data) {
+		return FieldError{}, true
+	}
+	for i := 0; i < len(data); {
+		r, size := utf8.DecodeRune(data[i:])
+		if r == utf8.RuneError && size == 1 {
+			line, col := lineCol(data, int64(i))
+			return FieldError{Problem: fmt.Sprintf("byte 0x%02x at line %d, column %d is not UTF-8; save the file as UTF-8 text", data[i], line, col)}, false
+		}
+		i += size
+	}
+	return FieldError{}, true
 }
 
 func decodeProblem(err error, data []byte) FieldError {
@@ -155,6 +190,9 @@ func profileSchema() schema {
 		for i := 0; i < t.NumField(); i++ {
 			f := t.Field(i)
 			name := strings.Split(f.Tag.Get("json"), ",")[0]
+			if name == "-" {
+				continue
+			}
 			keys[name] = true
 			walk(join(path, name), f.Type)
 		}
@@ -171,7 +209,7 @@ func join(path, key string) string {
 	return path + "." + key
 }
 
-// maxDepth is deeper than any v1 profile goes (top, crank, holes, a hole).
+// maxDepth is deeper than any v1 or v2 profile goes (top, crank, holes, a hole).
 const maxDepth = 8
 
 // scan walks the JSON tokens once, before decoding, to refuse what
@@ -225,7 +263,7 @@ func scan(data []byte) (map[string]bool, []FieldError) {
 				case seen[key]:
 					problems = append(problems, FieldError{Path: kp, Problem: "appears twice; each key may appear once"})
 				case allowed != nil && !allowed[key]:
-					problems = append(problems, FieldError{Path: kp, Problem: "is not a field of " + FormatV1 + fmt.Sprintf(" (allowed here: %s)", keyList(allowed))})
+					problems = append(problems, FieldError{Path: kp, Problem: "is not a field of a crankside profile" + fmt.Sprintf(" (allowed here: %s)", keyList(allowed))})
 				case allowed == nil:
 					problems = append(problems, FieldError{Path: path, Problem: "must not be an object here"})
 				}

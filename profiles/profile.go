@@ -1,7 +1,17 @@
 package profiles
 
+import "strings"
+
 // FormatV1 is the format string of version 1 files.
 const FormatV1 = "crankside-profile/1"
+
+// FormatV2 is the format string of version 2 files: version 1 plus the
+// optional fields cylinder.clearance_cm and circuit.leak_l_min_at_20_cmh2o.
+// Marshal and Save write it.
+const FormatV2 = "crankside-profile/2"
+
+// FormatCurrent is the format that Marshal and Save write.
+const FormatCurrent = FormatV2
 
 // Profile is one built machine.
 type Profile struct {
@@ -14,12 +24,21 @@ type Profile struct {
 	Controller  Controller   `json:"controller"`
 	Circuit     Circuit      `json:"circuit"`
 	Calibration *Calibration `json:"calibration,omitempty"`
+
+	// Defaults lists the paths of the optional fields that the file did not
+	// have and that Parse filled with the format's default (for example
+	// "cylinder.clearance_cm"), in the order of the format, so that a
+	// summary can say so. It is never written to a file.
+	Defaults []string `json:"-"`
 }
 
 // Cylinder is the piston's cylinder.
 type Cylinder struct {
 	BoreCm        float64 `json:"bore_cm"`
 	RingFrictionN float64 `json:"ring_friction_n"`
+	// ClearanceCm is how far the cylinder head sits beyond the top dead
+	// centre of the largest hole (format /2; DefaultClearanceCm when absent).
+	ClearanceCm float64 `json:"clearance_cm"`
 }
 
 // Crank is the wheel, its holes and the connecting rod.
@@ -64,6 +83,9 @@ type Circuit struct {
 	ComplianceMLPerCmH2O           float64 `json:"compliance_ml_per_cmh2o"`
 	ExpiratoryResistanceCmH2OPerLS float64 `json:"expiratory_resistance_cmh2o_per_l_s"`
 	ReliefCmH2O                    float64 `json:"relief_cmh2o"`
+	// LeakLMinAt20CmH2O is the leak flow of machine and circuit at 20 cmH2O,
+	// linear in pressure (format /2; DefaultLeakLMinAt20CmH2O when absent).
+	LeakLMinAt20CmH2O float64 `json:"leak_l_min_at_20_cmh2o"`
 }
 
 // Calibration is the bench calibration: its date and the points measured.
@@ -89,6 +111,41 @@ func (p Profile) HoleByLabel(label string) (Hole, bool) {
 		}
 	}
 	return Hole{}, false
+}
+
+// HoleByLabelFold finds a hole as a person types its label: the exact label
+// first, else the one hole whose label matches ignoring case. ambiguous is
+// true (and found false) when several holes match ignoring case and none
+// exactly, so the caller can ask which one is meant.
+func (p Profile) HoleByLabelFold(label string) (h Hole, found, ambiguous bool) {
+	if h, ok := p.HoleByLabel(label); ok {
+		return h, true, false
+	}
+	n := 0
+	for _, c := range p.Crank.Holes {
+		if strings.EqualFold(c.Label, label) {
+			h = c
+			n++
+		}
+	}
+	switch n {
+	case 0:
+		return Hole{}, false, false
+	case 1:
+		return h, true, false
+	}
+	return Hole{}, false, true
+}
+
+// Defaulted reports whether the field at path was absent from the file and
+// filled with the format's default.
+func (p Profile) Defaulted(path string) bool {
+	for _, d := range p.Defaults {
+		if d == path {
+			return true
+		}
+	}
+	return false
 }
 
 // Fixed reports whether the motor has one speed.

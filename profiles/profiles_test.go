@@ -38,28 +38,36 @@ func TestDemoAGeometry(t *testing.T) {
 	}
 	require.Equal(t, Motor{Kind: MotorVariable, MinRPM: 8, MaxRPM: 40, RPMStep: 0.5, RatedTorqueNm: 12}, p.Motor)
 	require.Equal(t, Controller{DwellStepS: 0.1, MaxDwellS: 10}, p.Controller)
-	require.Equal(t, Circuit{ComplianceMLPerCmH2O: 1.5, ExpiratoryResistanceCmH2OPerLS: 3, ReliefCmH2O: 40}, p.Circuit)
+	require.Equal(t, Circuit{ComplianceMLPerCmH2O: 1.5, ExpiratoryResistanceCmH2OPerLS: 3, ReliefCmH2O: 40, LeakLMinAt20CmH2O: 0}, p.Circuit)
 	require.True(t, p.Calibration == nil || len(p.Calibration.Points) == 0)
+	// Version 2 fields (DESIGN.md demo data): clearance 1.0 cm, leak 0.
+	require.Equal(t, 1.0, p.Cylinder.ClearanceCm)
+	require.Equal(t, FormatV2, p.Format)
+	require.Empty(t, p.Defaults)
 }
 
 func TestDemoBGeometry(t *testing.T) {
-	// The invented demo unit B as specified for this program (no published
-	// source): bore 9.0, rod 25, in-line, 10 holes "A".."J" at 2.0
-	// to 6.5 cm in 0.5 steps; fixed 20 rpm rated 8 N m; dwell 0.1 up to 10 s;
-	// circuit 2.0, valve 4, relief 45; ring 15 N; four bench points.
+	// The invented demo unit B (no published source): bore 9.0, rod 25, in-line, 10 holes "A".."H", "J",
+	// "K" (no "I") at 2.0 to 6.5 cm in 0.5 steps; fixed 20 rpm rated 8 N m;
+	// dwell 0.1 up to 10 s; circuit 2.0, valve 4, relief 45; ring 15 N; four
+	// bench points; version 2: clearance 1.5 cm, leak 0.
 	p := demo(t, "demo-b")
 	require.Equal(t, 9.0, p.Cylinder.BoreCm)
 	require.Equal(t, 15.0, p.Cylinder.RingFrictionN)
 	require.Equal(t, 25.0, p.Crank.RodCm)
 	require.Equal(t, 0.0, p.Crank.OffsetCm)
 	require.Len(t, p.Crank.Holes, 10)
+	labels := []string{"A", "B", "C", "D", "E", "F", "G", "H", "J", "K"}
 	for i, h := range p.Crank.Holes {
-		require.Equal(t, string(rune('A'+i)), h.Label)
+		require.Equal(t, labels[i], h.Label)
 		require.InDelta(t, 2.0+0.5*float64(i), h.RadiusCm, 1e-12)
 	}
+	require.Equal(t, 1.5, p.Cylinder.ClearanceCm)
+	require.Equal(t, FormatV2, p.Format)
+	require.Empty(t, p.Defaults, "the demo writes every field out")
 	require.Equal(t, Motor{Kind: MotorFixed, RPM: 20, RatedTorqueNm: 8}, p.Motor)
 	require.Equal(t, Controller{DwellStepS: 0.1, MaxDwellS: 10}, p.Controller)
-	require.Equal(t, Circuit{ComplianceMLPerCmH2O: 2.0, ExpiratoryResistanceCmH2OPerLS: 4, ReliefCmH2O: 45}, p.Circuit)
+	require.Equal(t, Circuit{ComplianceMLPerCmH2O: 2.0, ExpiratoryResistanceCmH2OPerLS: 4, ReliefCmH2O: 45, LeakLMinAt20CmH2O: 0}, p.Circuit)
 	require.NotNil(t, p.Calibration)
 	require.Len(t, p.Calibration.Points, 4)
 }
@@ -148,7 +156,7 @@ func TestRefusalsOfTheRawText(t *testing.T) {
 		name, text, want string
 	}{
 		{"duplicate key", strings.Replace(s, `"id": "demo-a",`, `"id": "demo-a", "id": "demo-c",`, 1), "id: appears twice"},
-		{"syntax error with line and column", strings.Replace(s, `"label": "1"`, `"label": "1",,`, 1), "line 14, column 22"},
+		{"syntax error with line and column", strings.Replace(s, `"label": "1"`, `"label": "1",,`, 1), "line 15, column 22"}, // derived: the first hole label is line 15 of the marshalled file (3 cylinder fields, then crank),
 		{"ends early", s[:len(s)/2], "ends early"},
 		{"trailing data", s + "{}", "extra data"},
 		{"deep nesting", strings.Repeat("[", 100) + strings.Repeat("]", 100), "nested deeper"},
@@ -214,8 +222,25 @@ func TestListShowsBadFilesAndDuplicates(t *testing.T) {
 	require.Error(t, byID["broken"][0].Err)
 	require.Len(t, byID["demo-a"], 2)
 	for _, e := range byID["demo-a"] {
-		require.ErrorContains(t, e.Err, "also used by")
+		if e.Source.Embedded {
+			require.NoError(t, e.Err, "the built-in keeps its id")
+			continue
+		}
+		require.ErrorContains(t, e.Err, "built-in demo's")
 	}
+	// Two files with one id both carry an error.
+	require.NoError(t, Save(filepath.Join(dir, "ward-3-copy.json"), good))
+	entries, err = List(dir)
+	require.NoError(t, err)
+	n := 0
+	for _, e := range entries {
+		if e.ID == "ward-3" {
+			n++
+			require.ErrorContains(t, e.Err, "also used by")
+		}
+	}
+	require.Equal(t, 2, n)
+	require.NoError(t, os.Remove(filepath.Join(dir, "ward-3-copy.json")))
 	require.NoError(t, byID["demo-b"][0].Err)
 	// Open by id finds the directory's profile; by path the file itself.
 	p, src, err := Open("ward-3", dir)

@@ -6,10 +6,15 @@ import (
 	"fmt"
 	"os"
 	"path/filepath"
+
+	"crankside/profiles/safetext"
 )
 
-// Marshal writes a profile in the v1 format, indented, ending in a newline.
+// Marshal writes a profile in the current format (FormatCurrent, version 2),
+// indented, ending in a newline; a version 1 profile is written as version
+// 2 with its defaults written out.
 func Marshal(p Profile) ([]byte, error) {
+	p.Format = FormatCurrent
 	var b bytes.Buffer
 	enc := json.NewEncoder(&b)
 	enc.SetIndent("", "  ")
@@ -21,13 +26,14 @@ func Marshal(p Profile) ([]byte, error) {
 
 // Save validates p and writes it to path atomically: a temporary file in the
 // same directory, synced, then renamed over the old file, then the
-// directory synced. On any error the old file is left as it was.
+// directory synced. On any error the old file is left as it was. It refuses
+// a symbolic link (naming the real file) and anything not a regular file,
+// keeps an existing file's mode (a new file is 0644), holds an exclusive
+// lock on path + ".lock" while it writes, and removes temporary files of
+// its own naming left by a save killed more than 10 minutes ago. Save does
+// not check whether the file changed since it was read: SaveIfUnchanged does.
 func Save(path string, p Profile) error {
-	data, err := encodeValid(path, p)
-	if err != nil {
-		return err
-	}
-	return WriteAtomic(path, data, 0o644)
+	return guardedSave(path, p, false, nil)
 }
 
 // encodeValid marshals p and parses the result back, so that nothing is
@@ -55,13 +61,13 @@ func writeAtomic(path string, data []byte, mode os.FileMode, beforeRename func(t
 	dir := filepath.Dir(path)
 	tmp, err := os.CreateTemp(dir, "."+filepath.Base(path)+".tmp-*")
 	if err != nil {
-		return fmt.Errorf("not saved (%s unchanged): %w", path, err)
+		return fmt.Errorf("not saved (%s unchanged): %w", safetext.Escape(path), err)
 	}
 	name := tmp.Name()
 	fail := func(err error) error {
 		tmp.Close()
 		os.Remove(name)
-		return fmt.Errorf("not saved (%s unchanged): %w", path, err)
+		return fmt.Errorf("not saved (%s unchanged): %w", safetext.Escape(path), err)
 	}
 	if _, err := tmp.Write(data); err != nil {
 		return fail(err)
@@ -74,7 +80,7 @@ func writeAtomic(path string, data []byte, mode os.FileMode, beforeRename func(t
 	}
 	if err := tmp.Close(); err != nil {
 		os.Remove(name)
-		return fmt.Errorf("not saved (%s unchanged): %w", path, err)
+		return fmt.Errorf("not saved (%s unchanged): %w", safetext.Escape(path), err)
 	}
 	if beforeRename != nil {
 		if err := beforeRename(name); err != nil {
@@ -83,7 +89,7 @@ func writeAtomic(path string, data []byte, mode os.FileMode, beforeRename func(t
 	}
 	if err := os.Rename(name, path); err != nil {
 		os.Remove(name)
-		return fmt.Errorf("not saved (%s unchanged): %w", path, err)
+		return fmt.Errorf("not saved (%s unchanged): %w", safetext.Escape(path), err)
 	}
 	if d, err := os.Open(dir); err == nil {
 		d.Sync()

@@ -6,6 +6,9 @@ import (
 	"sort"
 	"strings"
 	"time"
+	"unicode/utf8"
+
+	"crankside/profiles/safetext"
 )
 
 func sortStrings(s []string) { sort.Strings(s) }
@@ -88,17 +91,46 @@ func (c *checker) between(path string, v, lo, hi float64, loInclusive bool, unit
 
 func num(v float64) string { return fmt.Sprintf("%g", v) }
 
+// Plausible ranges of a home-built adult piston unit. They are engineering
+// judgement (common practice for such units, no published source): wide
+// enough for any unit we can imagine being built, narrow enough that a value
+// in the wrong unit (mm for cm, m for cm) or a corrupted number is refused
+// rather than planned. Both demos sit well inside them.
+const (
+	minBoreCm, maxBoreCm                     = 3.0, 30.0  // a 60 mL syringe to a large paint-tin cylinder
+	minRodCm, maxRodCm                       = 2.0, 100.0 // the rod must also clear the largest radius
+	minRadiusCm, maxRadiusCm                 = 0.2, 20.0  // a hole on a wheel a bench can hold
+	maxOffsetCm                              = 20.0       // |e|, either side
+	minClearanceCm, maxClearanceCm           = 0.1, 10.0  // the head must sit beyond top dead centre
+	maxRingFrictionN                         = 500.0
+	minCircuitComplianceML, maxCircuitCompML = 0.1, 10.0 // adult tubing is about 1-3 mL/cmH2O
+	maxExpiratoryResistance                  = 50.0      // cmH2O/(L/s), the expiratory and PEEP valves
+	minReliefCmH2O, maxReliefCmH2O           = 10.0, 80.0
+	maxLeakLMin                              = 30.0 // L/min at 20 cmH2O
+)
+
+// plausible checks lo <= v <= hi for a physical size and gives the accepted
+// range in the message.
+func (c *checker) plausible(path string, v, lo, hi float64, unit string) bool {
+	if math.IsNaN(v) || math.IsInf(v, 0) || v < lo || v > hi {
+		c.add(path, "%s %s is outside the accepted range %s to %s %s for a home-built adult unit", num(v), unit, num(lo), num(hi), unit)
+		return false
+	}
+	return true
+}
+
 func validate(p Profile) []FieldError {
 	c := &checker{}
-	if p.Format != FormatV1 {
-		c.add("format", "%s is not known; this version reads %q", quote(p.Format), FormatV1)
+	if p.Format != FormatV1 && p.Format != FormatV2 {
+		c.add("format", "%s is not known; this version reads %q and %q", quote(p.Format), FormatV1, FormatV2)
 	}
 	validText(c, "id", p.ID, maxIDLen, true)
 	validText(c, "label", p.Label, maxLabelLen*2, false)
-	c.between("cylinder.bore_cm", p.Cylinder.BoreCm, 0, 40, false, "cm")
-	c.between("cylinder.ring_friction_n", p.Cylinder.RingFrictionN, 0, 2000, true, "N")
-	rodOK := c.between("crank.rod_cm", p.Crank.RodCm, 0, 200, false, "cm")
-	offsetOK := c.between("crank.offset_cm", math.Abs(p.Crank.OffsetCm), 0, 50, true, "cm (absolute)")
+	c.plausible("cylinder.bore_cm", p.Cylinder.BoreCm, minBoreCm, maxBoreCm, "cm")
+	c.plausible("cylinder.ring_friction_n", p.Cylinder.RingFrictionN, 0, maxRingFrictionN, "N")
+	c.plausible("cylinder.clearance_cm", p.Cylinder.ClearanceCm, minClearanceCm, maxClearanceCm, "cm")
+	rodOK := c.plausible("crank.rod_cm", p.Crank.RodCm, minRodCm, maxRodCm, "cm")
+	offsetOK := c.plausible("crank.offset_cm", p.Crank.OffsetCm, -maxOffsetCm, maxOffsetCm, "cm")
 
 	switch n := len(p.Crank.Holes); {
 	case n == 0:
@@ -118,7 +150,7 @@ func validate(p Profile) []FieldError {
 			c.add(path+".label", "%s is already the label of crank.holes[%d]; labels must differ", quote(h.Label), j)
 		}
 		labels[h.Label] = i
-		if c.between(path+".radius_cm", h.RadiusCm, 0, 50, false, "cm") {
+		if c.plausible(path+".radius_cm", h.RadiusCm, minRadiusCm, maxRadiusCm, "cm") {
 			largest = math.Max(largest, h.RadiusCm)
 		}
 	}
@@ -144,36 +176,44 @@ func validate(p Profile) []FieldError {
 	c.between("motor.rated_torque_nm", m.RatedTorqueNm, 0, 1000, false, "N m")
 	c.between("controller.dwell_step_s", p.Controller.DwellStepS, 0, 5, false, "s")
 	c.between("controller.max_dwell_s", p.Controller.MaxDwellS, 0, 120, true, "s")
-	c.between("circuit.compliance_ml_per_cmh2o", p.Circuit.ComplianceMLPerCmH2O, 0, 50, false, "mL/cmH2O")
-	c.between("circuit.expiratory_resistance_cmh2o_per_l_s", p.Circuit.ExpiratoryResistanceCmH2OPerLS, 0, 200, true, "cmH2O/(L/s)")
-	c.between("circuit.relief_cmh2o", p.Circuit.ReliefCmH2O, 0, 120, false, "cmH2O")
+	c.plausible("circuit.compliance_ml_per_cmh2o", p.Circuit.ComplianceMLPerCmH2O, minCircuitComplianceML, maxCircuitCompML, "mL/cmH2O")
+	c.plausible("circuit.expiratory_resistance_cmh2o_per_l_s", p.Circuit.ExpiratoryResistanceCmH2OPerLS, 0, maxExpiratoryResistance, "cmH2O/(L/s)")
+	c.plausible("circuit.relief_cmh2o", p.Circuit.ReliefCmH2O, minReliefCmH2O, maxReliefCmH2O, "cmH2O")
+	c.plausible("circuit.leak_l_min_at_20_cmh2o", p.Circuit.LeakLMinAt20CmH2O, 0, maxLeakLMin, "L/min")
 
-	if cal := p.Calibration; cal != nil {
-		if _, err := time.Parse(time.DateOnly, cal.Date); err != nil {
-			c.add("calibration.date", "%s is not a date written YYYY-MM-DD", quote(cal.Date))
-		}
-		if n := len(cal.Points); n > MaxBenchPoints {
-			c.add("calibration.points", "has %d points; at most %d are allowed", n, MaxBenchPoints)
-		}
-		for i, pt := range cal.Points {
-			if i >= MaxBenchPoints {
-				break
-			}
-			path := fmt.Sprintf("calibration.points[%d]", i)
-			if _, ok := p.HoleByLabel(pt.Hole); !ok {
-				c.add(path+".hole", "%s is not a hole of this profile (holes: %s)", quote(pt.Hole), holeList(p))
-			}
-			c.between(path+".test_lung_compliance_ml_per_cmh2o", pt.TestLungComplianceMLPerCmH2O, 0, 500, false, "mL/cmH2O")
-			c.between(path+".test_lung_resistance_cmh2o_per_l_s", pt.TestLungResistanceCmH2OPerLS, 0, 500, false, "cmH2O/(L/s)")
-			if c.between(path+".rpm", pt.RPM, 0, 200, false, "rpm") {
-				if why := benchSpeed(pt.RPM, p.Motor); why != "" && (p.Motor.Kind == MotorFixed || p.Motor.Kind == MotorVariable) {
-					c.add(path+".rpm", "%s", why)
-				}
-			}
-			c.between(path+".measured_ml", pt.MeasuredML, 0, 5000, false, "mL")
-		}
-	}
+	validateCalibration(c, p)
 	return c.problems
+}
+
+// validateCalibration checks the bench calibration, when there is one.
+func validateCalibration(c *checker, p Profile) {
+	cal := p.Calibration
+	if cal == nil {
+		return
+	}
+	if _, err := time.Parse(time.DateOnly, cal.Date); err != nil {
+		c.add("calibration.date", "%s is not a date written YYYY-MM-DD", quote(cal.Date))
+	}
+	if n := len(cal.Points); n > MaxBenchPoints {
+		c.add("calibration.points", "has %d points; at most %d are allowed", n, MaxBenchPoints)
+	}
+	for i, pt := range cal.Points {
+		if i >= MaxBenchPoints {
+			break
+		}
+		path := fmt.Sprintf("calibration.points[%d]", i)
+		if _, ok := p.HoleByLabel(pt.Hole); !ok {
+			c.add(path+".hole", "%s is not a hole of this profile (holes: %s)", quote(pt.Hole), holeList(p))
+		}
+		c.between(path+".test_lung_compliance_ml_per_cmh2o", pt.TestLungComplianceMLPerCmH2O, 0, 500, false, "mL/cmH2O")
+		c.between(path+".test_lung_resistance_cmh2o_per_l_s", pt.TestLungResistanceCmH2OPerLS, 0, 500, false, "cmH2O/(L/s)")
+		if c.between(path+".rpm", pt.RPM, 0, 200, false, "rpm") {
+			if why := benchSpeed(pt.RPM, p.Motor); why != "" && (p.Motor.Kind == MotorFixed || p.Motor.Kind == MotorVariable) {
+				c.add(path+".rpm", "%s", why)
+			}
+		}
+		c.between(path+".measured_ml", pt.MeasuredML, 0, 5000, false, "mL")
+	}
 }
 
 func holeList(p Profile) string {
@@ -197,14 +237,17 @@ func validText(c *checker, path, v string, max int, idLike bool) {
 		c.add(path, "is %d characters; at most %d are allowed", len(v), max)
 		return
 	}
+	if r, at, found := safetext.FirstUnsafe(v); found {
+		c.add(path, "contains %s %s at position %d; remove it", safetext.Kind(r), codePoint(r), utf8.RuneCountInString(v[:at])+1)
+		return
+	}
 	for _, r := range v {
-		if r < 0x20 || r == 0x7f {
-			c.add(path, "%s holds a control character", quote(v))
-			return
-		}
 		if idLike && !(r >= 'a' && r <= 'z' || r >= '0' && r <= '9' || r == '-' || r == '_') {
 			c.add(path, "%s may hold only lower-case letters, digits, - and _", quote(v))
 			return
 		}
 	}
 }
+
+// codePoint writes r as U+200B for a message.
+func codePoint(r rune) string { return fmt.Sprintf("U+%04X", r) }
