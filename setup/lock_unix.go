@@ -52,6 +52,8 @@ func explainOpenError(path string, err error) error {
 	case errors.Is(err, syscall.ENXIO):
 		// O_WRONLY|O_NONBLOCK on a FIFO with no reader.
 		return fmt.Errorf("log %s is not a regular file (a named pipe or device); give a plain file", path)
+	case errors.Is(err, syscall.EISDIR):
+		return fmt.Errorf("log %s is not a regular file (a folder); give a file in it", path)
 	}
 	return fmt.Errorf("log %s: %w", path, unwrapPathError(err))
 }
