@@ -29,7 +29,12 @@ func writeLargeLog(tb testing.TB, path string, n, beds int) {
 		hole       string
 		rpm, dwell float64
 	}{{"8", 21, 1.4}, {"7", 21, 1.4}, {"8", 20, 1.5}} {
-		ck, err := setup.RunCheck(checkReq(s.hole, s.rpm, s.dwell), profile(tb, "demo-a"))
+		req := checkReq(s.hole, s.rpm, s.dwell)
+		if i == 1 { // one kind carries a proposal, as many real checks do
+			rpm := 20.0
+			req.Proposal = setup.Proposal{RPM: &rpm}
+		}
+		ck, err := setup.RunCheck(req, profile(tb, "demo-a"))
 		require.NoError(tb, err)
 		rec, err := setup.NewRecord(ck, "B1", "ab", genStart.Add(time.Duration(i)*time.Second))
 		require.NoError(tb, err)

@@ -81,7 +81,13 @@ func newest(items []histItem, keep int) []histItem {
 // hold (JSON allows "\u0042" for "B"), in which case only decoding can
 // tell.
 func mayHoldLabel(text, label []byte) bool {
-	if bytes.Contains(text, label) || bytes.Contains(text, []byte(`\/`)) {
+	if bytes.Contains(text, label) {
+		return true
+	}
+	if bytes.IndexByte(text, '\\') < 0 {
+		return false // no escape at all: the label is not there
+	}
+	if bytes.Contains(text, []byte(`\/`)) {
 		return true
 	}
 	for rest := text; ; {

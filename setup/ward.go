@@ -238,45 +238,53 @@ func (w *wardReader) rows(now time.Time, every time.Duration) (rows []WardRow, e
 }
 
 var (
-	keyFormat = []byte(`"format":"` + RecordFormat + `"`)
-	keyBed    = []byte(`"bed":"`)
-	keyTime   = []byte(`"time":"`)
+	recordPrefix = []byte(`{"format":"` + RecordFormat + `","time":"`)
+	bedAfterTime = []byte(`","bed":"`)
+	headerKeys   = [][]byte{[]byte(`"format"`), []byte(`"time"`), []byte(`"bed"`)}
 )
 
-// quickHeader finds a compact record's bed and time without decoding the
-// line: each key must appear exactly once, its value without escapes.
-// Anything else (other spacing, escapes, a repeated key) is left to
-// decodedHeader.
+// quickHeader reads the bed and time of a line written as this program
+// writes records (format, time and bed first, compact, no escapes in the
+// line) without decoding it. The rest of the line must not hold any of
+// those keys again (a later duplicate is what a decoder would keep); a
+// line with any backslash is left to decodedHeader, since an escaped key
+// could hide a duplicate.
 func quickHeader(text []byte) (bed string, at time.Time, ok bool) {
-	if !bytes.Contains(text, keyFormat) {
+	if !bytes.HasPrefix(text, recordPrefix) || bytes.IndexByte(text, '\\') >= 0 {
 		return "", time.Time{}, false
 	}
-	b, ok1 := onlyStringValue(text, keyBed)
-	t, ok2 := onlyStringValue(text, keyTime)
-	if !ok1 || !ok2 {
+	rest := text[len(recordPrefix):]
+	i := bytes.Index(rest, bedAfterTime)
+	if i < 0 || i > 64 {
+		return "", time.Time{}, false
+	}
+	t := rest[:i]
+	rest = rest[i+len(bedAfterTime):]
+	j := bytes.IndexByte(rest, '"')
+	if j < 0 {
+		return "", time.Time{}, false
+	}
+	if repeatsHeaderKey(rest[j:]) {
 		return "", time.Time{}, false
 	}
 	at, err := time.Parse(time.RFC3339Nano, string(t))
 	if err != nil {
 		return "", time.Time{}, false
 	}
-	return string(b), at, true
+	return string(rest[:j]), at, true
 }
 
-func onlyStringValue(text, key []byte) ([]byte, bool) {
-	i := bytes.Index(text, key)
-	if i < 0 {
-		return nil, false
+// repeatsHeaderKey reports whether text, free of escapes, holds the
+// string "format", "time" or "bed" anywhere: as a key at any depth, with
+// any spacing before its colon, or (harmlessly: the line is then decoded)
+// as a value.
+func repeatsHeaderKey(text []byte) bool {
+	for _, k := range headerKeys {
+		if bytes.Contains(text, k) {
+			return true
+		}
 	}
-	rest := text[i+len(key):]
-	if bytes.Contains(rest, key) {
-		return nil, false
-	}
-	j := bytes.IndexByte(rest, '"')
-	if j < 0 || bytes.IndexByte(rest[:j], '\\') >= 0 {
-		return nil, false
-	}
-	return rest[:j], true
+	return false
 }
 
 // decodedHeader decodes only a record's format, time and bed.
