@@ -137,18 +137,28 @@ func ReadHistories(paths []string, bed string, limit int) ([]BedHistory, LogSumm
 	if err != nil {
 		return nil, sum, err
 	}
-	h := &historyReader{bed: bed, keys: map[[sha256.Size]byte]struct{}{}, byBed: map[string][]histItem{}, total: map[string]int{}, sum: &sum}
+	h := newHistoryReader(bed, limit, &sum)
+	for i, path := range files {
+		if err := readOneLog(path, &sum, h.visit(path, i)); err != nil {
+			return nil, sum, err
+		}
+	}
+	return h.histories(limit), sum, nil
+}
+
+func newHistoryReader(bed string, limit int, sum *LogSummary) *historyReader {
+	h := &historyReader{bed: bed, keys: map[[sha256.Size]byte]struct{}{}, byBed: map[string][]histItem{}, total: map[string]int{}, sum: sum}
 	if bed != "" {
 		h.needle = []byte(bed)
 	}
 	if limit > 0 {
 		h.keep = limit + 1 // one more, for what changed before the oldest shown
 	}
-	for i, path := range files {
-		if err := readOneLog(path, &sum, h.visit(path, i)); err != nil {
-			return nil, sum, err
-		}
-	}
+	return h
+}
+
+// histories is what was read, beds in ward order.
+func (h *historyReader) histories(limit int) []BedHistory {
 	var beds []string
 	for b := range h.byBed {
 		beds = append(beds, b)
@@ -158,7 +168,7 @@ func ReadHistories(paths []string, bed string, limit int) ([]BedHistory, LogSumm
 	for _, b := range beds {
 		out = append(out, bedHistory(b, newest(h.byBed[b], h.keep), limit, h.total[b]))
 	}
-	return out, sum, nil
+	return out
 }
 
 // bedHistory turns one bed's items, oldest first, into entries newest
