@@ -5,6 +5,7 @@ import (
 	"crypto/sha256"
 	"errors"
 	"sort"
+	"time"
 )
 
 // histItem is a record with where it was found.
@@ -19,13 +20,17 @@ type histItem struct {
 // listed earlier counts as the later one (so a record copied into several
 // logs is shown as from the first log listed), then by line.
 func itemBefore(a, b histItem) bool {
-	if !a.rec.Time.Equal(b.rec.Time) {
-		return a.rec.Time.Before(b.rec.Time)
+	return orderBefore(a.rec.Time, a.logIdx, a.line, b.rec.Time, b.logIdx, b.line)
+}
+
+func orderBefore(atA time.Time, logA, lineA int, atB time.Time, logB, lineB int) bool {
+	if !atA.Equal(atB) {
+		return atA.Before(atB)
 	}
-	if a.logIdx != b.logIdx {
-		return a.logIdx > b.logIdx
+	if logA != logB {
+		return logA > logB
 	}
-	return a.line < b.line
+	return lineA < lineB
 }
 
 type historyReader struct {

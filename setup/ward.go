@@ -172,8 +172,7 @@ type wardCandidate struct {
 }
 
 func (a wardCandidate) before(b wardCandidate) bool {
-	return itemBefore(histItem{rec: Record{Time: a.at}, logIdx: a.logIdx, line: a.line},
-		histItem{rec: Record{Time: b.at}, logIdx: b.logIdx, line: b.line})
+	return orderBefore(a.at, a.logIdx, a.line, b.at, b.logIdx, b.line)
 }
 
 type wardReader struct {
@@ -237,10 +236,9 @@ func (w *wardReader) rows(now time.Time, every time.Duration) (rows []WardRow, e
 	return rows, true
 }
 
-var (
-	recordPrefix = []byte(`{"format":"` + RecordFormat + `","time":"`)
-	bedAfterTime = []byte(`","bed":"`)
-	headerKeys   = [][]byte{[]byte(`"format"`), []byte(`"time"`), []byte(`"bed"`)}
+const (
+	recordPrefix = `{"format":"` + RecordFormat + `","time":"`
+	bedAfterTime = `","bed":"`
 )
 
 // quickHeader reads the bed and time of a line written as this program
@@ -250,11 +248,11 @@ var (
 // line with any backslash is left to decodedHeader, since an escaped key
 // could hide a duplicate.
 func quickHeader(text []byte) (bed string, at time.Time, ok bool) {
-	if !bytes.HasPrefix(text, recordPrefix) || bytes.IndexByte(text, '\\') >= 0 {
+	if !bytes.HasPrefix(text, []byte(recordPrefix)) || bytes.IndexByte(text, '\\') >= 0 {
 		return "", time.Time{}, false
 	}
 	rest := text[len(recordPrefix):]
-	i := bytes.Index(rest, bedAfterTime)
+	i := bytes.Index(rest, []byte(bedAfterTime))
 	if i < 0 || i > 64 {
 		return "", time.Time{}, false
 	}
@@ -279,12 +277,7 @@ func quickHeader(text []byte) (bed string, at time.Time, ok bool) {
 // any spacing before its colon, or (harmlessly: the line is then decoded)
 // as a value.
 func repeatsHeaderKey(text []byte) bool {
-	for _, k := range headerKeys {
-		if bytes.Contains(text, k) {
-			return true
-		}
-	}
-	return false
+	return bytes.Contains(text, []byte(`"format"`)) || bytes.Contains(text, []byte(`"time"`)) || bytes.Contains(text, []byte(`"bed"`))
 }
 
 // decodedHeader decodes only a record's format, time and bed.
