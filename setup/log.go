@@ -131,7 +131,8 @@ func readRecords(r io.Reader) ([]Record, []LogProblem, error) {
 }
 
 // BedHistory is one bed's checks in time order, each with what changed
-// since the one before.
+// since the one before: oldest first from History, newest first from
+// ReadHistories and ReadBedHistory.
 type BedHistory struct {
 	Bed     string
 	Entries []HistoryEntry
