@@ -28,4 +28,14 @@
 // Bad input (a height out of range, an unknown sex, an invalid profile)
 // returns an *InputError naming the field, the value and the accepted
 // range; nothing here panics on data.
+//
+// The handover log is one JSON line per check (crankside-check/1). It is
+// opened only as the user's own regular file: never through a symbolic
+// link, never a pipe or device (opened without blocking, then checked),
+// never one others may read or write (CheckLogPath says why and how to
+// fix it). Reading is a stream in bounded memory: a line over
+// MaxRecordBytes is dropped as it is read, damaged lines are counted with
+// the first MaxProblemsKept kept (LogSummary), and ReadBedHistory and
+// WardRows read several logs or folders of logs, merged by time, a copied
+// record counted once, decoding only the lines that may be shown.
 package setup

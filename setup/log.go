@@ -1,8 +1,6 @@
 package setup
 
 import (
-	"bufio"
-	"bytes"
 	"encoding/json"
 	"errors"
 	"fmt"
@@ -17,7 +15,9 @@ import (
 const MaxRecordBytes = 256 << 10
 
 // AppendRecord adds one record to the log as one JSON line: the file is
-// created with mode 0600 if needed, locked against other writers, the line
+// created with mode 0600 if needed (an existing one must be a regular
+// file of this user's that nobody else may read or write, never reached
+// through a link: see CheckLogPath), locked against other writers, the line
 // is written with a single write and synced before the lock is released.
 // If the file's last line was torn by an earlier crash, the record starts
 // on a fresh line so the torn one stays alone. On error nothing earlier in
@@ -30,16 +30,16 @@ func AppendRecord(path string, rec Record) error {
 	if len(line) >= MaxRecordBytes {
 		return fmt.Errorf("record is %d bytes, more than a log line may hold", len(line))
 	}
-	f, err := os.OpenFile(path, os.O_WRONLY|os.O_APPEND|os.O_CREATE, 0o600)
+	f, err := openLogForAppend(path)
 	if err != nil {
-		return fmt.Errorf("log %s: %w", path, unwrapPathError(err))
+		return err
 	}
 	defer f.Close()
 	if err := lockFile(f); err != nil {
 		return fmt.Errorf("log %s: cannot lock: %w", path, err)
 	}
 	defer unlockFile(f)
-	if torn, err := endsTorn(path); err != nil {
+	if torn, err := endsTorn(f); err != nil {
 		return fmt.Errorf("log %s: %w", path, err)
 	} else if torn {
 		line = append([]byte{'\n'}, line...)
@@ -62,112 +62,88 @@ func unwrapPathError(err error) error {
 	return err
 }
 
-// endsTorn reports whether a non-empty file does not end in a newline.
-func endsTorn(path string) (bool, error) {
-	r, err := os.Open(path)
-	if err != nil {
-		return false, err
-	}
-	defer r.Close()
-	st, err := r.Stat()
+// endsTorn reports whether the open, non-empty file does not end in a
+// newline.
+func endsTorn(f *os.File) (bool, error) {
+	st, err := f.Stat()
 	if err != nil || st.Size() == 0 {
 		return false, err
 	}
 	b := make([]byte, 1)
-	if _, err := r.ReadAt(b, st.Size()-1); err != nil {
+	if _, err := f.ReadAt(b, st.Size()-1); err != nil {
 		return false, err
 	}
 	return b[0] != '\n', nil
 }
 
-// LogProblem is a line of the log that could not be read.
+// LogProblem is a line of the log that could not be read. Line 0 marks
+// the line that says how many more were counted but not kept.
 type LogProblem struct {
-	Line   int
-	Reason string
+	Log    string `json:"log,omitempty"` // set when several logs are read
+	Line   int    `json:"line"`
+	Reason string `json:"reason"`
 }
 
-func (p LogProblem) String() string { return fmt.Sprintf("line %d: %s", p.Line, p.Reason) }
+func (p LogProblem) String() string {
+	if p.Line == 0 {
+		return p.Reason
+	}
+	return fmt.Sprintf("line %d: %s", p.Line, p.Reason)
+}
 
-// ReadLog reads every record it can. A torn last line (a crash while
-// writing), junk, or an over-long line is skipped and reported; no earlier
-// record is lost because of it.
+// ReadLog reads every record it can from one log, in file order. A torn
+// last line (a crash while writing), junk, or an over-long line is
+// skipped; no earlier record is lost because of it. At most
+// MaxProblemsKept problems are returned with their line numbers, then, if
+// there were more, one with Line 0 saying how many ("and N more damaged
+// lines"). The log must be the user's own regular file (see
+// CheckLogPath): a link, a pipe or a device such as /dev/zero is refused
+// at once.
 func ReadLog(path string) ([]Record, []LogProblem, error) {
-	f, err := os.Open(path)
+	f, err := openLogForRead(path)
 	if err != nil {
-		return nil, nil, fmt.Errorf("log %s: %w", path, unwrapPathError(err))
+		return nil, nil, err
 	}
 	defer f.Close()
-	return readRecords(f)
+	recs, problems, err := readRecords(f)
+	if err != nil {
+		err = fmt.Errorf("log %s: %w", path, unwrapPathError(err))
+	}
+	return recs, problems, err
 }
 
 func readRecords(r io.Reader) ([]Record, []LogProblem, error) {
-	br := bufio.NewReaderSize(r, 64<<10)
 	var recs []Record
-	var problems []LogProblem
-	for n := 1; ; n++ {
-		line, tooLong, complete, err := readLine(br)
-		if err != nil && !errors.Is(err, io.EOF) {
-			return recs, problems, err
+	var sum LogSummary
+	err := scanLog(r, "", &sum, func(n int, text []byte) {
+		rec, ok := decodeRecord(text)
+		if !ok {
+			sum.damaged("", n, reasonJunk)
+			return
 		}
-		if len(line) == 0 && !tooLong && errors.Is(err, io.EOF) {
-			break
-		}
-		switch {
-		case tooLong:
-			problems = append(problems, LogProblem{n, fmt.Sprintf("longer than %d bytes; skipped", MaxRecordBytes)})
-		case len(bytes.TrimSpace(line)) == 0:
-		case !complete:
-			problems = append(problems, LogProblem{n, "torn last line (the program stopped while writing it); skipped"})
-		default:
-			var rec Record
-			dec := json.NewDecoder(bytes.NewReader(line))
-			if err := dec.Decode(&rec); err != nil || rec.Format != RecordFormat {
-				problems = append(problems, LogProblem{n, "not a check record; skipped"})
-				break
-			}
-			recs = append(recs, rec)
-		}
-		if errors.Is(err, io.EOF) {
-			break
-		}
+		recs = append(recs, rec)
+	})
+	problems := sum.Problems
+	if more := sum.Damaged - len(sum.Problems); more > 0 {
+		problems = append(problems, LogProblem{Reason: moreDamaged(more)})
 	}
-	return recs, problems, nil
-}
-
-// readLine returns one line without its newline; complete is false when the
-// input ended before a newline. A line over MaxRecordBytes is consumed and
-// reported as too long without being held in memory.
-func readLine(br *bufio.Reader) (line []byte, tooLong, complete bool, err error) {
-	for {
-		chunk, err := br.ReadSlice('\n')
-		if !tooLong {
-			line = append(line, chunk...)
-			if len(line) > MaxRecordBytes {
-				tooLong, line = true, nil
-			}
-		}
-		switch {
-		case err == nil:
-			return bytes.TrimSuffix(line, []byte("\n")), tooLong, true, nil
-		case errors.Is(err, bufio.ErrBufferFull):
-			continue
-		default:
-			return line, tooLong, false, err
-		}
-	}
+	return recs, problems, err
 }
 
 // BedHistory is one bed's checks in time order, each with what changed
-// since the one before.
+// since the one before: oldest first from History, newest first from
+// ReadHistories and ReadBedHistory.
 type BedHistory struct {
 	Bed     string
 	Entries []HistoryEntry
+	Total   int // the bed's checks in the logs read, when more may exist than Entries holds
 }
 
 // HistoryEntry is a record and its changes from the bed's previous record.
 type HistoryEntry struct {
 	Record  Record   `json:"record"`
 	Changes []string `json:"changes"`
+	Log     string   `json:"log,omitempty"` // the log (terminal) it came from, when read by ReadHistories
 }
 
 // History groups records by bed (only bed, when it is not empty), oldest
@@ -188,7 +164,7 @@ func History(recs []Record, bed string) []BedHistory {
 	for _, b := range beds {
 		rs := byBed[b]
 		sort.SliceStable(rs, func(i, j int) bool { return rs[i].Time.Before(rs[j].Time) })
-		h := BedHistory{Bed: b}
+		h := BedHistory{Bed: b, Total: len(rs)}
 		for i, r := range rs {
 			e := HistoryEntry{Record: r}
 			if i > 0 {

@@ -5,6 +5,7 @@ import (
 	"encoding/json"
 	"strings"
 	"testing"
+	"time"
 )
 
 func FuzzReadLog(f *testing.F) {
@@ -25,6 +26,77 @@ func FuzzReadLog(f *testing.F) {
 		for _, r := range recs {
 			if r.Format != RecordFormat {
 				t.Fatalf("accepted a record of format %q", r.Format)
+			}
+		}
+	})
+}
+
+// FuzzStreamMatchesWhole is a property: on the same bytes, the streaming
+// readers keep the same records as decoding every line (ReadLog's
+// reader), once duplicates (the same JSON on re-encoding) are dropped
+// from the latter, and the ward's quick look picks each bed's newest.
+func FuzzStreamMatchesWhole(f *testing.F) {
+	rec := Record{Format: RecordFormat, Bed: "B4", Initials: "AB", Time: time.Date(2026, 12, 1, 9, 0, 0, 0, time.UTC)}
+	good, _ := json.Marshal(rec)
+	rec.Bed, rec.Time = "B5", rec.Time.Add(time.Minute)
+	other, _ := json.Marshal(rec)
+	f.Add([]byte(string(good) + "\n" + string(other) + "\n" + string(good) + "\n"))
+	f.Add([]byte(string(good) + "\n" + strings.Replace(string(other), `"bed":"B5"`, `"bed":"B4","bed":"B5"`, 1) + "\n"))
+	f.Add([]byte(strings.Replace(string(good), `"bed":"B4"`, `"b\u0065d":"B4","x":{"bed":"B9"}`, 1) + "\n"))
+	f.Add([]byte(string(good[:40]) + "\n" + string(other) + "\n{}\n"))
+	f.Fuzz(func(t *testing.T, data []byte) {
+		recs, _, err := readRecords(bytes.NewReader(data))
+		if err != nil {
+			t.Fatal(err)
+		}
+		want := map[string][]Record{} // newest first, duplicates once
+		seen := map[string]bool{}
+		for _, h := range History(recs, "") {
+			for i := len(h.Entries) - 1; i >= 0; i-- {
+				b, _ := json.Marshal(h.Entries[i].Record)
+				if !seen[string(b)] {
+					seen[string(b)] = true
+					want[h.Bed] = append(want[h.Bed], h.Entries[i].Record)
+				}
+			}
+		}
+		var sum LogSummary
+		hr := newHistoryReader("", 0, &sum)
+		if err := scanLog(bytes.NewReader(data), "x", &sum, hr.visit("x", 0)); err != nil {
+			t.Fatal(err)
+		}
+		got := hr.histories(0)
+		if len(got) != len(want) {
+			t.Fatalf("%d beds streamed, %d decoded", len(got), len(want))
+		}
+		for _, h := range got {
+			w := want[h.Bed]
+			if len(h.Entries) != len(w) {
+				t.Fatalf("bed %q: %d entries streamed, %d decoded", h.Bed, len(h.Entries), len(w))
+			}
+			// Records at the same second may be ordered apart; compare
+			// times in order, and the newest record itself when it alone
+			// has the newest time.
+			for i := range w {
+				if !h.Entries[i].Record.Time.Equal(w[i].Time) {
+					t.Fatalf("bed %q entry %d: time %v streamed, %v decoded", h.Bed, i, h.Entries[i].Record.Time, w[i].Time)
+				}
+			}
+		}
+		wr := &wardReader{beds: map[string][]wardCandidate{}, sum: &sum}
+		if err := scanLog(bytes.NewReader(data), "x", &sum, wr.visit("x", 0)); err != nil {
+			t.Fatal(err)
+		}
+		rows, exact := wr.rows(time.Time{}, time.Hour)
+		if !exact {
+			return // WardRows then decodes every line, as checked above
+		}
+		if len(rows) != len(want) {
+			t.Fatalf("%d ward rows, %d beds", len(rows), len(want))
+		}
+		for _, r := range rows {
+			if !r.CheckedAt.Equal(want[r.Bed][0].Time.UTC()) {
+				t.Fatalf("bed %q: ward row at %v, newest record at %v", r.Bed, r.CheckedAt, want[r.Bed][0].Time)
 			}
 		}
 	})

@@ -1,0 +1,219 @@
+package setup
+
+import (
+	"bytes"
+	"crypto/sha256"
+	"errors"
+	"sort"
+	"time"
+)
+
+// histItem is a record with where it was found.
+type histItem struct {
+	rec    Record
+	log    string
+	logIdx int
+	line   int
+}
+
+// itemBefore orders records by time; at equal times a record from a log
+// listed earlier counts as the later one (so a record copied into several
+// logs is shown as from the first log listed), then by line.
+func itemBefore(a, b histItem) bool {
+	return orderBefore(a.rec.Time, a.logIdx, a.line, b.rec.Time, b.logIdx, b.line)
+}
+
+func orderBefore(atA time.Time, logA, lineA int, atB time.Time, logB, lineB int) bool {
+	if !atA.Equal(atB) {
+		return atA.Before(atB)
+	}
+	if logA != logB {
+		return logA > logB
+	}
+	return lineA < lineB
+}
+
+type historyReader struct {
+	bed    string
+	needle []byte // the bed label, for a pre-check before decoding
+	keep   int    // records kept per bed (0: all)
+	keys   map[[sha256.Size]byte]struct{}
+	byBed  map[string][]histItem
+	total  map[string]int
+	sum    *LogSummary
+}
+
+func (h *historyReader) visit(log string, logIdx int) func(int, []byte) {
+	return func(n int, text []byte) {
+		if h.needle != nil && !mayHoldLabel(text, h.needle) {
+			return
+		}
+		rec, ok := decodeRecord(text)
+		if !ok {
+			h.sum.damaged(log, n, reasonJunk)
+			return
+		}
+		if h.bed != "" && rec.Bed != h.bed {
+			return
+		}
+		k := recordKey(rec)
+		if _, dup := h.keys[k]; dup {
+			h.sum.Duplicates++
+			return
+		}
+		h.keys[k] = struct{}{}
+		h.sum.Records++
+		h.total[rec.Bed]++
+		items := append(h.byBed[rec.Bed], histItem{rec: rec, log: log, logIdx: logIdx, line: n})
+		if h.keep > 0 && len(items) > 2*h.keep+16 {
+			items = newest(items, h.keep)
+		}
+		h.byBed[rec.Bed] = items
+	}
+}
+
+// newest sorts items by time and returns (a copy of) the newest keep.
+func newest(items []histItem, keep int) []histItem {
+	sort.SliceStable(items, func(i, j int) bool { return itemBefore(items[i], items[j]) })
+	if keep > 0 && len(items) > keep {
+		items = append([]histItem(nil), items[len(items)-keep:]...)
+	}
+	return items
+}
+
+// mayHoldLabel is the cheap test made before a line is decoded: the label
+// appears in it as written, or the line escapes a character a label may
+// hold (JSON allows "\u0042" for "B"), in which case only decoding can
+// tell.
+func mayHoldLabel(text, label []byte) bool {
+	if bytes.Contains(text, label) {
+		return true
+	}
+	if bytes.IndexByte(text, '\\') < 0 {
+		return false // no escape at all: the label is not there
+	}
+	if bytes.Contains(text, []byte(`\/`)) {
+		return true
+	}
+	for rest := text; ; {
+		i := bytes.Index(rest, []byte(`\u00`))
+		if i < 0 || i+6 > len(rest) {
+			return false
+		}
+		c := hexByte(rest[i+4], rest[i+5])
+		if c >= '0' && c <= '9' || c >= 'A' && c <= 'Z' || c >= 'a' && c <= 'z' || c == '-' || c == '_' || c == '.' || c == '/' {
+			return true
+		}
+		rest = rest[i+4:]
+	}
+}
+
+func hexByte(hi, lo byte) int {
+	v := func(c byte) int {
+		switch {
+		case c >= '0' && c <= '9':
+			return int(c - '0')
+		case c >= 'a' && c <= 'f':
+			return int(c-'a') + 10
+		case c >= 'A' && c <= 'F':
+			return int(c-'A') + 10
+		}
+		return -256
+	}
+	return v(hi)*16 + v(lo)
+}
+
+// ReadHistories reads check records from logs, as a stream, and groups
+// them by bed (beds in ward order, B2 before B10), each bed's entries
+// NEWEST FIRST, at most limit of them (limit <= 0: all), each with what
+// changed since the bed's check before it and the log it came from. With
+// a bed label only that bed is kept, and a line is decoded only when the
+// label could be in it. paths are files or folders of *.jsonl logs (see
+// ExpandLogPaths); records from several logs are merged by time, and a
+// record found twice (the same canonical JSON) is counted once.
+//
+// A log that cannot be opened as the user's own regular file (see
+// CheckLogPath) stops the read with an error; damaged lines do not, and
+// are counted in the summary. Memory grows with the entries kept, not
+// with the size of the logs.
+func ReadHistories(paths []string, bed string, limit int) ([]BedHistory, LogSummary, error) {
+	var sum LogSummary
+	files, err := ExpandLogPaths(paths)
+	if err != nil {
+		return nil, sum, err
+	}
+	h := newHistoryReader(bed, limit, &sum)
+	for i, path := range files {
+		if err := readOneLog(path, &sum, h.visit(path, i)); err != nil {
+			return nil, sum, err
+		}
+	}
+	return h.histories(limit), sum, nil
+}
+
+func newHistoryReader(bed string, limit int, sum *LogSummary) *historyReader {
+	h := &historyReader{bed: bed, keys: map[[sha256.Size]byte]struct{}{}, byBed: map[string][]histItem{}, total: map[string]int{}, sum: sum}
+	if bed != "" {
+		h.needle = []byte(bed)
+	}
+	if limit > 0 {
+		h.keep = limit + 1 // one more, for what changed before the oldest shown
+	}
+	return h
+}
+
+// histories is what was read, beds in ward order.
+func (h *historyReader) histories(limit int) []BedHistory {
+	var beds []string
+	for b := range h.byBed {
+		beds = append(beds, b)
+	}
+	sortByBed(beds)
+	out := make([]BedHistory, 0, len(beds))
+	for _, b := range beds {
+		out = append(out, bedHistory(b, newest(h.byBed[b], h.keep), limit, h.total[b]))
+	}
+	return out
+}
+
+// bedHistory turns one bed's items, oldest first, into entries newest
+// first, dropping the one kept only for its changes.
+func bedHistory(bed string, items []histItem, limit, total int) BedHistory {
+	hist := BedHistory{Bed: bed, Total: total}
+	for i := len(items) - 1; i >= 0; i-- {
+		if limit > 0 && len(hist.Entries) == limit {
+			break
+		}
+		e := HistoryEntry{Record: items[i].rec, Log: items[i].log}
+		if i > 0 {
+			e.Changes = recordChanges(items[i-1].rec, items[i].rec)
+		}
+		hist.Entries = append(hist.Entries, e)
+	}
+	return hist
+}
+
+// ReadBedHistory is ReadHistories for one bed: its checks newest first
+// (at most limit; limit <= 0: all), Total the number of its checks in
+// all the logs. A bed with no check gives an empty history, not an error.
+func ReadBedHistory(paths []string, bed string, limit int) (BedHistory, LogSummary, error) {
+	if bed == "" {
+		return BedHistory{}, LogSummary{}, errors.New("a bed label is needed to read its history")
+	}
+	hs, sum, err := ReadHistories(paths, bed, limit)
+	if err != nil || len(hs) == 0 {
+		return BedHistory{Bed: bed}, sum, err
+	}
+	return hs[0], sum, nil
+}
+
+// readOneLog opens a log as the user's own regular file and streams it.
+func readOneLog(path string, sum *LogSummary, visit func(int, []byte)) error {
+	f, err := openLogForRead(path)
+	if err != nil {
+		return err
+	}
+	defer f.Close()
+	sum.Logs = append(sum.Logs, path)
+	return scanLog(f, path, sum, visit)
+}

@@ -1,0 +1,294 @@
+package setup
+
+import (
+	"bytes"
+	"encoding/json"
+	"fmt"
+	"math"
+	"sort"
+	"time"
+)
+
+// DefaultCheckEvery is how often a bed's setting is checked when no
+// interval is given: common practice, 4 hours; use your local interval.
+const DefaultCheckEvery = 4 * time.Hour
+
+// CheckEverySource says where DefaultCheckEvery comes from.
+const CheckEverySource = "common practice: use your local interval"
+
+// WardRow is one bed's last check, as the ward view and `log beds` show it.
+type WardRow struct {
+	Bed        string
+	CheckedAt  time.Time // the last check's time (UTC, to the second)
+	AgeMinutes float64   // now - CheckedAt, to 0.1 min; negative for a record in the future
+	ProfileID  string
+	Hole       string  // the setting found on the machine at that check
+	MotorRPM   float64 // rpm
+	DwellS     float64 // s
+	PEEPCmH2O  float64 // cmH2O, the PEEP valve
+	MLPerKg    float64 // delivered mL per kg PBW at that setting
+	// HighestLevel is the highest caution level of the setting found (0
+	// when it had none).
+	HighestLevel Level
+	Proposed     bool   // a change was proposed at that check
+	Overdue      bool   // age strictly greater than the interval
+	Source       string // the log the record came from
+	Record       Record // the whole record, to start the next check from
+}
+
+type wardRowJSON struct {
+	Bed          string  `json:"bed"`
+	CheckedAt    string  `json:"checked_at"`
+	AgeMinutes   float64 `json:"age_minutes"`
+	ProfileID    string  `json:"profile_id"`
+	Hole         string  `json:"hole"`
+	MotorRPM     float64 `json:"motor_rpm"`
+	DwellS       float64 `json:"dwell_s"`
+	PEEPCmH2O    float64 `json:"peep_cmh2o"`
+	MLPerKg      float64 `json:"ml_per_kg"`
+	HighestLevel string  `json:"highest_level"`
+	Overdue      bool    `json:"overdue"`
+	ProposalMade bool    `json:"proposal_made"`
+	Log          string  `json:"log"`
+}
+
+// MarshalJSON writes the row with snake_case keys; checked_at is RFC 3339
+// UTC and highest_level is "stop", "warn", "note" or "none".
+func (r WardRow) MarshalJSON() ([]byte, error) {
+	level := "none"
+	if r.HighestLevel != 0 {
+		level = r.HighestLevel.String()
+	}
+	return json.Marshal(wardRowJSON{
+		Bed: r.Bed, CheckedAt: r.CheckedAt.UTC().Format(time.RFC3339), AgeMinutes: r.AgeMinutes,
+		ProfileID: r.ProfileID, Hole: r.Hole, MotorRPM: r.MotorRPM, DwellS: r.DwellS, PEEPCmH2O: r.PEEPCmH2O,
+		MLPerKg: r.MLPerKg, HighestLevel: level, Overdue: r.Overdue, ProposalMade: r.Proposed, Log: r.Source,
+	})
+}
+
+// urgency ranks a row for the ward view: stop, then overdue, then warn,
+// then the rest.
+func (r WardRow) urgency() int {
+	switch {
+	case r.HighestLevel == Stop:
+		return 0
+	case r.Overdue:
+		return 1
+	case r.HighestLevel == Warn:
+		return 2
+	}
+	return 3
+}
+
+// NewWardRow makes a bed's row from its last record. A check is overdue
+// when its age is strictly greater than every: at exactly every it is
+// due, not yet overdue.
+func NewWardRow(rec Record, source string, now time.Time, every time.Duration) WardRow {
+	age := now.Sub(rec.Time)
+	return WardRow{
+		Bed: rec.Bed, CheckedAt: rec.Time.UTC(), AgeMinutes: math.Round(age.Minutes()*10) / 10,
+		ProfileID: rec.ProfileID, Hole: rec.Setting.Hole, MotorRPM: rec.Setting.RPM, DwellS: rec.Setting.DwellS,
+		PEEPCmH2O: rec.Setting.PEEPCmH2O, MLPerKg: rec.MLPerKg, HighestLevel: Highest(rec.Cautions),
+		Proposed: rec.Proposed != nil, Overdue: age > every, Source: source, Record: rec,
+	}
+}
+
+// SortWardRows puts the most urgent first (stop, overdue, warn, the
+// rest), and beds of equal urgency in ward order (B2 before B10).
+func SortWardRows(rows []WardRow) {
+	sort.SliceStable(rows, func(i, j int) bool {
+		if ui, uj := rows[i].urgency(), rows[j].urgency(); ui != uj {
+			return ui < uj
+		}
+		return bedLess(rows[i].Bed, rows[j].Bed)
+	})
+}
+
+// WardRows reads logs (files or folders of *.jsonl, see ExpandLogPaths)
+// as a stream and returns one row per bed, from its newest record in any
+// of them, most urgent first (see SortWardRows). every is the interval
+// between checks: 0 means DefaultCheckEvery; a negative one is refused.
+//
+// Each line's format, bed and time are found without decoding it; only
+// the few newest lines of each bed are decoded in full, so a damaged line
+// is counted in the summary when it is one of those (or has no record
+// shape), not when it lies further back behind a good newer record of its
+// bed. When a line turns out not to say what the quick look found, the
+// whole read is done again decoding every line. summary.Records counts
+// the lines that look like records; duplicates are not looked for, as an
+// identical copy cannot change a bed's row.
+func WardRows(paths []string, now time.Time, every time.Duration) ([]WardRow, LogSummary, error) {
+	if every < 0 {
+		return nil, LogSummary{}, &InputError{Field: "every", Reason: fmt.Sprintf("%v: the interval between checks must be positive", every)}
+	}
+	if every == 0 {
+		every = DefaultCheckEvery
+	}
+	files, err := ExpandLogPaths(paths)
+	if err != nil {
+		return nil, LogSummary{}, err
+	}
+	var sum LogSummary
+	w := &wardReader{beds: map[string][]wardCandidate{}, sum: &sum}
+	for i, path := range files {
+		if err := readOneLog(path, &sum, w.visit(path, i)); err != nil {
+			return nil, sum, err
+		}
+	}
+	rows, exact := w.rows(now, every)
+	if !exact {
+		return wardRowsDecodingAll(files, now, every)
+	}
+	SortWardRows(rows)
+	return rows, sum, nil
+}
+
+// wardRowsDecodingAll is the slow, exact way: every line decoded.
+func wardRowsDecodingAll(files []string, now time.Time, every time.Duration) ([]WardRow, LogSummary, error) {
+	hs, sum, err := ReadHistories(files, "", 1)
+	if err != nil {
+		return nil, sum, err
+	}
+	rows := make([]WardRow, 0, len(hs))
+	for _, h := range hs {
+		if len(h.Entries) > 0 {
+			rows = append(rows, NewWardRow(h.Entries[0].Record, h.Entries[0].Log, now, every))
+		}
+	}
+	SortWardRows(rows)
+	return rows, sum, nil
+}
+
+// wardKeep is how many of a bed's newest lines are held, in case the
+// newest turns out damaged.
+const wardKeep = 3
+
+type wardCandidate struct {
+	at     time.Time
+	log    string
+	logIdx int
+	line   int
+	text   []byte
+}
+
+func (a wardCandidate) before(b wardCandidate) bool {
+	return orderBefore(a.at, a.logIdx, a.line, b.at, b.logIdx, b.line)
+}
+
+type wardReader struct {
+	beds map[string][]wardCandidate
+	sum  *LogSummary
+}
+
+func (w *wardReader) visit(log string, logIdx int) func(int, []byte) {
+	return func(n int, text []byte) {
+		bed, at, ok := quickHeader(text)
+		if !ok {
+			if bed, at, ok = decodedHeader(text); !ok {
+				w.sum.damaged(log, n, reasonJunk)
+				return
+			}
+		}
+		w.sum.Records++
+		c := wardCandidate{at: at, log: log, logIdx: logIdx, line: n}
+		cs := w.beds[bed]
+		if len(cs) < wardKeep {
+			c.text = append([]byte(nil), text...)
+			w.beds[bed] = append(cs, c)
+			return
+		}
+		oldest := 0
+		for i := range cs {
+			if cs[i].before(cs[oldest]) {
+				oldest = i
+			}
+		}
+		if cs[oldest].before(c) {
+			c.text = append(cs[oldest].text[:0], text...) // reuse the evicted line's memory
+			cs[oldest] = c
+		}
+	}
+}
+
+// rows decodes each bed's newest good line; exact is false when a line's
+// decoded bed or time is not what the quick look found, or when every
+// line held for a bed was damaged.
+func (w *wardReader) rows(now time.Time, every time.Duration) (rows []WardRow, exact bool) {
+	for bed, cs := range w.beds {
+		sort.Slice(cs, func(i, j int) bool { return cs[j].before(cs[i]) })
+		found := false
+		for _, c := range cs {
+			rec, ok := decodeRecord(c.text)
+			if !ok {
+				w.sum.damaged(c.log, c.line, reasonJunk)
+				continue
+			}
+			if rec.Bed != bed || !rec.Time.Equal(c.at) {
+				return nil, false
+			}
+			rows, found = append(rows, NewWardRow(rec, c.log, now, every)), true
+			break
+		}
+		if !found {
+			return nil, false
+		}
+	}
+	return rows, true
+}
+
+const (
+	recordPrefix = `{"format":"` + RecordFormat + `","time":"`
+	bedAfterTime = `","bed":"`
+)
+
+// quickHeader reads the bed and time of a line written as this program
+// writes records (format, time and bed first, compact, no escapes in the
+// line) without decoding it. The rest of the line must not hold any of
+// those keys again (a later duplicate is what a decoder would keep); a
+// line with any backslash is left to decodedHeader, since an escaped key
+// could hide a duplicate.
+func quickHeader(text []byte) (bed string, at time.Time, ok bool) {
+	if !bytes.HasPrefix(text, []byte(recordPrefix)) || bytes.IndexByte(text, '\\') >= 0 {
+		return "", time.Time{}, false
+	}
+	rest := text[len(recordPrefix):]
+	i := bytes.Index(rest, []byte(bedAfterTime))
+	if i < 0 || i > 64 {
+		return "", time.Time{}, false
+	}
+	t := rest[:i]
+	rest = rest[i+len(bedAfterTime):]
+	j := bytes.IndexByte(rest, '"')
+	if j < 0 {
+		return "", time.Time{}, false
+	}
+	if repeatsHeaderKey(rest[j:]) {
+		return "", time.Time{}, false
+	}
+	at, err := time.Parse(time.RFC3339Nano, string(t))
+	if err != nil {
+		return "", time.Time{}, false
+	}
+	return string(rest[:j]), at, true
+}
+
+// repeatsHeaderKey reports whether text, free of escapes, holds the
+// string "format", "time" or "bed" anywhere: as a key at any depth, with
+// any spacing before its colon, or (harmlessly: the line is then decoded)
+// as a value.
+func repeatsHeaderKey(text []byte) bool {
+	return bytes.Contains(text, []byte(`"format"`)) || bytes.Contains(text, []byte(`"time"`)) || bytes.Contains(text, []byte(`"bed"`))
+}
+
+// decodedHeader decodes only a record's format, time and bed.
+func decodedHeader(text []byte) (bed string, at time.Time, ok bool) {
+	var h struct {
+		Format string    `json:"format"`
+		Time   time.Time `json:"time"`
+		Bed    string    `json:"bed"`
+	}
+	if err := json.Unmarshal(text, &h); err != nil || h.Format != RecordFormat {
+		return "", time.Time{}, false
+	}
+	return h.Bed, h.Time, true
+}
