@@ -6,7 +6,10 @@ import (
 	"fmt"
 	"math"
 	"sort"
+	"strings"
 	"time"
+
+	"crankside/physiology"
 )
 
 // DefaultCheckEvery is how often a bed's setting is checked when no
@@ -291,4 +294,49 @@ func decodedHeader(text []byte) (bed string, at time.Time, ok bool) {
 		return "", time.Time{}, false
 	}
 	return h.Bed, h.Time, true
+}
+
+// WardLine is one ward row as text for a terminal: bed, last check and its
+// age, the setting found, mL/kg, the highest caution, whether a change was
+// proposed, and OVERDUE when it is.
+func WardLine(r WardRow) string {
+	level := "no cautions"
+	if r.HighestLevel != 0 {
+		level = LevelWord(r.HighestLevel)
+	}
+	age := fmt.Sprintf("%.0f min", r.AgeMinutes)
+	if r.AgeMinutes >= 120 {
+		age = fmt.Sprintf("%.1f h", r.AgeMinutes/60)
+	}
+	line := fmt.Sprintf("%-8s %s UTC (%s ago)  %s hole %s, %.1f rpm, dwell %.1f s, PEEP %.0f", r.Bed,
+		r.CheckedAt.UTC().Format("01-02 15:04"), age, r.ProfileID, r.Hole, r.MotorRPM, r.DwellS, r.PEEPCmH2O)
+	if r.Record.Unexplained() {
+		line += ": readings unexplained"
+	} else {
+		line += fmt.Sprintf(": %.1f mL/kg", r.MLPerKg)
+	}
+	line += ", " + level
+	if r.Proposed {
+		line += ", change proposed"
+	}
+	if r.Overdue {
+		line += "  OVERDUE"
+	}
+	return line
+}
+
+// CheckInterval reads how often each bed should be checked, in hours as a
+// person types it ("4", "2,5"), or the default when blank.
+func CheckInterval(text string) (time.Duration, *InputError) {
+	if strings.TrimSpace(text) == "" {
+		return DefaultCheckEvery, nil
+	}
+	h, err := physiology.ParseNumber(text)
+	if err != nil {
+		return 0, &InputError{Field: "every", Reason: err.Error() + " (hours)"}
+	}
+	if err := physiology.CheckRange("check interval", h, 0.25, 48, "h"); err != nil {
+		return 0, &InputError{Field: "every", Reason: err.Error()}
+	}
+	return time.Duration(h * float64(time.Hour)), nil
 }

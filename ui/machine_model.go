@@ -60,16 +60,23 @@ func (m *Model) writeRefit() tea.Cmd {
 		m.machine.note = "! an embedded demo cannot be written; save a copy with 'crankside profiles show " + m.out.profile.ID + " --json'"
 		return nil
 	}
-	path, p := m.out.source.Path, prev.Profile
+	path, p, stamp := m.out.source.Path, prev.Profile, m.out.source.Stamp
 	return func() tea.Msg {
-		return writtenMsg{path: path, profile: p, err: profiles.SaveWithBackup(path, p)}
+		return writtenMsg{path: path, profile: p, err: profiles.SaveWithBackupIfUnchanged(path, p, stamp)}
 	}
 }
 
 func (m *Model) written(msg writtenMsg) {
 	m.machine.setWritten(msg.path, msg.err)
 	if msg.err == nil {
-		m.setProfile(msg.profile, profiles.Source{Path: msg.path})
+		// Read back what was written, with its new stamp, so that a
+		// second refit is checked against this file.
+		p, stamp, err := profiles.ReadFileStamped(msg.path)
+		if err != nil {
+			m.machine.note = "! saved, but could not be read back: " + err.Error()
+			return
+		}
+		m.setProfile(p, profiles.Source{Path: msg.path, Stamp: stamp})
 		m.recompute()
 	}
 }

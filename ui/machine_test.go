@@ -20,7 +20,9 @@ func TestRefitFromABenchFileWithPreview(t *testing.T) {
 	bench := filepath.Join(dir, "bench.csv")
 	require.NoError(t, os.WriteFile(bench, []byte(profiles.BenchHeader()+"\n5,50,5,20,318\n8,50,5,20,408\n12,50,5,20,528\n"), 0o644))
 
-	m := New(Options{Profile: p, Source: profiles.Source{Path: unit}, ProfilesDir: dir, Now: testNow,
+	p, stamp, readErr := profiles.ReadFileStamped(unit)
+	require.NoError(t, readErr)
+	m := New(Options{Profile: p, Source: profiles.Source{Path: unit, Stamp: stamp}, ProfilesDir: dir, Now: testNow,
 		Prefill: map[string]string{"height-cm": "175", "sex": "male"}})
 	m.Update(tea.WindowSizeMsg{Width: 80, Height: 24})
 	before := m.out.plan.Hole.EffectiveSweptML

@@ -10,6 +10,7 @@ import (
 	"github.com/charmbracelet/bubbles/key"
 	tea "github.com/charmbracelet/bubbletea"
 	"github.com/charmbracelet/lipgloss"
+	"github.com/charmbracelet/x/ansi"
 
 	"crankside/profiles"
 	"crankside/setup"
@@ -612,7 +613,8 @@ func (m *Model) helpLine() string {
 		b = []key.Binding{m.keys.Help, key.NewBinding(key.WithKeys("f1"), key.WithHelp("F1-F6", "panel")), m.keys.Next, m.keys.Quit}
 		b = append(b, m.panels[m.focus].ShortHelp()...)
 	}
-	return truncate(m.help.ShortHelpView(b), m.w)
+	// The help line drops the keys that do not fit; F1 ... ? come first.
+	return ansi.Truncate(m.help.ShortHelpView(b), m.w, "")
 }
 
 func (m *Model) fullHelp() string {

@@ -61,7 +61,9 @@ func runCalibrate(env Env) int {
 		return jobError(env.Stderr, "calibrate", err)
 	}
 	if write() {
-		if err := profiles.SaveWithBackup(src.Path, res.Profile); err != nil {
+		// Refuse to write over a file that changed since it was read here:
+		// two refits at once must not lose one silently.
+		if err := profiles.SaveWithBackupIfUnchanged(src.Path, res.Profile, src.Stamp); err != nil {
 			fmt.Fprintf(env.Stderr, "crankside calibrate: nothing written: %s\n", safetext.Escape(err.Error()))
 			return ExitFailure
 		}

@@ -4,25 +4,36 @@ import (
 	"fmt"
 	"io"
 	"strings"
+	"time"
 
 	"crankside/physiology"
 	"crankside/profiles/safetext"
 	"crankside/setup"
 )
 
-const logLong = `Usage: crankside log show --log FILE [--bed LABEL] [--json]
+const logLong = `Usage:
+  crankside log show --log FILE|DIR [--log ...] [--bed LABEL] [--json]
+  crankside log beds --log FILE|DIR [--log ...] [--every HOURS] [--json]
 
-Lists the handover checks in a log, by bed and in time order, with what
-changed from one check to the next. A torn last line (the program stopped
-while writing it) or junk is skipped and reported; earlier records stay.
+show lists the handover checks, bed by bed, newest first, with what
+changed since the check before and which log (terminal) each came from.
+beds shows one row per bed: its last check, how long ago, the setting found,
+mL/kg, the highest caution, whether a change was proposed, and OVERDUE when
+the last check is older than --every hours (default 4: common practice; use
+your local interval); the most urgent first (stop, overdue, warn).
+
+--log may be given more than once, and may name a folder of *.jsonl logs
+(each bedside terminal keeps its own): records are merged by time, and a
+record found in two logs (a copied file) is counted once. Damaged or torn
+lines are skipped, and summarised on stderr; earlier records stay.
 
 Flags:
 `
 
 var logCommand = &Command{
 	Name:      "log",
-	UsageLine: "log show --log FILE [--bed LABEL]",
-	Short:     "earlier checks and what changed",
+	UsageLine: "log show|beds --log FILE|DIR [--bed LABEL]",
+	Short:     "earlier checks, and every bed's last check",
 	Long:      logLong,
 	Run:       runLog,
 }
@@ -30,7 +41,7 @@ var logCommand = &Command{
 func runLog(env Env) int {
 	args := env.Args
 	if len(args) == 0 {
-		return UsageError(env.Stderr, "log", "name a sub-command: show")
+		return UsageError(env.Stderr, "log", "name a sub-command: show or beds")
 	}
 	switch args[0] {
 	case "--help", "-h", "help":
@@ -38,40 +49,50 @@ func runLog(env Env) int {
 		return ExitOK
 	case "show":
 		return runLogShow(env, args[1:])
+	case "beds":
+		return runLogBeds(env, args[1:])
 	}
-	return UsageError(env.Stderr, "log", fmt.Sprintf("unknown sub-command %s; use show", physiology.Quote(args[0])))
+	return UsageError(env.Stderr, "log", fmt.Sprintf("unknown sub-command %s; use show or beds", physiology.Quote(args[0])))
+}
+
+// summarise prints a few damaged lines and a count on stderr; it says
+// whether there were any.
+func summarise(env Env, cmd string, sum setup.LogSummary) bool {
+	for _, l := range sum.Lines() {
+		fmt.Fprintf(env.Stderr, "crankside %s: %s\n", cmd, safetext.Escape(l))
+	}
+	return sum.Damaged > 0
 }
 
 func runLogShow(env Env, args []string) int {
 	f := newFlags("log show", logLong)
-	path := f.text("log", "", "the log file")
+	logs := f.repeated("log", "a log file or a folder of logs (may be repeated)")
 	bed := f.text("bed", "", "only this bed")
 	asJSON := f.boolean("json", "print JSON")
 	if status, done := f.parse(env, args, "log show", false); done {
 		return status
 	}
-	if path() == "" {
+	if len(*logs) == 0 {
 		return UsageError(env.Stderr, "log show", "--log FILE is required")
 	}
-	recs, problems, err := setup.ReadLog(path())
+	hist, sum, err := setup.ReadHistories(*logs, bed(), 0)
 	if err != nil {
 		return UsageError(env.Stderr, "log show", err.Error())
 	}
-	for _, pr := range problems {
-		fmt.Fprintf(env.Stderr, "crankside log show: %s: %s\n", safetext.Escape(path()), safetext.Escape(pr.String()))
-	}
-	hist := setup.History(recs, bed())
+	damaged := summarise(env, "log show", sum)
+	status := ExitOK
 	if asJSON() {
-		return writeJSON(env, logJSON(hist, problems))
+		status = writeJSON(env, logJSON(hist, sum))
+	} else {
+		status = writeText(env, "log show", func(w io.Writer) error { return writeHistory(w, hist, len(sum.Logs) > 1) })
 	}
-	status := writeText(env, "log show", func(w io.Writer) error { return writeHistory(w, hist) })
-	if status == ExitOK && len(problems) > 0 {
+	if status == ExitOK && damaged {
 		return ExitFailure
 	}
 	return status
 }
 
-func logJSON(hist []setup.BedHistory, problems []setup.LogProblem) any {
+func logJSON(hist []setup.BedHistory, sum setup.LogSummary) any {
 	type bedJSON struct {
 		Bed    string               `json:"bed"`
 		Checks []setup.HistoryEntry `json:"checks"`
@@ -83,26 +104,79 @@ func logJSON(hist []setup.BedHistory, problems []setup.LogProblem) any {
 	for _, h := range hist {
 		out.Beds = append(out.Beds, bedJSON{Bed: h.Bed, Checks: h.Entries})
 	}
-	for _, pr := range problems {
-		out.Problems = append(out.Problems, pr.String())
-	}
+	out.Problems = append(out.Problems, sum.Lines()...)
 	return out
 }
 
-func writeHistory(w io.Writer, hist []setup.BedHistory) error {
+func writeHistory(w io.Writer, hist []setup.BedHistory, manyLogs bool) error {
 	var b strings.Builder
 	if len(hist) == 0 {
 		b.WriteString("No checks recorded for that bed.\n")
 	}
 	for _, h := range hist {
-		fmt.Fprintf(&b, "Bed %s: %d check(s)\n", h.Bed, len(h.Entries))
+		fmt.Fprintf(&b, "Bed %s: %d check(s), newest first\n", h.Bed, len(h.Entries))
 		for _, e := range h.Entries {
 			fmt.Fprintf(&b, "  %s\n", setup.HistoryLine(e.Record))
+			if p := setup.ProposalLine(e.Record); p != "" {
+				fmt.Fprintf(&b, "      proposed: %s\n", p)
+			}
 			if len(e.Changes) > 0 {
 				fmt.Fprintf(&b, "      changed: %s\n", strings.Join(e.Changes, "; "))
 			}
+			if manyLogs && e.Log != "" {
+				fmt.Fprintf(&b, "      from %s\n", e.Log)
+			}
 		}
 	}
-	_, err := fmt.Fprint(w, b.String())
+	_, err := io.WriteString(w, b.String())
+	return err
+}
+
+func runLogBeds(env Env, args []string) int {
+	f := newFlags("log beds", logLong)
+	logs := f.repeated("log", "a log file or a folder of logs (may be repeated)")
+	every := f.text("every", "", "hours between checks before a bed is OVERDUE (default 4, common practice)")
+	asJSON := f.boolean("json", "print a JSON list")
+	if status, done := f.parse(env, args, "log beds", false); done {
+		return status
+	}
+	if len(*logs) == 0 {
+		return UsageError(env.Stderr, "log beds", "--log FILE is required")
+	}
+	interval, ie := setup.CheckInterval(every())
+	if ie != nil {
+		return UsageError(env.Stderr, "log beds", "--every: "+ie.Reason)
+	}
+	rows, sum, err := setup.WardRows(*logs, time.Now(), interval)
+	if err != nil {
+		return UsageError(env.Stderr, "log beds", err.Error())
+	}
+	damaged := summarise(env, "log beds", sum)
+	status := ExitOK
+	if asJSON() {
+		if rows == nil {
+			rows = []setup.WardRow{}
+		}
+		status = writeJSON(env, rows)
+	} else {
+		status = writeText(env, "log beds", func(w io.Writer) error { return writeBeds(w, rows, interval, len(sum.Logs) > 1) })
+	}
+	if status == ExitOK && damaged {
+		return ExitFailure
+	}
+	return status
+}
+
+func writeBeds(w io.Writer, rows []setup.WardRow, every time.Duration, manyLogs bool) error {
+	var b strings.Builder
+	fmt.Fprintf(&b, "%d bed(s), most urgent first; OVERDUE after %s (%s)\n", len(rows), every, setup.CheckEverySource)
+	for _, r := range rows {
+		b.WriteString(setup.WardLine(r))
+		if manyLogs {
+			b.WriteString("  [" + r.Source + "]")
+		}
+		b.WriteString("\n")
+	}
+	_, err := io.WriteString(w, b.String())
 	return err
 }

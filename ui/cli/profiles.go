@@ -115,9 +115,15 @@ func profilesShow(env Env, ref, dir string, asJSON bool) int {
 }
 
 func profilesValidate(env Env, path string) int {
-	_, err := profiles.ReadFile(path)
+	p, err := profiles.ReadFile(path)
 	if err == nil {
-		fmt.Fprintf(env.Stdout, "%s: valid %s profile\n", safetext.Escape(path), profiles.FormatV1)
+		fmt.Fprintf(env.Stdout, "%s: valid %s profile\n", safetext.Escape(path), safetext.Escape(p.Format))
+		for _, d := range p.Defaults {
+			fmt.Fprintf(env.Stdout, "%s: note: %s not in the file: the default is used\n", safetext.Escape(path), safetext.Escape(d))
+		}
+		for _, w := range profiles.Warnings(p) {
+			fmt.Fprintf(env.Stdout, "%s: warning: %s\n", safetext.Escape(path), safetext.Escape(w.Error()))
+		}
 		return ExitOK
 	}
 	var pe *profiles.Error
