@@ -381,3 +381,49 @@ func Understood(text string) (string, bool) {
 	}
 	return strconv.FormatFloat(v, 'f', -1, 64), true
 }
+
+// RecordEntries are the check entries a recorded check implies: the
+// patient's height and sex, the bed, and the setting found then. The next
+// check of the bed starts from them.
+func RecordEntries(r Record) Entries {
+	num := func(v float64) string { return strconv.FormatFloat(v, 'f', -1, 64) }
+	e := Entries{
+		"height-cm": num(r.HeightCm), "sex": r.Sex, "bed": r.Bed,
+		"hole": r.Setting.Hole, "rpm": num(r.Setting.RPM), "dwell-s": num(r.Setting.DwellS),
+		"peep": num(r.Setting.PEEPCmH2O),
+	}
+	if r.Setting.O2LPerMin != 0 {
+		e["o2-lpm"] = num(r.Setting.O2LPerMin)
+	}
+	return e
+}
+
+// ChangedEntries lists, as "name: was -> now", the entries of from that
+// now holds otherwise (numbers compared as numbers, so 21 and 21,0 agree).
+func ChangedEntries(from, now Entries) []string {
+	var out []string
+	for _, s := range checkSpecs {
+		was, ok := from[s.Name]
+		if !ok {
+			continue
+		}
+		is := strings.TrimSpace(now[s.Name])
+		same := was == is
+		if s.Kind == kindNumber {
+			a, errA := physiology.ParseNumber(was)
+			b, errB := physiology.ParseNumber(is)
+			same = same || (errA == nil && errB == nil && a == b)
+		}
+		if !same {
+			out = append(out, fmt.Sprintf("%s: %s -> %s", s.Label, was, orBlank(is)))
+		}
+	}
+	return out
+}
+
+func orBlank(s string) string {
+	if s == "" {
+		return "(blank)"
+	}
+	return s
+}

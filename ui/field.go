@@ -142,8 +142,17 @@ func (f *field) echo() string {
 	return ""
 }
 
-// update handles a key for the field and reports whether its value changed.
+// update handles a key for the field and reports whether its value
+// changed; a changed value is no longer the one from a record.
 func (f *field) update(msg tea.KeyMsg, keys formKeys) (bool, tea.Cmd) {
+	changed, cmd := f.edit(msg, keys)
+	if changed {
+		f.from = ""
+	}
+	return changed, cmd
+}
+
+func (f *field) edit(msg tea.KeyMsg, keys formKeys) (bool, tea.Cmd) {
 	f.note = ""
 	if !f.isText() {
 		return f.updateChoice(msg, keys), nil

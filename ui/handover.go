@@ -144,6 +144,15 @@ func (p *handoverPanel) results() string {
 	for _, w := range o.checkWaiting {
 		add(s.Hint.Render(w))
 	}
+	if o.started != "" {
+		add(s.Hint.Render(o.started))
+		if len(o.changedFromRecord) == 0 {
+			add(s.Label.Render("Found as recorded."))
+		}
+		for _, c := range o.changedFromRecord {
+			add(s.Caution.Render("Found otherwise: " + c))
+		}
+	}
 	if ck.Unexplained() {
 		// A measured alarm is never replaced by a calm prediction: the
 		// reason comes first, in full, and no figure is shown as what

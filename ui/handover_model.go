@@ -3,10 +3,12 @@ package ui
 import (
 	"errors"
 	"fmt"
+	"os"
 	"strings"
 
 	tea "github.com/charmbracelet/bubbletea"
 
+	"crankside/profiles/safetext"
 	"crankside/setup"
 )
 
@@ -34,6 +36,11 @@ func (m *Model) recomputeCheck(plan setup.Entries, planProblems setup.Problems) 
 	}
 	for _, f := range h.fields {
 		e[f.name] = f.Value()
+	}
+	m.out.started, m.out.changedFromRecord = "", nil
+	if m.fromRecord != nil {
+		m.out.started = m.fromRecord.label
+		m.out.changedFromRecord = setup.ChangedEntries(m.fromRecord.entries, e)
 	}
 	req, problems := setup.BuildCheckRequest(e, m.now())
 	m.out.checkLung = req.Lung.String()
@@ -152,35 +159,37 @@ func (m *Model) history() tea.Cmd {
 	}
 	path := m.logPath
 	return func() tea.Msg {
-		recs, problems, err := setup.ReadLog(path)
-		return historyMsg{bed: bed, history: setup.History(recs, bed), problems: problems, err: err}
+		h, sum, err := setup.ReadBedHistory([]string{path}, bed, 0)
+		return historyMsg{bed: bed, history: h, summary: sum, err: err}
 	}
 }
 
+// showHistory lists a bed's checks newest first, each with its proposal
+// and what changed since the one before; the overlay scrolls. Text from
+// the log is shown escaped: a record cannot act on the terminal.
 func (m *Model) showHistory(msg historyMsg) {
 	s := m.styles
 	var l []string
 	switch {
 	case msg.err != nil:
-		l = append(l, s.Error.Render("! "+msg.err.Error()))
-	case len(msg.history) == 0:
+		l = append(l, s.Error.Render("! "+safetext.Escape(msg.err.Error())))
+	case len(msg.history.Entries) == 0:
 		l = append(l, "No checks recorded for bed "+msg.bed+".")
 	default:
-		entries := msg.history[0].Entries
-		l = append(l, s.Label.Render(fmt.Sprintf("%d check%s, newest first", len(entries), plural(len(entries)))))
-		for i := len(entries) - 1; i >= 0; i-- {
-			e := entries[i]
-			l = append(l, s.Value.Render(setup.HistoryLine(e.Record)))
-			if e.Record.Proposed != nil {
-				l = append(l, s.Label.Render("    proposed: "+setup.ProposalLine(e.Record)))
+		n := len(msg.history.Entries)
+		l = append(l, s.Label.Render(fmt.Sprintf("%d check%s, newest first (up/down, PgUp/PgDn scroll)", n, plural(n))))
+		for _, e := range msg.history.Entries {
+			l = append(l, s.Value.Render(safetext.Escape(setup.HistoryLine(e.Record))))
+			if p := setup.ProposalLine(e.Record); p != "" {
+				l = append(l, s.Label.Render("    proposed: "+safetext.Escape(p)))
 			}
 			if len(e.Changes) > 0 {
-				l = append(l, s.Label.Render("    changed since the one before: "+strings.Join(e.Changes, "; ")))
+				l = append(l, s.Label.Render("    changed since the one before: "+safetext.Escape(strings.Join(e.Changes, "; "))))
 			}
 		}
 	}
-	for _, p := range msg.problems {
-		l = append(l, s.Error.Render("! "+p.String()))
+	for _, p := range msg.summary.Lines() {
+		l = append(l, s.Error.Render("! "+safetext.Escape(p)))
 	}
 	m.overlay = &textOverlay{title: "Bed " + msg.bed + ": earlier checks", text: strings.Join(l, "\n")}
 }
@@ -199,8 +208,11 @@ func logNote(path string) string {
 	if path == "" {
 		return "Not recording: start with --log FILE to keep a record of checks."
 	}
-	if err := setup.CheckLogWritable(path); err != nil {
-		return "Cannot record in " + path + ": " + err.Error()
+	if err := setup.CheckLogPath(path); err != nil {
+		// A new log is made in a folder the screen creates itself.
+		if !errors.Is(err, os.ErrNotExist) {
+			return "CANNOT RECORD: " + safetext.Escape(err.Error())
+		}
 	}
-	return "Bed label only; no name is kept. Records go to " + path
+	return "Bed label only; no name is kept. Records go to " + safetext.Escape(path)
 }

@@ -19,6 +19,7 @@ type globalKeys struct {
 	// closes the question.
 	Confirm, Stay  key.Binding
 	PageUp, PageDn key.Binding
+	Ward           key.Binding
 }
 
 func newGlobalKeys() globalKeys {
@@ -31,6 +32,7 @@ func newGlobalKeys() globalKeys {
 		Stay:    key.NewBinding(key.WithKeys("esc"), key.WithHelp("esc", "stay")),
 		PageUp:  key.NewBinding(key.WithKeys("pgup"), key.WithHelp("pgup/pgdn", "scroll the panel")),
 		PageDn:  key.NewBinding(key.WithKeys("pgdown"), key.WithHelp("pgup/pgdn", "scroll the panel")),
+		Ward:    key.NewBinding(key.WithKeys("f7", "alt+7"), key.WithHelp("F7", "ward")),
 	}
 	names := [6]string{"patient", "targets", "machine", "setting", "cautions", "handover"}
 	for i := range k.Panel {

@@ -77,6 +77,10 @@ type Model struct {
 	// again asks first (confirmRecord).
 	recordedAt    string
 	confirmRecord bool
+	// ward is every bed's last check, shown over the panels (F7).
+	ward *wardView
+	// fromRecord is the record the handover check was started from.
+	fromRecord *recordStart
 	// note is a passing remark on the status strip, such as a typing key
 	// refused where nothing can be typed.
 	note string
@@ -97,10 +101,10 @@ type savedMsg struct {
 
 // historyMsg is a bed's earlier checks read from the log.
 type historyMsg struct {
-	bed      string
-	history  []setup.BedHistory
-	problems []setup.LogProblem
-	err      error
+	bed     string
+	history setup.BedHistory
+	summary setup.LogSummary
+	err     error
 }
 
 // New builds the root model; Run starts it.
@@ -189,6 +193,10 @@ func (m *Model) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 		m.saved(msg)
 	case historyMsg:
 		m.showHistory(msg)
+	case wardMsg:
+		if m.ward != nil {
+			m.ward.rows, m.ward.summary, m.ward.err, m.ward.loading = msg.rows, msg.summary, msg.err, false
+		}
 	case benchMsg:
 		m.machine.setPreview(msg.res, msg.err)
 	case writtenMsg:
@@ -218,6 +226,8 @@ func (m *Model) handleKey(msg tea.KeyMsg) tea.Cmd {
 		return m.overlayKey(msg)
 	case m.picker != nil:
 		return m.handlePicker(msg)
+	case m.ward != nil:
+		return m.wardKey(msg)
 	}
 	if cmd, done := m.globalKey(msg); done {
 		return cmd
@@ -249,6 +259,8 @@ func (m *Model) globalKey(msg tea.KeyMsg) (tea.Cmd, bool) {
 		// The keys are an overlay like the card: it scrolls, Esc closes.
 		m.overlay = &textOverlay{title: "Keys", text: m.fullHelp()}
 		return nil, true
+	case key.Matches(msg, m.keys.Ward):
+		return m.readWard(), true
 	case key.Matches(msg, m.keys.PageDn):
 		m.scroll[m.focus] = min(m.scroll[m.focus]+max(m.h/2, 1), m.maxScroll(m.focus))
 		return nil, true
@@ -455,6 +467,8 @@ func (m *Model) View() string {
 		body = m.box("Profiles", m.picker.view(m.w-4, bodyH-3), bodyH, true, 0)
 	case m.overlay != nil:
 		body = m.box(m.overlay.title, m.overlay.text, bodyH, true, m.overlay.offset)
+	case m.ward != nil:
+		body = m.box("Ward: every bed's last check", m.ward.view(m.w-4), bodyH, true, max(m.ward.cursor-(bodyH-6), 0))
 	default:
 		top, bottom := m.split(bodyH)
 		p := m.panels[m.focus]
@@ -610,7 +624,7 @@ func (m *Model) helpLine() string {
 	default:
 		// The general keys first, so that a narrow window drops a panel's
 		// own keys rather than how to find every key.
-		b = []key.Binding{m.keys.Help, key.NewBinding(key.WithKeys("f1"), key.WithHelp("F1-F6", "panel")), m.keys.Next, m.keys.Quit}
+		b = []key.Binding{m.keys.Help, key.NewBinding(key.WithKeys("f1"), key.WithHelp("F1-F6", "panel")), m.keys.Ward, m.keys.Next, m.keys.Quit}
 		b = append(b, m.panels[m.focus].ShortHelp()...)
 	}
 	// The help line drops the keys that do not fit; F1 ... ? come first.
@@ -620,7 +634,7 @@ func (m *Model) helpLine() string {
 func (m *Model) fullHelp() string {
 	s := m.styles
 	p := m.panels[m.focus]
-	groups := append(p.FullHelp(), []key.Binding{m.keys.Next, m.keys.Prev, m.keys.PageDn, m.keys.Help, m.keys.Quit}, m.keys.Panel[:])
+	groups := append(p.FullHelp(), []key.Binding{m.keys.Next, m.keys.Prev, m.keys.PageDn, m.keys.Ward, m.keys.Help, m.keys.Quit}, m.keys.Panel[:])
 	var l []string
 	l = append(l, m.help.FullHelpView(groups), "")
 	for _, t := range []string{

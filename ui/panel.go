@@ -30,6 +30,10 @@ type outcome struct {
 	check        *setup.Check
 	checkWaiting []string
 	checkLung    string // the lung condition the check's assumed mechanics are for
+	// started says which record the check was started from, and
+	// changedFromRecord what the entries now hold otherwise.
+	started           string
+	changedFromRecord []string
 	saveNote     string // the last record's outcome, shown on the handover panel
 	// logNote says where the screen records checks and whether it can.
 	logNote string

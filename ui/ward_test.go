@@ -1,0 +1,155 @@
+package ui
+
+import (
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+	"time"
+
+	tea "github.com/charmbracelet/bubbletea"
+	"github.com/charmbracelet/x/exp/teatest"
+	"github.com/stretchr/testify/require"
+
+	"crankside/physiology"
+	"crankside/setup"
+)
+
+// recordCheck appends one check of a bed to the log, at a time.
+func recordCheck(t *testing.T, logPath, bed string, heightCm float64, sex physiology.Sex, hole string, rpm, dwell float64, at time.Time) {
+	t.Helper()
+	p, _ := demoProfile(t, "demo-a")
+	ck, err := setup.RunCheck(setup.CheckRequest{Patient: setup.Patient{HeightCm: heightCm, Sex: sex},
+		Setting: setup.Setting{Hole: hole, RPM: rpm, DwellS: dwell, PEEPCmH2O: 5}, Now: at}, p)
+	require.NoError(t, err)
+	rec, err := setup.NewRecord(ck, bed, "jk", at)
+	require.NoError(t, err)
+	require.NoError(t, setup.AppendRecord(logPath, rec))
+}
+
+func wardLog(t *testing.T) string {
+	logPath := filepath.Join(t.TempDir(), "ward.jsonl")
+	// testNow is 09:00 UTC: B7 was checked at 08:30, B2 at 03:00 (6 h ago:
+	// overdue against the 4 h common-practice interval).
+	recordCheck(t, logPath, "B7", 168, physiology.Female, "7", 21, 1.4, testNow().Add(-30*time.Minute))
+	recordCheck(t, logPath, "B2", 181, physiology.Male, "9", 20, 1.5, testNow().Add(-6*time.Hour))
+	return logPath
+}
+
+// The ward view lists every bed's last check, most urgent first, and
+// Enter on a bed starts its next check from that record.
+func TestWardViewStartsTheNextCheckFromTheRecord(t *testing.T) {
+	logPath := wardLog(t)
+	p, src := demoProfile(t, "demo-a")
+	m := New(Options{Profile: p, Source: src, ProfilesDir: t.TempDir(), Now: testNow, LogPath: logPath})
+	m.Update(tea.WindowSizeMsg{Width: 80, Height: 24})
+	press(m, tea.KeyMsg{Type: tea.KeyF7})
+	require.NotNil(t, m.ward)
+	v := screen(m)
+	require.Contains(t, v, "2 beds, most urgent first")
+	b2, b7 := strings.Index(v, "B2"), strings.Index(v, "B7")
+	require.True(t, b2 >= 0 && b7 > b2, "the overdue bed first:\n%s", v)
+	require.Contains(t, v, "OVERDUE")
+	press(m, runes("9"))
+	require.Contains(t, screen(m), "nothing to type into here")
+	press(m, enter) // B2, the first row
+	require.Nil(t, m.ward)
+	require.Equal(t, panelHandover, m.focus)
+	require.Equal(t, "181", m.field("height-cm").Value())
+	require.Equal(t, "male", m.field("sex").Value())
+	require.Equal(t, "9", m.checkField("hole").Value())
+	require.Equal(t, "20", m.checkField("rpm").Value())
+	require.Equal(t, "1.5", m.checkField("dwell-s").Value())
+	require.Equal(t, "B2", m.checkField("bed").Value())
+	require.Contains(t, m.checkField("hole").from, "from the record at 03:00")
+	require.NotNil(t, m.out.check)
+	require.Contains(t, m.handover.View(), "Found as recorded")
+	// The machine is found at another speed: the difference shows.
+	m.handover.form.move(3)
+	press(m, runes("22"))
+	require.Contains(t, m.handover.View(), "Found otherwise: Motor speed: 20 -> 22")
+	require.Empty(t, m.checkField("rpm").from, "an edited value is no longer the record's")
+}
+
+// The same in a real terminal program.
+func TestWardViewInATerminal(t *testing.T) {
+	logPath := wardLog(t)
+	p, src := demoProfile(t, "demo-a")
+	m := New(Options{Profile: p, Source: src, ProfilesDir: t.TempDir(), Now: testNow, LogPath: logPath})
+	tm := teatest.NewTestModel(t, m, teatest.WithInitialTermSize(80, 24))
+	tm.Send(tea.KeyMsg{Type: tea.KeyF7})
+	teatest.WaitFor(t, tm.Output(), func(b []byte) bool { return strings.Contains(string(b), "most urgent first") },
+		teatest.WithDuration(5*time.Second), teatest.WithCheckInterval(20*time.Millisecond))
+	tm.Send(tea.KeyMsg{Type: tea.KeyDown})
+	tm.Send(tea.KeyMsg{Type: tea.KeyEnter})
+	teatest.WaitFor(t, tm.Output(), func(b []byte) bool { return strings.Contains(string(b), "from the record at 08:30") },
+		teatest.WithDuration(5*time.Second), teatest.WithCheckInterval(20*time.Millisecond))
+	tm.Send(tea.KeyMsg{Type: tea.KeyCtrlC})
+	tm.Send(tea.KeyMsg{Type: tea.KeyCtrlC})
+	tm.WaitFinished(t, teatest.WithFinalTimeout(5*time.Second))
+	final := tm.FinalModel(t).(*Model)
+	require.Equal(t, "168", final.field("height-cm").Value())
+	require.Equal(t, "7", final.checkField("hole").Value())
+}
+
+// A history of 30 checks: newest first, all of them reachable by
+// scrolling, with a marker for what is below.
+func TestHistoryNewestFirstAndScrolls(t *testing.T) {
+	logPath := filepath.Join(t.TempDir(), "h.jsonl")
+	for i := 0; i < 30; i++ {
+		hole := []string{"7", "8"}[i%2]
+		recordCheck(t, logPath, "B4", 175, physiology.Male, hole, 21, 1.4, testNow().Add(time.Duration(i-30)*time.Hour))
+	}
+	p, src := demoProfile(t, "demo-a")
+	m := New(Options{Profile: p, Source: src, ProfilesDir: t.TempDir(), Now: testNow, LogPath: logPath})
+	m.Update(tea.WindowSizeMsg{Width: 80, Height: 24})
+	press(m, fkey(6), runes("B4"), ctrlR)
+	require.NotNil(t, m.overlay)
+	v := screen(m)
+	require.Contains(t, v, "30 checks, newest first")
+	require.Contains(t, v, "2026-12-01 08:00", "the newest (08:00) is at the top:\n%s", v)
+	require.Contains(t, v, "more lines below")
+	for i := 0; i < 20; i++ {
+		press(m, pgDn)
+	}
+	require.Contains(t, screen(m), "2026-11-30 03:00", "the oldest is reachable")
+}
+
+// Text from a file never reaches the terminal raw: a record whose
+// initials and bed label hold escape sequences (clear screen, retitle,
+// clipboard write), and a profile file whose name holds one, are shown
+// escaped in the history, the ward view and the picker.
+func TestNothingFromAFileReachesTheScreenRaw(t *testing.T) {
+	logPath := wardLog(t)
+	data, err := os.ReadFile(logPath)
+	require.NoError(t, err)
+	evil := strings.ReplaceAll(string(data), `"initials":"JK"`, `"initials":"\u001b[2J\u001b]0;pwned\u0007\u001b]52;c;ZXZpbA==\u0007\u009b31m\u202e"`)
+	evil = strings.Replace(evil, `"bed":"B7"`, `"bed":"B7\u001b[2J"`, 1)
+	require.NotEqual(t, string(data), evil)
+	require.NoError(t, os.WriteFile(logPath, []byte(evil), 0o600))
+	dir := t.TempDir()
+	require.NoError(t, os.WriteFile(filepath.Join(dir, "evil\x1b]0;x\x07.json"), []byte("{"), 0o644))
+	p, src := demoProfile(t, "demo-a")
+	m := New(Options{Profile: p, Source: src, ProfilesDir: dir, Now: testNow, LogPath: logPath})
+	m.Update(tea.WindowSizeMsg{Width: 100, Height: 30})
+	raw := func(v string) {
+		t.Helper()
+		for _, bad := range []string{"\x1b", "\x07", "\u009b", "\u202e"} {
+			require.NotContains(t, v, bad, "a raw control or bidi character reached the screen")
+		}
+	}
+	press(m, tea.KeyMsg{Type: tea.KeyF7})
+	v := m.View()
+	raw(v)
+	require.Contains(t, v, `\x1b[2J`, "shown escaped")
+	press(m, esc, fkey(6))
+	m.checkField("bed").SetValue("B2")
+	press(m, ctrlR)
+	v = m.View()
+	raw(v)
+	require.Contains(t, v, `\x1b]0;pwned`, "the history shows the initials escaped")
+	press(m, esc, fkey(3), ctrlP)
+	v = m.View()
+	raw(v)
+	require.Contains(t, v, `\x1b]0;x\x07`)
+}
