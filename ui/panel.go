@@ -34,7 +34,7 @@ type outcome struct {
 	// changedFromRecord what the entries now hold otherwise.
 	started           string
 	changedFromRecord []string
-	saveNote     string // the last record's outcome, shown on the handover panel
+	saveNote          string // the last record's outcome, shown on the handover panel
 	// logNote says where the screen records checks and whether it can.
 	logNote string
 }

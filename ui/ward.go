@@ -124,4 +124,3 @@ func (w *wardView) view(width int) string {
 	_ = width
 	return strings.Join(l, "\n")
 }
-
