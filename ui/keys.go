@@ -20,6 +20,7 @@ type globalKeys struct {
 	Confirm, Stay  key.Binding
 	PageUp, PageDn key.Binding
 	Ward           key.Binding
+	Suspend        key.Binding
 }
 
 func newGlobalKeys() globalKeys {
@@ -33,6 +34,7 @@ func newGlobalKeys() globalKeys {
 		PageUp:  key.NewBinding(key.WithKeys("pgup"), key.WithHelp("pgup/pgdn", "scroll the panel")),
 		PageDn:  key.NewBinding(key.WithKeys("pgdown"), key.WithHelp("pgup/pgdn", "scroll the panel")),
 		Ward:    key.NewBinding(key.WithKeys("f7", "alt+7"), key.WithHelp("F7", "ward")),
+		Suspend: key.NewBinding(key.WithKeys("ctrl+z"), key.WithHelp("ctrl+z", "suspend (fg resumes)")),
 	}
 	names := [6]string{"patient", "targets", "machine", "setting", "cautions", "handover"}
 	for i := range k.Panel {

@@ -251,6 +251,10 @@ func (m *Model) globalKey(msg tea.KeyMsg) (tea.Cmd, bool) {
 	switch {
 	case key.Matches(msg, m.keys.Quit):
 		return m.quit(), true
+	case key.Matches(msg, m.keys.Suspend):
+		// Ctrl+Z: the terminal is given back to the shell, and taken
+		// again on fg.
+		return suspendSelf, true
 	case key.Matches(msg, m.keys.Next):
 		return m.focusPanel((m.focus + 1) % len(m.panels)), true
 	case key.Matches(msg, m.keys.Prev):
@@ -655,7 +659,10 @@ func (m *Model) fullHelp() string {
 
 // Run starts the full-screen UI and blocks until it ends.
 func Run(opts Options) error {
-	_, err := tea.NewProgram(New(opts), tea.WithAltScreen()).Run()
+	p := tea.NewProgram(New(opts), tea.WithAltScreen())
+	stop := keepTerminal(p)
+	defer stop()
+	_, err := p.Run()
 	return err
 }
 
