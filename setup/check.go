@@ -130,6 +130,9 @@ func RunCheck(req CheckRequest, p profiles.Profile) (Check, error) {
 	if err != nil {
 		return Check{}, err
 	}
+	if err := canonicalHoles(&req, p); err != nil {
+		return Check{}, err
+	}
 	cur := req.Setting
 	if err := checkSetting(u, cur, ""); err != nil {
 		return Check{}, err

@@ -188,3 +188,16 @@ func BenchmarkMechanicsFit(b *testing.B) {
 		}
 	}
 }
+
+// A hole label matches whatever its letter case when only one hole does
+// (common practice: "c" typed for hole C); demo-b has no hole I, so "i"
+// is refused naming the holes.
+func TestHoleLabelIgnoresCaseWhenUnambiguous(t *testing.T) {
+	req := checkReq("c", 20, 1.3)
+	ck, err := setup.RunCheck(req, profile(t, "demo-b"))
+	require.NoError(t, err)
+	require.Equal(t, "C", ck.Current.Setting.Hole)
+	_, err = setup.RunCheck(checkReq("i", 20, 1.3), profile(t, "demo-b"))
+	require.Error(t, err)
+	require.Contains(t, err.Error(), "J")
+}
