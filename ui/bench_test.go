@@ -38,3 +38,7 @@ func BenchmarkFirstFrame(b *testing.B) {
 		_ = m.View()
 	}
 }
+
+// BenchmarkKeystroke200x60 is one key in a large window, where the chart
+// is widest: it is drawn once per plan and size, not per key.
+func BenchmarkKeystroke200x60(b *testing.B) { keystrokes(b, 200, 60) }

@@ -502,13 +502,19 @@ func (m *Model) box(title, content string, h int, focused bool, offset int) stri
 		st = m.styles.PanelFocused
 	}
 	fw, fh := st.GetHorizontalFrameSize(), st.GetVerticalFrameSize()
-	lines := window(wrapBlock(content, m.w-fw), h-fh-1, offset)
-	inner := m.styles.PanelTitle.Render(title) + "\n" + strings.Join(lines, "\n")
-	// Pad to the full height so the strip below never moves.
-	if n := len(lines) + 1; n < h-fh {
-		inner += strings.Repeat("\n", h-fh-n)
+	w := m.w - fw
+	lines := append([]string{m.styles.PanelTitle.Render(title)}, window(wrapBlock(content, w), h-fh-1, offset)...)
+	// Pad to the full height so the strip below never moves, and every
+	// line to the full width, so the frame needs no wrapping of its own.
+	for len(lines) < h-fh {
+		lines = append(lines, "")
 	}
-	return st.Width(m.w - fw + st.GetHorizontalPadding()).Render(inner)
+	for i, l := range lines {
+		if n := ansi.StringWidth(l); n < w {
+			lines[i] = l + strings.Repeat(" ", w-n)
+		}
+	}
+	return st.Render(strings.Join(lines, "\n"))
 }
 
 // maxScroll is how far panel i's content can scroll at the current size.

@@ -119,3 +119,29 @@ func window(lines []string, h, off int) []string {
 	}
 	return out
 }
+
+// besideEachOther puts a column of lines, padded to w cells, beside
+// another, two spaces apart: the cheap form of lipgloss.JoinHorizontal
+// for text already wrapped to its width.
+func besideEachOther(left []string, w int, right []string) string {
+	n := max(len(left), len(right))
+	var b strings.Builder
+	for i := 0; i < n; i++ {
+		l, r := "", ""
+		if i < len(left) {
+			l = left[i]
+		}
+		if i < len(right) {
+			r = right[i]
+		}
+		b.WriteString(l)
+		if pad := w - ansi.StringWidth(l); pad > 0 {
+			b.WriteString(strings.Repeat(" ", pad))
+		}
+		b.WriteString("  " + r)
+		if i < n-1 {
+			b.WriteString("\n")
+		}
+	}
+	return b.String()
+}

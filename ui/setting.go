@@ -6,7 +6,6 @@ import (
 
 	"github.com/charmbracelet/bubbles/key"
 	tea "github.com/charmbracelet/bubbletea"
-	"github.com/charmbracelet/lipgloss"
 
 	"crankside/setup"
 )
@@ -76,8 +75,7 @@ func (p *settingPanel) View() string {
 	}
 	details := p.details(p.out.plan)
 	if p.chart != "" {
-		left := lipgloss.NewStyle().Width(detailWidth).Render(strings.Join(wrapBlock(details, detailWidth), "\n"))
-		return lipgloss.JoinHorizontal(lipgloss.Top, left, "  ", p.chart)
+		return besideEachOther(wrapBlock(details, detailWidth), detailWidth, strings.Split(p.chart, "\n"))
 	}
 	return details
 }
