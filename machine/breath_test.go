@@ -113,13 +113,18 @@ func TestSweptEqualsQuadratureOfPistonFlow(t *testing.T) {
 	} {
 		cr := c.cr
 		s := Stroke{Crank: cr, BoreCm: 10, RPM: 20, Scale: 1}
-		n := 4001
-		ts := make([]float64, n)
-		qs := make([]float64, n)
-		d := s.DurationS()
+		// The piston flow the simulation itself uses: dx/dtheta at each
+		// step, as the stroke fills it, times area x omega.
+		k := s.kinematics()
+		const steps = 4000
+		h := k.durS / steps
+		dx := make([]float64, steps+1)
+		k.fillMotion(dx, nil, h)
+		ts := make([]float64, steps+1)
+		qs := make([]float64, steps+1)
 		for i := range ts {
-			ts[i] = d * float64(i) / float64(n-1)
-			qs[i] = s.PistonFlowMLPerS(ts[i])
+			ts[i] = h * float64(i)
+			qs[i] = k.flowPerDxDTheta * dx[i]
 		}
 		require.InDelta(t, c.sweptML, integrate.Simpsons(ts, qs), 1e-6*c.sweptML, "crank %+v: integral of piston flow (derived)", cr)
 		require.InDelta(t, c.sweptML, s.SweptML(), 1e-6, "crank %+v: swept volume (derived)", cr)

@@ -32,54 +32,15 @@ func (c Crank) Validate() error {
 	return nil
 }
 
-func (c Crank) lateral(theta float64) float64 { return c.RadiusCm*math.Sin(theta) - c.OffsetCm }
-
-// PositionCm is the piston pin's distance from the wheel's centre along the
-// piston's line: r cos(theta) + sqrt(L^2 - (r sin(theta) - e)^2).
-func (c Crank) PositionCm(theta float64) float64 {
-	s := c.lateral(theta)
-	return c.RadiusCm*math.Cos(theta) + math.Sqrt(c.RodCm*c.RodCm-s*s)
-}
-
-// DxDTheta is the piston's displacement per radian of crank, in cm/rad.
-func (c Crank) DxDTheta(theta float64) float64 {
-	_, dx := c.slide(math.Sincos(theta))
-	return dx
-}
-
-// slide is the piston's position (cm from the wheel's centre) and dx/dtheta
-// (cm/rad) from the sine and cosine of the crank angle: the one place the
-// simulation and the exported functions get the piston's motion from.
-func (c Crank) slide(sin, cos float64) (xCm, dxDThetaCm float64) {
+// Motion is the piston pin's distance from the wheel's centre along the
+// piston's line, x = r cos(theta) + sqrt(L^2 - (r sin(theta) - e)^2) in cm,
+// and its rate dx/dtheta in cm/rad, from the sine and cosine of the crank
+// angle: the one place the simulation gets the piston's motion from (it
+// carries sin and cos forward by rotation rather than recomputing them).
+func (c Crank) Motion(sin, cos float64) (xCm, dxDThetaCm float64) {
 	s := c.RadiusCm*sin - c.OffsetCm
 	w := math.Sqrt(c.RodCm*c.RodCm - s*s)
 	return c.RadiusCm*cos + w, -c.RadiusCm*sin - s*c.RadiusCm*cos/w
-}
-
-// D2xDTheta2 is the second derivative of position with crank angle, cm/rad^2.
-func (c Crank) D2xDTheta2(theta float64) float64 {
-	sin, cos := math.Sincos(theta)
-	r := c.RadiusCm
-	s := r*sin - c.OffsetCm
-	ds := r * cos
-	d2s := -r * sin
-	w := math.Sqrt(c.RodCm*c.RodCm - s*s)
-	return -r*cos - (ds*ds+s*d2s)/w - s*s*ds*ds/(w*w*w)
-}
-
-// VelocityCmPerS is the piston's velocity at constant angular speed omega (rad/s).
-func (c Crank) VelocityCmPerS(theta, omega float64) float64 {
-	return c.DxDTheta(theta) * omega
-}
-
-// AccelerationCmPerS2 is the piston's acceleration at constant angular speed omega.
-func (c Crank) AccelerationCmPerS2(theta, omega float64) float64 {
-	return c.D2xDTheta2(theta) * omega * omega
-}
-
-// RodAngle is phi with sin(phi) = (r sin(theta) - e) / L.
-func (c Crank) RodAngle(theta float64) float64 {
-	return math.Asin(c.lateral(theta) / c.RodCm)
 }
 
 // DeadCentres returns the crank angles of the bottom dead centre (piston
@@ -115,17 +76,12 @@ func (c Crank) StrokeCm() float64 {
 	return math.Sqrt((l+r)*(l+r)-e*e) - math.Sqrt((l-r)*(l-r)-e*e)
 }
 
-// TorqueNm is the crank torque needed to push the piston with force N:
-// F r sin(theta + phi) / cos(phi), which is -F dx/dtheta (in metres) by
-// virtual work (Norton, Design of Machinery); it is computed that way, by
-// the same function the stroke simulation uses.
-func (c Crank) TorqueNm(theta, forceN float64) float64 {
-	return torqueNm(forceN, c.DxDTheta(theta))
-}
-
-// torqueNm is the crank torque for a force on the piston where the piston
-// moves dxDThetaCm per radian: -F dx/dtheta, with dx/dtheta in m/rad.
-func torqueNm(forceN, dxDThetaCm float64) float64 {
+// TorqueNm is the crank torque needed to push the piston with forceN
+// where the piston moves dxDThetaCm per radian of crank: -F dx/dtheta, with
+// dx/dtheta in m/rad. By virtual work this equals F r sin(theta + phi) /
+// cos(phi) (Norton, Design of Machinery); the stroke simulation uses it for
+// every step.
+func TorqueNm(forceN, dxDThetaCm float64) float64 {
 	return -forceN * dxDThetaCm / 100
 }
 

@@ -27,10 +27,11 @@
 // three are finite with radius and rod positive (Crank.Validate says which
 // is wrong). Simulation inputs must be positive and finite; the GasPath's
 // fields zero or positive and finite, the head beyond the hole's top dead
-// centre and the relief above PEEP. Simulate and SimulateStroke return an
-// error wrapping ErrBadBreath otherwise and never panic on data. Passing
-// neither a flow function nor flow samples, or a number of samples that does
-// not match StepGrid, is a programmer's mistake and panics. FitCalibration
+// centre and the relief above PEEP. SimulateStroke and Simulator's
+// SimulateStroke return an error wrapping ErrBadBreath otherwise and never
+// panic on data. Crank.Motion is the one source of the piston's position and
+// dx/dtheta, and TorqueNm of the crank torque, for the simulation and the
+// tests alike. FitCalibration
 // returns an error wrapping ErrCalibration for no points or a point it
 // cannot use.
 //

@@ -20,9 +20,6 @@ type Stroke struct {
 // Omega is the crank's angular speed in rad/s.
 func (s Stroke) Omega() float64 { return 2 * math.Pi * s.RPM / 60 }
 
-// DurationS is the time of the delivery: the delivery angle at Omega.
-func (s Stroke) DurationS() float64 { return s.Crank.DeliveryAngle() / s.Omega() }
-
 // SweptML is the geometric swept volume of the hole.
 func (s Stroke) SweptML() float64 { return SweptVolumeML(s.BoreCm, s.Crank) }
 
@@ -45,13 +42,6 @@ func (s Stroke) kinematics() kinematics {
 
 func (k *kinematics) angle(tS float64) float64 { return k.bottom + k.omega*tS }
 
-func (k *kinematics) flow(tS float64) float64 {
-	if tS < 0 || tS > k.durS*(1+1e-12) {
-		return 0
-	}
-	return k.flowPerDxDTheta * k.crank.DxDTheta(k.angle(tS))
-}
-
 // fillMotion writes dx/dtheta at t = 0, h, ... n h into the delivery into
 // dx[0..n], and the piston's position into x when x is not nil. The crank
 // angle advances by the same amount each step, so sin and cos are carried
@@ -67,7 +57,7 @@ func (k *kinematics) fillMotion(dx, x []float64, h float64) {
 		} else {
 			sin, cos = sin*rc+cos*rs, cos*rc-sin*rs
 		}
-		xi, d := k.crank.slide(sin, cos)
+		xi, d := k.crank.Motion(sin, cos)
 		dx[i] = d
 		if x != nil {
 			x[i] = xi
@@ -77,13 +67,6 @@ func (k *kinematics) fillMotion(dx, x []float64, h float64) {
 	if x != nil {
 		x[n] = k.crank.topCm()
 	}
-}
-
-// PistonFlowMLPerS is bore area x omega x dx/dtheta, times Scale, t seconds
-// after the bottom dead centre. It is zero outside the delivery.
-func (s Stroke) PistonFlowMLPerS(tS float64) float64 {
-	k := s.kinematics()
-	return k.flow(tS)
 }
 
 func (s Stroke) validate() error {
@@ -126,7 +109,7 @@ type StrokeResult struct {
 
 // SimulateStroke runs the breath model for one delivery half-turn and finds
 // the peak crank torque: the force on the piston, (cylinder pressure in Pa)
-// x bore area + ring friction, through the crank (torqueNm). With a zero
+// x bore area + ring friction, through the crank (TorqueNm). With a zero
 // Gas it is the version 1 model; see GasPath for version 2. It uses a fresh
 // Simulator: a caller running many strokes should keep one instead.
 func SimulateStroke(in StrokeInput) (StrokeResult, error) {

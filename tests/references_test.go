@@ -140,14 +140,22 @@ func TestSliderCrankKinematics(t *testing.T) {
 		{0, 30, 0, -15, false, true},
 		{180, 10, 0, 5, false, true},
 	}
+	// x and dx/dtheta come from Crank.Motion, the simulation's own; the
+	// acceleration from a central difference of its dx/dtheta (h 1e-5 rad:
+	// error about h^2 x |d4x| ~ 1e-9 cm, derived).
+	motion := func(c machine.Crank, th float64) (float64, float64) { return c.Motion(math.Sincos(th)) }
 	for _, k := range cases {
 		th := k.thetaDeg * deg
-		near(t, fmt.Sprintf("x(%v deg) (KMODDL)", k.thetaDeg), c.PositionCm(th), k.x, 5e-5)
+		x, dx := motion(c, th)
+		near(t, fmt.Sprintf("x(%v deg) (KMODDL)", k.thetaDeg), x, k.x, 5e-5)
 		if k.checkV {
-			near(t, fmt.Sprintf("|v|(%v deg) (KMODDL)", k.thetaDeg), math.Abs(c.VelocityCmPerS(th, 1)), k.absV, 5e-5)
+			near(t, fmt.Sprintf("|v|(%v deg) (KMODDL)", k.thetaDeg), math.Abs(dx*1), k.absV, 5e-5)
 		}
 		if k.checkA {
-			near(t, fmt.Sprintf("a(%v deg) (KMODDL)", k.thetaDeg), c.AccelerationCmPerS2(th, 1), k.a, 5e-5)
+			const h = 1e-5
+			_, up := motion(c, th+h)
+			_, down := motion(c, th-h)
+			near(t, fmt.Sprintf("a(%v deg) (KMODDL)", k.thetaDeg), (up-down)/(2*h), k.a, 5e-5)
 		}
 	}
 	// Offset e 20 mm, r 50 mm, L 200 mm -> stroke 100.54 mm (derived from the
@@ -156,11 +164,13 @@ func TestSliderCrankKinematics(t *testing.T) {
 	off := machine.Crank{RadiusCm: 5, RodCm: 20, OffsetCm: 2}
 	near(t, "offset stroke (derived)", off.StrokeCm()*10, 100.54, 0.005)
 	// The stroke is also x at the top dead centre minus x at the bottom one:
-	// the same 100.54 mm (derived above), found through DeadCentres and PositionCm.
+	// the same 100.54 mm (derived above), found through DeadCentres and Motion.
 	b, top := off.DeadCentres()
-	near(t, "stroke from the dead centres (derived: 100.54 mm)", (off.PositionCm(top)-off.PositionCm(b))*10, 100.54, 0.005)
-	near(t, "velocity zero at bottom dead centre (derived)", off.DxDTheta(b), 0, 1e-9)
-	near(t, "velocity zero at top dead centre (derived)", off.DxDTheta(top), 0, 1e-9)
+	xb, dxb := motion(off, b)
+	xt, dxt := motion(off, top)
+	near(t, "stroke from the dead centres (derived: 100.54 mm)", (xt-xb)*10, 100.54, 0.005)
+	near(t, "velocity zero at bottom dead centre (derived)", dxb, 0, 1e-9)
+	near(t, "velocity zero at top dead centre (derived)", dxt, 0, 1e-9)
 	// In-line: stroke is 2r (derived).
 	near(t, "in-line stroke 2r (derived)", c.StrokeCm(), 20, 1e-12)
 	// Bore 100 mm, r 25 mm -> 392.70 mL swept (pi r^2 h, common practice).
@@ -168,14 +178,14 @@ func TestSliderCrankKinematics(t *testing.T) {
 }
 
 func TestSliderCrankDerivativesMatchFiniteDifferences(t *testing.T) {
-	// The analytic derivatives against central differences of x (derived).
+	// Motion's dx/dtheta against a central difference of its x (derived).
 	c := machine.Crank{RadiusCm: 4.2, RodCm: 22, OffsetCm: 1.3}
 	const h = 1e-5
 	for th := 0.0; th < 2*math.Pi; th += 0.37 {
-		fd1 := (c.PositionCm(th+h) - c.PositionCm(th-h)) / (2 * h)
-		fd2 := (c.PositionCm(th+h) - 2*c.PositionCm(th) + c.PositionCm(th-h)) / (h * h)
-		near(t, fmt.Sprintf("dx/dtheta at %.2f", th), c.DxDTheta(th), fd1, 1e-6)
-		near(t, fmt.Sprintf("d2x/dtheta2 at %.2f", th), c.D2xDTheta2(th), fd2, 1e-3)
+		up, _ := c.Motion(math.Sincos(th + h))
+		down, _ := c.Motion(math.Sincos(th - h))
+		_, dx := c.Motion(math.Sincos(th))
+		near(t, fmt.Sprintf("dx/dtheta at %.2f", th), dx, (up-down)/(2*h), 1e-6)
 	}
 }
 
@@ -187,11 +197,11 @@ func TestCrankTorque(t *testing.T) {
 	c := machine.Crank{RadiusCm: 5, RodCm: 20}
 	for _, k := range []struct{ deg, want float64 }{{30, 3.0455}, {60, 4.8845}, {90, 5.000}} {
 		th := k.deg * math.Pi / 180
-		got := c.TorqueNm(th, 100)
+		// The simulation's torque: -F dx/dtheta (virtual work), which must
+		// equal the rod-angle form above at Norton's angles.
+		_, dx := c.Motion(math.Sincos(th))
+		got := machine.TorqueNm(100, dx)
 		near(t, fmt.Sprintf("torque %v deg (derived)", k.deg), got, k.want, 5e-5)
-		// The identity T = F |dx/dtheta| (virtual work; Norton, from memory):
-		// TorqueNm uses the rod angle, DxDTheta the position's derivative.
-		near(t, fmt.Sprintf("torque = F |dx/dtheta| at %v deg", k.deg), got, 100*math.Abs(c.DxDTheta(th))/100, 1e-9)
 	}
 }
 
