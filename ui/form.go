@@ -47,10 +47,6 @@ func newForm(styles *Styles, sections ...section) form {
 
 func (f *form) current() *field { return f.fields[f.cursor] }
 
-// editing reports whether a text field has the cursor, so that letters and
-// digits belong to it.
-func (f *form) editing() bool { return f.focused && f.current().isText() }
-
 func (f *form) focus() tea.Cmd {
 	f.focused = true
 	return f.current().focus()

@@ -13,8 +13,6 @@ type (
 	historyRequested  struct{}              // show the bed's earlier checks
 	benchChosen       struct{ path string } // refit the calibration from this file
 	refitWriteRequest struct{}              // save the previewed refit
-	// nothingToType says that a typing key reached a panel with no field.
-	nothingToType struct{ where string }
 )
 
 // ask wraps a message as a command.

@@ -17,9 +17,6 @@ import (
 type outcome struct {
 	plan    *setup.Plan
 	trace   *setup.Trace
-	chart   string // the breath chart drawn for plan at chartW x chartH
-	chartW  int
-	chartH  int
 	waiting []string
 	profile profiles.Profile
 	source  profiles.Source

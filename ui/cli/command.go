@@ -232,9 +232,6 @@ func (f *flags) boolean(name, usage string) func() bool {
 	return func() bool { return f.entries[name] == "true" }
 }
 
-// given reports whether a flag was typed.
-func (f *flags) given(name string) bool { _, ok := f.entries[name]; return ok }
-
 // parse parses the arguments. done is true, with the status to exit with,
 // when the command should go no further: help was asked for, a flag was
 // bad, or an argument was given where none is taken.
