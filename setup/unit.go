@@ -27,12 +27,23 @@ type CalibrationStatus struct {
 	Holes     int // distinct holes measured
 	Fit       *machine.Fit
 	BenchRows []profiles.BenchPoint
+	// Residuals are the bench rows with their residuals, row by row.
+	Residuals []BenchResidual
 	// Outside counts bench points outside +/-(4 mL + 15%) of the fitted model.
 	Outside int
 	// SweptMinML and SweptMaxML are the smallest and largest geometric
 	// swept volumes of the machine's holes (the calibration is linear, so
 	// these two tell whether any hole's effective volume exceeds its own).
 	SweptMinML, SweptMaxML float64
+}
+
+// BenchResidual is one bench row's hole and how far the fitted line is
+// from what was measured there (mL), and whether that is within
+// +/-(4 mL + 15%).
+type BenchResidual struct {
+	Hole       string
+	ResidualML float64
+	Within     bool
 }
 
 func newUnit(p profiles.Profile, now time.Time) (unit, error) {
@@ -100,9 +111,11 @@ func fitCalibration(u unit, now time.Time) (CalibrationStatus, error) {
 	holes := map[string]bool{}
 	for i, p := range c.Points {
 		holes[p.Hole] = true
-		if !machine.WithinISOTolerance(p.MeasuredML, fit.Residuals[i].PredictedML) {
+		within := machine.WithinISOTolerance(p.MeasuredML, fit.Residuals[i].PredictedML)
+		if !within {
 			st.Outside++
 		}
+		st.Residuals = append(st.Residuals, BenchResidual{Hole: p.Hole, ResidualML: fit.Residuals[i].ResidualML, Within: within})
 	}
 	st.Holes = len(holes)
 	return st, nil

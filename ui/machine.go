@@ -211,9 +211,8 @@ func (p *machinePanel) holeTable(sum *setup.ProfileSummary) []string {
 	s := p.styles
 	resid := map[string]string{}
 	if c := sum.Calibration; c.Fit != nil {
-		for i, bp := range c.BenchRows {
-			r := c.Fit.Residuals[i]
-			resid[bp.Hole] += fmt.Sprintf(" %+.1f mL", r.ResidualML)
+		for _, r := range c.Residuals {
+			resid[r.Hole] += fmt.Sprintf(" %+.1f mL", r.ResidualML)
 		}
 	}
 	out := []string{s.Section.Render(fmt.Sprintf("  %-6s %9s %9s %11s %s", "hole", "radius", "swept", "calibrated", "bench residual"))}
