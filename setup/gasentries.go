@@ -1,7 +1,5 @@
 package setup
 
-import "crankside/physiology"
-
 // The blood gas and oximeter entries of a check, each optional. Their
 // hints say which goal of the ARDS Network protocol each serves.
 
@@ -27,33 +25,26 @@ func (r *entryReader) gas() GasReadings {
 
 // gasHint is the hint of a gas entry, or "" for another entry.
 func gasHint(name string) string {
-	switch name {
-	case "spo2":
-		return "optional: oxygenation goal 88-95 % (ARDS Network protocol)"
-	case "pao2":
-		return "optional: oxygenation goal 55-80 mmHg (ARDS Network protocol); decides over SpO2"
-	case "ph":
-		return "optional: pH goal 7.30-7.45 (ARDS Network protocol); the rate step needs PaCO2 too"
-	case "paco2":
-		return "optional: with pH, for the new rate (Henderson-Hasselbalch, bicarbonate held)"
-	case "dead-space-ml":
-		return "blank: 0 mL apparatus assumed; tube, filter and connectors, for the rate step"
+	if l := GasGoalLine(name); l != "" {
+		return "optional: " + l
 	}
 	return ""
 }
 
-// GasGoal is the goal a gas entry serves, short enough for a column beside
-// the field ("88-95 %"), or "" for another entry.
-func GasGoal(name string) string {
+// GasGoalLine is the goal a gas entry serves and the rule that reads it,
+// short enough for one line beside a form, or "" for another entry.
+func GasGoalLine(name string) string {
 	switch name {
 	case "spo2":
-		return physiology.PlainNumber(physiology.SpO2GoalLowPct) + "-" + physiology.PlainNumber(physiology.SpO2GoalHighPct) + " %"
+		return "oxygenation goal SpO2 88-95 % (ARDS Network protocol)"
 	case "pao2":
-		return physiology.PlainNumber(physiology.PaO2GoalLowMmHg) + "-" + physiology.PlainNumber(physiology.PaO2GoalHighMmHg) + " mmHg"
+		return "oxygenation goal PaO2 55-80 mmHg (ARDS Network); decides over SpO2"
 	case "ph":
-		return "7.30-7.45"
+		return "pH goal 7.30-7.45 (ARDS Network protocol); the rate step needs PaCO2"
 	case "paco2":
-		return "for the rate"
+		return "with pH: the new rate holds the bicarbonate (Henderson-Hasselbalch)"
+	case "dead-space-ml":
+		return "apparatus dead space (tube, filter, connectors); blank: 0 mL assumed"
 	}
 	return ""
 }

@@ -318,7 +318,7 @@ func (res *ProtocolStepResult) setO2Flow(hf HoleFigure, st physiology.ProtocolSt
 	}
 	// A flowmeter is set to a tenth of a litre: rounded up, so that the
 	// FiO2 is never below the step's (by at most 0.079 / MV above it).
-	flow := math.Ceil(physiology.O2FlowForFiO2(fio2, mv)*10-1e-9) / 10
+	flow := math.Max(0, math.Ceil(physiology.O2FlowForFiO2(fio2, mv)*10-1e-9)/10)
 	if fio2 >= 1 && cur.O2LPerMin > flow {
 		flow = cur.O2LPerMin // already all oxygen: keep the larger flow
 	}
