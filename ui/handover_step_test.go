@@ -17,7 +17,7 @@ var ctrlT = tea.KeyMsg{Type: tea.KeyCtrlT}
 
 // The acidotic handover used below, derived by hand (demo-a: in-line crank,
 // 0.5 rpm and 0.1 s steps; the delivery is half a turn, Ti = 30 / rpm):
-//   - now: hole 8, 21 rpm, dwell 1.4 s: breath 60/21 + 1.4 = 4.257 s,
+//   - now: hole 9, 21 rpm, dwell 1.4 s: breath 60/21 + 1.4 = 4.257 s,
 //     14.09 /min, Ti 1.429 s, I:E 1:1.98;
 //   - pH 7.22, PaCO2 58: HCO3 = 0.03 x 58 x 10^(7.22 - 6.1) = 22.94 mmol/L;
 //     held, pH 7.35 needs PaCO2 22.94 / (0.03 x 10^1.25) = 43.0 mmHg
@@ -29,10 +29,12 @@ var ctrlT = tea.KeyMsg{Type: tea.KeyCtrlT}
 //     28.5 on the motor's step (Ti 1.053 s, turn 2.105 s); the dwell 3.158 -
 //     2.105 = 1.053 s is 1.1 s on the controller's step: breath 3.205 s,
 //     18.72 /min;
-//   - SpO2 92 is inside 88-95 and FiO2 stays 0.21: no O2 (0 L/min); no Vt
-//     step (plateau about 12, Vt about 6): the hole stays 8.
+//   - SpO2 92 is inside 88-95 and FiO2 stays 0.21: no O2 (0 L/min); hole 9
+//     sweeps pi x 5^2 x 6.0 = 471 mL, so the plateau is about 5 + 471 / 60
+//     (assumed compliance) = 13, under 30, and Vt about 6.5 mL/kg PBW is at
+//     least 6: no Vt step, the hole stays 9.
 func typeAcidoticHandover(m *Model) {
-	press(m, runes("B4"), enter, runes("ab"), enter, runes("8"), enter, runes("21"), enter, runes("1.4"), enter,
+	press(m, runes("B4"), enter, runes("ab"), enter, runes("9"), enter, runes("21"), enter, runes("1.4"), enter,
 		enter, enter, enter, enter, // PEEP, O2, peak, end: blank
 		runes("92"), enter, enter, runes("7.22"), enter, runes("58"))
 }
@@ -46,13 +48,13 @@ func TestHandoverTakesTheProtocolStep(t *testing.T) {
 	require.NotNil(t, ck.Protocol)
 	require.True(t, m.handover.keys.Take.Enabled())
 	v := screen(m)
-	require.Contains(t, v, "Protocol step: hole 8, 28.5 rpm")
+	require.Contains(t, v, "Protocol step: hole 9, 28.5 rpm")
 	require.Contains(t, v, "Ctrl+T takes it")
 	require.Contains(t, m.fullHelp(), "ctrl+t take the protocol step", "the keys list offers it")
 
 	press(m, ctrlT)
 	// derived above
-	for name, want := range map[string]string{"propose-hole": "8", "propose-rpm": "28.5", "propose-dwell-s": "1.1",
+	for name, want := range map[string]string{"propose-hole": "9", "propose-rpm": "28.5", "propose-dwell-s": "1.1",
 		"propose-peep": "5", "propose-o2-lpm": "0"} {
 		require.Equal(t, want, m.checkField(name).Value(), name)
 	}
@@ -109,7 +111,7 @@ func TestTakingTheStepInATerminal(t *testing.T) {
 		Prefill: map[string]string{"height-cm": "175", "sex": "male"}})
 	tm := teatest.NewTestModel(t, m, teatest.WithInitialTermSize(80, 24))
 	tm.Send(tea.KeyMsg{Type: tea.KeyF6})
-	for _, k := range []string{"B4", "\r", "ab", "\r", "8", "\r", "21", "\r", "1.4", "\r", "\r", "\r", "\r", "\r",
+	for _, k := range []string{"B4", "\r", "ab", "\r", "9", "\r", "21", "\r", "1.4", "\r", "\r", "\r", "\r", "\r",
 		"92", "\r", "\r", "7.22", "\r", "58"} {
 		if k == "\r" {
 			tm.Send(tea.KeyMsg{Type: tea.KeyEnter})
