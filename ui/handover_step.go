@@ -1,6 +1,8 @@
 package ui
 
 import (
+	"strings"
+
 	"crankside/setup"
 )
 
@@ -71,7 +73,8 @@ func (p *handoverPanel) protocolLines(add func(string), j setup.CheckJSON) {
 			add(s.Hint.Render("   " + r.Action + " [" + r.Source + "]"))
 			continue
 		}
-		add(" " + s.Label.Render(r.Word) + " " + s.Hint.Render(r.ID+": "+r.Action))
+		// "IN GOAL plateau: Vt stays 6.5", not "IN GOAL plateau: in goal: ...".
+		add(" " + s.Label.Render(r.Word) + " " + s.Hint.Render(r.ID+": "+strings.TrimPrefix(r.Action, "in goal: ")))
 	}
 	for _, c := range setup.StepChangeLines(j) {
 		add(s.Label.Render(" machine: ") + s.Value.Render(c))
