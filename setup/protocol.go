@@ -353,7 +353,7 @@ func (res *ProtocolStepResult) evaluateProposed(u unit, ls lungState, req CheckR
 		return Evaluation{}, &InputError{Field: "readings", Reason: "the protocol's step: " + err.Error()}
 	}
 	a := assessment{heightCm: req.Patient.HeightCm, pbwKg: ls.pbwKg, f: f, reliefCmH2O: u.p.Circuit.ReliefCmH2O,
-		cal: u.cal, ratedTorque: u.p.Motor.RatedTorqueNm}
+		cal: u.cal, ratedTorque: u.p.Motor.RatedTorqueNm, fixedMotor: u.p.Motor.Fixed()}
 	if res.Timing != nil {
 		tp := *res.Timing
 		tp.Timing = t
