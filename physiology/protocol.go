@@ -71,11 +71,14 @@ const (
 	ProtocolRateFloorBPM = 10.0
 )
 
-// Tolerances for finding the patient on the table: FiO2 is compared on
-// hundredths, as the table is written; a PEEP valve is set to about the
-// nearest cmH2O (common practice).
+// Tolerances for finding the patient on the table. The FiO2 of a bleed is
+// an estimate from a flowmeter set to a tenth of a litre: 0.1 L/min moves
+// it by 0.79 x 0.1 / MV, 0.013 at 6 L/min (derived from the bleed
+// formula), so a patient within 0.015 of a pair is at that pair (the
+// table's FiO2 steps are 0.1 apart, so no two pairs are confused). A PEEP
+// valve is set to about the nearest cmH2O (common practice).
 const (
-	tableFiO2Tol = 0.005
+	tableFiO2Tol = 0.015
 	tablePEEPTol = 0.5
 )
 

@@ -29,6 +29,7 @@ type Proposal struct {
 	RPM       *float64
 	DwellS    *float64
 	PEEPCmH2O *float64
+	O2LPerMin *float64 // L/min bled into the intake
 }
 
 // Apply returns the setting with the proposal's fields replaced.
@@ -45,12 +46,15 @@ func (p Proposal) Apply(s Setting) Setting {
 	if p.PEEPCmH2O != nil {
 		s.PEEPCmH2O = *p.PEEPCmH2O
 	}
+	if p.O2LPerMin != nil {
+		s.O2LPerMin = *p.O2LPerMin
+	}
 	return s
 }
 
 // Empty reports whether nothing is proposed.
 func (p Proposal) Empty() bool {
-	return p.Hole == nil && p.RPM == nil && p.DwellS == nil && p.PEEPCmH2O == nil
+	return p.Hole == nil && p.RPM == nil && p.DwellS == nil && p.PEEPCmH2O == nil && p.O2LPerMin == nil
 }
 
 // CheckRequest is a handover check: the patient, what the machine is set
@@ -66,7 +70,10 @@ type CheckRequest struct {
 	Proposal             Proposal
 	CylinderWaterL       float64
 	CylinderBar          float64
-	Now                  time.Time
+	// Gas is the blood gas and oximeter; with any reading the check also
+	// computes the protocol's next step (see RunCheck).
+	Gas GasReadings
+	Now time.Time
 }
 
 // Evaluation is one setting's figures and cautions.
@@ -90,6 +97,14 @@ type Check struct {
 	Current     Evaluation
 	Proposed    *Evaluation
 	Differences []Difference
+	// The protocol's next step, when a gas reading was entered: Gas holds
+	// the readings, Protocol the step on this machine (its Check field is
+	// left empty: this check is it), ProtocolProblem why there is no step,
+	// and ProposalFrom where Proposed came from (ProposalFromStep, ...).
+	Gas             *GasReadings
+	Protocol        *ProtocolStepResult
+	ProtocolProblem string
+	ProposalFrom    string
 }
 
 // Unexplained reports whether no lung explains the readings: then none of
@@ -115,7 +130,14 @@ type Difference struct {
 // use the assumed mechanics (the JSON and every report then withhold the
 // current setting's predicted figures). The readings are judged on their
 // own (ReadingCautions) whatever the fit gives.
+//
+// With a gas reading in req.Gas the check also carries the protocol's next
+// step (runCheckWithStep): a proposal entered by hand is still the one
+// evaluated, and the check says whether it is the step's.
 func RunCheck(req CheckRequest, p profiles.Profile) (Check, error) {
+	if !req.Gas.Empty() {
+		return runCheckWithStep(req, p)
+	}
 	now := orNow(req.Now)
 	pbw, err := pbwOf(req.Patient)
 	if err != nil {
@@ -199,7 +221,7 @@ func checkSetting(u unit, s Setting, prefix string) error {
 	if err := checkRange(prefix+"peep", "PEEP", s.PEEPCmH2O, physiology.PEEPMin, physiology.PEEPMax, "cmH2O"); err != nil {
 		return err
 	}
-	if err := checkRange("o2-lpm", "oxygen flow", s.O2LPerMin, 0, 60, "L/min"); err != nil {
+	if err := checkRange(prefix+"o2-lpm", "oxygen flow", s.O2LPerMin, 0, 60, "L/min"); err != nil {
 		return err
 	}
 	return nil

@@ -80,6 +80,7 @@ func (w *reportWriter) checkBody(j CheckJSON) {
 	if s := FirstStop(j.Cautions); s != nil && s.ID != "readings-unexplained" {
 		w.line("%s", StopLine(j.Cautions))
 	}
+	w.protocolSection(j)
 	w.settingTable(cur, prop, j.Cautions)
 	if j.Readings != nil {
 		w.line("MANOMETER  peak %.1f cmH2O, end of inspiration %.1f cmH2O", j.Readings.PeakCmH2O, j.Readings.EndCmH2O)

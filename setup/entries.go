@@ -97,10 +97,16 @@ var checkSpecs = []EntrySpec{
 	{Name: "end-pressure", Label: "End reading", Unit: "cmH2O"},
 	{Name: "cylinder-l", Label: "Cylinder", Unit: "L", ZeroIsDefault: true},
 	{Name: "cylinder-bar", Label: "Cylinder", Unit: "bar"},
+	{Name: "spo2", Label: "SpO2", Unit: "%"},
+	{Name: "pao2", Label: "PaO2", Unit: "mmHg"},
+	{Name: "ph", Label: "pH"},
+	{Name: "paco2", Label: "PaCO2", Unit: "mmHg"},
+	{Name: "dead-space-ml", Label: "Apparatus dead space", Unit: "mL"},
 	{Name: "propose-hole", Label: "Proposed hole", Kind: kindText},
 	{Name: "propose-rpm", Label: "Proposed speed", Unit: "rpm"},
 	{Name: "propose-dwell-s", Label: "Proposed dwell", Unit: "s"},
 	{Name: "propose-peep", Label: "Proposed PEEP", Unit: "cmH2O"},
+	{Name: "propose-o2-lpm", Label: "Proposed O2 flow", Unit: "L/min"},
 }
 
 // PlanEntries and CheckEntrySpecs list the entries of a plan and of a
@@ -316,11 +322,12 @@ func BuildCheckRequest(e Entries, now time.Time) (CheckRequest, Problems) {
 	for _, pr := range []struct {
 		name string
 		dst  **float64
-	}{{"propose-rpm", &req.Proposal.RPM}, {"propose-dwell-s", &req.Proposal.DwellS}, {"propose-peep", &req.Proposal.PEEPCmH2O}} {
+	}{{"propose-rpm", &req.Proposal.RPM}, {"propose-dwell-s", &req.Proposal.DwellS}, {"propose-peep", &req.Proposal.PEEPCmH2O}, {"propose-o2-lpm", &req.Proposal.O2LPerMin}} {
 		if v, ok := r.number(pr.name); ok {
 			*pr.dst = &v
 		}
 	}
+	req.Gas = r.gas()
 	r.rangeProblems(Targets{ComplianceMLPerCmH2O: req.ComplianceMLPerCmH2O, ResistanceCmH2OPerLS: req.ResistanceCmH2OPerLS,
 		CylinderWaterL: req.CylinderWaterL, CylinderBar: req.CylinderBar})
 	return req, r.sorted(checkSpecs)
@@ -364,6 +371,9 @@ func Hint(name string, lung physiology.Lung) string {
 	}
 	if strings.HasPrefix(name, "propose-") {
 		return "blank: as now"
+	}
+	if h := gasHint(name); h != "" {
+		return h
 	}
 	if strings.HasPrefix(name, "cylinder-") {
 		return "optional: capacity and pressure together"

@@ -316,7 +316,9 @@ func (res *ProtocolStepResult) setO2Flow(hf HoleFigure, st physiology.ProtocolSt
 	if res.Step.FiO2Changed {
 		fio2 = res.Step.FiO2
 	}
-	flow := physiology.O2FlowForFiO2(fio2, mv)
+	// A flowmeter is set to a tenth of a litre: rounded up, so that the
+	// FiO2 is never below the step's (by at most 0.079 / MV above it).
+	flow := math.Max(0, math.Ceil(physiology.O2FlowForFiO2(fio2, mv)*10-1e-9)/10)
 	if fio2 >= 1 && cur.O2LPerMin > flow {
 		flow = cur.O2LPerMin // already all oxygen: keep the larger flow
 	}
@@ -328,7 +330,7 @@ func (res *ProtocolStepResult) setO2Flow(hf HoleFigure, st physiology.ProtocolSt
 	if !res.Step.FiO2Changed {
 		why = fmt.Sprintf("to hold FiO2 %.2f", fio2)
 	}
-	res.note(fmt.Sprintf("O2 flow %.1f -> %.1f L/min %s at the proposed minute ventilation %.1f L/min (bled into the intake)", cur.O2LPerMin, flow, why, mv))
+	res.note(fmt.Sprintf("O2 flow %.1f -> %.1f L/min %s at the proposed minute ventilation %.1f L/min (bled into the intake; rounded up to 0.1 L/min)", cur.O2LPerMin, flow, why, mv))
 }
 
 func (res *ProtocolStepResult) note(s string) {
@@ -351,7 +353,7 @@ func (res *ProtocolStepResult) evaluateProposed(u unit, ls lungState, req CheckR
 		return Evaluation{}, &InputError{Field: "readings", Reason: "the protocol's step: " + err.Error()}
 	}
 	a := assessment{heightCm: req.Patient.HeightCm, pbwKg: ls.pbwKg, f: f, reliefCmH2O: u.p.Circuit.ReliefCmH2O,
-		cal: u.cal, ratedTorque: u.p.Motor.RatedTorqueNm}
+		cal: u.cal, ratedTorque: u.p.Motor.RatedTorqueNm, fixedMotor: u.p.Motor.Fixed()}
 	if res.Timing != nil {
 		tp := *res.Timing
 		tp.Timing = t

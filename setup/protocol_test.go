@@ -3,6 +3,7 @@ package setup_test
 import (
 	"encoding/json"
 	"errors"
+	"math"
 	"sort"
 	"strings"
 	"testing"
@@ -53,10 +54,14 @@ func TestProtocolHypoxaemicOnRoomAir(t *testing.T) {
 	require.Nil(t, res.Timing)
 	require.NotNil(t, res.Check.Proposed)
 	f := res.Check.Proposed.Figures
-	// Round-trip property of the bleed formula: the flow proposed gives the
-	// FiO2 asked for at the proposed minute ventilation.
-	require.InDelta(t, 0.30, physiology.FiO2FromBleed(res.Proposed.O2LPerMin, f.MinuteVentLPerMin), 1e-9)
-	require.InDelta(t, 0.30, res.FiO2, 1e-9)
+	// The flow is rounded up to the flowmeter's 0.1 L/min: the FiO2 is at
+	// least the 0.30 asked for and at most 0.79 x 0.1 / MV above it
+	// (derived from the bleed formula 0.21 + 0.79 Q / MV, REFERENCES).
+	require.InDelta(t, res.Proposed.O2LPerMin*10, math.Round(res.Proposed.O2LPerMin*10), 1e-9, "a tenth of a litre")
+	fio2 := physiology.FiO2FromBleed(res.Proposed.O2LPerMin, f.MinuteVentLPerMin)
+	require.GreaterOrEqual(t, fio2, 0.30-1e-9)
+	require.LessOrEqual(t, fio2, 0.30+0.079/f.MinuteVentLPerMin+1e-9)
+	require.InDelta(t, fio2, res.FiO2, 1e-9)
 	require.Greater(t, res.Proposed.O2LPerMin, 0.0)
 }
 
@@ -160,7 +165,10 @@ func TestProtocolOverOxygenatedOnAHighStep(t *testing.T) {
 	require.NoError(t, err)
 	require.InDelta(t, 1.0, res.Check.Current.Figures.FiO2, 1e-9)
 	require.Equal(t, 18.0, res.Proposed.PEEPCmH2O)
-	require.InDelta(t, 0.9, res.FiO2, 1e-9)
+	// Rounded up to 0.1 L/min: FiO2 0.9 to 0.9 + 0.079 / MV (derived).
+	mv := res.Check.Proposed.Figures.MinuteVentLPerMin
+	require.GreaterOrEqual(t, res.FiO2, 0.9-1e-9)
+	require.LessOrEqual(t, res.FiO2, 0.9+0.079/mv+1e-9)
 	require.Less(t, res.Proposed.O2LPerMin, 15.0)
 	require.Equal(t, "8", res.Proposed.Hole)
 }

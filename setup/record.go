@@ -42,8 +42,17 @@ type CheckJSON struct {
 	FitProblem                 string   `json:"fit_problem,omitempty"`
 	MechanicsSource            string   `json:"mechanics_source"`
 	EvaluationJSON
-	Proposed        *ProposedJSON `json:"proposed,omitempty"`
-	ClinicalCaution string        `json:"clinical_caution"`
+	Proposed *ProposedJSON `json:"proposed,omitempty"`
+	// The blood gas and oximeter, and the protocol's next step they led
+	// to (see Check.Protocol); absent from checks without a reading.
+	GasReadings        *GasReadingsJSON  `json:"gas_readings,omitempty"`
+	ProtocolStep       *ProtocolStepJSON `json:"protocol_step,omitempty"`
+	ProtocolRuleStatus map[string]string `json:"protocol_rule_status,omitempty"` // rule id: fired, in-goal, no-step, no-reading
+	ProtocolChanges    []Change          `json:"protocol_changes,omitempty"`
+	ProtocolNotes      []string          `json:"protocol_notes,omitempty"`
+	ProtocolProblem    string            `json:"protocol_problem,omitempty"`
+	ProposalFrom       string            `json:"proposal_from,omitempty"`
+	ClinicalCaution    string            `json:"clinical_caution"`
 }
 
 // Unexplained reports whether no lung explains the readings: then no
@@ -171,6 +180,7 @@ func (ck Check) JSON() CheckJSON {
 		}
 		j.Proposed = p
 	}
+	ck.protocolJSON(&j)
 	return j
 }
 

@@ -11,17 +11,22 @@ import (
 	"crankside/setup"
 )
 
-// handoverKeys save the check, show the card and the bed's history.
+// handoverKeys save the check, show the card and the bed's history, and
+// take the protocol's step into the proposal fields.
 type handoverKeys struct {
-	Save, Card, History key.Binding
+	Save, Card, History, Take key.Binding
 }
 
 func newHandoverKeys() handoverKeys {
-	return handoverKeys{
+	k := handoverKeys{
 		Save:    key.NewBinding(key.WithKeys("ctrl+s"), key.WithHelp("ctrl+s", "record")),
 		Card:    key.NewBinding(key.WithKeys("ctrl+o"), key.WithHelp("ctrl+o", "card")),
 		History: key.NewBinding(key.WithKeys("ctrl+r"), key.WithHelp("ctrl+r", "history")),
+		Take:    key.NewBinding(key.WithKeys("ctrl+t"), key.WithHelp("ctrl+t", "take the protocol step")),
 	}
+	// Only once a gas reading gives a step that changes the setting.
+	k.Take.SetEnabled(false)
+	return k
 }
 
 // handoverPanel asks what the machine is set to and what the manometer
@@ -49,6 +54,13 @@ func newHandoverPanel(s *Styles) *handoverPanel {
 			numberField("peak", "Peak", "cmH2O", ""),
 			numberField("end-pressure", "End insp.", "cmH2O", ""),
 		}},
+		section{title: "BLOOD GAS / OXIMETER", fields: []*field{
+			numberField("spo2", "SpO2 %", "%", ""),
+			numberField("pao2", "PaO2 mmHg", "mmHg", ""),
+			numberField("ph", "pH", "", ""),
+			numberField("paco2", "PaCO2 mmHg", "mmHg", ""),
+			numberField("dead-space-ml", "Dead sp mL", "mL", ""),
+		}},
 		section{title: "O2 CYLINDER", fields: []*field{
 			numberField("cylinder-l", "Cyl. L", "L", ""),
 			numberField("cylinder-bar", "Cyl. bar", "bar", ""),
@@ -58,6 +70,7 @@ func newHandoverPanel(s *Styles) *handoverPanel {
 			numberField("propose-rpm", "Motor rpm", "rpm", ""),
 			numberField("propose-dwell-s", "Dwell s", "s", ""),
 			numberField("propose-peep", "PEEP", "cmH2O", ""),
+			numberField("propose-o2-lpm", "O2 L/min", "L/min", ""),
 		}},
 	)
 	f.compact = true
@@ -90,6 +103,8 @@ func (p *handoverPanel) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 		return p, ask(cardRequested{})
 	case key.Matches(km, p.keys.History):
 		return p, ask(historyRequested{})
+	case key.Matches(km, p.keys.Take):
+		return p, ask(stepTakeRequested{})
 	}
 	return p, p.updateForm(km)
 }
@@ -101,6 +116,9 @@ func (p *handoverPanel) View() string {
 		// The form beside the results is compact: a refused key's
 		// reason goes here, where it can be read.
 		head += "\n" + s.Error.Render("! "+f.note)
+	} else if g := setup.GasGoalLine(f.name); p.form.focused && g != "" {
+		// A gas reading's goal, and the rule it serves, beside the form.
+		head += "\n" + s.Hint.Render(g)
 	}
 	rw := max(p.w-formColumn-2, 20)
 	left := lipgloss.NewStyle().Width(formColumn).Render(p.form.view())
@@ -172,6 +190,7 @@ func (p *handoverPanel) results() string {
 		add(s.Label.Render("Assumed lung ") + s.Value.Render(lung) + s.Hint.Render(" ("+ck.Mechanics.Source+")"))
 	}
 	j := ck.JSON()
+	p.protocolLines(add, j)
 	p.settingTable(add, j)
 	if ck.Unexplained() {
 		add(s.Error.Render("THE PATIENT GETS: NOT KNOWN (the readings cannot be explained)"))
@@ -255,10 +274,10 @@ func (p *handoverPanel) cautionLines(add func(string), label string, cs []setup.
 
 func (p *handoverPanel) ShortHelp() []key.Binding {
 	k := p.form.keys
-	return []key.Binding{k.Advance, p.keys.Save, p.keys.Card, p.keys.History}
+	return []key.Binding{k.Advance, p.keys.Save, p.keys.Card, p.keys.History, p.keys.Take}
 }
 
 func (p *handoverPanel) FullHelp() [][]key.Binding {
 	k := p.form.keys
-	return [][]key.Binding{{k.Advance, k.Up, k.Down, k.Clear}, {p.keys.Save, p.keys.Card, p.keys.History}}
+	return [][]key.Binding{{k.Advance, k.Up, k.Down, k.Clear}, {p.keys.Save, p.keys.Card, p.keys.History, p.keys.Take}}
 }

@@ -185,6 +185,8 @@ func (m *Model) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 		m.card()
 	case historyRequested:
 		return m, m.history()
+	case stepTakeRequested:
+		m.takeStep()
 	case benchChosen:
 		return m, m.readBench(msg.path)
 	case refitWriteRequest:

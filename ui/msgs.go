@@ -11,6 +11,7 @@ type (
 	recordRequested   struct{}              // record the handover check
 	cardRequested     struct{}              // show the handover card
 	historyRequested  struct{}              // show the bed's earlier checks
+	stepTakeRequested struct{}              // fill the proposal with the protocol's step
 	benchChosen       struct{ path string } // refit the calibration from this file
 	refitWriteRequest struct{}              // save the previewed refit
 )

@@ -14,7 +14,10 @@ const checkLong = `Usage: crankside check --height-cm N --sex male|female --hole
 Shift handover: what the machine is set to and what the manometer reads ->
 the readings judged, what the patient really gets, the lung mechanics the
 readings imply, a proposed change side by side, and a record appended to
-the log. No patient name or other identifier is ever stored: only a bed
+the log. With a blood gas or oximeter reading (--spo2, --pao2, --ph,
+--paco2) the check also gives the ARDS Network protocol's next step on this
+machine and, unless a --propose-* is given (which is then evaluated
+instead, and said so), evaluates it as the proposal. No patient name or other identifier is ever stored: only a bed
 label. A decimal comma is read as a decimal point (0,9 is 0.9).
 
 Flags:
@@ -55,6 +58,12 @@ func checkFlagSet() (*flags, checkOptions) {
 	f.entry("propose-rpm", "a proposed motor speed")
 	f.entry("propose-dwell-s", "a proposed dwell")
 	f.entry("propose-peep", "a proposed PEEP")
+	f.entry("propose-o2-lpm", "a proposed oxygen flow, L/min")
+	f.entry("spo2", "SpO2 %, for the protocol's oxygenation goal 88-95 % (ARDS Network)")
+	f.entry("pao2", "PaO2 mmHg, for the oxygenation goal 55-80 mmHg; decides over SpO2")
+	f.entry("ph", "arterial pH, for the pH goal 7.30-7.45 (with --paco2)")
+	f.entry("paco2", "PaCO2 mmHg, with --ph: the new rate holds the bicarbonate")
+	f.entry("dead-space-ml", "apparatus dead space (tube, filter, connectors), mL (default 0)")
 	var o checkOptions
 	o.profile = f.text("profile", profiles.DefaultID, "machine profile: an id or a path to a .json file")
 	o.dir = f.text("profiles", profiles.DefaultDir(), "directory of profile files")

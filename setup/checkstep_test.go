@@ -1,0 +1,126 @@
+package setup_test
+
+import (
+	"encoding/json"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"github.com/stretchr/testify/require"
+
+	"crankside/setup"
+)
+
+func acidoticEntries() setup.Entries {
+	return setup.Entries{"height-cm": "175", "sex": "male", "hole": "9", "rpm": "21", "dwell-s": "1.4",
+		"spo2": "92", "ph": "7.22", "paco2": "58"}
+}
+
+// Round-trip property: the step's entries, typed back as a proposal, are
+// the step (the screen's Ctrl+T), and the check says so.
+func TestStepEntriesRoundTrip(t *testing.T) {
+	p := profile(t, "demo-a")
+	req, problems := setup.BuildCheckRequest(acidoticEntries(), today)
+	require.Empty(t, problems)
+	ck, err := setup.RunCheck(req, p)
+	require.NoError(t, err)
+	require.Equal(t, setup.ProposalFromStep, ck.ProposalFrom)
+	e, ok := setup.StepEntries(ck)
+	require.True(t, ok)
+	all := acidoticEntries()
+	for k, v := range e {
+		all[k] = v
+	}
+	req, problems = setup.BuildCheckRequest(all, today)
+	require.Empty(t, problems)
+	taken, err := setup.RunCheck(req, p)
+	require.NoError(t, err)
+	require.Equal(t, setup.ProposalEnteredAsStep, taken.ProposalFrom)
+	require.Equal(t, ck.Proposed.Setting, taken.Proposed.Setting)
+	require.Equal(t, ck.Proposed.Cautions, taken.Proposed.Cautions)
+	_, ok = setup.StepEntries(taken)
+	require.True(t, ok, "the step is still there to see; the screen switches its key off")
+
+	// One value changed by hand: the proposal entered, evaluated as typed.
+	all["propose-dwell-s"] = "1.2"
+	req, _ = setup.BuildCheckRequest(all, today)
+	mine, err := setup.RunCheck(req, p)
+	require.NoError(t, err)
+	require.Equal(t, setup.ProposalEntered, mine.ProposalFrom)
+	require.Equal(t, 1.2, mine.Proposed.Setting.DwellS)
+}
+
+func TestGasEntriesAreEachMarked(t *testing.T) {
+	e := acidoticEntries()
+	e["spo2"], e["ph"], e["paco2"], e["pao2"], e["dead-space-ml"] = "45", "7,9", "x", "700", "-1"
+	_, problems := setup.BuildCheckRequest(e, today)
+	var fields []string
+	for _, p := range problems {
+		fields = append(fields, p.Field)
+	}
+	// In the order of the form; plausible ranges are common practice.
+	require.Equal(t, []string{"spo2", "pao2", "ph", "paco2", "dead-space-ml"}, fields)
+	require.Contains(t, problems.Field("ph").Reason, "7.9", "a decimal comma is read as a point")
+	for _, name := range []string{"spo2", "pao2", "ph"} {
+		require.Contains(t, setup.Hint(name, 0), "ARDS Network", name)
+	}
+	require.Contains(t, setup.Hint("spo2", 0), "88-95 %")
+	require.Contains(t, setup.Hint("pao2", 0), "55-80 mmHg")
+	require.Contains(t, setup.Hint("ph", 0), "7.30-7.45")
+}
+
+// A record written before the protocol step still reads, and its card has
+// no protocol section.
+func TestOldRecordsStillRead(t *testing.T) {
+	p := profile(t, "demo-a")
+	req, _ := setup.BuildCheckRequest(setup.Entries{"height-cm": "175", "sex": "male", "hole": "9", "rpm": "21", "dwell-s": "1.4"}, today)
+	ck, err := setup.RunCheck(req, p)
+	require.NoError(t, err)
+	rec, err := setup.NewRecord(ck, "B4", "ab", today)
+	require.NoError(t, err)
+	b, err := json.Marshal(rec)
+	require.NoError(t, err)
+	for _, k := range []string{"gas_readings", "protocol_step", "proposal_from"} {
+		require.NotContains(t, string(b), `"`+k+`"`, "omitted when empty, as in older records")
+	}
+	path := filepath.Join(t.TempDir(), "log.jsonl")
+	require.NoError(t, os.WriteFile(path, append(b, '\n'), 0o600))
+	recs, bad, err := setup.ReadLog(path)
+	require.NoError(t, err)
+	require.Empty(t, bad)
+	require.Len(t, recs, 1)
+	require.Nil(t, recs[0].GasReadings)
+	var card strings.Builder
+	require.NoError(t, recs[0].WriteCard(&card))
+	require.NotContains(t, card.String(), "PROTOCOL STEP")
+}
+
+// The record keeps the readings and the step, and its card prints them as
+// the command's text does (one renderer).
+func TestRecordCarriesTheStep(t *testing.T) {
+	p := profile(t, "demo-a")
+	req, _ := setup.BuildCheckRequest(acidoticEntries(), today)
+	ck, err := setup.RunCheck(req, p)
+	require.NoError(t, err)
+	rec, err := setup.NewRecord(ck, "B4", "ab", today)
+	require.NoError(t, err)
+	b, err := json.Marshal(rec)
+	require.NoError(t, err)
+	path := filepath.Join(t.TempDir(), "log.jsonl")
+	require.NoError(t, os.WriteFile(path, append(b, '\n'), 0o600))
+	recs, _, err := setup.ReadLog(path)
+	require.NoError(t, err)
+	got := recs[0]
+	require.Equal(t, 7.22, *got.GasReadings.PH)
+	require.Equal(t, "fired", got.ProtocolRuleStatus["ph"])
+	require.Equal(t, "in-goal", got.ProtocolRuleStatus["oxygenation"])
+	require.Equal(t, rec.ProtocolStep, got.ProtocolStep, "round-trip property of the record")
+	var card, text strings.Builder
+	require.NoError(t, got.WriteCard(&card))
+	require.NoError(t, ck.WriteText(&text))
+	for _, want := range []string{"BLOOD GAS / OXIMETER", "FIRED      ph: pH = 7.22", "THE STEP ON THIS MACHINE", "MACHINE    rate"} {
+		require.Contains(t, card.String(), want)
+		require.Contains(t, text.String(), want)
+	}
+}
