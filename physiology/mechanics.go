@@ -15,11 +15,6 @@ func TimeConstantS(resistanceCmH2OPerLS, complianceMLPerCmH2O float64) float64 {
 	return resistanceCmH2OPerLS / 1000 * complianceMLPerCmH2O
 }
 
-// FractionExhaled is the share of a breath a passive lung empties in t
-// seconds with time constant tau: 1 - e^(-t/tau).
-func FractionExhaled(tS, tauS float64) float64 {
-	return 1 - math.Exp(-tS/tauS)
-}
 
 // TrappedVolumeML is the volume left above the relaxed volume at the end of
 // expiration once breaths repeat to a steady state: Vee = (Vee + Vt) k with

@@ -19,12 +19,6 @@ var lowerPEEPTable = [...]PEEPFiO2Pair{
 	{1.0, 18}, {1.0, 24},
 }
 
-// LowerPEEPTable returns a copy of the table.
-func LowerPEEPTable() []PEEPFiO2Pair {
-	out := make([]PEEPFiO2Pair, len(lowerPEEPTable))
-	copy(out, lowerPEEPTable[:])
-	return out
-}
 
 // TablePEEP is what the table suggests for one FiO2.
 type TablePEEP struct {

@@ -271,7 +271,11 @@ func (st ProtocolState) validate() error {
 const ApparatusDeadSpaceMaxML = 300.0
 
 func deadSpace(st ProtocolState) (float64, string) {
-	anat := AnatomicDeadSpaceMLPerKg * st.PBWKg
+	anat, err := AnatomicDeadSpaceML(st.PBWKg)
+	if err != nil {
+		// validate refused such a PBW before any rule ran.
+		anat = 0
+	}
 	src := fmt.Sprintf("anatomic %.0f mL (%.1f mL/kg PBW; Radford 1955, from memory)", anat, AnatomicDeadSpaceMLPerKg)
 	if st.ApparatusDeadSpaceML == nil {
 		return anat, src + " + apparatus not entered, 0 mL assumed: enter the tube, filter and connectors"

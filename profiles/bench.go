@@ -156,13 +156,6 @@ func benchRow(rec []string, p Profile) (BenchPoint, string) {
 	return pt, ""
 }
 
-// SaveWithBackup saves p over path as Save does, after keeping the file
-// that was there as path + ".bak" (itself written atomically, with the old
-// file's mode). SaveWithBackupIfUnchanged also checks that the file is the
-// one that was read.
-func SaveWithBackup(path string, p Profile) error {
-	return guardedSave(path, p, true, nil)
-}
 
 // benchSpeed says why a bench speed cannot be this machine's, or "". A
 // fixed motor is allowed half an rpm either side, as a tachometer reads it.

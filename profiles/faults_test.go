@@ -34,7 +34,9 @@ func TestSaveOnAFullDiskKeepsTheOldProfile(t *testing.T) {
 	}
 	f.Close()
 	p.Label = "a new label that must not half-replace the old file"
-	err = SaveWithBackup(path, p)
+	_, stamp, err := ReadFileStamped(path)
+	require.NoError(t, err)
+	err = SaveWithBackupIfUnchanged(path, p, stamp)
 	require.Error(t, err)
 	require.Contains(t, err.Error(), "not saved")
 	after, err := os.ReadFile(path)

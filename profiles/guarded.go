@@ -49,14 +49,6 @@ func ReadFileStamped(path string) (Profile, Stamp, error) {
 	return p, st, err
 }
 
-// SaveIfUnchanged is Save that refuses, writing nothing, when the file at
-// path is not the one read with that stamp (its size, time or contents
-// differ, or it appeared or went away). The check and the write happen under
-// the lock, so of several savers starting from the same stamp exactly one
-// writes and the others are told.
-func SaveIfUnchanged(path string, p Profile, read Stamp) error {
-	return guardedSave(path, p, false, &read)
-}
 
 // SaveWithBackupIfUnchanged is SaveWithBackup with SaveIfUnchanged's check.
 func SaveWithBackupIfUnchanged(path string, p Profile, read Stamp) error {

@@ -4,7 +4,6 @@ import (
 	"fmt"
 	"math"
 	"sort"
-	"time"
 
 	"crankside/machine"
 	"crankside/physiology"
@@ -428,15 +427,6 @@ func reliefCautions(reliefCmH2O float64) []Caution {
 		Advice:  "set the relief valve to 40 cmH2O or less and correct the profile", Source: srcMHRA}}
 }
 
-// ProfileCautions are what a machine's profile says on its own, for the
-// machine panel: the relief valve and the bench calibration as of now.
-func ProfileCautions(p profiles.Profile, now time.Time) ([]Caution, error) {
-	u, err := newUnit(p, orNow(now))
-	if err != nil {
-		return nil, err
-	}
-	return profileCautions(p, u.cal), nil
-}
 
 func profileCautions(p profiles.Profile, cal CalibrationStatus) []Caution {
 	out := append(reliefCautions(p.Circuit.ReliefCmH2O), calibrationCautions(cal)...)

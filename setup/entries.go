@@ -64,8 +64,6 @@ type EntrySpec struct {
 	ZeroIsDefault bool
 }
 
-// IsNumber reports whether the entry is read as a decimal number.
-func (s EntrySpec) IsNumber() bool { return s.Kind == kindNumber }
 
 var planSpecs = []EntrySpec{
 	{Name: "height-cm", Label: "Height", Unit: "cm", Required: true},
@@ -108,11 +106,6 @@ var checkSpecs = []EntrySpec{
 	{Name: "propose-peep", Label: "Proposed PEEP", Unit: "cmH2O"},
 	{Name: "propose-o2-lpm", Label: "Proposed O2 flow", Unit: "L/min"},
 }
-
-// PlanEntries and CheckEntrySpecs list the entries of a plan and of a
-// check, in the order a form shows them.
-func PlanEntries() []EntrySpec     { return append([]EntrySpec(nil), planSpecs...) }
-func CheckEntrySpecs() []EntrySpec { return append([]EntrySpec(nil), checkSpecs...) }
 
 // Spec returns the entry of that flag name, from the plan's or the
 // check's list.

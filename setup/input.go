@@ -156,30 +156,6 @@ func resolveTargets(t Targets) (resolved, error) {
 	return r, nil
 }
 
-// CheckEntries finds every entry of a request that cannot be used, each on
-// its own, so that a form can mark all of them at once; MakePlan stops at
-// the first. A missing sex is not reported here: a form asks for it.
-func CheckEntries(req Request) []*InputError {
-	var out []*InputError
-	add := func(err error) {
-		var ie *InputError
-		if errors.As(err, &ie) {
-			out = append(out, ie)
-		}
-	}
-	add(checkRange("height-cm", "height", req.Patient.HeightCm, physiology.HeightMinCm, physiology.HeightMaxCm, "cm"))
-	t := req.Targets
-	for _, one := range []Targets{
-		{Lung: t.Lung},
-		{MLPerKg: t.MLPerKg}, {RateBPM: t.RateBPM}, {IE: t.IE}, {PEEPCmH2O: t.PEEPCmH2O}, {FiO2: t.FiO2},
-		{ComplianceMLPerCmH2O: t.ComplianceMLPerCmH2O}, {ResistanceCmH2OPerLS: t.ResistanceCmH2OPerLS},
-		{CylinderWaterL: t.CylinderWaterL, CylinderBar: t.CylinderBar},
-	} {
-		_, err := resolveTargets(one)
-		add(err)
-	}
-	return out
-}
 
 // pbwOf is the patient's predicted body weight, or an *InputError naming
 // the height or the sex.

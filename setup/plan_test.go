@@ -322,16 +322,19 @@ func TestBreathTraceMatchesThePlan(t *testing.T) {
 	require.Equal(t, 40.0, tr.ReliefCmH2O, "demo-a relief valve (the invented profile)")
 }
 
-func TestCheckEntriesFindsEveryBadEntry(t *testing.T) {
-	peep := 40.0
-	errs := setup.CheckEntries(setup.Request{
-		Patient: setup.Patient{HeightCm: 300},
-		Targets: setup.Targets{MLPerKg: 12, FiO2: 0.1, PEEPCmH2O: &peep, RateBPM: 14},
-	})
+func TestBuildRequestFindsEveryBadEntry(t *testing.T) {
+	// Every bad entry is marked at once, each naming its field (common
+	// practice: a form shows all its mistakes, not the first).
+	_, problems := setup.BuildRequest(setup.Entries{"height-cm": "300", "sex": "male", "ml-per-kg": "12",
+		"fio2": "0.1", "peep": "40", "rate": "14"}, today)
 	var fields []string
-	for _, e := range errs {
-		fields = append(fields, e.Field)
+	for _, p := range problems {
+		fields = append(fields, p.Field)
 	}
 	require.ElementsMatch(t, []string{"height-cm", "ml-per-kg", "fio2", "peep"}, fields)
-	require.Empty(t, setup.CheckEntries(setup.Request{Patient: setup.Patient{HeightCm: 170}}))
+	_, problems = setup.BuildRequest(setup.Entries{"height-cm": "170", "sex": "m"}, today)
+	require.Empty(t, problems)
+	// A lone cylinder entry is refused, as on the command line.
+	_, problems = setup.BuildRequest(setup.Entries{"height-cm": "170", "sex": "m", "cylinder-l": "10"}, today)
+	require.NotNil(t, problems.Field("cylinder-bar"))
 }

@@ -274,7 +274,3 @@ func CheckInitials(in string) error {
 	return nil
 }
 
-// ReadingsOf is a helper for callers holding both readings as numbers.
-func ReadingsOf(peak, end float64) *physiology.Readings {
-	return &physiology.Readings{PeakCmH2O: peak, EndCmH2O: end}
-}

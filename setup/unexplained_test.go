@@ -207,13 +207,14 @@ func TestPlanTextNamesTheFirstStop(t *testing.T) {
 }
 
 func TestProfileCautionsForTheMachinePanel(t *testing.T) {
-	// demo-b's relief is 45 cmH2O (DESIGN demo data), above RMVS001's 40.
-	cs, err := setup.ProfileCautions(profile(t, "demo-b"), today)
+	// demo-b's relief is 45 cmH2O (the invented demo), above RMVS001's 40.
+	sum, err := setup.DescribeProfile(profile(t, "demo-b"), today)
 	require.NoError(t, err)
-	require.Equal(t, setup.Warn, ids(cs)["relief-above-40"])
+	require.Equal(t, setup.Warn, ids(sum.Cautions)["relief-above-40"])
 	// demo-a: relief 40, no calibration.
-	cs, err = setup.ProfileCautions(profile(t, "demo-a"), today)
+	sum, err = setup.DescribeProfile(profile(t, "demo-a"), today)
 	require.NoError(t, err)
+	cs := sum.Cautions
 	_, relief := ids(cs)["relief-above-40"]
 	require.False(t, relief)
 	require.Equal(t, setup.Warn, ids(cs)["calibration-missing"])

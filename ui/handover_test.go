@@ -44,7 +44,7 @@ func TestHandoverCheckMatchesSetup(t *testing.T) {
 	want, err := setup.RunCheck(setup.CheckRequest{
 		Patient:  setup.Patient{HeightCm: 175, Sex: physiology.Male},
 		Setting:  setup.Setting{Hole: "8", RPM: 21, DwellS: 1.4, PEEPCmH2O: 5},
-		Readings: setup.ReadingsOf(17, 14), Proposal: setup.Proposal{Hole: &hole}, Now: testNow(),
+		Readings: &physiology.Readings{PeakCmH2O: 17, EndCmH2O: 14}, Proposal: setup.Proposal{Hole: &hole}, Now: testNow(),
 	}, p)
 	require.NoError(t, err)
 	got := m.out.check

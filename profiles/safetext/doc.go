@@ -7,7 +7,7 @@
 //
 //   - control characters: C0 (U+0000-U+001F), DEL (U+007F) and C1
 //     (U+0080-U+009F). A C0 character is shown as \x1b (or \n, \t, \r); a
-//     C1 character as \u009b. EscapeText and Writer let \n and \t through,
+//     C1 character as \u009b. Writer lets \n and \t through,
 //     for text that is meant to have lines and columns; Escape escapes them
 //     too, for single-line fields.
 //   - bidirectional controls: U+061C, U+200E, U+200F, U+202A-U+202E,

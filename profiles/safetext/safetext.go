@@ -8,7 +8,7 @@ import (
 )
 
 // Unsafe reports whether r must not reach a terminal raw. Tab and newline
-// are unsafe here; EscapeText and Writer are the ones that allow them.
+// are unsafe here; Writer is the one that allows them.
 // utf8.RuneError (U+FFFD) itself is printable and safe: invalid bytes are
 // found by FirstUnsafe and Escape, which see the bytes.
 func Unsafe(r rune) bool {
@@ -88,9 +88,6 @@ func FirstUnsafe(s string) (r rune, byteOffset int, found bool) {
 // Safe text is returned unchanged.
 func Escape(s string) string { return escape(s, false) }
 
-// EscapeText is Escape for text that may have lines and columns: newline
-// and tab pass through, everything else unsafe is escaped.
-func EscapeText(s string) string { return escape(s, true) }
 
 func escape(s string, keepLayout bool) string {
 	clean := true
@@ -113,7 +110,7 @@ func escape(s string, keepLayout bool) string {
 
 func layout(r rune) bool { return r == '\n' || r == '\t' }
 
-// appendEscaped writes s to b, escaping as Escape or EscapeText do. It
+// appendEscaped writes s to b, escaping as Escape does, or keeping newline and tab for the Writer. It
 // treats every byte that does not start a whole valid rune as invalid, so a
 // caller holding back an incomplete tail must do so before calling it.
 func appendEscaped(b *strings.Builder, s string, keepLayout bool) {

@@ -64,8 +64,8 @@ func TestEscapeEachClass(t *testing.T) {
 			got := Escape(c.in)
 			require.Equal(t, c.single, got, "Escape(%q)", c.in)
 			requireClean(t, got, false)
-			got = EscapeText(c.in)
-			require.Equal(t, c.text, got, "EscapeText(%q)", c.in)
+			got = escapeText(c.in)
+			require.Equal(t, c.text, got, "escapeText(%q)", c.in)
 			requireClean(t, got, true)
 		})
 	}
@@ -167,7 +167,7 @@ func TestPropertyOutputIsAlwaysClean(t *testing.T) {
 	for i := 0; i < 3000; i++ {
 		s := randomText(rng)
 		requireClean(t, Escape(s), false)
-		requireClean(t, EscapeText(s), true)
+		requireClean(t, escapeText(s), true)
 		var b bytes.Buffer
 		w := NewWriter(&b)
 		rest := []byte(s)
@@ -178,7 +178,7 @@ func TestPropertyOutputIsAlwaysClean(t *testing.T) {
 			rest = rest[k:]
 		}
 		require.NoError(t, w.Flush())
-		require.Equal(t, EscapeText(s), b.String(), "input %q", s)
+		require.Equal(t, escapeText(s), b.String(), "input %q", s)
 	}
 }
 
@@ -187,7 +187,7 @@ func FuzzEscape(f *testing.F) {
 		f.Add(s)
 	}
 	f.Fuzz(func(t *testing.T, s string) {
-		for _, out := range []string{Escape(s), EscapeText(s)} {
+		for _, out := range []string{Escape(s), escapeText(s)} {
 			for _, bad := range forbidden {
 				if bytes.Contains([]byte(out), bad) {
 					t.Fatalf("Escape(%q) = %q holds % x", s, out, bad)
@@ -211,8 +211,12 @@ func FuzzEscape(f *testing.F) {
 		w.Write([]byte(s[:half]))
 		w.Write([]byte(s[half:]))
 		w.Flush()
-		if b.String() != EscapeText(s) {
-			t.Fatalf("Writer gave %q, EscapeText %q, for %q", b.String(), EscapeText(s), s)
+		if b.String() != escapeText(s) {
+			t.Fatalf("Writer gave %q, EscapeText %q, for %q", b.String(), escapeText(s), s)
 		}
 	})
 }
+
+// escapeText is what Writer writes for s as a whole: newline and tab kept,
+// every other unsafe rune escaped (the reference the Writer is held to).
+func escapeText(s string) string { return escape(s, true) }

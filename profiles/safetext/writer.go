@@ -6,7 +6,7 @@ import (
 	"unicode/utf8"
 )
 
-// Writer passes text to an underlying writer as EscapeText would: newline
+// Writer passes text to an underlying writer keeping newline
 // and tab through, every other unsafe rune and invalid byte escaped. A
 // character split across two calls to Write is held until the rest
 // arrives, so it is judged whole; call Flush at the end to write a held
