@@ -49,6 +49,10 @@ type Plan struct {
 
 	Changes  []Change
 	Cautions []Caution
+
+	// Gas is the version 2 breath's room (with the BTPS factor), cylinder
+	// head, leak and relief valve, as used in every stroke of the plan.
+	Gas GasModel
 }
 
 // MakePlan turns a request into a setting on the machine described by p:
@@ -71,11 +75,16 @@ func MakePlan(req Request, p profiles.Profile) (Plan, error) {
 	if err != nil {
 		return Plan{}, err
 	}
-	u, err := newUnit(p, now)
+	room, err := resolveRoom(req.Room)
 	if err != nil {
 		return Plan{}, err
 	}
-	pl := Plan{
+	u, err := newUnitV(p, now, req.v1Gas)
+	if err != nil {
+		return Plan{}, err
+	}
+	u.gas = withRoom(u.gas, room, req.v1Gas)
+	pl := Plan{Gas: u.gas,
 		Patient: req.Patient, ProfileID: p.ID, ProfileLabel: p.Label, Calibration: u.cal,
 		Lung: r.lung, MLPerKg: r.mlPerKg, Rate: r.rate, IE: r.ie, PEEP: r.peep, FiO2: r.fio2,
 		Compliance: r.compliance, Resistance: r.resistance, PEEPTable: r.table,
@@ -103,15 +112,9 @@ func MakePlan(req Request, p profiles.Profile) (Plan, error) {
 		if err != nil {
 			return Plan{}, &InputError{Field: "rate", Reason: err.Error()}
 		}
-		pl.Holes = pl.Holes[:0]
-		for _, h := range p.Crank.Holes {
-			hf, err := deliveredFromRest(u, h, pl.Timing.RPM, ls)
-			if err != nil {
-				return Plan{}, &InputError{Field: "profile " + p.ID, Reason: err.Error()}
-			}
-			pl.Holes = append(pl.Holes, hf)
+		if pl.Holes, chosen, err = scanHoles(u, pl.Holes[:0], pl.Timing.RPM, ls, pl.TargetVtML); err != nil {
+			return Plan{}, &InputError{Field: "profile " + p.ID, Reason: err.Error()}
 		}
-		chosen = nearestHole(pl.Holes, pl.TargetVtML)
 		if p.Crank.Holes[chosen].Label == hole.Label {
 			break
 		}
@@ -119,7 +122,9 @@ func MakePlan(req Request, p profiles.Profile) (Plan, error) {
 	}
 	pl.Below, pl.Above = neighbours(pl.Holes, chosen)
 
-	o2 := physiology.O2FlowForFiO2(r.fio2.Value, pl.Holes[chosen].DeliveredML*pl.Timing.RateBPM/1000)
+	// The piston draws its whole effective swept volume from the reservoir
+	// every turn, so the oxygen is mixed into that (DESIGN version 2).
+	o2 := physiology.O2FlowForFiO2AtPistonIntake(r.fio2.Value, pl.Holes[chosen].EffectiveSweptML, pl.Timing.RateBPM)
 	pl.Figures, err = evaluate(u, p.Crank.Holes[chosen], pl.Timing.Timing, ls, o2, req.Targets.CylinderWaterL, req.Targets.CylinderBar)
 	if err != nil {
 		return Plan{}, &InputError{Field: "rate", Reason: err.Error()}
@@ -127,7 +132,7 @@ func MakePlan(req Request, p profiles.Profile) (Plan, error) {
 	pl.OffTargetPct = 100 * (pl.Hole.DeliveredML - pl.TargetVtML) / pl.TargetVtML
 	pl.Changes = timingChanges(pl.Timing)
 	pl.Cautions = assess(assessment{
-		heightCm: req.Patient.HeightCm, pbwKg: pbw, f: pl.Figures, reliefCmH2O: p.Circuit.ReliefCmH2O,
+		heightCm: req.Patient.HeightCm, pbwKg: pbw, f: pl.Figures, reliefCmH2O: p.Circuit.ReliefCmH2O, clearanceNote: u.gas.ClearanceNote(),
 		timing: &pl.Timing, targetMLPerK: r.mlPerKg.Value, offTargetPct: pl.OffTargetPct,
 		cal: u.cal, ratedTorque: p.Motor.RatedTorqueNm, fixedMotor: p.Motor.Fixed(),
 	})
@@ -135,6 +140,68 @@ func MakePlan(req Request, p profiles.Profile) (Plan, error) {
 		return Plan{}, err
 	}
 	return pl, nil
+}
+
+// ScanStepS is the time step at which MakePlan first simulates every hole
+// to find the nearest: 4 ms, where the machine's tests find the delivered
+// volume within 5e-5 of an RK4 reference. The chosen hole and its two
+// neighbours by volume are then simulated again at the model's default
+// 1 ms and the choice made again on those, so a hole whose coarse volume
+// is off by less than the gap to the next one is chosen as at 1 ms
+// (TestHoleChoiceMatchesFineStep checks it over a sweep of patients).
+const ScanStepS = 0.004
+
+// scanHoles simulates every hole from rest at ScanStepS, the nearest and
+// its neighbours again at the default step, and returns the holes (in
+// profile order) and the index of the nearest to targetML.
+func scanHoles(u unit, holes []HoleFigure, rpm float64, ls lungState, targetML float64) ([]HoleFigure, int, error) {
+	for _, h := range u.p.Crank.Holes {
+		hf, err := deliveredFromRestAt(u, h, rpm, ls, ScanStepS)
+		if err != nil {
+			return nil, 0, err
+		}
+		holes = append(holes, hf)
+	}
+	chosen := nearestHole(holes, targetML)
+	fine := map[int]bool{}
+	for len(fine) < len(holes) {
+		b, a := neighbourIndex(holes, chosen)
+		for _, i := range [3]int{chosen, b, a} {
+			if i < 0 || fine[i] {
+				continue
+			}
+			hf, err := deliveredFromRest(u, u.p.Crank.Holes[i], rpm, ls)
+			if err != nil {
+				return nil, 0, err
+			}
+			holes[i], fine[i] = hf, true
+		}
+		next := nearestHole(holes, targetML)
+		if next == chosen {
+			break
+		}
+		chosen = next // the fine volumes moved the choice: refine around it too
+	}
+	return holes, chosen, nil
+}
+
+// neighbourIndex is the index of the holes delivering next less and next
+// more than holes[chosen], -1 when there is none.
+func neighbourIndex(holes []HoleFigure, chosen int) (below, above int) {
+	below, above = -1, -1
+	v := holes[chosen].DeliveredML
+	for i, h := range holes {
+		if i == chosen {
+			continue
+		}
+		if h.DeliveredML < v && (below < 0 || h.DeliveredML > holes[below].DeliveredML) {
+			below = i
+		}
+		if h.DeliveredML > v && (above < 0 || h.DeliveredML < holes[above].DeliveredML) {
+			above = i
+		}
+	}
+	return below, above
 }
 
 // nearestHole picks the hole whose delivered volume is nearest the target;

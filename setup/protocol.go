@@ -89,10 +89,11 @@ func ProtocolProposal(req CheckRequest, readings GasReadings, p profiles.Profile
 	if err != nil {
 		return ProtocolStepResult{}, err
 	}
-	u, err := newUnit(p, orNow(req.Now))
+	u, err := newUnitV(p, orNow(req.Now), req.v1Gas)
 	if err != nil {
 		return ProtocolStepResult{}, err
 	}
+	u.gas = ck.Gas // the check's room, cylinder, leak and relief valve
 	cur := ck.Current
 	plateauSrc := "predicted; compliance " + ck.Mechanics.Source
 	if ck.Fitted != nil {
@@ -302,7 +303,7 @@ func (res *ProtocolStepResult) timingNotes(u unit) {
 }
 
 // setO2Flow is the oxygen bled into the intake for the step's FiO2 at the
-// proposed minute ventilation; with FiO2 unchanged it holds the FiO2 now.
+// piston's proposed intake; with FiO2 unchanged it holds the FiO2 now.
 func (res *ProtocolStepResult) setO2Flow(hf HoleFigure, st physiology.ProtocolState) {
 	cur := res.Check.Current.Setting
 	s := &res.Proposed
@@ -311,12 +312,12 @@ func (res *ProtocolStepResult) setO2Flow(hf HoleFigure, st physiology.ProtocolSt
 		return
 	}
 	rate := 60 / (60/s.RPM + s.DwellS)
-	mv := hf.DeliveredML * rate / 1000
 	fio2 := st.FiO2
 	if res.Step.FiO2Changed {
 		fio2 = res.Step.FiO2
 	}
-	flow := physiology.O2FlowForFiO2(fio2, mv)
+	// Version 2: the oxygen mixes into what the piston draws (effective swept x rate).
+	flow := physiology.O2FlowForFiO2AtPistonIntake(fio2, hf.EffectiveSweptML, rate)
 	if fio2 >= 1 && cur.O2LPerMin > flow {
 		flow = cur.O2LPerMin // already all oxygen: keep the larger flow
 	}
@@ -328,7 +329,7 @@ func (res *ProtocolStepResult) setO2Flow(hf HoleFigure, st physiology.ProtocolSt
 	if !res.Step.FiO2Changed {
 		why = fmt.Sprintf("to hold FiO2 %.2f", fio2)
 	}
-	res.note(fmt.Sprintf("O2 flow %.1f -> %.1f L/min %s at the proposed minute ventilation %.1f L/min (bled into the intake)", cur.O2LPerMin, flow, why, mv))
+	res.note(fmt.Sprintf("O2 flow %.1f -> %.1f L/min %s at the piston's proposed intake %.1f L/min (bled into the intake)", cur.O2LPerMin, flow, why, physiology.PistonIntakeLPerMin(hf.EffectiveSweptML, rate)))
 }
 
 func (res *ProtocolStepResult) note(s string) {

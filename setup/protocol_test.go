@@ -53,9 +53,9 @@ func TestProtocolHypoxaemicOnRoomAir(t *testing.T) {
 	require.Nil(t, res.Timing)
 	require.NotNil(t, res.Check.Proposed)
 	f := res.Check.Proposed.Figures
-	// Round-trip property of the bleed formula: the flow proposed gives the
-	// FiO2 asked for at the proposed minute ventilation.
-	require.InDelta(t, 0.30, physiology.FiO2FromBleed(res.Proposed.O2LPerMin, f.MinuteVentLPerMin), 1e-9)
+	// Round-trip property of the intake formula: the flow proposed gives the
+	// FiO2 asked for at the proposed piston intake (version 2).
+	require.InDelta(t, 0.30, physiology.FiO2FromPistonIntake(res.Proposed.O2LPerMin, f.Hole.EffectiveSweptML, f.Timing.RateBPM), 1e-9)
 	require.InDelta(t, 0.30, res.FiO2, 1e-9)
 	require.Greater(t, res.Proposed.O2LPerMin, 0.0)
 }
@@ -226,7 +226,9 @@ func TestProtocolRateFollowsTheHolesVolume(t *testing.T) {
 	// the rate at the same Vt: 15 x 10^(7.35 - 7.25) = 18.9 /min, whatever
 	// the dead space (derived: rate_step x (Vt_step - Vd) / (Vt_D - Vd) with
 	// rate_step = 15 x (Vt_D - Vd) / (Vt_step - Vd) x 10^0.1).
-	res, err := setup.ProtocolProposal(protocolReq("D", 20, 1.0, 5, 0),
+	// The version 1 limit (setup.V1CheckRequest): the volumes above are
+	// version 1's; at the default room (BTPS) hole D gives more than 6.
+	res, err := setup.ProtocolProposal(setup.V1CheckRequest(protocolReq("D", 20, 1.0, 5, 0)),
 		setup.GasReadings{PH: gas(7.25), PaCO2MmHg: gas(50)}, profile(t, "demo-b"))
 	require.NoError(t, err)
 	require.True(t, res.Step.VtChanged)
