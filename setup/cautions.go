@@ -247,7 +247,7 @@ func pressureCautions(a assessment) []Caution {
 		add(Caution{ID: "peak-above-relief", Level: Stop, Value: f.PeakCmH2O, Limit: a.reliefCmH2O, Unit: "cmH2O",
 			Message: fmt.Sprintf("the breath reaches this machine's relief valve at %.0f cmH2O: it is pressure-limited, %.0f mL vents, and the patient gets less (%.0f mL) than the hole would give",
 				a.reliefCmH2O, f.ReliefVentedML, f.Hole.DeliveredML),
-			Advice:  "use a smaller hole or a slower motor speed", Source: srcProfile})
+			Advice: "use a smaller hole or a slower motor speed", Source: srcProfile})
 	}
 	if f.PeakCmH2O > PeakMaxCmH2O {
 		add(Caution{ID: "peak-high", Level: Stop, Value: f.PeakCmH2O, Limit: PeakMaxCmH2O, Unit: "cmH2O",

@@ -32,7 +32,10 @@ func TestCheckOfAnObservedSetting(t *testing.T) {
 	// Derived: 439.823 mL swept x 60/61.5 = 429.10 mL (tolerance 0.5%).
 	require.InDelta(t, 429.10, ck.Current.Figures.Hole.DeliveredML, 2.2, "delivered (derived)")
 	require.InDelta(t, pl.Hole.DeliveredML, ck.Current.Figures.Hole.DeliveredML, 1e-9)
-	require.InDelta(t, pl.PeakCmH2O, ck.Current.Figures.PeakCmH2O, 1e-9)
+	// The plan starts its steady state from the 10 ms scan's volume, the
+	// check from a 1 ms one: the trapped gas differs by under 0.001 mL, the
+	// peak by about 1e-5 cmH2O.
+	require.InDelta(t, pl.PeakCmH2O, ck.Current.Figures.PeakCmH2O, 1e-4)
 	require.InDelta(t, pl.Timing.RateBPM, ck.Current.Figures.Timing.RateBPM, 1e-9)
 	// Minute ventilation = Vt x rate (derived): hole 8 (439.823 mL swept x
 	// 60/61.5 = 429.10 mL) at 2100/149 = 14.094/min (21 rpm, 1.4 s dwell) is

@@ -113,16 +113,22 @@ func evaluate(u unit, h profiles.Hole, t machine.Timing, ls lungState, o2LPerMin
 	if err != nil {
 		return Figures{}, err
 	}
+	return evaluateFrom(u, h, t, ls, o2LPerMin, cylL, cylBar, rest)
+}
+
+// evaluateFrom is evaluate with the hole's delivery from rest already
+// simulated at this speed (MakePlan has it from its scan).
+func evaluateFrom(u unit, h profiles.Hole, t machine.Timing, ls lungState, o2LPerMin float64, cylL, cylBar float64, rest HoleFigure) (Figures, error) {
+	var err error
 	c := ls.lung.ComplianceMLPerCmH2O
 	f := Figures{
 		Hole: rest, Timing: t, PEEPCmH2O: ls.peep,
 		ComplianceMLPerCmH2O: c, ResistanceCmH2OPerLS: ls.lung.ResistanceCmH2OPerLS,
 	}
 	f.TauS = physiology.TimeConstantS(ls.lung.ResistanceCmH2OPerLS+u.p.Circuit.ExpiratoryResistanceCmH2OPerLS, c)
-	delivered := rest.DeliveredML
 	var r machine.StrokeResult
+	f.TrappedML = physiology.TrappedVolumeML(rest.DeliveredML, t.TeS, f.TauS)
 	for it := 0; it < steadyIterations; it++ {
-		f.TrappedML = physiology.TrappedVolumeML(delivered, t.TeS, f.TauS)
 		if math.IsInf(f.TrappedML, 0) || math.IsNaN(f.TrappedML) {
 			return Figures{}, fmt.Errorf("setup: no time to exhale (Te %s s)", physiology.PlainNumber(t.TeS))
 		}
@@ -134,11 +140,14 @@ func evaluate(u unit, h profiles.Hole, t machine.Timing, ls lungState, o2LPerMin
 		if err != nil {
 			return Figures{}, err
 		}
-		moved := math.Abs(r.DeliveredML - delivered)
-		delivered = r.DeliveredML
-		if moved < 0.01 {
+		// Settled when this breath would trap what it started from, to
+		// 0.01 mL (the trapped gas is a few % of the delivered volume, so
+		// the delivery then moves by far less).
+		next := physiology.TrappedVolumeML(r.DeliveredML, t.TeS, f.TauS)
+		if math.Abs(next-f.TrappedML) < 0.01 {
 			break
 		}
+		f.TrappedML = next
 	}
 	f.Hole.DeliveredML, f.Hole.MLPerKg = r.DeliveredML, r.DeliveredML/ls.pbwKg
 	fillFigures(&f, u, r, ls, o2LPerMin, cylL, cylBar)
