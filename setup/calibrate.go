@@ -168,11 +168,8 @@ func (r CalibrationResult) WriteText(w io.Writer) error {
 		p(" (one hole measured: a ratio, b = 0)")
 	}
 	p("\n(before: k %.4f, b %.1f mL)\n", r.Before.K, r.Before.BML)
-	if r.LeakFitted {
-		p("Leak fitted with k and b: %.2f L/min at 20 cmH2O (before: %.2f)\n", r.LeakLPerMinAt20, r.LeakBefore)
-	}
 	if r.LeakNote != "" {
-		p("%s\n", r.LeakNote)
+		p("%s (before: %.2f L/min at 20 cmH2O)\n", r.LeakNote, r.LeakBefore)
 	}
 	p("\n")
 	p("  %-6s %6s %10s %10s %10s %9s  %s\n", "hole", "rpm", "measured", "predicted", "residual", "resid. %", "within +/-(4 mL + 15%)")
