@@ -68,7 +68,7 @@ type lungState struct {
 // deliveredFromRest simulates one hole's delivery from the relaxed lung at
 // the model's default step (1 ms).
 func deliveredFromRest(u unit, h profiles.Hole, rpm float64, ls lungState) (HoleFigure, error) {
-	return deliveredFromRestAt(u, h, rpm, ls, 0)
+	return deliveredFromRestAt(u, h, rpm, ls, u.stepS)
 }
 
 // deliveredFromRestAt is deliveredFromRest at a time step of stepS seconds
@@ -135,7 +135,7 @@ func evaluateFrom(u unit, h profiles.Hole, t machine.Timing, ls lungState, o2LPe
 		r, err = u.simulator().SimulateStroke(machine.StrokeInput{
 			Stroke: u.stroke(h, t.RPM, u.cal.Calibration), Lung: ls.lung,
 			CircuitMLPerCmH2O: u.p.Circuit.ComplianceMLPerCmH2O, PEEPCmH2O: ls.peep,
-			StartVolumeML: f.TrappedML, RingFrictionN: u.p.Cylinder.RingFrictionN, Gas: u.gas.patientPath(),
+			StartVolumeML: f.TrappedML, RingFrictionN: u.p.Cylinder.RingFrictionN, Gas: u.gas.patientPath(), StepS: u.stepS,
 		})
 		if err != nil {
 			return Figures{}, err

@@ -56,8 +56,11 @@ func manometerStep(req CheckRequest) physiology.Value {
 }
 
 // fitRanges fits the lung at the four corners of the readings' resolution
-// and evaluates the setting on each; nil when no corner fits.
+// and evaluates the setting on each; nil when no corner fits. The corners
+// run at ScanStepS (volumes within 1e-4 of 1 ms, far below what half a
+// cmH2O moves), so the ranges cost about as much as the fit itself.
 func fitRanges(u unit, s Setting, rd physiology.Readings, pbw float64, req CheckRequest) *FitRanges {
+	u.stepS = ScanStepS
 	step := manometerStep(req)
 	half := step.Value / 2
 	fr := &FitRanges{StepCmH2O: step}

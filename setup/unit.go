@@ -20,6 +20,9 @@ type unit struct {
 	// sim runs every stroke of one plan or check (never shared).
 	gas GasModel
 	sim *machine.Simulator
+	// stepS is the time step of every stroke evaluate runs (0: the model's
+	// 1 ms); the fit ranges' corners use ScanStepS.
+	stepS float64
 }
 
 // CalibrationStatus is what the profile's bench calibration says.
