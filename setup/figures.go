@@ -17,6 +17,7 @@ type HoleFigure struct {
 	EffectiveSweptML float64 // after the bench calibration
 	DeliveredML      float64 // into the lung, after the circuit's compliance
 	MLPerKg          float64 // per kg PBW
+	PressureLimited  bool    // the relief valve opened on this hole's breath from rest
 }
 
 // Figures are the predictions for one setting on one lung.
@@ -87,7 +88,7 @@ func deliveredFromRestAt(u unit, h profiles.Hole, rpm float64, ls lungState, ste
 	swept := s.SweptML()
 	return HoleFigure{
 		Label: h.Label, RadiusCm: h.RadiusCm, SweptML: swept, EffectiveSweptML: swept * s.Scale,
-		DeliveredML: r.DeliveredML, MLPerKg: r.DeliveredML / ls.pbwKg,
+		DeliveredML: r.DeliveredML, MLPerKg: r.DeliveredML / ls.pbwKg, PressureLimited: r.Gas.PressureLimited,
 	}, nil
 }
 

@@ -187,7 +187,28 @@ func scanHoles(u unit, holes []HoleFigure, rpm float64, ls lungState, targetML f
 			holes[j] = hf
 		}
 	}
-	return holes, nearestHole(holes, targetML), nil
+	return holes, leastVenting(holes, nearestHole(holes, targetML)), nil
+}
+
+// SameVolumePct is how close, in percent, a smaller hole's delivered
+// volume must be to a pressure-limited choice's to be taken instead.
+const SameVolumePct = 0.5
+
+// leastVenting moves a pressure-limited choice to the smallest hole that
+// delivers within SameVolumePct of it: past the relief valve a larger hole
+// adds little but vented gas, torque and wear, so the smaller one is the
+// conservative setting (the plan stays a stop either way).
+func leastVenting(holes []HoleFigure, chosen int) int {
+	if !holes[chosen].PressureLimited {
+		return chosen
+	}
+	best, floor := chosen, holes[chosen].DeliveredML*(1-SameVolumePct/100)
+	for i, h := range holes {
+		if h.DeliveredML >= floor && h.DeliveredML < holes[best].DeliveredML {
+			best = i
+		}
+	}
+	return best
 }
 
 // neighbourIndex is the index of the holes delivering next less and next

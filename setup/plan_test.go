@@ -198,6 +198,10 @@ func TestPlanHighVolumeAndPressureCautions(t *testing.T) {
 	require.True(t, has(pl, "driving-pressure-high", setup.Warn))
 	require.True(t, has(pl, "peak-above-relief", setup.Stop))
 	require.True(t, has(pl, "hole-off-target", setup.Warn), "the patient gets far less than the target")
+	// Past the relief a larger hole only vents more: the plan takes the
+	// smallest hole within 0.5 % of the nearest one's volume, not the largest.
+	require.NotEqual(t, "25", pl.Hole.Label)
+	require.GreaterOrEqual(t, pl.Hole.DeliveredML, 0.99*420)
 	require.Equal(t, setup.Stop, setup.Highest(pl.Cautions))
 }
 
