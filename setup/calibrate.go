@@ -44,6 +44,13 @@ type CalibrationResult struct {
 	Date          string
 	Cautions      []Caution
 	Volumes       []VolumeChange
+	// LeakLPerMinAt20 is the leak (L/min at 20 cmH2O) the fit used: fitted
+	// with k and b when LeakFitted, else the profile's; LeakNote says which
+	// and why. The written profile carries it.
+	LeakLPerMinAt20 float64
+	LeakBefore      float64
+	LeakFitted      bool
+	LeakNote        string
 }
 
 // Calibrate fits k and b to bench points for profile p. Each point is
@@ -67,15 +74,12 @@ func Calibrate(p profiles.Profile, points []profiles.BenchPoint, date string, no
 	if err != nil {
 		return CalibrationResult{}, err
 	}
-	gains, err := BenchGains(p, points)
+	fit, gains, err := fitBench(old, points)
 	if err != nil {
 		return CalibrationResult{}, err
 	}
-	fit, err := machine.FitCalibration(gains)
-	if err != nil {
-		return CalibrationResult{}, &InputError{Field: "bench", Reason: err.Error()}
-	}
-	res := CalibrationResult{Before: old.cal.Calibration, K: fit.K, BML: fit.BML, ThroughOrigin: fit.ThroughOrigin, Date: date}
+	res := CalibrationResult{Before: old.cal.Calibration, K: fit.K, BML: fit.BML, ThroughOrigin: fit.ThroughOrigin, Date: date,
+		LeakLPerMinAt20: fit.LeakLPerMinAt20CmH2O, LeakBefore: p.Circuit.LeakLMinAt20CmH2O, LeakFitted: fit.LeakFitted, LeakNote: fit.LeakNote}
 	holes := map[string]bool{}
 	outside := 0
 	for i, pt := range points {
@@ -91,14 +95,41 @@ func Calibrate(p profiles.Profile, points []profiles.BenchPoint, date string, no
 	res.Holes = len(holes)
 	res.Profile = p
 	res.Profile.Calibration = &profiles.Calibration{Date: date, Points: append([]profiles.BenchPoint(nil), points...)}
+	res.Profile.Circuit.LeakLMinAt20CmH2O = fit.LeakLPerMinAt20CmH2O
+	mf := machine.Fit{Calibration: fit.Calibration, ThroughOrigin: fit.ThroughOrigin, Residuals: fit.Residuals}
 	res.Cautions = calibrationCautions(CalibrationStatus{Calibration: fit.Calibration, Date: date, AgeDays: int(now.Sub(d).Hours() / 24),
-		Points: len(points), Holes: res.Holes, Fit: &fit, Outside: outside, SweptMinML: old.cal.SweptMinML, SweptMaxML: old.cal.SweptMaxML})
+		Points: len(points), Holes: res.Holes, Fit: &mf, Outside: outside, SweptMinML: old.cal.SweptMinML, SweptMaxML: old.cal.SweptMaxML})
 	for _, h := range p.Crank.Holes {
 		swept := machine.SweptVolumeML(p.Cylinder.BoreCm, old.crank(h))
 		res.Volumes = append(res.Volumes, VolumeChange{Hole: h.Label, SweptML: r4(swept),
 			BeforeML: r4(old.cal.EffectiveSweptML(swept)), AfterML: r4(fit.EffectiveSweptML(swept))})
 	}
 	return res, nil
+}
+
+// fitBench fits k, b and, when the bench's test lungs are a factor
+// machine.LeakFitComplianceRatio apart in compliance, the leak, through the
+// version 2 model (machine.FitCalibrationWithLeak); it returns the fit and
+// each point's model gain at the leak used.
+func fitBench(u unit, points []profiles.BenchPoint) (machine.LeakFit, []machine.BenchPoint, error) {
+	runs := make([]machine.BenchRun, len(points))
+	for i, bp := range points {
+		h, ok := u.p.HoleByLabel(bp.Hole)
+		if !ok {
+			return machine.LeakFit{}, nil, &InputError{Field: fmt.Sprintf("calibration point %d", i+1), Reason: fmt.Sprintf("hole %q is not on this machine", bp.Hole)}
+		}
+		runs[i] = machine.BenchRun{Input: benchInput(u, u.stroke(h, bp.RPM, machine.Identity), bp), MeasuredML: bp.MeasuredML}
+	}
+	fit, err := machine.FitCalibrationWithLeak(runs, u.p.Circuit.LeakLMinAt20CmH2O)
+	if err != nil {
+		return machine.LeakFit{}, nil, &InputError{Field: "bench", Reason: err.Error()}
+	}
+	u.gas.LeakLPerMinAt20 = fit.LeakLPerMinAt20CmH2O
+	gains, err := benchGains(u, points)
+	if err != nil {
+		return machine.LeakFit{}, nil, err
+	}
+	return fit, gains, nil
 }
 
 // CalibrationJSON is the object `crankside calibrate --json` prints.
@@ -113,12 +144,18 @@ type CalibrationJSON struct {
 	Volumes       []VolumeChange `json:"volumes"`
 	Cautions      []Caution      `json:"cautions"`
 	Written       bool           `json:"written"`
+	// The leak (L/min at 20 cmH2O) the fit used and the profile gets.
+	LeakLMinAt20CmH2O float64 `json:"leak_l_min_at_20_cmh2o"`
+	LeakBefore        float64 `json:"leak_before_l_min_at_20_cmh2o"`
+	LeakFitted        bool    `json:"leak_fitted"`
+	LeakNote          string  `json:"leak_note"`
 }
 
 // JSON is the result as the --json object.
 func (r CalibrationResult) JSON(written bool) CalibrationJSON {
 	return CalibrationJSON{ProfileID: r.Profile.ID, Date: r.Date, K: r4(r.K), BML: r4(r.BML), ThroughOrigin: r.ThroughOrigin,
-		HolesMeasured: r.Holes, Points: r.Points, Volumes: r.Volumes, Cautions: roundCautions(r.Cautions), Written: written}
+		HolesMeasured: r.Holes, Points: r.Points, Volumes: r.Volumes, Cautions: roundCautions(r.Cautions), Written: written,
+		LeakLMinAt20CmH2O: r4(r.LeakLPerMinAt20), LeakBefore: r4(r.LeakBefore), LeakFitted: r.LeakFitted, LeakNote: r.LeakNote}
 }
 
 // WriteText prints the refit: the line, each point's residual, the
@@ -130,7 +167,11 @@ func (r CalibrationResult) WriteText(w io.Writer) error {
 	if r.ThroughOrigin {
 		p(" (one hole measured: a ratio, b = 0)")
 	}
-	p("\n(before: k %.4f, b %.1f mL)\n\n", r.Before.K, r.Before.BML)
+	p("\n(before: k %.4f, b %.1f mL)\n", r.Before.K, r.Before.BML)
+	if r.LeakNote != "" {
+		p("%s (before: %.2f L/min at 20 cmH2O)\n", r.LeakNote, r.LeakBefore)
+	}
+	p("\n")
 	p("  %-6s %6s %10s %10s %10s %9s  %s\n", "hole", "rpm", "measured", "predicted", "residual", "resid. %", "within +/-(4 mL + 15%)")
 	for _, pt := range r.Points {
 		ok := "yes"

@@ -47,6 +47,7 @@ func TestCalibrateRecoversAKnownLine(t *testing.T) {
 	// Tolerances: k 0.002 and b 1 mL, residuals 0.5 mL, for the 0.05 mL
 	// rounding and the circuit's lag behind the piston that the share ignores.
 	p := profile(t, "demo-a")
+	p.Cylinder.ClearanceCm = 0 // the version 1 bench (no cylinder gas), as derived below
 	pts := benchRows(20, "4", "9", "14", "20")
 	for i, ml := range []float64{269.7, 413.7, 558.6, 732.3} {
 		pts[i].MeasuredML = ml
@@ -75,6 +76,7 @@ func TestCalibrateDemoBBenchByHand(t *testing.T) {
 	// = 602.16 / 636.1725 = 0.946536 and b = 477.36 - 0.946536 x 508.9380
 	// = -4.368 mL. Tolerances as in TestCalibrateRecoversAKnownLine.
 	p := profile(t, "demo-b")
+	p.Cylinder.ClearanceCm = 0 // the version 1 bench (no cylinder gas), as derived below
 	res, err := setup.Calibrate(p, p.Calibration.Points, "2026-11-24", today)
 	require.NoError(t, err)
 	require.InDelta(t, 0.946536, res.K, 0.001, "k (derived by hand)")

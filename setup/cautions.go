@@ -139,6 +139,9 @@ type assessment struct {
 	cal          CalibrationStatus
 	ratedTorque  float64
 	fixedMotor   bool // the motor runs at one speed only
+	// clearanceNote is set when the profile's cylinder clearance was a
+	// default (GasModel.ClearanceNote).
+	clearanceNote string
 }
 
 // assess computes every caution for a setting, most serious first.
@@ -191,6 +194,11 @@ func assess(a assessment) []Caution {
 			Advice:  "no hole on this machine is closer; review the target", Source: srcCommon})
 	}
 	out = append(out, calibrationCautions(a.cal)...)
+	if a.clearanceNote != "" {
+		add(Caution{ID: "clearance-default", Level: Note, Value: 0, Limit: 0, Unit: "cm",
+			Message: a.clearanceNote, Advice: "measure the gap between the piston at its top and the cylinder head; put it in the profile",
+			Source: srcProfile + " (format /2 default)"})
+	}
 	if f.CylinderGiven && f.CylinderMinutes < CylinderMinMinutes {
 		add(Caution{ID: "o2-cylinder-low", Level: Warn, Value: f.CylinderMinutes, Limit: CylinderMinMinutes, Unit: "min",
 			Message: fmt.Sprintf("oxygen cylinder lasts %.0f min at %.1f L/min (under 2 hours)", f.CylinderMinutes, f.O2FlowLPerMin),
@@ -232,10 +240,13 @@ func pressureCautions(a assessment) []Caution {
 			Message: fmt.Sprintf("driving pressure (plateau above total PEEP) %.1f cmH2O is above %.0f", f.DrivingCmH2O, DrivingMaxCmH2O),
 			Advice:  "reduce tidal volume; review PEEP", Source: srcAmato})
 	}
-	if a.reliefCmH2O > 0 && f.PeakCmH2O > a.reliefCmH2O {
+	if a.reliefCmH2O > 0 && (f.PressureLimited || f.PeakCmH2O > a.reliefCmH2O) {
+		// The model holds the circuit at the relief pressure and vents the
+		// rest: the figures shown are already the vented breath's.
 		add(Caution{ID: "peak-above-relief", Level: Stop, Value: f.PeakCmH2O, Limit: a.reliefCmH2O, Unit: "cmH2O",
-			Message: fmt.Sprintf("peak pressure %.1f cmH2O is above this machine's relief valve at %.0f: the breath is pressure-limited and the patient gets less than shown", f.PeakCmH2O, a.reliefCmH2O),
-			Advice:  "use a smaller hole or a slower motor speed", Source: srcProfile})
+			Message: fmt.Sprintf("the breath reaches this machine's relief valve at %.0f cmH2O: it is pressure-limited, %.0f mL vents, and the patient gets less (%.0f mL) than the hole would give",
+				a.reliefCmH2O, f.ReliefVentedML, f.Hole.DeliveredML),
+			Advice: "use a smaller hole or a slower motor speed", Source: srcProfile})
 	}
 	if f.PeakCmH2O > PeakMaxCmH2O {
 		add(Caution{ID: "peak-high", Level: Stop, Value: f.PeakCmH2O, Limit: PeakMaxCmH2O, Unit: "cmH2O",
@@ -426,7 +437,6 @@ func reliefCautions(reliefCmH2O float64) []Caution {
 		Message: fmt.Sprintf("this machine's relief valve opens at %.0f cmH2O, above %.0f: it does not keep the patient below 40 cmH2O", reliefCmH2O, ReliefMaxCmH2O),
 		Advice:  "set the relief valve to 40 cmH2O or less and correct the profile", Source: srcMHRA}}
 }
-
 
 func profileCautions(p profiles.Profile, cal CalibrationStatus) []Caution {
 	out := append(reliefCautions(p.Circuit.ReliefCmH2O), calibrationCautions(cal)...)

@@ -74,6 +74,16 @@ type CheckRequest struct {
 	// computes the protocol's next step (see RunCheck).
 	Gas GasReadings
 	Now time.Time
+	// Room is the room's air (BTPS); nil fields mean the defaults.
+	Room Room
+	// ManometerStepCmH2O is the manometer's resolution (0: DefaultManometerStepCmH2O);
+	// each reading is taken as +/- half a step.
+	ManometerStepCmH2O float64
+
+	// v1Gas, for tests only (export_test.go): the BTPS factor exactly 1
+	// and the cylinder's gas left out, which with no leak and a relief
+	// above the peak is the version 1 model.
+	v1Gas bool
 }
 
 // Evaluation is one setting's figures and cautions.
@@ -101,10 +111,17 @@ type Check struct {
 	// the readings, Protocol the step on this machine (its Check field is
 	// left empty: this check is it), ProtocolProblem why there is no step,
 	// and ProposalFrom where Proposed came from (ProposalFromStep, ...).
-	Gas             *GasReadings
+	BloodGas        *GasReadings
 	Protocol        *ProtocolStepResult
 	ProtocolProblem string
 	ProposalFrom    string
+
+	// Gas is the version 2 breath's room (with the BTPS factor), cylinder
+	// head, leak and relief valve, as used in every stroke of the check.
+	Gas GasModel
+	// Ranges are what the manometer's resolution allows of the fit (nil
+	// without readings or when no lung explains them).
+	Ranges *FitRanges
 }
 
 // Unexplained reports whether no lung explains the readings: then none of
@@ -148,10 +165,15 @@ func RunCheck(req CheckRequest, p profiles.Profile) (Check, error) {
 	if err != nil {
 		return Check{}, err
 	}
-	u, err := newUnit(p, now)
+	room, err := resolveRoom(req.Room)
 	if err != nil {
 		return Check{}, err
 	}
+	u, err := newUnitV(p, now, req.v1Gas)
+	if err != nil {
+		return Check{}, err
+	}
+	u.gas = withRoom(u.gas, room, req.v1Gas)
 	if err := canonicalHoles(&req, p); err != nil {
 		return Check{}, err
 	}
@@ -160,7 +182,7 @@ func RunCheck(req CheckRequest, p profiles.Profile) (Check, error) {
 		return Check{}, err
 	}
 	ck := Check{Patient: req.Patient, PBWKg: pbw, ProfileID: p.ID, Calibration: u.cal, Readings: req.Readings,
-		Mechanics: r.compliance, Resistance: r.resistance}
+		Mechanics: r.compliance, Resistance: r.resistance, Gas: u.gas}
 	if req.Readings != nil {
 		m, err := fitReadings(u, cur, *req.Readings, pbw, req)
 		var re *physiology.ReadingError
@@ -179,6 +201,10 @@ func RunCheck(req CheckRequest, p profiles.Profile) (Check, error) {
 	ck.Current, err = evaluateSetting(u, cur, lung, pbw, req)
 	if err != nil {
 		return Check{}, err
+	}
+	if ck.Fitted != nil {
+		ck.Ranges = fitRanges(u, cur, *req.Readings, pbw, req)
+		ck.Current.Cautions = append(ck.Current.Cautions, rangeCautions(ck.Ranges, ck.Current.Figures, pbw)...)
 	}
 	ck.Current.Cautions = checkCautions(req.Readings, cur.PEEPCmH2O, u.p.Circuit.ReliefCmH2O, ck.FitProblem, ck.Current.Cautions)
 	if !req.Proposal.Empty() {
@@ -251,7 +277,7 @@ func evaluateSetting(u unit, s Setting, lung machine.Lung, pbw float64, req Chec
 	if err != nil {
 		return Evaluation{}, &InputError{Field: "setting", Reason: err.Error()}
 	}
-	cs := assess(assessment{heightCm: req.Patient.HeightCm, pbwKg: pbw, f: f, reliefCmH2O: u.p.Circuit.ReliefCmH2O,
+	cs := assess(assessment{heightCm: req.Patient.HeightCm, pbwKg: pbw, f: f, reliefCmH2O: u.p.Circuit.ReliefCmH2O, clearanceNote: u.gas.ClearanceNote(),
 		cal: u.cal, ratedTorque: u.p.Motor.RatedTorqueNm, fixedMotor: u.p.Motor.Fixed()})
 	return Evaluation{Setting: s, Figures: f, Cautions: cs}, nil
 }

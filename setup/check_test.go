@@ -12,12 +12,14 @@ import (
 	"crankside/setup"
 )
 
+// checkReq is a check in the version 1 limit (setup.V1CheckRequest; see
+// plan in plan_test.go): these tests' literals are version 1 derivations.
 func checkReq(hole string, rpm, dwell float64) setup.CheckRequest {
-	return setup.CheckRequest{
+	return setup.V1CheckRequest(setup.CheckRequest{
 		Patient: setup.Patient{HeightCm: 175, Sex: physiology.Male},
 		Setting: setup.Setting{Hole: hole, RPM: rpm, DwellS: dwell, PEEPCmH2O: 5},
 		Now:     today,
-	}
+	})
 }
 
 func TestCheckOfAnObservedSetting(t *testing.T) {
@@ -30,7 +32,10 @@ func TestCheckOfAnObservedSetting(t *testing.T) {
 	// Derived: 439.823 mL swept x 60/61.5 = 429.10 mL (tolerance 0.5%).
 	require.InDelta(t, 429.10, ck.Current.Figures.Hole.DeliveredML, 2.2, "delivered (derived)")
 	require.InDelta(t, pl.Hole.DeliveredML, ck.Current.Figures.Hole.DeliveredML, 1e-9)
-	require.InDelta(t, pl.PeakCmH2O, ck.Current.Figures.PeakCmH2O, 1e-9)
+	// The plan starts its steady state from the 10 ms scan's volume, the
+	// check from a 1 ms one: the trapped gas differs by under 0.001 mL, the
+	// peak by about 1e-5 cmH2O.
+	require.InDelta(t, pl.PeakCmH2O, ck.Current.Figures.PeakCmH2O, 1e-4)
 	require.InDelta(t, pl.Timing.RateBPM, ck.Current.Figures.Timing.RateBPM, 1e-9)
 	// Minute ventilation = Vt x rate (derived): hole 8 (439.823 mL swept x
 	// 60/61.5 = 429.10 mL) at 2100/149 = 14.094/min (21 rpm, 1.4 s dwell) is
@@ -106,7 +111,9 @@ func TestReadingsWithNoSolution(t *testing.T) {
 		{"end at PEEP", 15, 5, "end pressure"},
 		{"end below PEEP", 15, 3, "end pressure"},
 		{"peak below end", 10, 12, "both readings"},
-		{"absurdly stiff", 95, 90, "end pressure"},
+		// A peak of 95 is above demo-a's relief valve at 40: the version 2
+		// breath never goes above it, so no lung gives that peak.
+		{"absurdly stiff", 95, 90, "peak"},
 		{"NaN", math.NaN(), 12, "both readings"},
 	}
 	for _, c := range cases {
@@ -161,10 +168,11 @@ func TestCheckCylinderAndFiO2(t *testing.T) {
 	ck, err := setup.RunCheck(req, profile(t, "demo-a"))
 	require.NoError(t, err)
 	f := ck.Current.Figures
-	// FiO2 = 0.21 + 0.79 x 2 / VE (derived) with VE 6.0477 L/min (see
-	// TestCheckOfAnObservedSetting): 0.21 + 1.58 / 6.0477 = 0.4713;
+	// FiO2 = 0.21 + 0.79 x 2 / (what the piston draws) (DESIGN version 2,
+	// derived): hole 8 sweeps 439.823 mL (no calibration on demo-a) at
+	// 2100/149 = 14.094/min, 6.1988 L/min: 0.21 + 1.58 / 6.1988 = 0.46489;
 	// 2 L x 30 bar = 60 L -> 30 min (common practice).
-	require.InDelta(t, 0.4713, f.FiO2, 0.002, "FiO2 (derived)")
+	require.InDelta(t, 0.46489, f.FiO2, 0.0001, "FiO2 at the piston's intake (derived)")
 	require.InDelta(t, 30, f.CylinderMinutes, 1e-9)
 	require.True(t, hasCaution(ck.Current.Cautions, "o2-cylinder-low"))
 }

@@ -87,11 +87,19 @@ func (w *reportWriter) checkBody(j CheckJSON) {
 	}
 	switch {
 	case j.FittedComplianceMLPerCmH2O != nil:
-		w.line("LUNG (fitted)  C %.0f mL/cmH2O, R %.0f cmH2O/(L/s)", *j.FittedComplianceMLPerCmH2O, *j.FittedResistanceCmH2OPerLS)
+		w.line("LUNG (fitted)  C %s mL/cmH2O, R %s cmH2O/(L/s)", sig2(*j.FittedComplianceMLPerCmH2O), sig2(*j.FittedResistanceCmH2OPerLS))
+		w.fitRanges(j)
 	case j.Unexplained():
 		w.line("LUNG (ASSUMED, the readings could not be explained)  C %.0f mL/cmH2O, R %.0f cmH2O/(L/s) (%s)", j.ComplianceMLPerCmH2O, j.ResistanceCmH2OPerLS, j.MechanicsSource)
 	default:
 		w.line("LUNG (assumed)  C %.0f mL/cmH2O, R %.0f cmH2O/(L/s) (%s)", j.ComplianceMLPerCmH2O, j.ResistanceCmH2OPerLS, j.MechanicsSource)
+	}
+	if j.Gas != nil {
+		w.line("ROOM  %s C, %s %% RH, %s mmHg: BTPS factor %.3f; %s", plain(j.Gas.Room["temperature_c"].Value), plain(j.Gas.Room["humidity_pct"].Value),
+			plain(j.Gas.Room["barometric_mmhg"].Value), j.BTPSFactor, BTPSNote)
+		if j.Gas.ClearanceNote != "" {
+			w.line("NOTE  %s", j.Gas.ClearanceNote)
+		}
 	}
 	if j.Unexplained() {
 		w.unexplainedFigures(j.FiguresJSON, propFigures)
@@ -105,6 +113,22 @@ func (w *reportWriter) checkBody(j CheckJSON) {
 			label += " " + AssumedLungLabel
 		}
 		w.cautionList(label, j.Proposed.Cautions)
+	}
+}
+
+// fitRanges prints what the manometer's step allows of the fitted lung,
+// the patient-effort note, and the room's BTPS factor.
+func (w *reportWriter) fitRanges(j CheckJSON) {
+	if j.FittedComplianceRange != nil && j.ManometerStepCmH2O != nil {
+		c, r, v := j.FittedComplianceRange, j.FittedResistanceRange, j.DeliveredVtRangeML
+		w.line("  readings +/- half the manometer's %s cmH2O step allow C %s-%s, R %s-%s, tidal volume %.0f-%.0f mL (BTPS)",
+			plain(*j.ManometerStepCmH2O), sig2(c[0]), sig2(c[1]), sig2(r[0]), sig2(r[1]), v[0], v[1])
+	}
+	if j.FitRangeNote != "" {
+		w.line("  %s", j.FitRangeNote)
+	}
+	if j.PatientEffortNote != "" {
+		w.line("  %s", j.PatientEffortNote)
 	}
 }
 

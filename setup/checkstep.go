@@ -52,7 +52,7 @@ func runCheckWithStep(req CheckRequest, p profiles.Profile) (Check, error) {
 	if err != nil {
 		return Check{}, err
 	}
-	ck.Gas = &gas
+	ck.BloodGas = &gas
 	if ck.Unexplained() {
 		ck.ProtocolProblem = unexplainedNoStep
 		return ck, nil
@@ -131,8 +131,8 @@ func gasReadingsJSON(g GasReadings) *GasReadingsJSON {
 
 // protocolJSON fills the check's JSON with the readings and the step.
 func (ck Check) protocolJSON(j *CheckJSON) {
-	if ck.Gas != nil {
-		j.GasReadings = gasReadingsJSON(*ck.Gas)
+	if ck.BloodGas != nil {
+		j.GasReadings = gasReadingsJSON(*ck.BloodGas)
 	}
 	j.ProtocolProblem, j.ProposalFrom = ck.ProtocolProblem, ck.ProposalFrom
 	st := ck.Protocol

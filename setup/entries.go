@@ -64,7 +64,6 @@ type EntrySpec struct {
 	ZeroIsDefault bool
 }
 
-
 var planSpecs = []EntrySpec{
 	{Name: "height-cm", Label: "Height", Unit: "cm", Required: true},
 	{Name: "sex", Label: "Sex", Kind: kindChoice, Required: true},
@@ -78,6 +77,9 @@ var planSpecs = []EntrySpec{
 	{Name: "resistance", Label: "Resistance", Unit: "cmH2O/(L/s)", ZeroIsDefault: true},
 	{Name: "cylinder-l", Label: "Cylinder", Unit: "L", ZeroIsDefault: true},
 	{Name: "cylinder-bar", Label: "Cylinder", Unit: "bar"},
+	{Name: "room-c", Label: "Room temperature", Unit: "C"},
+	{Name: "room-rh", Label: "Room humidity", Unit: "%"},
+	{Name: "barometric-mmhg", Label: "Barometer", Unit: "mmHg"},
 }
 
 var checkSpecs = []EntrySpec{
@@ -105,6 +107,10 @@ var checkSpecs = []EntrySpec{
 	{Name: "propose-dwell-s", Label: "Proposed dwell", Unit: "s"},
 	{Name: "propose-peep", Label: "Proposed PEEP", Unit: "cmH2O"},
 	{Name: "propose-o2-lpm", Label: "Proposed O2 flow", Unit: "L/min"},
+	{Name: "room-c", Label: "Room temperature", Unit: "C"},
+	{Name: "room-rh", Label: "Room humidity", Unit: "%"},
+	{Name: "barometric-mmhg", Label: "Barometer", Unit: "mmHg"},
+	{Name: "manometer-step", Label: "Manometer step", Unit: "cmH2O", ZeroIsDefault: true},
 }
 
 // Spec returns the entry of that flag name, from the plan's or the
@@ -245,6 +251,7 @@ func BuildRequest(e Entries, now time.Time) (Request, Problems) {
 	}
 	t.CylinderWaterL, t.CylinderBar = r.cylinder()
 	req.Targets = t
+	req.Room = r.room()
 	r.rangeProblems(req.Targets)
 	return req, r.sorted(planSpecs)
 }
@@ -263,6 +270,37 @@ func (r *entryReader) rangeProblems(t Targets) {
 			}
 		}
 	}
+}
+
+// room reads the room's air for the BTPS factor; each entry's range is
+// checked here so that all are marked at once.
+func (r *entryReader) room() Room {
+	var out Room
+	for _, e := range []struct {
+		name string
+		dst  **float64
+	}{{"room-c", &out.TemperatureC}, {"room-rh", &out.HumidityPct}, {"barometric-mmhg", &out.BarometricMmHg}} {
+		if v, ok := r.number(e.name); ok {
+			*e.dst = &v
+			if _, err := resolveRoom(roomOne(e.name, v)); err != nil {
+				if ie, ok := err.(*InputError); ok && r.problems.Field(e.name) == nil {
+					r.problems = append(r.problems, ie)
+				}
+			}
+		}
+	}
+	return out
+}
+
+// roomOne is a Room with one entry set.
+func roomOne(name string, v float64) Room {
+	switch name {
+	case "room-c":
+		return Room{TemperatureC: &v}
+	case "room-rh":
+		return Room{HumidityPct: &v}
+	}
+	return Room{BarometricMmHg: &v}
 }
 
 // sorted puts the problems in the order of the form.
@@ -309,6 +347,13 @@ func BuildCheckRequest(e Entries, now time.Time) (CheckRequest, Problems) {
 		r.fail("peak", "peak and end-pressure go together: give both manometer readings or neither")
 	}
 	req.CylinderWaterL, req.CylinderBar = r.cylinder()
+	req.Room = r.room()
+	if v, ok := r.number("manometer-step"); ok {
+		if err := checkRange("manometer-step", "manometer step", v, ManometerStepMinCmH2O, ManometerStepMaxCmH2O, "cmH2O"); err != nil {
+			r.problems = append(r.problems, err.(*InputError))
+		}
+		req.ManometerStepCmH2O = v
+	}
 	if h := r.text("propose-hole"); h != "" {
 		req.Proposal.Hole = &h
 	}
@@ -361,6 +406,12 @@ func Hint(name string, lung physiology.Lung) string {
 		return "optional: both readings, or neither"
 	case "o2-lpm":
 		return "blank: none"
+	case "room-c", "room-rh", "barometric-mmhg":
+		room := physiology.DefaultRoom()
+		v := map[string]physiology.Value{"room-c": room.TemperatureC, "room-rh": room.HumidityPct, "barometric-mmhg": room.BarometricMmHg}[name]
+		return def(v, "%g")
+	case "manometer-step":
+		return def(physiology.Value{Value: DefaultManometerStepCmH2O, Source: srcManometerStep}, "%g cmH2O")
 	}
 	if strings.HasPrefix(name, "propose-") {
 		return "blank: as now"

@@ -37,6 +37,13 @@ type Request struct {
 	Targets Targets
 	// Now dates the calibration's age; zero means time.Now().
 	Now time.Time
+	// Room is the room's air (BTPS); nil fields mean the defaults.
+	Room Room
+
+	// v1Gas, for tests only (export_test.go): the BTPS factor exactly 1
+	// and the cylinder's gas left out, which with no leak and a relief
+	// above the peak is the version 1 model.
+	v1Gas bool
 }
 
 // InputError is a value a person entered that cannot be used.
@@ -155,7 +162,6 @@ func resolveTargets(t Targets) (resolved, error) {
 	}
 	return r, nil
 }
-
 
 // pbwOf is the patient's predicted body weight, or an *InputError naming
 // the height or the sex.

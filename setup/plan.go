@@ -49,6 +49,10 @@ type Plan struct {
 
 	Changes  []Change
 	Cautions []Caution
+
+	// Gas is the version 2 breath's room (with the BTPS factor), cylinder
+	// head, leak and relief valve, as used in every stroke of the plan.
+	Gas GasModel
 }
 
 // MakePlan turns a request into a setting on the machine described by p:
@@ -71,11 +75,16 @@ func MakePlan(req Request, p profiles.Profile) (Plan, error) {
 	if err != nil {
 		return Plan{}, err
 	}
-	u, err := newUnit(p, now)
+	room, err := resolveRoom(req.Room)
 	if err != nil {
 		return Plan{}, err
 	}
-	pl := Plan{
+	u, err := newUnitV(p, now, req.v1Gas)
+	if err != nil {
+		return Plan{}, err
+	}
+	u.gas = withRoom(u.gas, room, req.v1Gas)
+	pl := Plan{Gas: u.gas,
 		Patient: req.Patient, ProfileID: p.ID, ProfileLabel: p.Label, Calibration: u.cal,
 		Lung: r.lung, MLPerKg: r.mlPerKg, Rate: r.rate, IE: r.ie, PEEP: r.peep, FiO2: r.fio2,
 		Compliance: r.compliance, Resistance: r.resistance, PEEPTable: r.table,
@@ -103,15 +112,9 @@ func MakePlan(req Request, p profiles.Profile) (Plan, error) {
 		if err != nil {
 			return Plan{}, &InputError{Field: "rate", Reason: err.Error()}
 		}
-		pl.Holes = pl.Holes[:0]
-		for _, h := range p.Crank.Holes {
-			hf, err := deliveredFromRest(u, h, pl.Timing.RPM, ls)
-			if err != nil {
-				return Plan{}, &InputError{Field: "profile " + p.ID, Reason: err.Error()}
-			}
-			pl.Holes = append(pl.Holes, hf)
+		if pl.Holes, chosen, err = scanHoles(u, pl.Holes[:0], pl.Timing.RPM, ls, pl.TargetVtML); err != nil {
+			return Plan{}, &InputError{Field: "profile " + p.ID, Reason: err.Error()}
 		}
-		chosen = nearestHole(pl.Holes, pl.TargetVtML)
 		if p.Crank.Holes[chosen].Label == hole.Label {
 			break
 		}
@@ -119,15 +122,20 @@ func MakePlan(req Request, p profiles.Profile) (Plan, error) {
 	}
 	pl.Below, pl.Above = neighbours(pl.Holes, chosen)
 
-	o2 := physiology.O2FlowForFiO2(r.fio2.Value, pl.Holes[chosen].DeliveredML*pl.Timing.RateBPM/1000)
-	pl.Figures, err = evaluate(u, p.Crank.Holes[chosen], pl.Timing.Timing, ls, o2, req.Targets.CylinderWaterL, req.Targets.CylinderBar)
+	// The piston draws its whole effective swept volume from the reservoir
+	// every turn, so the oxygen is mixed into that (DESIGN version 2).
+	o2 := physiology.O2FlowForFiO2AtPistonIntake(r.fio2.Value, pl.Holes[chosen].EffectiveSweptML, pl.Timing.RateBPM)
+	pl.Figures, err = evaluateFrom(u, p.Crank.Holes[chosen], pl.Timing.Timing, ls, o2, req.Targets.CylinderWaterL, req.Targets.CylinderBar, pl.Holes[chosen])
 	if err != nil {
 		return Plan{}, &InputError{Field: "rate", Reason: err.Error()}
 	}
+	// The chosen hole's entry is the breath the plan shows (1 ms, at the
+	// steady state), not the scan's.
+	pl.Holes[chosen] = pl.Hole
 	pl.OffTargetPct = 100 * (pl.Hole.DeliveredML - pl.TargetVtML) / pl.TargetVtML
 	pl.Changes = timingChanges(pl.Timing)
 	pl.Cautions = assess(assessment{
-		heightCm: req.Patient.HeightCm, pbwKg: pbw, f: pl.Figures, reliefCmH2O: p.Circuit.ReliefCmH2O,
+		heightCm: req.Patient.HeightCm, pbwKg: pbw, f: pl.Figures, reliefCmH2O: p.Circuit.ReliefCmH2O, clearanceNote: u.gas.ClearanceNote(),
 		timing: &pl.Timing, targetMLPerK: r.mlPerKg.Value, offTargetPct: pl.OffTargetPct,
 		cal: u.cal, ratedTorque: p.Motor.RatedTorqueNm, fixedMotor: p.Motor.Fixed(),
 	})
@@ -135,6 +143,91 @@ func MakePlan(req Request, p profiles.Profile) (Plan, error) {
 		return Plan{}, err
 	}
 	return pl, nil
+}
+
+// ScanStepS is the time step at which MakePlan simulates every hole to
+// find the nearest: 10 ms. Against the model's default 1 ms the delivered
+// volumes agree within 1e-4 (TestScanStepAgreesWithFineStep, over a sweep
+// of patients, lungs and both demo machines), and the delivered volume
+// of the chosen hole is then simulated again at 1 ms, from the trapped gas
+// (evaluateFrom). When the two nearest holes are within CloseChoicePct of
+// the target of each other, both are simulated again at 1 ms and the
+// choice made on those, so the choice is the one a scan at 1 ms makes
+// (TestHoleChoiceMatchesFineStep).
+const ScanStepS = 0.010
+
+// CloseChoicePct is how close, in percent of the target, the two nearest
+// holes' distances to it must be for the choice to be re-made at 1 ms: 0.1%,
+// ten times the scan's largest disagreement with 1 ms.
+const CloseChoicePct = 0.1
+
+// scanHoles simulates every hole from rest at ScanStepS and returns them
+// (in profile order) and the index of the nearest to targetML; a close
+// choice between two is re-made at the default step.
+func scanHoles(u unit, holes []HoleFigure, rpm float64, ls lungState, targetML float64) ([]HoleFigure, int, error) {
+	for _, h := range u.p.Crank.Holes {
+		hf, err := deliveredFromRestAt(u, h, rpm, ls, ScanStepS)
+		if err != nil {
+			return nil, 0, err
+		}
+		holes = append(holes, hf)
+	}
+	chosen := nearestHole(holes, targetML)
+	b, a := neighbourIndex(holes, chosen)
+	d := math.Abs(holes[chosen].DeliveredML - targetML)
+	for _, i := range [2]int{b, a} {
+		if i < 0 || math.Abs(math.Abs(holes[i].DeliveredML-targetML)-d) > CloseChoicePct/100*targetML {
+			continue
+		}
+		for _, j := range [2]int{chosen, i} {
+			hf, err := deliveredFromRest(u, u.p.Crank.Holes[j], rpm, ls)
+			if err != nil {
+				return nil, 0, err
+			}
+			holes[j] = hf
+		}
+	}
+	return holes, leastVenting(holes, nearestHole(holes, targetML)), nil
+}
+
+// SameVolumePct is how close, in percent, a smaller hole's delivered
+// volume must be to a pressure-limited choice's to be taken instead.
+const SameVolumePct = 0.5
+
+// leastVenting moves a pressure-limited choice to the smallest hole that
+// delivers within SameVolumePct of it: past the relief valve a larger hole
+// adds little but vented gas, torque and wear, so the smaller one is the
+// conservative setting (the plan stays a stop either way).
+func leastVenting(holes []HoleFigure, chosen int) int {
+	if !holes[chosen].PressureLimited {
+		return chosen
+	}
+	best, floor := chosen, holes[chosen].DeliveredML*(1-SameVolumePct/100)
+	for i, h := range holes {
+		if h.DeliveredML >= floor && h.DeliveredML < holes[best].DeliveredML {
+			best = i
+		}
+	}
+	return best
+}
+
+// neighbourIndex is the index of the holes delivering next less and next
+// more than holes[chosen], -1 when there is none.
+func neighbourIndex(holes []HoleFigure, chosen int) (below, above int) {
+	below, above = -1, -1
+	v := holes[chosen].DeliveredML
+	for i, h := range holes {
+		if i == chosen {
+			continue
+		}
+		if h.DeliveredML < v && (below < 0 || h.DeliveredML > holes[below].DeliveredML) {
+			below = i
+		}
+		if h.DeliveredML > v && (above < 0 || h.DeliveredML < holes[above].DeliveredML) {
+			above = i
+		}
+	}
+	return below, above
 }
 
 // nearestHole picks the hole whose delivered volume is nearest the target;

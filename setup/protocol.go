@@ -89,10 +89,11 @@ func ProtocolProposal(req CheckRequest, readings GasReadings, p profiles.Profile
 	if err != nil {
 		return ProtocolStepResult{}, err
 	}
-	u, err := newUnit(p, orNow(req.Now))
+	u, err := newUnitV(p, orNow(req.Now), req.v1Gas)
 	if err != nil {
 		return ProtocolStepResult{}, err
 	}
+	u.gas = ck.Gas // the check's room, cylinder, leak and relief valve
 	cur := ck.Current
 	plateauSrc := "predicted; compliance " + ck.Mechanics.Source
 	if ck.Fitted != nil {
@@ -302,7 +303,7 @@ func (res *ProtocolStepResult) timingNotes(u unit) {
 }
 
 // setO2Flow is the oxygen bled into the intake for the step's FiO2 at the
-// proposed minute ventilation; with FiO2 unchanged it holds the FiO2 now.
+// piston's proposed intake; with FiO2 unchanged it holds the FiO2 now.
 func (res *ProtocolStepResult) setO2Flow(hf HoleFigure, st physiology.ProtocolState) {
 	cur := res.Check.Current.Setting
 	s := &res.Proposed
@@ -311,14 +312,14 @@ func (res *ProtocolStepResult) setO2Flow(hf HoleFigure, st physiology.ProtocolSt
 		return
 	}
 	rate := 60 / (60/s.RPM + s.DwellS)
-	mv := hf.DeliveredML * rate / 1000
 	fio2 := st.FiO2
 	if res.Step.FiO2Changed {
 		fio2 = res.Step.FiO2
 	}
-	// A flowmeter is set to a tenth of a litre: rounded up, so that the
-	// FiO2 is never below the step's (by at most 0.079 / MV above it).
-	flow := math.Max(0, math.Ceil(physiology.O2FlowForFiO2(fio2, mv)*10-1e-9)/10)
+	// Version 2: the oxygen mixes into what the piston draws (effective
+	// swept x rate). A flowmeter is set to a tenth of a litre: rounded up,
+	// so that the FiO2 is never below the step's.
+	flow := math.Max(0, math.Ceil(physiology.O2FlowForFiO2AtPistonIntake(fio2, hf.EffectiveSweptML, rate)*10-1e-9)/10)
 	if fio2 >= 1 && cur.O2LPerMin > flow {
 		flow = cur.O2LPerMin // already all oxygen: keep the larger flow
 	}
@@ -330,7 +331,7 @@ func (res *ProtocolStepResult) setO2Flow(hf HoleFigure, st physiology.ProtocolSt
 	if !res.Step.FiO2Changed {
 		why = fmt.Sprintf("to hold FiO2 %.2f", fio2)
 	}
-	res.note(fmt.Sprintf("O2 flow %.1f -> %.1f L/min %s at the proposed minute ventilation %.1f L/min (bled into the intake; rounded up to 0.1 L/min)", cur.O2LPerMin, flow, why, mv))
+	res.note(fmt.Sprintf("O2 flow %.1f -> %.1f L/min %s at the piston's proposed intake %.1f L/min (bled into the intake; rounded up to 0.1 L/min)", cur.O2LPerMin, flow, why, physiology.PistonIntakeLPerMin(hf.EffectiveSweptML, rate)))
 }
 
 func (res *ProtocolStepResult) note(s string) {

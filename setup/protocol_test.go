@@ -54,13 +54,15 @@ func TestProtocolHypoxaemicOnRoomAir(t *testing.T) {
 	require.Nil(t, res.Timing)
 	require.NotNil(t, res.Check.Proposed)
 	f := res.Check.Proposed.Figures
-	// The flow is rounded up to the flowmeter's 0.1 L/min: the FiO2 is at
-	// least the 0.30 asked for and at most 0.79 x 0.1 / MV above it
-	// (derived from the bleed formula 0.21 + 0.79 Q / MV, REFERENCES).
+	// The flow is rounded up to the flowmeter's 0.1 L/min: the FiO2 at the
+	// proposed piston intake (version 2) is at least the 0.30 asked for and
+	// at most 0.79 x 0.1 / intake above it (derived from 0.21 + 0.79 Q /
+	// intake).
 	require.InDelta(t, res.Proposed.O2LPerMin*10, math.Round(res.Proposed.O2LPerMin*10), 1e-9, "a tenth of a litre")
-	fio2 := physiology.FiO2FromBleed(res.Proposed.O2LPerMin, f.MinuteVentLPerMin)
+	intake := physiology.PistonIntakeLPerMin(f.Hole.EffectiveSweptML, f.Timing.RateBPM)
+	fio2 := physiology.FiO2FromPistonIntake(res.Proposed.O2LPerMin, f.Hole.EffectiveSweptML, f.Timing.RateBPM)
 	require.GreaterOrEqual(t, fio2, 0.30-1e-9)
-	require.LessOrEqual(t, fio2, 0.30+0.079/f.MinuteVentLPerMin+1e-9)
+	require.LessOrEqual(t, fio2, 0.30+0.079/intake+1e-9)
 	require.InDelta(t, fio2, res.FiO2, 1e-9)
 	require.Greater(t, res.Proposed.O2LPerMin, 0.0)
 }
@@ -234,7 +236,9 @@ func TestProtocolRateFollowsTheHolesVolume(t *testing.T) {
 	// the rate at the same Vt: 15 x 10^(7.35 - 7.25) = 18.9 /min, whatever
 	// the dead space (derived: rate_step x (Vt_step - Vd) / (Vt_D - Vd) with
 	// rate_step = 15 x (Vt_D - Vd) / (Vt_step - Vd) x 10^0.1).
-	res, err := setup.ProtocolProposal(protocolReq("D", 20, 1.0, 5, 0),
+	// The version 1 limit (setup.V1CheckRequest): the volumes above are
+	// version 1's; at the default room (BTPS) hole D gives more than 6.
+	res, err := setup.ProtocolProposal(setup.V1CheckRequest(protocolReq("D", 20, 1.0, 5, 0)),
 		setup.GasReadings{PH: gas(7.25), PaCO2MmHg: gas(50)}, profile(t, "demo-b"))
 	require.NoError(t, err)
 	require.True(t, res.Step.VtChanged)

@@ -53,6 +53,15 @@ type CheckJSON struct {
 	ProtocolProblem    string            `json:"protocol_problem,omitempty"`
 	ProposalFrom       string            `json:"proposal_from,omitempty"`
 	ClinicalCaution    string            `json:"clinical_caution"`
+	// Version 2: what the manometer's resolution allows of the fit, each
+	// [low, high] (null without a fit), and the room and gas path.
+	ManometerStepCmH2O    *float64    `json:"manometer_step_cmh2o,omitempty"`
+	FittedComplianceRange *[2]float64 `json:"fitted_compliance_range"`
+	FittedResistanceRange *[2]float64 `json:"fitted_resistance_range"`
+	DeliveredVtRangeML    *[2]float64 `json:"delivered_vt_range_ml"`
+	FitRangeNote          string      `json:"fit_range_note,omitempty"`
+	PatientEffortNote     string      `json:"patient_effort_note,omitempty"`
+	Gas                   *GasJSON    `json:"gas,omitempty"`
 }
 
 // Unexplained reports whether no lung explains the readings: then no
@@ -71,6 +80,7 @@ var WithheldFigureKeys = []string{
 	"peak_pressure_cmh2o", "end_inspiratory_pressure_cmh2o", "plateau_pressure_cmh2o",
 	"driving_pressure_cmh2o", "intrinsic_peep_cmh2o", "trapped_volume_ml", "exhalation_tau_s",
 	"peak_torque_nm", "rated_torque_share",
+	"delivered_vt_room_ml", "compression_loss_ml", "leaked_ml", "relief_vented_ml", "pressure_limited",
 }
 
 // checkJSONFields has CheckJSON's fields without its methods.
@@ -172,6 +182,18 @@ func (ck Check) JSON() CheckJSON {
 	if ck.Fitted != nil {
 		c, r := r4(ck.Fitted.ComplianceMLPerCmH2O), r4(ck.Fitted.ResistanceCmH2OPerLS)
 		j.FittedComplianceMLPerCmH2O, j.FittedResistanceCmH2OPerLS = &c, &r
+		j.PatientEffortNote = PatientEffortNote
+	}
+	if fr := ck.Ranges; fr != nil {
+		step := r4(fr.StepCmH2O.Value)
+		round := func(v [2]float64) *[2]float64 { return &[2]float64{r4(v[0]), r4(v[1])} }
+		j.ManometerStepCmH2O = &step
+		j.FittedComplianceRange, j.FittedResistanceRange = round(fr.ComplianceMLPerCmH2O), round(fr.ResistanceCmH2OPerLS)
+		j.DeliveredVtRangeML, j.FitRangeNote = round(fr.DeliveredML), fr.Note()
+	}
+	if ck.Gas.Room.BTPSFactor > 0 {
+		g := gasJSON(ck.Gas)
+		j.Gas = &g
 	}
 	if ck.Proposed != nil {
 		p := &ProposedJSON{Setting: ck.Proposed.Setting, EvaluationJSON: evaluationJSON(*ck.Proposed)}
@@ -273,4 +295,3 @@ func CheckInitials(in string) error {
 	}
 	return nil
 }
-

@@ -52,6 +52,15 @@ type FiguresJSON struct {
 	ExhalationTauS              float64  `json:"exhalation_tau_s"`
 	PeakTorqueNm                float64  `json:"peak_torque_nm"`
 	RatedTorqueShare            float64  `json:"rated_torque_share"`
+	// Version 2: delivered_vt_ml, ml_per_kg, trapped volume and plateau are
+	// at body conditions (BTPS); delivered_vt_room_ml is the room air that
+	// entered the lung, delivered_vt_ml / btps_factor.
+	BTPSFactor        float64 `json:"btps_factor"`
+	DeliveredVtRoomML float64 `json:"delivered_vt_room_ml"`
+	CompressionLossML float64 `json:"compression_loss_ml"`
+	LeakedML          float64 `json:"leaked_ml"`
+	ReliefVentedML    float64 `json:"relief_vented_ml"`
+	PressureLimited   bool    `json:"pressure_limited"`
 }
 
 // figuresJSON rounds a setting's figures for printing.
@@ -68,6 +77,8 @@ func figuresJSON(f Figures) FiguresJSON {
 		PlateauPressureCmH2O: r4(f.PlateauCmH2O), DrivingPressureCmH2O: r4(f.DrivingCmH2O),
 		IntrinsicPEEPCmH2O: r4(f.IntrinsicPEEPCmH2O), TrappedVolumeML: r4(f.TrappedML), ExhalationTauS: r4(f.TauS),
 		PeakTorqueNm: r4(f.PeakTorqueNm), RatedTorqueShare: r4(f.TorqueShareOfRating),
+		BTPSFactor: r4(f.BTPSFactor), DeliveredVtRoomML: r4(f.DeliveredRoomML), CompressionLossML: r4(f.CompressionLossML),
+		LeakedML: r4(f.LeakedML), ReliefVentedML: r4(f.ReliefVentedML), PressureLimited: f.PressureLimited,
 	}
 	j.CylinderEntered = f.CylinderGiven
 	if f.CylinderGiven && !math.IsInf(f.CylinderMinutes, 0) {
@@ -98,6 +109,29 @@ type PlanJSON struct {
 	Changes         []Change               `json:"changes"`
 	Cautions        []Caution              `json:"cautions"`
 	ClinicalCaution string                 `json:"clinical_caution"`
+	GasJSON
+}
+
+// GasJSON is the room and the machine's gas path used by every stroke.
+type GasJSON struct {
+	Room               map[string]DefaultJSON `json:"room"` // temperature_c, humidity_pct, barometric_mmhg
+	ClearanceCm        float64                `json:"clearance_cm"`
+	ClearanceDefaulted bool                   `json:"clearance_defaulted"`
+	ClearanceNote      string                 `json:"clearance_note,omitempty"`
+	LeakLMinAt20CmH2O  float64                `json:"leak_l_min_at_20_cmh2o"`
+	ReliefCmH2O        float64                `json:"relief_cmh2o"`
+}
+
+func gasJSON(g GasModel) GasJSON {
+	return GasJSON{
+		Room: map[string]DefaultJSON{
+			"temperature_c":   {r4(g.Room.TemperatureC.Value), g.Room.TemperatureC.Source},
+			"humidity_pct":    {r4(g.Room.HumidityPct.Value), g.Room.HumidityPct.Source},
+			"barometric_mmhg": {r4(g.Room.BarometricMmHg.Value), g.Room.BarometricMmHg.Source},
+		},
+		ClearanceCm: r4(g.ClearanceCm), ClearanceDefaulted: g.ClearanceDefaulted, ClearanceNote: g.ClearanceNote(),
+		LeakLMinAt20CmH2O: r4(g.LeakLPerMinAt20), ReliefCmH2O: r4(g.ReliefCmH2O),
+	}
 }
 
 // r4 rounds for the report: 4 decimals is far below any meaningful change.
@@ -129,6 +163,7 @@ func (pl Plan) JSON() PlanJSON {
 			"resistance_cmh2o_per_l_s": {r4(pl.Resistance.Value), pl.Resistance.Source},
 		},
 		Changes: roundChanges(pl.Changes), Cautions: roundCautions(pl.Cautions), ClinicalCaution: ClinicalCaution,
+		GasJSON: gasJSON(pl.Gas),
 	}
 }
 
@@ -163,6 +198,7 @@ func (pl Plan) WriteText(w io.Writer) error {
 	p("Target    %.1f mL/kg PBW = %.0f mL, rate %.0f /min, I:E 1:%.1f, PEEP %.0f cmH2O, FiO2 %.2f\n",
 		pl.MLPerKg.Value, pl.TargetVtML, pl.Rate.Value, pl.IE.Value, pl.PEEP.Value, pl.FiO2.Value)
 	p("Lung      C %.0f mL/cmH2O (%s), R %.0f cmH2O/(L/s) (%s)\n", pl.Compliance.Value, pl.Compliance.Source, pl.Resistance.Value, pl.Resistance.Source)
+	writeGas(&b, pl.Gas)
 	if line := StopLine(pl.Cautions); line != "" {
 		p("\n%s", line)
 	}
@@ -189,6 +225,7 @@ func (pl Plan) WriteText(w io.Writer) error {
 		p("  %-26s %10s\n", r.Label+unitSuffix(r.Unit), r.Text)
 	}
 	p("  %s\n", DrivingNote)
+	writeGasOutcome(&b, pl.Figures)
 	p("  Exhalation tau %.2f s; torque %.0f%% of the motor's rating\n", pl.TauS, 100*pl.TorqueShareOfRating)
 	if len(pl.Changes) > 0 {
 		p("\nWHAT THE MACHINE'S STEPS CHANGED\n")
@@ -211,4 +248,28 @@ func writeCautions(b *strings.Builder, cs []Caution) {
 		}
 	}
 	fmt.Fprintf(b, "\n%s\n", ClinicalCaution)
+}
+
+// writeGas prints the room and the machine's gas path, with sources.
+func writeGas(b *strings.Builder, g GasModel) {
+	r := g.Room
+	fmt.Fprintf(b, "Room      %.1f C (%s), %.0f %% RH (%s), %.0f mmHg (%s): BTPS factor %.3f\n",
+		r.TemperatureC.Value, r.TemperatureC.Source, r.HumidityPct.Value, r.HumidityPct.Source,
+		r.BarometricMmHg.Value, r.BarometricMmHg.Source, r.BTPSFactor)
+	fmt.Fprintf(b, "Machine   cylinder clearance %.1f cm", g.ClearanceCm)
+	if g.ClearanceDefaulted {
+		fmt.Fprintf(b, " (DEFAULT: not in the profile)")
+	}
+	fmt.Fprintf(b, ", leak %.2g L/min at 20 cmH2O, relief valve %.0f cmH2O\n", g.LeakLPerMinAt20, g.ReliefCmH2O)
+	fmt.Fprintf(b, "          %s\n", BTPSNote)
+}
+
+// writeGasOutcome says where the piston's volume went on this breath.
+func writeGasOutcome(b *strings.Builder, f Figures) {
+	fmt.Fprintf(b, "  Room air into the lung %.0f mL (x %.3f = %.0f mL at BTPS); cylinder gas took %.1f mL, leak %.1f mL",
+		f.DeliveredRoomML, f.BTPSFactor, f.Hole.DeliveredML, f.CompressionLossML, f.LeakedML)
+	if f.PressureLimited {
+		fmt.Fprintf(b, "; RELIEF VALVE OPEN: %.0f mL vented, the breath is pressure-limited", f.ReliefVentedML)
+	}
+	fmt.Fprintf(b, "\n")
 }

@@ -44,7 +44,7 @@ func BreathTrace(pl Plan, p profiles.Profile) (Trace, error) {
 	_, err := machine.SimulateStroke(machine.StrokeInput{
 		Stroke: u.stroke(h, pl.Timing.RPM, pl.Calibration.Calibration),
 		Lung:   machine.Lung{ComplianceMLPerCmH2O: c, ResistanceCmH2OPerLS: r}, CircuitMLPerCmH2O: p.Circuit.ComplianceMLPerCmH2O,
-		PEEPCmH2O: pl.PEEPCmH2O, StartVolumeML: pl.TrappedML, StepS: 0.005,
+		PEEPCmH2O: pl.PEEPCmH2O, StartVolumeML: pl.TrappedML, StepS: 0.005, Gas: pl.Gas.patientPath(),
 		Observe: func(t, pc, q, v float64) {
 			tr.TimeS = append(tr.TimeS, t)
 			tr.CircuitCmH2O = append(tr.CircuitCmH2O, pc)

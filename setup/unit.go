@@ -16,6 +16,13 @@ type unit struct {
 	motor      machine.Motor
 	controller machine.Controller
 	cal        CalibrationStatus
+	// gas is the version 2 breath's room, cylinder, leak and relief valve;
+	// sim runs every stroke of one plan or check (never shared).
+	gas GasModel
+	sim *machine.Simulator
+	// stepS is the time step of every stroke evaluate runs (0: the model's
+	// 1 ms); the fit ranges' corners use ScanStepS.
+	stepS float64
 }
 
 // CalibrationStatus is what the profile's bench calibration says.
@@ -46,8 +53,14 @@ type BenchResidual struct {
 	Within     bool
 }
 
-func newUnit(p profiles.Profile, now time.Time) (unit, error) {
-	u := unit{p: p, controller: machine.Controller{DwellStepS: p.Controller.DwellStepS, MaxDwellS: p.Controller.MaxDwellS}}
+func newUnit(p profiles.Profile, now time.Time) (unit, error) { return newUnitV(p, now, false) }
+
+// newUnitV is newUnit; v1 (tests only) leaves the cylinder's gas out of the
+// bench fit too.
+func newUnitV(p profiles.Profile, now time.Time, v1 bool) (unit, error) {
+	u := unit{p: p, controller: machine.Controller{DwellStepS: p.Controller.DwellStepS, MaxDwellS: p.Controller.MaxDwellS},
+		gas: gasModelOf(p), sim: &machine.Simulator{}}
+	u.gas.noCylinderGas = v1
 	if p.Motor.Fixed() {
 		u.motor = machine.FixedMotor(p.Motor.RPM)
 	} else {
@@ -99,7 +112,7 @@ func fitCalibration(u unit, now time.Time) (CalibrationStatus, error) {
 	if len(c.Points) == 0 {
 		return st, nil
 	}
-	pts, err := BenchGains(u.p, c.Points)
+	pts, err := benchGains(u, c.Points)
 	if err != nil {
 		return st, err
 	}
@@ -136,10 +149,16 @@ func sweptRange(p profiles.Profile) (minML, maxML float64) {
 }
 
 // BenchGains runs the breath model for each bench point (test lung, speed,
-// this circuit, from rest, PEEP 0, geometric piston) and returns the points
-// with the model's delivered-per-swept gain.
+// this circuit, from rest, PEEP 0, geometric piston; room air into a
+// room-temperature test lung, so F = 1, through the profile's cylinder,
+// leak and relief valve) and returns the points with the model's
+// delivered-per-swept gain.
 func BenchGains(p profiles.Profile, points []profiles.BenchPoint) ([]machine.BenchPoint, error) {
-	u := unit{p: p}
+	return benchGains(unit{p: p, gas: gasModelOf(p), sim: &machine.Simulator{}}, points)
+}
+
+func benchGains(u unit, points []profiles.BenchPoint) ([]machine.BenchPoint, error) {
+	p := u.p
 	out := make([]machine.BenchPoint, len(points))
 	for i, bp := range points {
 		h, ok := p.HoleByLabel(bp.Hole)
@@ -147,11 +166,7 @@ func BenchGains(p profiles.Profile, points []profiles.BenchPoint) ([]machine.Ben
 			return nil, &InputError{Field: fmt.Sprintf("calibration point %d", i+1), Reason: fmt.Sprintf("hole %q is not on this machine", bp.Hole)}
 		}
 		s := u.stroke(h, bp.RPM, machine.Identity)
-		r, err := machine.SimulateStroke(machine.StrokeInput{
-			Stroke:            s,
-			Lung:              machine.Lung{ComplianceMLPerCmH2O: bp.TestLungComplianceMLPerCmH2O, ResistanceCmH2OPerLS: bp.TestLungResistanceCmH2OPerLS},
-			CircuitMLPerCmH2O: p.Circuit.ComplianceMLPerCmH2O,
-		})
+		r, err := u.sim.SimulateStroke(benchInput(u, s, bp))
 		if err != nil {
 			return nil, &InputError{Field: fmt.Sprintf("calibration point %d", i+1), Reason: err.Error()}
 		}
@@ -159,4 +174,14 @@ func BenchGains(p profiles.Profile, points []profiles.BenchPoint) ([]machine.Ben
 		out[i] = machine.BenchPoint{SweptML: swept, Gain: r.DeliveredML / swept, MeasuredML: bp.MeasuredML}
 	}
 	return out, nil
+}
+
+// benchInput is the stroke of one bench point through the model.
+func benchInput(u unit, s machine.Stroke, bp profiles.BenchPoint) machine.StrokeInput {
+	return machine.StrokeInput{
+		Stroke:            s,
+		Lung:              machine.Lung{ComplianceMLPerCmH2O: bp.TestLungComplianceMLPerCmH2O, ResistanceCmH2OPerLS: bp.TestLungResistanceCmH2OPerLS},
+		CircuitMLPerCmH2O: u.p.Circuit.ComplianceMLPerCmH2O,
+		Gas:               u.gas.benchPath(),
+	}
 }

@@ -89,7 +89,11 @@ func TestPlanJSONHasTheContractKeys(t *testing.T) {
 	}
 	// PBW 45.5 + 0.91 x (170 - 152.4) = 61.516 kg for a 170 cm woman (ARDSNet 2000, derived).
 	require.InDelta(t, 61.516, obj["pbw_kg"], 1e-3)
-	require.Equal(t, "6", obj["hole"])
+	// Version 2 (BTPS at the default room 22 C, 50 %, 760 mmHg: F 1.105,
+	// REFERENCES): hole 5 sweeps 345.58 mL, x 60/61.5 (circuit share) x
+	// 1.105 = 372.6 mL less the cylinder gas's 1-3 % (issue 13's audit) is
+	// about 362-369, nearer the 369.1 mL target than hole 6 (about 397).
+	require.Equal(t, "5", obj["hole"])
 	// ie_ratio is the number E/I, 2.0 for the default 1:2 (common practice);
 	// the 0.1 s dwell step moves it a little.
 	require.InDelta(t, 2.0, obj["ie_ratio"], 0.05)
@@ -316,8 +320,11 @@ func TestCalibrateWriteThenPlan(t *testing.T) {
 	// 1.5 mL/cmH2O circuit takes 50/51.5 of the effective volume, so the
 	// measured 318, 408, 528, 647 mL are 327.54, 420.24, 543.84, 666.41 mL
 	// effective; their least-squares line is k 0.9808, b -11.22 mL.
-	// Tolerance 0.005 and 2 mL for what the C/(C+Cc) share leaves out.
-	require.InDelta(t, 0.9808, cal["k"], 0.005, "k (derived by hand)")
+	// Tolerance 0.005 and 2 mL for what the C/(C+Cc) share leaves out, and
+	// for k 0.02 more: the version 2 bench model also spends 1-3 % of the
+	// volume compressing the cylinder's gas (issue 13's audit), which this
+	// share leaves out, so the fitted k is up to that much higher.
+	require.InDelta(t, 0.9808, cal["k"], 0.025, "k (derived by hand)")
 	require.InDelta(t, -11.22, cal["b_ml"], 2, "b (derived by hand)")
 	require.NoFileExists(t, unit+".bak", "nothing written without --write")
 

@@ -11,6 +11,9 @@ func f2(v float64) string { return fmt.Sprintf("%.2f", v) }
 
 // kv is one "label  value unit" line.
 func (s Styles) kv(label, value, unit string) string {
+	if len(label) >= 16 {
+		label += " " // a long label still keeps its value apart
+	}
 	line := s.Label.Render(fmt.Sprintf("%-16s", label)) + s.Value.Render(value)
 	if unit != "" {
 		line += " " + s.Unit.Render(unit)
