@@ -250,7 +250,7 @@ func (r *v2run) precompress() int {
 		pa, va := first.advance(r.p, r.v, -gp, -gp)
 		r.p, r.v = pa, va
 		xMid := r.x[i] + (r.x[i+1]-r.x[i])*(1+tau)/2
-		ctot := r.cc + r.cylinderML(xMid)/r.patm
+		ctot := r.cc + GasComplianceMLPerCmH2O(r.cylinderML(xMid), r.patm)
 		rest := newProp(ctot, r.rML, r.cl, r.g, (1-tau)*r.h)
 		pb, vb := rest.advance(r.p, r.v, u0+(u1-u0)*tau-gp, u1-gp)
 		r.p, r.v = r.limit(r.p, pb, ctot), vb
@@ -368,4 +368,11 @@ func (r *v2run) ventStep(u0, u1 float64) bool {
 	r.out.ReliefVentedML += vent
 	r.v = v1
 	return true
+}
+
+// GasComplianceMLPerCmH2O is the isothermal (Boyle) compliance of a volume
+// of gas at a pressure (absolute, cmH2O): V / P, in mL per cmH2O. The
+// cylinder's own gas enters the simulation this way.
+func GasComplianceMLPerCmH2O(volumeML, pressureCmH2O float64) float64 {
+	return volumeML / pressureCmH2O
 }

@@ -94,10 +94,3 @@ func BTPSFactor(roomC, rhPercent, barometricMmHg float64) (float64, error) {
 
 // BarometricCmH2O converts a barometric pressure in mmHg to cmH2O.
 func BarometricCmH2O(mmHg float64) float64 { return mmHg * CmH2OPerMmHg }
-
-// GasComplianceMLPerCmH2O is the isothermal (Boyle) compliance of a volume
-// of gas at the barometric pressure pbMmHg: V / PB, in mL per cmH2O. At one
-// atmosphere, 500 mL gives about 0.484.
-func GasComplianceMLPerCmH2O(volumeML, pbMmHg float64) float64 {
-	return volumeML / BarometricCmH2O(pbMmHg)
-}

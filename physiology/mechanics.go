@@ -15,7 +15,6 @@ func TimeConstantS(resistanceCmH2OPerLS, complianceMLPerCmH2O float64) float64 {
 	return resistanceCmH2OPerLS / 1000 * complianceMLPerCmH2O
 }
 
-
 // TrappedVolumeML is the volume left above the relaxed volume at the end of
 // expiration once breaths repeat to a steady state: Vee = (Vee + Vt) k with
 // k = e^(-Te/tau), so Vee = Vt k / (1 - k).

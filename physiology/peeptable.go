@@ -19,7 +19,6 @@ var lowerPEEPTable = [...]PEEPFiO2Pair{
 	{1.0, 18}, {1.0, 24},
 }
 
-
 // TablePEEP is what the table suggests for one FiO2.
 type TablePEEP struct {
 	FiO2Step     float64 // the table's FiO2 step the entry was rounded up to

@@ -8,5 +8,3 @@ const PascalPerAtm = 101325.0
 
 // CmH2OPerAtm is one standard atmosphere in cmH2O (about 1033.2).
 const CmH2OPerAtm = PascalPerAtm / PascalPerCmH2O
-
-

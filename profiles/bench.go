@@ -156,7 +156,6 @@ func benchRow(rec []string, p Profile) (BenchPoint, string) {
 	return pt, ""
 }
 
-
 // benchSpeed says why a bench speed cannot be this machine's, or "". A
 // fixed motor is allowed half an rpm either side, as a tachometer reads it.
 func benchSpeed(rpm float64, m Motor) string {

@@ -49,7 +49,6 @@ func ReadFileStamped(path string) (Profile, Stamp, error) {
 	return p, st, err
 }
 
-
 // SaveWithBackupIfUnchanged is SaveWithBackup with SaveIfUnchanged's check.
 func SaveWithBackupIfUnchanged(path string, p Profile, read Stamp) error {
 	return guardedSave(path, p, true, &read)

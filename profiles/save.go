@@ -24,18 +24,6 @@ func Marshal(p Profile) ([]byte, error) {
 	return b.Bytes(), nil
 }
 
-// Save validates p and writes it to path atomically: a temporary file in the
-// same directory, synced, then renamed over the old file, then the
-// directory synced. On any error the old file is left as it was. It refuses
-// a symbolic link (naming the real file) and anything not a regular file,
-// keeps an existing file's mode (a new file is 0644), holds an exclusive
-// lock on path + ".lock" while it writes, and removes temporary files of
-// its own naming left by a save killed more than 10 minutes ago. Save does
-// not check whether the file changed since it was read: SaveIfUnchanged does.
-func Save(path string, p Profile) error {
-	return guardedSave(path, p, false, nil)
-}
-
 // encodeValid marshals p and parses the result back, so that nothing is
 // saved that the tool would refuse to load.
 func encodeValid(path string, p Profile) ([]byte, error) {

@@ -1,5 +1,10 @@
 package setup
 
+import (
+	"crankside/machine"
+	"crankside/profiles"
+)
+
 // V1Request is req in the version 1 limit, for tests: the room at body
 // conditions (37 C, saturated), the BTPS factor exactly 1 (Buck's 47.07
 // mmHg at 37 C against the convention's 47 would leave 1.4e-4), and the
@@ -18,4 +23,13 @@ func V1CheckRequest(req CheckRequest) CheckRequest {
 	req.Room = Room{TemperatureC: &t, HumidityPct: &rh}
 	req.v1Gas = true
 	return req
+}
+
+// BenchGains runs the breath model for each bench point (test lung, speed,
+// this circuit, from rest, PEEP 0, geometric piston; room air into a
+// room-temperature test lung, so F = 1, through the profile's cylinder,
+// leak and relief valve) and returns the points with the model's
+// delivered-per-swept gain.
+func BenchGains(p profiles.Profile, points []profiles.BenchPoint) ([]machine.BenchPoint, error) {
+	return benchGains(unit{p: p, gas: gasModelOf(p), sim: &machine.Simulator{}}, points)
 }

@@ -161,7 +161,8 @@ func fillFigures(f *Figures, u unit, r machine.StrokeResult, ls lungState, o2LPe
 	f.IntrinsicPEEPCmH2O = f.TrappedML / c
 	f.PeakCmH2O = r.PeakCmH2O
 	f.EndInspCmH2O = r.EndCmH2O
-	f.PlateauCmH2O = ls.peep + (f.TrappedML+r.DeliveredML)/c
+	// Plateau: the equation of motion with no flow (Chatburn 2014).
+	f.PlateauCmH2O = physiology.AirwayPressureCmH2O(ls.peep, f.TrappedML+r.DeliveredML, c, ls.lung.ResistanceCmH2OPerLS, 0)
 	f.DrivingCmH2O = r.DeliveredML / c
 	f.PeakFlowLPerMin = r.PeakPatientFlowMLPerS * 60 / 1000
 	f.PeakPistonLPerMin = r.PeakPistonFlowMLPerS * 60 / 1000

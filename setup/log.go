@@ -4,10 +4,8 @@ import (
 	"encoding/json"
 	"errors"
 	"fmt"
-	"io"
 	"os"
 	"path/filepath"
-	"sort"
 )
 
 // MaxRecordBytes bounds one log line; a record is a few kB. Longer lines
@@ -91,45 +89,6 @@ func (p LogProblem) String() string {
 	return fmt.Sprintf("line %d: %s", p.Line, p.Reason)
 }
 
-// ReadLog reads every record it can from one log, in file order. A torn
-// last line (a crash while writing), junk, or an over-long line is
-// skipped; no earlier record is lost because of it. At most
-// MaxProblemsKept problems are returned with their line numbers, then, if
-// there were more, one with Line 0 saying how many ("and N more damaged
-// lines"). The log must be the user's own regular file (see
-// CheckLogPath): a link, a pipe or a device such as /dev/zero is refused
-// at once.
-func ReadLog(path string) ([]Record, []LogProblem, error) {
-	f, err := openLogForRead(path)
-	if err != nil {
-		return nil, nil, err
-	}
-	defer f.Close()
-	recs, problems, err := readRecords(f)
-	if err != nil {
-		err = fmt.Errorf("log %s: %w", path, unwrapPathError(err))
-	}
-	return recs, problems, err
-}
-
-func readRecords(r io.Reader) ([]Record, []LogProblem, error) {
-	var recs []Record
-	var sum LogSummary
-	err := scanLog(r, "", &sum, func(n int, text []byte) {
-		rec, ok := decodeRecord(text)
-		if !ok {
-			sum.damaged("", n, reasonJunk)
-			return
-		}
-		recs = append(recs, rec)
-	})
-	problems := sum.Problems
-	if more := sum.Damaged - len(sum.Problems); more > 0 {
-		problems = append(problems, LogProblem{Reason: moreDamaged(more)})
-	}
-	return recs, problems, err
-}
-
 // BedHistory is one bed's checks in time order, each with what changed
 // since the one before: oldest first from History, newest first from
 // ReadHistories and ReadBedHistory.
@@ -144,37 +103,6 @@ type HistoryEntry struct {
 	Record  Record   `json:"record"`
 	Changes []string `json:"changes"`
 	Log     string   `json:"log,omitempty"` // the log (terminal) it came from, when read by ReadHistories
-}
-
-// History groups records by bed (only bed, when it is not empty), oldest
-// first.
-func History(recs []Record, bed string) []BedHistory {
-	byBed := map[string][]Record{}
-	for _, r := range recs {
-		if bed == "" || r.Bed == bed {
-			byBed[r.Bed] = append(byBed[r.Bed], r)
-		}
-	}
-	var beds []string
-	for b := range byBed {
-		beds = append(beds, b)
-	}
-	sort.Strings(beds)
-	var out []BedHistory
-	for _, b := range beds {
-		rs := byBed[b]
-		sort.SliceStable(rs, func(i, j int) bool { return rs[i].Time.Before(rs[j].Time) })
-		h := BedHistory{Bed: b, Total: len(rs)}
-		for i, r := range rs {
-			e := HistoryEntry{Record: r}
-			if i > 0 {
-				e.Changes = recordChanges(rs[i-1], r)
-			}
-			h.Entries = append(h.Entries, e)
-		}
-		out = append(out, h)
-	}
-	return out
 }
 
 func recordChanges(a, b Record) []string {

@@ -84,11 +84,15 @@ func MakePlan(req Request, p profiles.Profile) (Plan, error) {
 		return Plan{}, err
 	}
 	u.gas = withRoom(u.gas, room, req.v1Gas)
+	targetML, err := physiology.TidalVolumeML(r.mlPerKg.Value, pbw)
+	if err != nil {
+		return Plan{}, inputErr("ml-per-kg", err)
+	}
 	pl := Plan{Gas: u.gas,
 		Patient: req.Patient, ProfileID: p.ID, ProfileLabel: p.Label, Calibration: u.cal,
 		Lung: r.lung, MLPerKg: r.mlPerKg, Rate: r.rate, IE: r.ie, PEEP: r.peep, FiO2: r.fio2,
 		Compliance: r.compliance, Resistance: r.resistance, PEEPTable: r.table,
-		PBWKg: pbw, TargetVtML: r.mlPerKg.Value * pbw,
+		PBWKg: pbw, TargetVtML: targetML,
 	}
 	ls := lungState{
 		lung:  machine.Lung{ComplianceMLPerCmH2O: r.compliance.Value, ResistanceCmH2OPerLS: r.resistance.Value},

@@ -148,15 +148,6 @@ func sweptRange(p profiles.Profile) (minML, maxML float64) {
 	return minML, maxML
 }
 
-// BenchGains runs the breath model for each bench point (test lung, speed,
-// this circuit, from rest, PEEP 0, geometric piston; room air into a
-// room-temperature test lung, so F = 1, through the profile's cylinder,
-// leak and relief valve) and returns the points with the model's
-// delivered-per-swept gain.
-func BenchGains(p profiles.Profile, points []profiles.BenchPoint) ([]machine.BenchPoint, error) {
-	return benchGains(unit{p: p, gas: gasModelOf(p), sim: &machine.Simulator{}}, points)
-}
-
 func benchGains(u unit, points []profiles.BenchPoint) ([]machine.BenchPoint, error) {
 	p := u.p
 	out := make([]machine.BenchPoint, len(points))

@@ -16,7 +16,9 @@ func TestRefitFromABenchFileWithPreview(t *testing.T) {
 	unit := filepath.Join(dir, "unit.json")
 	p, _ := demoProfile(t, "demo-a")
 	p.ID, p.Label = "unit-1", "Unit 1"
-	require.NoError(t, profiles.Save(unit, p))
+	data, err := profiles.Marshal(p)
+	require.NoError(t, err)
+	require.NoError(t, os.WriteFile(unit, data, 0o600))
 	bench := filepath.Join(dir, "bench.csv")
 	require.NoError(t, os.WriteFile(bench, []byte(profiles.BenchHeader()+"\n5,50,5,20,318\n8,50,5,20,408\n12,50,5,20,528\n"), 0o644))
 

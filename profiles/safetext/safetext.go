@@ -88,7 +88,6 @@ func FirstUnsafe(s string) (r rune, byteOffset int, found bool) {
 // Safe text is returned unchanged.
 func Escape(s string) string { return escape(s, false) }
 
-
 func escape(s string, keepLayout bool) string {
 	clean := true
 	for i := 0; i < len(s); {
