@@ -34,7 +34,7 @@ type rowSpec struct {
 }
 
 var figureRows = []rowSpec{
-	{id: "delivered_vt_ml", label: "Tidal volume (BTPS)", unit: "mL", format: "%.0f", get: func(f FiguresJSON) float64 { return f.DeliveredVtML }},
+	{id: "delivered_vt_ml", label: "Tidal vol. BTPS", unit: "mL", format: "%.0f", get: func(f FiguresJSON) float64 { return f.DeliveredVtML }},
 	{id: "ml_per_kg", label: "  per kg PBW", unit: "mL/kg", format: "%.1f", get: func(f FiguresJSON) float64 { return f.MLPerKg }},
 	{id: "peak_pressure_cmh2o", label: "Peak", unit: "cmH2O", format: "%.1f", get: func(f FiguresJSON) float64 { return f.PeakPressureCmH2O }},
 	{id: "plateau_pressure_cmh2o", label: "Plateau", unit: "cmH2O", format: "%.1f", get: func(f FiguresJSON) float64 { return f.PlateauPressureCmH2O }},

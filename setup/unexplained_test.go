@@ -169,8 +169,8 @@ func TestUnexplainedRecordRoundTripCard(t *testing.T) {
 	i := strings.Index(card, "THE PATIENT GETS: NOT KNOWN")
 	j := strings.Index(card, "PROPOSED, with the ASSUMED lung (the readings could not be explained)")
 	require.True(t, i > 0 && j > i, "the statement, then the proposal on the assumed lung")
-	require.NotContains(t, card[:j], "Tidal volume", "no volume is shown for the current setting")
-	require.Equal(t, 1, strings.Count(card, "Tidal volume"), "only the proposal's")
+	require.NotContains(t, card[:j], "Tidal vol.", "no volume is shown for the current setting")
+	require.Equal(t, 1, strings.Count(card, "Tidal vol."), "only the proposal's")
 	for _, l := range lines {
 		require.LessOrEqual(t, len(l), setup.CardWidth, l)
 	}

@@ -184,6 +184,15 @@ func (p *handoverPanel) results() string {
 	switch {
 	case ck.Fitted != nil:
 		add(s.Label.Render("Fitted lung ") + s.Value.Render(lung))
+		if r := ck.Ranges; r != nil {
+			add(s.Label.Render(fmt.Sprintf("  readings +/- %g/2 cmH2O: ", r.StepCmH2O.Value)) + s.Value.Render(fmt.Sprintf(
+				"C %.0f-%.0f, R %.0f-%.0f, Vt %.0f-%.0f mL (%.1f-%.1f mL/kg)", r.ComplianceMLPerCmH2O[0], r.ComplianceMLPerCmH2O[1],
+				r.ResistanceCmH2OPerLS[0], r.ResistanceCmH2OPerLS[1], r.DeliveredML[0], r.DeliveredML[1], r.MLPerKg[0], r.MLPerKg[1])))
+			if n := r.Note(); n != "" {
+				add(s.Hint.Render("  " + n))
+			}
+		}
+		add(s.Hint.Render("  " + setup.PatientEffortNote))
 	case ck.Unexplained():
 		add(s.Label.Render("ASSUMED lung (readings unexplained) ") + s.Value.Render(lung))
 	default:
@@ -244,13 +253,18 @@ func (p *handoverPanel) figureTable(add func(string), j setup.CheckJSON) {
 	if j.Proposed != nil {
 		prop = &j.Proposed.FiguresJSON
 	}
-	head := fmt.Sprintf("%-15s %7s", "PATIENT GETS", "now")
+	rows := setup.FigureRows(j.FiguresJSON, prop)
+	lw := 15
+	for _, r := range rows {
+		lw = max(lw, len(r.Label))
+	}
+	head := fmt.Sprintf("%-*s %7s", lw, "PATIENT GETS", "now")
 	if prop != nil {
 		head += fmt.Sprintf(" %8s %6s", "proposed", "change")
 	}
 	add(s.Section.Render(head))
-	for _, r := range setup.FigureRows(j.FiguresJSON, prop) {
-		line := s.Label.Render(fmt.Sprintf("%-15s", r.Label)) + s.Value.Render(fmt.Sprintf(" %7s", r.Text))
+	for _, r := range rows {
+		line := s.Label.Render(fmt.Sprintf("%-*s", lw, r.Label)) + s.Value.Render(fmt.Sprintf(" %7s", r.Text))
 		if prop != nil {
 			line += s.Value.Render(fmt.Sprintf(" %8s", r.ProposedText)) + s.Unit.Render(fmt.Sprintf(" %6s", r.ChangeText))
 		}
