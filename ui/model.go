@@ -235,7 +235,7 @@ func (m *Model) handleKey(msg tea.KeyMsg) tea.Cmd {
 		return cmd
 	}
 	if isTyping(msg) && !m.panels[m.focus].Editing() {
-		m.note = "nothing to type into here (" + m.panels[m.focus].Title() + "): go to a panel with entries with F1, F2 or F6, or Tab"
+		m.note = "nothing to type into here (" + m.panels[m.focus].Title() + "): F1, F2 and F6 have entries"
 		return nil
 	}
 	_, cmd := m.panels[m.focus].Update(msg)

@@ -60,7 +60,7 @@ func (m *Model) wardKey(msg tea.KeyMsg) tea.Cmd {
 		m.ward = nil
 		return m.startFromRecord(r.Record)
 	case isTyping(msg):
-		m.note = "nothing to type into here: arrows choose a bed, Enter starts its next check, Esc closes"
+		m.note = "nothing to type into here: arrows choose a bed, Enter opens it, Esc closes"
 	}
 	return nil
 }
