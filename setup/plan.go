@@ -100,29 +100,9 @@ func MakePlan(req Request, p profiles.Profile) (Plan, error) {
 		pbwKg: pbw,
 	}
 
-	// The delivery angle, and so the speed for a wanted Ti, depends on the
-	// hole when the crank is offset; the hole depends a little on the speed.
-	// Settle both together: in-line cranks settle at once.
-	hole := p.Crank.Holes[len(p.Crank.Holes)/2]
-	var chosen int
-	prevAngle := math.NaN()
-	for pass := 0; pass < 4; pass++ {
-		angle := u.crank(hole).DeliveryAngle()
-		if angle == prevAngle {
-			break // same timing as the last pass, so the same holes
-		}
-		prevAngle = angle
-		pl.Timing, err = machine.PlanTiming(u.motor, u.controller, angle, r.rate.Value, r.ie.Value)
-		if err != nil {
-			return Plan{}, &InputError{Field: "rate", Reason: err.Error()}
-		}
-		if pl.Holes, chosen, err = scanHoles(u, pl.Holes[:0], pl.Timing.RPM, ls, pl.TargetVtML); err != nil {
-			return Plan{}, &InputError{Field: "profile " + p.ID, Reason: err.Error()}
-		}
-		if p.Crank.Holes[chosen].Label == hole.Label {
-			break
-		}
-		hole = p.Crank.Holes[chosen]
+	chosen, err := settleTimingAndHole(&pl, u, p, r, ls)
+	if err != nil {
+		return Plan{}, err
 	}
 	pl.Below, pl.Above = neighbours(pl.Holes, chosen)
 
@@ -147,6 +127,38 @@ func MakePlan(req Request, p profiles.Profile) (Plan, error) {
 		return Plan{}, err
 	}
 	return pl, nil
+}
+
+// settleTimingAndHole finds the timing and the hole together and returns
+// the chosen hole's index: the delivery angle, and so the speed for a
+// wanted Ti, depends on the hole when the crank is offset; the hole
+// depends a little on the speed.
+func settleTimingAndHole(pl *Plan, u unit, p profiles.Profile, r resolved, ls lungState) (int, error) {
+	// The delivery angle, and so the speed for a wanted Ti, depends on the
+	// hole when the crank is offset; the hole depends a little on the speed.
+	// Settle both together: in-line cranks settle at once.
+	hole := p.Crank.Holes[len(p.Crank.Holes)/2]
+	chosen, err := 0, error(nil)
+	prevAngle := math.NaN()
+	for pass := 0; pass < 4; pass++ {
+		angle := u.crank(hole).DeliveryAngle()
+		if angle == prevAngle {
+			break // same timing as the last pass, so the same holes
+		}
+		prevAngle = angle
+		pl.Timing, err = machine.PlanTiming(u.motor, u.controller, angle, r.rate.Value, r.ie.Value)
+		if err != nil {
+			return 0, &InputError{Field: "rate", Reason: err.Error()}
+		}
+		if pl.Holes, chosen, err = scanHoles(u, pl.Holes[:0], pl.Timing.RPM, ls, pl.TargetVtML); err != nil {
+			return 0, &InputError{Field: "profile " + p.ID, Reason: err.Error()}
+		}
+		if p.Crank.Holes[chosen].Label == hole.Label {
+			break
+		}
+		hole = p.Crank.Holes[chosen]
+	}
+	return chosen, nil
 }
 
 // ScanStepS is the time step at which MakePlan simulates every hole to

@@ -180,24 +180,7 @@ func (p *handoverPanel) results() string {
 	if st := setup.FirstStop(ck.Current.Cautions); st != nil {
 		add(s.levelWord(setup.Stop) + " " + s.Error.Render("DO NOT USE THIS SETTING AS IT IS: "+st.Message))
 	}
-	lung := fmt.Sprintf("C %.0f mL/cmH2O, R %.0f cmH2O/(L/s)", ck.Mechanics.Value, ck.Resistance.Value)
-	switch {
-	case ck.Fitted != nil:
-		add(s.Label.Render("Fitted lung ") + s.Value.Render(lung))
-		if r := ck.Ranges; r != nil {
-			add(s.Label.Render(fmt.Sprintf("  readings +/- %g/2 cmH2O: ", r.StepCmH2O.Value)) + s.Value.Render(fmt.Sprintf(
-				"C %.0f-%.0f, R %.0f-%.0f, Vt %.0f-%.0f mL (%.1f-%.1f mL/kg)", r.ComplianceMLPerCmH2O[0], r.ComplianceMLPerCmH2O[1],
-				r.ResistanceCmH2OPerLS[0], r.ResistanceCmH2OPerLS[1], r.DeliveredML[0], r.DeliveredML[1], r.MLPerKg[0], r.MLPerKg[1])))
-			if n := r.Note(); n != "" {
-				add(s.Hint.Render("  " + n))
-			}
-		}
-		add(s.Hint.Render("  " + setup.PatientEffortNote))
-	case ck.Unexplained():
-		add(s.Label.Render("ASSUMED lung (readings unexplained) ") + s.Value.Render(lung))
-	default:
-		add(s.Label.Render("Assumed lung ") + s.Value.Render(lung) + s.Hint.Render(" ("+ck.Mechanics.Source+")"))
-	}
+	p.lungLines(add, ck)
 	j := ck.JSON()
 	p.protocolLines(add, j)
 	p.settingTable(add, j)
@@ -221,6 +204,30 @@ func (p *handoverPanel) results() string {
 		add(s.Hint.Render(o.logNote))
 	}
 	return strings.Join(l, "\n")
+}
+
+// lungLines say which lung the figures are for: fitted (with what the
+// manometer's resolution allows), or assumed.
+func (p *handoverPanel) lungLines(add func(string), ck *setup.Check) {
+	s := p.styles
+	lung := fmt.Sprintf("C %.0f mL/cmH2O, R %.0f cmH2O/(L/s)", ck.Mechanics.Value, ck.Resistance.Value)
+	switch {
+	case ck.Fitted != nil:
+		add(s.Label.Render("Fitted lung ") + s.Value.Render(lung))
+		if r := ck.Ranges; r != nil {
+			add(s.Label.Render(fmt.Sprintf("  readings +/- %g/2 cmH2O: ", r.StepCmH2O.Value)) + s.Value.Render(fmt.Sprintf(
+				"C %.0f-%.0f, R %.0f-%.0f, Vt %.0f-%.0f mL (%.1f-%.1f mL/kg)", r.ComplianceMLPerCmH2O[0], r.ComplianceMLPerCmH2O[1],
+				r.ResistanceCmH2OPerLS[0], r.ResistanceCmH2OPerLS[1], r.DeliveredML[0], r.DeliveredML[1], r.MLPerKg[0], r.MLPerKg[1])))
+			if n := r.Note(); n != "" {
+				add(s.Hint.Render("  " + n))
+			}
+		}
+		add(s.Hint.Render("  " + setup.PatientEffortNote))
+	case ck.Unexplained():
+		add(s.Label.Render("ASSUMED lung (readings unexplained) ") + s.Value.Render(lung))
+	default:
+		add(s.Label.Render("Assumed lung ") + s.Value.Render(lung) + s.Hint.Render(" ("+ck.Mechanics.Source+")"))
+	}
 }
 
 func (p *handoverPanel) settingTable(add func(string), j setup.CheckJSON) {
