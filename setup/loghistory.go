@@ -41,6 +41,8 @@ type historyReader struct {
 	byBed  map[string][]histItem
 	total  map[string]int
 	sum    *LogSummary
+	// compact is reused to key each line (see lineKey).
+	compact bytes.Buffer
 }
 
 func (h *historyReader) visit(log string, logIdx int) func(int, []byte) {
@@ -56,7 +58,7 @@ func (h *historyReader) visit(log string, logIdx int) func(int, []byte) {
 		if h.bed != "" && rec.Bed != h.bed {
 			return
 		}
-		k := recordKey(rec)
+		k := lineKey(text, &h.compact)
 		if _, dup := h.keys[k]; dup {
 			h.sum.Duplicates++
 			return

@@ -145,15 +145,15 @@ func decodeRecord(text []byte) (rec Record, ok bool) {
 	return rec, true
 }
 
-// recordKey identifies a record by its canonical JSON (as this program
-// writes it), so a record copied into two logs, byte for byte or
-// re-encoded, is counted once.
-func recordKey(rec Record) [sha256.Size]byte {
-	b, err := json.Marshal(rec)
-	if err != nil { // a decoded record always encodes; keep it distinct if not
-		return sha256.Sum256([]byte(fmt.Sprint(rec)))
+// lineKey identifies a record by its line with the spaces between JSON
+// tokens taken out, so a record copied into two logs, byte for byte or
+// re-spaced, is counted once; buf is reused between lines.
+func lineKey(text []byte, buf *bytes.Buffer) [sha256.Size]byte {
+	buf.Reset()
+	if err := json.Compact(buf, text); err != nil {
+		return sha256.Sum256(text)
 	}
-	return sha256.Sum256(b)
+	return sha256.Sum256(buf.Bytes())
 }
 
 // sortByBed orders bed labels as a ward reads them: B2 before B10.

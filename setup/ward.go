@@ -304,11 +304,14 @@ func WardLine(r WardRow) string {
 	if r.HighestLevel != 0 {
 		level = LevelWord(r.HighestLevel)
 	}
-	age := fmt.Sprintf("%.0f min", r.AgeMinutes)
-	if r.AgeMinutes >= 120 {
-		age = fmt.Sprintf("%.1f h", r.AgeMinutes/60)
+	age := fmt.Sprintf("%.0f min ago", r.AgeMinutes)
+	switch {
+	case r.AgeMinutes < 0:
+		age = "IN THE FUTURE: check this terminal's clock"
+	case r.AgeMinutes >= 120:
+		age = fmt.Sprintf("%.1f h ago", r.AgeMinutes/60)
 	}
-	line := fmt.Sprintf("%-8s %s UTC (%s ago)  %s hole %s, %.1f rpm, dwell %.1f s, PEEP %.0f", r.Bed,
+	line := fmt.Sprintf("%-8s %s UTC (%s)  %s hole %s, %.1f rpm, dwell %.1f s, PEEP %.0f", r.Bed,
 		r.CheckedAt.UTC().Format("01-02 15:04"), age, r.ProfileID, r.Hole, r.MotorRPM, r.DwellS, r.PEEPCmH2O)
 	if r.Record.Unexplained() {
 		line += ": readings unexplained"

@@ -109,7 +109,7 @@ func (w *wardView) view(width int) string {
 	if len(w.rows) == 0 && w.err == nil {
 		l = append(l, "No checks recorded yet.")
 	}
-	l = append(l, s.Label.Render(fmt.Sprintf("%d bed%s, most urgent first; OVERDUE after %s (%s)", len(w.rows), plural(len(w.rows)), setup.DefaultCheckEvery, setup.CheckEverySource)))
+	l = append(l, s.Label.Render(fmt.Sprintf("%d bed%s, most urgent first; OVERDUE after %g h (%s)", len(w.rows), plural(len(w.rows)), setup.DefaultCheckEvery.Hours(), setup.CheckEverySource)))
 	for i, r := range w.rows {
 		mark := "  "
 		st := s.Value

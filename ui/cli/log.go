@@ -169,7 +169,7 @@ func runLogBeds(env Env, args []string) int {
 
 func writeBeds(w io.Writer, rows []setup.WardRow, every time.Duration, manyLogs bool) error {
 	var b strings.Builder
-	fmt.Fprintf(&b, "%d bed(s), most urgent first; OVERDUE after %s (%s)\n", len(rows), every, setup.CheckEverySource)
+	fmt.Fprintf(&b, "%d bed(s), most urgent first; OVERDUE after %g h (%s)\n", len(rows), every.Hours(), setup.CheckEverySource)
 	for _, r := range rows {
 		b.WriteString(setup.WardLine(r))
 		if manyLogs {
