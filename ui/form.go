@@ -163,6 +163,9 @@ func (f *form) view() string {
 			after = s.Error.Render("! " + fl.err)
 		case fl.note != "" && f.focused && i == f.cursor:
 			after = s.Error.Render(fl.note)
+		case fl.selected && f.focused && i == f.cursor:
+			// Said in words too: reverse video is not drawn without colour.
+			after = s.Hint.Render("typing replaces " + fl.Value() + "; an arrow edits it")
 		case fl.echo() != "":
 			after = s.Value.Render(fl.echo())
 		case fl.from != "":
