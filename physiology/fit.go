@@ -24,7 +24,12 @@ type ReadingError struct {
 	Reason string
 }
 
-func (e *ReadingError) Error() string { return e.Reason + "; re-take the " + e.Retake }
+func (e *ReadingError) Error() string {
+	if e.Retake == "both readings" {
+		return e.Reason + "; re-take both readings"
+	}
+	return e.Reason + "; re-take the " + e.Retake
+}
 
 // ErrNoMechanics is matched by errors.Is for every *ReadingError.
 var ErrNoMechanics = errors.New("physiology: no lung mechanics reproduce the readings")

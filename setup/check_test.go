@@ -108,12 +108,12 @@ func TestReadingsWithNoSolution(t *testing.T) {
 		peak, end float64
 		retake    string
 	}{
-		{"end at PEEP", 15, 5, "end pressure"},
-		{"end below PEEP", 15, 3, "end pressure"},
+		{"end at PEEP", 15, 5, "the end pressure"},
+		{"end below PEEP", 15, 3, "the end pressure"},
 		{"peak below end", 10, 12, "both readings"},
 		// A peak of 95 is above demo-a's relief valve at 40: the version 2
 		// breath never goes above it, so no lung gives that peak.
-		{"absurdly stiff", 95, 90, "peak"},
+		{"absurdly stiff", 95, 90, "the peak"},
 		{"NaN", math.NaN(), 12, "both readings"},
 	}
 	for _, c := range cases {
@@ -123,7 +123,7 @@ func TestReadingsWithNoSolution(t *testing.T) {
 			ck, err := setup.RunCheck(req, profile(t, "demo-a"))
 			require.NoError(t, err, "the check still shows what it can")
 			require.Nil(t, ck.Fitted)
-			require.Contains(t, ck.FitProblem, "re-take the "+c.retake)
+			require.Contains(t, ck.FitProblem, "re-take "+c.retake)
 			require.Equal(t, 60.0, ck.Mechanics.Value, "falls back to the assumed lung")
 			require.NotZero(t, ck.Current.Figures.Hole.DeliveredML)
 		})
