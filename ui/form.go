@@ -164,7 +164,7 @@ func (f *form) view() string {
 		case fl.note != "" && f.focused && i == f.cursor:
 			after = s.Error.Render(fl.note)
 		case fl.selected && f.focused && i == f.cursor:
-			// Said in words too: reverse video is not drawn without colour.
+			// Said in words too: a reversed highlight is not drawn without colour.
 			after = s.Hint.Render("typing replaces " + fl.Value() + "; an arrow edits it")
 		case fl.echo() != "":
 			after = s.Value.Render(fl.echo())
