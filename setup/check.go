@@ -137,6 +137,10 @@ type Difference struct {
 	Current  float64 `json:"current"`
 	Proposed float64 `json:"proposed"`
 	Change   float64 `json:"change"`
+	// machineOnly marks a figure the machine's timing and valves set
+	// whatever the lung (rate, Ti, Te, I:E, PEEP): it stays known when no
+	// lung explains the readings.
+	machineOnly bool
 }
 
 // RunCheck evaluates an observed setting. A setting the machine cannot run
@@ -301,20 +305,25 @@ func differences(a, b Figures) []Difference {
 	row := func(what, unit string, x, y float64) Difference {
 		return Difference{What: what, Unit: unit, Current: x, Proposed: y, Change: y - x}
 	}
+	fixed := func(what, unit string, x, y float64) Difference {
+		d := row(what, unit, x, y)
+		d.machineOnly = true
+		return d
+	}
 	return []Difference{
 		row("tidal volume", "mL", a.Hole.DeliveredML, b.Hole.DeliveredML),
 		row("tidal volume", "mL/kg PBW", a.Hole.MLPerKg, b.Hole.MLPerKg),
-		row("rate", "/min", a.Timing.RateBPM, b.Timing.RateBPM),
-		row("Ti", "s", a.Timing.TiS, b.Timing.TiS),
-		row("Te", "s", a.Timing.TeS, b.Timing.TeS),
-		row("I:E (E of 1:E)", "", a.Timing.IE, b.Timing.IE),
+		fixed("rate", "/min", a.Timing.RateBPM, b.Timing.RateBPM),
+		fixed("Ti", "s", a.Timing.TiS, b.Timing.TiS),
+		fixed("Te", "s", a.Timing.TeS, b.Timing.TeS),
+		fixed("I:E (E of 1:E)", "", a.Timing.IE, b.Timing.IE),
 		row("minute ventilation", "L/min", a.MinuteVentLPerMin, b.MinuteVentLPerMin),
 		row("peak flow", "L/min", a.PeakFlowLPerMin, b.PeakFlowLPerMin),
 		row("peak pressure", "cmH2O", a.PeakCmH2O, b.PeakCmH2O),
 		row("end-inspiratory pressure", "cmH2O", a.EndInspCmH2O, b.EndInspCmH2O),
 		row("plateau pressure", "cmH2O", a.PlateauCmH2O, b.PlateauCmH2O),
 		row("driving pressure", "cmH2O", a.DrivingCmH2O, b.DrivingCmH2O),
-		row("PEEP", "cmH2O", a.PEEPCmH2O, b.PEEPCmH2O),
+		fixed("PEEP", "cmH2O", a.PEEPCmH2O, b.PEEPCmH2O),
 		row("intrinsic PEEP", "cmH2O", a.IntrinsicPEEPCmH2O, b.IntrinsicPEEPCmH2O),
 		row("FiO2", "", a.FiO2, b.FiO2),
 		row("peak torque", "N m", a.PeakTorqueNm, b.PeakTorqueNm),

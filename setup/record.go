@@ -152,12 +152,9 @@ type DifferenceJSON struct {
 	Change   *float64 `json:"change"`
 }
 
-// lungFree are the differences that the machine's timing alone sets.
-var lungFree = map[string]bool{"rate": true, "Ti": true, "Te": true, "I:E (E of 1:E)": true, "PEEP": true}
-
 func differenceJSON(d Difference, unexplained bool) DifferenceJSON {
 	j := DifferenceJSON{What: d.What, Unit: d.Unit, Proposed: r4(d.Proposed)}
-	if !unexplained || lungFree[d.What] {
+	if !unexplained || d.machineOnly {
 		c, ch := r4(d.Current), r4(d.Change)
 		j.Current, j.Change = &c, &ch
 	}
