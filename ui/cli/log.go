@@ -64,16 +64,30 @@ func summarise(env Env, cmd string, sum setup.LogSummary) bool {
 	return sum.Damaged > 0
 }
 
-func runLogShow(env Env, args []string) int {
-	f := newFlags("log show", logLong)
-	logs := f.repeated("log", "a log file or a folder of logs (may be repeated)")
-	bed := f.text("bed", "", "only this bed")
-	asJSON := f.boolean("json", "print JSON")
-	if status, done := f.parse(env, args, "log show", false); done {
-		return status
+// logFlags are the flags both log sub-commands take: the logs, and JSON.
+func logFlags(cmd string) (f *flags, logs *[]string, asJSON func() bool) {
+	f = newFlags(cmd, logLong)
+	logs = f.repeated("log", "a log file or a folder of logs (may be repeated)")
+	asJSON = f.boolean("json", "print JSON")
+	return f, logs, asJSON
+}
+
+// parseLogFlags parses them and refuses a command with no log.
+func parseLogFlags(env Env, f *flags, logs *[]string, args []string, cmd string) (status int, done bool) {
+	if status, done := f.parse(env, args, cmd, false); done {
+		return status, true
 	}
 	if len(*logs) == 0 {
-		return UsageError(env.Stderr, "log show", "--log FILE is required")
+		return UsageError(env.Stderr, cmd, "--log FILE is required"), true
+	}
+	return ExitOK, false
+}
+
+func runLogShow(env Env, args []string) int {
+	f, logs, asJSON := logFlags("log show")
+	bed := f.text("bed", "", "only this bed")
+	if status, done := parseLogFlags(env, f, logs, args, "log show"); done {
+		return status
 	}
 	hist, sum, err := setup.ReadHistories(*logs, bed(), 0)
 	if err != nil {
@@ -133,15 +147,10 @@ func writeHistory(w io.Writer, hist []setup.BedHistory, manyLogs bool) error {
 }
 
 func runLogBeds(env Env, args []string) int {
-	f := newFlags("log beds", logLong)
-	logs := f.repeated("log", "a log file or a folder of logs (may be repeated)")
+	f, logs, asJSON := logFlags("log beds")
 	every := f.text("every", "", "hours between checks before a bed is OVERDUE (default 4, common practice)")
-	asJSON := f.boolean("json", "print a JSON list")
-	if status, done := f.parse(env, args, "log beds", false); done {
+	if status, done := parseLogFlags(env, f, logs, args, "log beds"); done {
 		return status
-	}
-	if len(*logs) == 0 {
-		return UsageError(env.Stderr, "log beds", "--log FILE is required")
 	}
 	interval, ie := setup.CheckInterval(every())
 	if ie != nil {
