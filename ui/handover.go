@@ -181,7 +181,7 @@ func (p *handoverPanel) results() string {
 		add(s.levelWord(setup.Stop) + " " + s.Error.Render("DO NOT USE THIS SETTING AS IT IS: "+st.Message))
 	}
 	p.lungLines(add, ck)
-	j := ck.JSON()
+	j := o.checkJSON
 	p.protocolLines(add, j)
 	p.settingTable(add, j)
 	if ck.Unexplained() {

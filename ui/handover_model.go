@@ -68,7 +68,7 @@ func (m *Model) recomputeCheck(plan setup.Entries, planProblems setup.Problems) 
 	case err != nil:
 		wait(err.Error())
 	default:
-		m.out.check = &ck
+		m.out.check, m.out.checkJSON = &ck, ck.JSON()
 	}
 }
 

@@ -474,7 +474,7 @@ func (m *Model) View() string {
 	case m.overlay != nil:
 		body = m.box(m.overlay.title, m.overlay.text, bodyH, true, m.overlay.offset)
 	case m.ward != nil:
-		body = m.box("Ward: every bed's last check", m.ward.view(m.w-4), bodyH, true, max(m.ward.cursor-(bodyH-6), 0))
+		body = m.box("Ward: every bed's last check", m.ward.view(), bodyH, true, max(m.ward.cursor-(bodyH-6), 0))
 	default:
 		top, bottom := m.split(bodyH)
 		p := m.panels[m.focus]

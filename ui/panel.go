@@ -25,6 +25,7 @@ type outcome struct {
 
 	// The handover check of what the machine is set to; nil while waiting.
 	check        *setup.Check
+	checkJSON    setup.CheckJSON // check's report body, built once per recompute
 	checkWaiting []string
 	checkLung    string // the lung condition the check's assumed mechanics are for
 	// started says which record the check was started from, and

@@ -97,7 +97,7 @@ type recordStart struct {
 	label   string
 }
 
-func (w *wardView) view(width int) string {
+func (w *wardView) view() string {
 	s := w.styles
 	if w.loading {
 		return s.Hint.Render("reading the log ...")
@@ -121,6 +121,5 @@ func (w *wardView) view(width int) string {
 	for _, p := range w.summary.Lines() {
 		l = append(l, s.Error.Render("! "+safetext.Escape(p)))
 	}
-	_ = width
 	return strings.Join(l, "\n")
 }
