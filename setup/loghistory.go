@@ -41,8 +41,8 @@ type historyReader struct {
 	byBed  map[string][]histItem
 	total  map[string]int
 	sum    *LogSummary
-	// compact is reused to key each line (see lineKey).
-	compact bytes.Buffer
+	// canon is reused to key each record (see recordKey).
+	canon bytes.Buffer
 }
 
 func (h *historyReader) visit(log string, logIdx int) func(int, []byte) {
@@ -58,7 +58,7 @@ func (h *historyReader) visit(log string, logIdx int) func(int, []byte) {
 		if h.bed != "" && rec.Bed != h.bed {
 			return
 		}
-		k := lineKey(text, &h.compact)
+		k := recordKey(&rec, text, &h.canon)
 		if _, dup := h.keys[k]; dup {
 			h.sum.Duplicates++
 			return

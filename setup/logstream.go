@@ -145,12 +145,15 @@ func decodeRecord(text []byte) (rec Record, ok bool) {
 	return rec, true
 }
 
-// lineKey identifies a record by its line with the spaces between JSON
-// tokens taken out, so a record copied into two logs, byte for byte or
-// re-spaced, is counted once; buf is reused between lines.
-func lineKey(text []byte, buf *bytes.Buffer) [sha256.Size]byte {
+// recordKey identifies a record by its canonical JSON: the decoded record
+// encoded again. A record copied into two logs, byte for byte, re-spaced,
+// with its keys in another order, escaped otherwise or carrying fields
+// this program does not read, is then counted once, as what is shown of
+// it is the same. buf is reused between lines; text is the line, the
+// key should the record not encode again (it then stands for itself).
+func recordKey(rec *Record, text []byte, buf *bytes.Buffer) [sha256.Size]byte {
 	buf.Reset()
-	if err := json.Compact(buf, text); err != nil {
+	if err := json.NewEncoder(buf).Encode(rec); err != nil {
 		return sha256.Sum256(text)
 	}
 	return sha256.Sum256(buf.Bytes())
