@@ -41,8 +41,6 @@ type historyReader struct {
 	byBed  map[string][]histItem
 	total  map[string]int
 	sum    *LogSummary
-	// canon is reused to key each record (see recordKey).
-	canon bytes.Buffer
 }
 
 func (h *historyReader) visit(log string, logIdx int) func(int, []byte) {
@@ -58,7 +56,7 @@ func (h *historyReader) visit(log string, logIdx int) func(int, []byte) {
 		if h.bed != "" && rec.Bed != h.bed {
 			return
 		}
-		k := recordKey(&rec, text, &h.canon)
+		k := recordKey(&rec, text)
 		if _, dup := h.keys[k]; dup {
 			h.sum.Duplicates++
 			return

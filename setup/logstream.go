@@ -149,14 +149,16 @@ func decodeRecord(text []byte) (rec Record, ok bool) {
 // encoded again. A record copied into two logs, byte for byte, re-spaced,
 // with its keys in another order, escaped otherwise or carrying fields
 // this program does not read, is then counted once, as what is shown of
-// it is the same. buf is reused between lines; text is the line, the
-// key should the record not encode again (it then stands for itself).
-func recordKey(rec *Record, text []byte, buf *bytes.Buffer) [sha256.Size]byte {
-	buf.Reset()
-	if err := json.NewEncoder(buf).Encode(rec); err != nil {
+// it is the same. Record.MarshalJSON is called itself: its output is
+// already compact, and json.Marshal would only compact it again. text is
+// the line, the key should the record not encode (it then stands for
+// itself).
+func recordKey(rec *Record, text []byte) [sha256.Size]byte {
+	b, err := rec.MarshalJSON()
+	if err != nil {
 		return sha256.Sum256(text)
 	}
-	return sha256.Sum256(buf.Bytes())
+	return sha256.Sum256(b)
 }
 
 // sortByBed orders bed labels as a ward reads them: B2 before B10.
