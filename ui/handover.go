@@ -180,9 +180,13 @@ func (p *handoverPanel) results() string {
 	if st := setup.FirstStop(ck.Current.Cautions); st != nil {
 		add(s.levelWord(setup.Stop) + " " + s.Error.Render("DO NOT USE THIS SETTING AS IT IS: "+st.Message))
 	}
-	p.lungLines(add, ck)
+	// Then, in this order so that at 80x24 the comparison is in view
+	// under the alarms: the lung in one line, the protocol's offer, the
+	// setting and what the patient gets now and proposed, the cautions,
+	// and only then why the step, how sure the fit is, and the log.
+	p.lungLine(add, ck)
 	j := o.checkJSON
-	p.protocolLines(add, j)
+	p.protocolOffer(add, j)
 	p.settingTable(add, j)
 	if ck.Unexplained() {
 		add(s.Error.Render("THE PATIENT GETS: NOT KNOWN (the readings cannot be explained)"))
@@ -200,34 +204,45 @@ func (p *handoverPanel) results() string {
 	if ck.Proposed != nil {
 		p.cautionLines(add, "Proposed", ck.Proposed.Cautions)
 	}
+	p.protocolWhy(add, j)
+	p.fitLines(add, ck)
 	if o.saveNote == "" {
 		add(s.Hint.Render(o.logNote))
 	}
 	return strings.Join(l, "\n")
 }
 
-// lungLines say which lung the figures are for: fitted (with what the
-// manometer's resolution allows), or assumed.
-func (p *handoverPanel) lungLines(add func(string), ck *setup.Check) {
+// lungLine says which lung the figures are for: fitted, or assumed.
+func (p *handoverPanel) lungLine(add func(string), ck *setup.Check) {
 	s := p.styles
 	lung := fmt.Sprintf("C %.0f mL/cmH2O, R %.0f cmH2O/(L/s)", ck.Mechanics.Value, ck.Resistance.Value)
 	switch {
 	case ck.Fitted != nil:
 		add(s.Label.Render("Fitted lung ") + s.Value.Render(lung))
-		if r := ck.Ranges; r != nil {
-			add(s.Label.Render(fmt.Sprintf("  readings +/- %g/2 cmH2O: ", r.StepCmH2O.Value)) + s.Value.Render(fmt.Sprintf(
-				"C %.0f-%.0f, R %.0f-%.0f, Vt %.0f-%.0f mL (%.1f-%.1f mL/kg)", r.ComplianceMLPerCmH2O[0], r.ComplianceMLPerCmH2O[1],
-				r.ResistanceCmH2OPerLS[0], r.ResistanceCmH2OPerLS[1], r.DeliveredML[0], r.DeliveredML[1], r.MLPerKg[0], r.MLPerKg[1])))
-			if n := r.Note(); n != "" {
-				add(s.Hint.Render("  " + n))
-			}
-		}
-		add(s.Hint.Render("  " + setup.PatientEffortNote))
 	case ck.Unexplained():
 		add(s.Label.Render("ASSUMED lung (readings unexplained) ") + s.Value.Render(lung))
 	default:
 		add(s.Label.Render("Assumed lung ") + s.Value.Render(lung) + s.Hint.Render(" ("+ck.Mechanics.Source+")"))
 	}
+}
+
+// fitLines say how sure a fitted lung is: what the manometer's resolution
+// allows of it, and what a patient's own effort does to the readings.
+func (p *handoverPanel) fitLines(add func(string), ck *setup.Check) {
+	s := p.styles
+	if ck.Fitted == nil {
+		return
+	}
+	add(s.Section.Render("HOW SURE THE FITTED LUNG IS"))
+	if r := ck.Ranges; r != nil {
+		add(s.Label.Render(fmt.Sprintf("readings +/- %g/2 cmH2O: ", r.StepCmH2O.Value)) + s.Value.Render(fmt.Sprintf(
+			"C %.0f-%.0f, R %.0f-%.0f, Vt %.0f-%.0f mL (%.1f-%.1f mL/kg)", r.ComplianceMLPerCmH2O[0], r.ComplianceMLPerCmH2O[1],
+			r.ResistanceCmH2OPerLS[0], r.ResistanceCmH2OPerLS[1], r.DeliveredML[0], r.DeliveredML[1], r.MLPerKg[0], r.MLPerKg[1])))
+		if n := r.Note(); n != "" {
+			add(s.Hint.Render(n))
+		}
+	}
+	add(s.Hint.Render(setup.PatientEffortNote))
 }
 
 func (p *handoverPanel) settingTable(add func(string), j setup.CheckJSON) {

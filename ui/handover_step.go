@@ -28,11 +28,12 @@ func (p *handoverPanel) SetOutcome(o *outcome) {
 	p.keys.Take.SetEnabled(ok)
 }
 
-// protocolLines are the readings' step: first the setting it proposes and
-// how to take it, then every rule with its reading, goal and action (and
-// the source of those that fired), what the machine's steps changed, and
-// where the proposal evaluated below came from.
-func (p *handoverPanel) protocolLines(add func(string), j setup.CheckJSON) {
+// protocolOffer is the readings' step above the comparison: the setting
+// it proposes and how to take it, what the machine's steps changed, and
+// where the proposal evaluated below came from. Why the step is what it
+// is comes after the comparison (protocolWhy), so that on a small screen
+// the offer and the figures it leads to are in view together.
+func (p *handoverPanel) protocolOffer(add func(string), j setup.CheckJSON) {
 	s := p.styles
 	if j.GasReadings == nil {
 		return
@@ -65,6 +66,22 @@ func (p *handoverPanel) protocolLines(add func(string), j setup.CheckJSON) {
 		}
 		add(s.Section.Render("Protocol step: ") + s.Value.Render(text) + s.FieldFocused.Render(take))
 	}
+	for _, c := range setup.StepChangeLines(j) {
+		add(s.Label.Render(" machine: ") + s.Value.Render(c))
+	}
+	if l := setup.ProposalFromLine(j); l != "" {
+		add(s.Hint.Render(l))
+	}
+}
+
+// protocolWhy is every rule of the step with its reading, goal and action
+// (and the source of those that fired), and the protocol's notes.
+func (p *handoverPanel) protocolWhy(add func(string), j setup.CheckJSON) {
+	s := p.styles
+	if j.GasReadings == nil || j.ProtocolProblem != "" || j.ProtocolStep == nil {
+		return
+	}
+	add(s.Section.Render("WHY THIS PROTOCOL STEP"))
 	// The rules that fired in full; the others one line each, as the
 	// screen beside the form is narrow (the card has them all in full).
 	for _, r := range setup.ProtocolRuleRows(j) {
@@ -76,14 +93,8 @@ func (p *handoverPanel) protocolLines(add func(string), j setup.CheckJSON) {
 		// "IN GOAL plateau: Vt stays 6.5", not "IN GOAL plateau: in goal: ...".
 		add(" " + s.Label.Render(r.Word) + " " + s.Hint.Render(r.ID+": "+strings.TrimPrefix(r.Action, "in goal: ")))
 	}
-	for _, c := range setup.StepChangeLines(j) {
-		add(s.Label.Render(" machine: ") + s.Value.Render(c))
-	}
 	for _, n := range j.ProtocolNotes {
 		add(s.Label.Render(" note: ") + s.Hint.Render(n))
-	}
-	if l := setup.ProposalFromLine(j); l != "" {
-		add(s.Hint.Render(l))
 	}
 }
 
