@@ -116,6 +116,10 @@ func (p *handoverPanel) View() string {
 		// The form beside the results is compact: a refused key's
 		// reason goes here, where it can be read.
 		head += "\n" + s.Error.Render("! "+f.note)
+	} else if p.form.focused && f.isText() && f.selected {
+		// Said in words, as the full-width forms say it beside the field:
+		// without colour the highlight of a selected value is not drawn.
+		head += "\n" + s.Hint.Render(f.label+": typing replaces "+f.Value()+"; an arrow edits it")
 	} else if g := setup.GasGoalLine(f.name); p.form.focused && g != "" {
 		// A gas reading's goal, and the rule it serves, beside the form.
 		head += "\n" + s.Hint.Render(g)

@@ -284,3 +284,16 @@ func formIndex(panel int) int {
 	}
 	return 0
 }
+
+// The handover form beside the results is compact: a selected value is
+// said in words above it, since without colour (this test's profile,
+// as under NO_COLOR) the highlight is not drawn.
+func TestCompactFormSaysASelectedValueInWords(t *testing.T) {
+	m, _ := handoverModel(t)
+	press(m, runes("B4"), enter, runes("ab"), enter, tea.KeyMsg{Type: tea.KeyUp})
+	require.True(t, m.checkField("initials").selected)
+	require.Contains(t, screen(m), "Initials: typing replaces ab; an arrow edits it")
+	press(m, runes("cd"))
+	require.Equal(t, "cd", m.checkField("initials").Value(), "the first key replaced it")
+	require.NotContains(t, screen(m), "typing replaces")
+}
