@@ -48,28 +48,34 @@ func (h *historyReader) visit(log string, logIdx int) func(int, []byte) {
 		if h.needle != nil && !mayHoldLabel(text, h.needle) {
 			return
 		}
-		rec, ok := decodeRecord(text)
-		if !ok {
-			h.sum.damaged(log, n, reasonJunk)
-			return
-		}
-		if h.bed != "" && rec.Bed != h.bed {
-			return
-		}
-		k := recordKey(&rec, text)
-		if _, dup := h.keys[k]; dup {
-			h.sum.Duplicates++
-			return
-		}
-		h.keys[k] = struct{}{}
-		h.sum.Records++
-		h.total[rec.Bed]++
-		items := append(h.byBed[rec.Bed], histItem{rec: rec, log: log, logIdx: logIdx, line: n})
-		if h.keep > 0 && len(items) > 2*h.keep+16 {
-			items = newest(items, h.keep)
-		}
-		h.byBed[rec.Bed] = items
+		h.take(log, logIdx, decodeLine(n, text, h.bed))
 	}
+}
+
+// take keeps one decoded line: a damaged line is counted, a record of
+// another bed than the one asked for is passed over, a copy is counted
+// once.
+func (h *historyReader) take(log string, logIdx int, d decodedLine) {
+	if !d.ok {
+		h.sum.damaged(log, d.n, reasonJunk)
+		return
+	}
+	rec := d.rec
+	if h.bed != "" && rec.Bed != h.bed {
+		return
+	}
+	if _, dup := h.keys[d.key]; dup {
+		h.sum.Duplicates++
+		return
+	}
+	h.keys[d.key] = struct{}{}
+	h.sum.Records++
+	h.total[rec.Bed]++
+	items := append(h.byBed[rec.Bed], histItem{rec: rec, log: log, logIdx: logIdx, line: d.n})
+	if h.keep > 0 && len(items) > 2*h.keep+16 {
+		items = newest(items, h.keep)
+	}
+	h.byBed[rec.Bed] = items
 }
 
 // newest sorts items by time and returns (a copy of) the newest keep.
@@ -135,7 +141,8 @@ func hexByte(hi, lo byte) int {
 // A log that cannot be opened as the user's own regular file (see
 // CheckLogPath) stops the read with an error; damaged lines do not, and
 // are counted in the summary. Memory grows with the entries kept, not
-// with the size of the logs.
+// with the size of the logs. The lines are decoded on every core, with
+// the same result as on one (see readFiles).
 func ReadHistories(paths []string, bed string, limit int) ([]BedHistory, LogSummary, error) {
 	var sum LogSummary
 	files, err := ExpandLogPaths(paths)
@@ -143,10 +150,8 @@ func ReadHistories(paths []string, bed string, limit int) ([]BedHistory, LogSumm
 		return nil, sum, err
 	}
 	h := newHistoryReader(bed, limit, &sum)
-	for i, path := range files {
-		if err := readOneLog(path, &sum, h.visit(path, i)); err != nil {
-			return nil, sum, err
-		}
+	if err := h.readFiles(files); err != nil {
+		return nil, sum, err
 	}
 	return h.histories(limit), sum, nil
 }

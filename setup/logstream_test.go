@@ -5,6 +5,7 @@ import (
 	"math/rand"
 	"os"
 	"path/filepath"
+	"runtime"
 	"strings"
 	"testing"
 	"time"
@@ -154,4 +155,46 @@ func writeJunkLog(tb testing.TB, path string, size int) int {
 	}
 	require.Equal(tb, 3, good)
 	return damaged
+}
+
+// The history reader decodes on every core; what it returns, counts and
+// reports must not depend on how many there are. Checked on messy logs
+// (damaged, torn and over-long lines, copies across two logs) against
+// a read on one core, for all beds and for one.
+func TestHistoryReadIsTheSameOnOneCoreAndOnMany(t *testing.T) {
+	dir := t.TempDir()
+	var paths []string
+	for seed := int64(1); seed <= 3; seed++ {
+		path := filepath.Join(dir, fmt.Sprintf("messy%d.jsonl", seed))
+		messyLog(t, path, 700, 7, seed)
+		paths = append(paths, path)
+	}
+	// A copy of the first log as a fourth terminal's: every record in it
+	// is a duplicate, every damaged line counted again.
+	data, err := os.ReadFile(paths[0])
+	require.NoError(t, err)
+	copyPath := filepath.Join(dir, "copy.jsonl")
+	require.NoError(t, os.WriteFile(copyPath, data, 0o600))
+	paths = append(paths, copyPath)
+
+	read := func(procs int, bed string, limit int) ([]setup.BedHistory, setup.LogSummary) {
+		defer runtime.GOMAXPROCS(runtime.GOMAXPROCS(procs))
+		hs, sum, err := setup.ReadHistories(paths, bed, limit)
+		require.NoError(t, err)
+		return hs, sum
+	}
+	for _, c := range []struct {
+		bed   string
+		limit int
+	}{{"", 0}, {"", 1}, {"B3", 0}, {"B3", 5}} {
+		oneHs, oneSum := read(1, c.bed, c.limit)
+		require.NotEmpty(t, oneHs)
+		require.Positive(t, oneSum.Damaged)
+		require.Positive(t, oneSum.Duplicates)
+		for _, procs := range []int{2, 4} {
+			hs, sum := read(procs, c.bed, c.limit)
+			require.Equal(t, oneHs, hs, "bed %q limit %d on %d cores", c.bed, c.limit, procs)
+			require.Equal(t, oneSum, sum, "bed %q limit %d on %d cores", c.bed, c.limit, procs)
+		}
+	}
 }
