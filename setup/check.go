@@ -159,6 +159,9 @@ func RunCheck(req CheckRequest, p profiles.Profile) (Check, error) {
 	if !req.Gas.Empty() {
 		return runCheckWithStep(req, p)
 	}
+	if req.Gas.ApparatusDeadSpaceML != nil {
+		return runCheckDeadSpaceOnly(req, p)
+	}
 	now := orNow(req.Now)
 	pbw, err := pbwOf(req.Patient)
 	if err != nil {

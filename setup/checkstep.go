@@ -1,6 +1,7 @@
 package setup
 
 import (
+	"fmt"
 	"math"
 	"strconv"
 
@@ -36,6 +37,24 @@ func (g GasReadings) Empty() bool { return g.physiology().Empty() }
 // protocol step: the plateau rule would act on an assumed plateau while
 // the manometer says something else is going on.
 const unexplainedNoStep = "no protocol step while the manometer readings cannot be explained: the plateau rule would rest on an assumed lung; check the patient and the circuit and re-take the readings, then the step is computed"
+
+// runCheckDeadSpaceOnly is RunCheck for a request whose only gas entry is
+// the apparatus dead space: there is no step, and the check says that the
+// entry was not used rather than dropping it without a word.
+func runCheckDeadSpaceOnly(req CheckRequest, p profiles.Profile) (Check, error) {
+	if bad := CheckGasEntries(req.Gas); len(bad) > 0 {
+		return Check{}, bad[0]
+	}
+	gas := req.Gas
+	req.Gas = GasReadings{}
+	ck, err := RunCheck(req, p)
+	if err != nil {
+		return Check{}, err
+	}
+	ck.BloodGas = &gas
+	ck.ProtocolProblem = fmt.Sprintf("no blood gas or oximeter reading: the apparatus dead space entered (%g mL) is used only by the pH rule, with pH and PaCO2", *gas.ApparatusDeadSpaceML)
+	return ck, nil
+}
 
 // runCheckWithStep is RunCheck for a request with gas readings: the check
 // of the setting (and of a hand proposal, if any) and the protocol's next

@@ -124,3 +124,28 @@ func TestRecordCarriesTheStep(t *testing.T) {
 		require.Contains(t, text.String(), want)
 	}
 }
+
+// An apparatus dead space with no gas reading feeds no rule (the pH rule
+// reads pH and PaCO2: ARDS Network protocol card); the check says the
+// entry was not used, in the text and the JSON, rather than dropping it.
+func TestDeadSpaceAloneIsSaidToBeUnused(t *testing.T) {
+	p := profile(t, "demo-a")
+	req, problems := setup.BuildCheckRequest(setup.Entries{"height-cm": "175", "sex": "male", "hole": "8", "rpm": "21",
+		"dwell-s": "1.4", "dead-space-ml": "50"}, today)
+	require.Empty(t, problems)
+	ck, err := setup.RunCheck(req, p)
+	require.NoError(t, err)
+	require.Nil(t, ck.Protocol, "no step without a reading")
+	require.Contains(t, ck.ProtocolProblem, "dead space entered (50 mL) is used only by the pH rule")
+	j := ck.JSON()
+	require.NotNil(t, j.GasReadings)
+	require.Equal(t, 50.0, *j.GasReadings.ApparatusDeadSpaceML)
+	var text strings.Builder
+	require.NoError(t, ck.WriteText(&text))
+	require.Contains(t, text.String(), "PROTOCOL STEP: NONE  no blood gas or oximeter reading")
+
+	negative := -5.0
+	req.Gas.ApparatusDeadSpaceML = &negative
+	_, err = setup.RunCheck(req, p)
+	require.Error(t, err, "its range is still checked")
+}
