@@ -149,3 +149,24 @@ func TestDeadSpaceAloneIsSaidToBeUnused(t *testing.T) {
 	_, err = setup.RunCheck(req, p)
 	require.Error(t, err, "its range is still checked")
 }
+
+// A PaO2 below the goal of 55-80 mmHg (ARDS Network protocol card) steps
+// up FiO2 first at PEEP 5: on this machine only the O2 bleed changes. The
+// history's proposal line must show it and say it is the protocol's step,
+// or it would read as the setting itself.
+func TestHistoryProposalLineShowsTheOxygenAndTheStep(t *testing.T) {
+	p := profile(t, "demo-a")
+	req, problems := setup.BuildCheckRequest(setup.Entries{"height-cm": "175", "sex": "male", "hole": "8", "rpm": "21",
+		"dwell-s": "1.4", "pao2": "50"}, today)
+	require.Empty(t, problems)
+	ck, err := setup.RunCheck(req, p)
+	require.NoError(t, err)
+	require.Equal(t, setup.ProposalFromStep, ck.ProposalFrom)
+	rec, err := setup.NewRecord(ck, "B4", "ab", today)
+	require.NoError(t, err)
+	line := setup.ProposalLine(rec)
+	require.Contains(t, line, "(the protocol's step)")
+	require.Contains(t, line, "; O2 ")
+	require.NotContains(t, setup.HistoryLine(rec), "O2", "the setting has no O2 bleed")
+	require.Greater(t, rec.Proposed.Setting.O2LPerMin, 0.0)
+}

@@ -17,6 +17,9 @@ func HistoryLine(r Record) string {
 	if len(r.Cautions) > 0 {
 		line += ", highest " + LevelWord(Highest(r.Cautions))
 	}
+	if r.Setting.O2LPerMin > 0 {
+		line += fmt.Sprintf("; O2 %.1f L/min", r.Setting.O2LPerMin)
+	}
 	return line
 }
 
@@ -26,6 +29,16 @@ func ProposalLine(r Record) string {
 		return ""
 	}
 	s := r.Proposed.Setting
-	return fmt.Sprintf("hole %s, %.1f rpm, dwell %.1f s, PEEP %.0f: %.0f mL %.1f mL/kg",
+	line := fmt.Sprintf("hole %s, %.1f rpm, dwell %.1f s, PEEP %.0f: %.0f mL %.1f mL/kg",
 		s.Hole, s.RPM, s.DwellS, s.PEEPCmH2O, r.Proposed.DeliveredVtML, r.Proposed.MLPerKg)
+	if s.O2LPerMin > 0 || r.Setting.O2LPerMin > 0 {
+		// A step often changes only the O2 bleed: without it the line
+		// would read as the setting itself.
+		line += fmt.Sprintf("; O2 %.1f L/min", s.O2LPerMin)
+	}
+	switch r.ProposalFrom {
+	case ProposalFromStep, ProposalEnteredAsStep:
+		line += " (the protocol's step)"
+	}
+	return line
 }
