@@ -203,14 +203,16 @@ func (pl Plan) WriteText(w io.Writer) error {
 		p("\n%s", line)
 	}
 	p("\n%s\n", SettingHeading(pl.Cautions, "SET THE MACHINE"))
-	p("  Hole          %s  (swept %.0f mL, calibrated %.0f mL)\n", pl.Hole.Label, pl.Hole.SweptML, pl.Hole.EffectiveSweptML)
-	p("  Motor speed   %.1f rpm\n", pl.Timing.RPM)
-	p("  Dwell         %.1f s\n", pl.Timing.DwellS)
-	p("  PEEP valve    %.0f cmH2O\n", pl.PEEPCmH2O)
-	if pl.O2FlowLPerMin > 0 {
-		p("  O2 bleed      %.1f L/min\n", pl.O2FlowLPerMin)
-	} else {
-		p("  O2 bleed      none (room air)\n")
+	set := Setting{Hole: pl.Hole.Label, RPM: pl.Timing.RPM, DwellS: pl.Timing.DwellS, PEEPCmH2O: pl.PEEPCmH2O, O2LPerMin: pl.O2FlowLPerMin}
+	for _, r := range SettingRows(set, nil) {
+		text := strings.TrimSpace(r.Now + " " + r.Unit)
+		switch {
+		case r.ID == "hole":
+			text += fmt.Sprintf("  (swept %.0f mL, calibrated %.0f mL)", pl.Hole.SweptML, pl.Hole.EffectiveSweptML)
+		case r.ID == "o2_flow_l_min" && pl.O2FlowLPerMin <= 0:
+			text = "none (room air)"
+		}
+		p("  %-13s %s\n", r.Label, text)
 	}
 	p("\nTHE PATIENT GETS (predicted)\n")
 	p("  Target        %.0f mL = %.1f mL/kg PBW; this hole is %+.0f%% off it\n", pl.TargetVtML, pl.MLPerKg.Value, pl.OffTargetPct)
