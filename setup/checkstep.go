@@ -38,21 +38,32 @@ func (g GasReadings) Empty() bool { return g.physiology().Empty() }
 // the manometer says something else is going on.
 const unexplainedNoStep = "no protocol step while the manometer readings cannot be explained: the plateau rule would rest on an assumed lung; check the patient and the circuit and re-take the readings, then the step is computed"
 
-// runCheckDeadSpaceOnly is RunCheck for a request whose only gas entry is
-// the apparatus dead space: there is no step, and the check says that the
-// entry was not used rather than dropping it without a word.
-func runCheckDeadSpaceOnly(req CheckRequest, p profiles.Profile) (Check, error) {
+// checkBesideGas checks the setting of a request with gas entries, which
+// are refused outside their ranges, and carries them on the check; req is
+// returned without them, as the step's rules read them apart.
+func checkBesideGas(req CheckRequest, p profiles.Profile) (Check, CheckRequest, error) {
 	if bad := CheckGasEntries(req.Gas); len(bad) > 0 {
-		return Check{}, bad[0]
+		return Check{}, req, bad[0]
 	}
 	gas := req.Gas
 	req.Gas = GasReadings{}
 	ck, err := RunCheck(req, p)
 	if err != nil {
-		return Check{}, err
+		return Check{}, req, err
 	}
 	ck.BloodGas = &gas
-	ck.ProtocolProblem = fmt.Sprintf("no blood gas or oximeter reading: the apparatus dead space entered (%g mL) is used only by the pH rule, with pH and PaCO2", *gas.ApparatusDeadSpaceML)
+	return ck, req, nil
+}
+
+// runCheckDeadSpaceOnly is RunCheck for a request whose only gas entry is
+// the apparatus dead space: there is no step, and the check says that the
+// entry was not used rather than dropping it without a word.
+func runCheckDeadSpaceOnly(req CheckRequest, p profiles.Profile) (Check, error) {
+	ck, _, err := checkBesideGas(req, p)
+	if err != nil {
+		return Check{}, err
+	}
+	ck.ProtocolProblem = fmt.Sprintf("no blood gas or oximeter reading: the apparatus dead space entered (%g mL) is used only by the pH rule, with pH and PaCO2", *ck.BloodGas.ApparatusDeadSpaceML)
 	return ck, nil
 }
 
@@ -62,16 +73,11 @@ func runCheckDeadSpaceOnly(req CheckRequest, p profiles.Profile) (Check, error) 
 // that cannot be computed at this setting leaves the check standing and
 // says why in ProtocolProblem.
 func runCheckWithStep(req CheckRequest, p profiles.Profile) (Check, error) {
-	if bad := CheckGasEntries(req.Gas); len(bad) > 0 {
-		return Check{}, bad[0]
-	}
 	gas := req.Gas
-	req.Gas = GasReadings{}
-	ck, err := RunCheck(req, p)
+	ck, req, err := checkBesideGas(req, p)
 	if err != nil {
 		return Check{}, err
 	}
-	ck.BloodGas = &gas
 	if ck.Unexplained() {
 		ck.ProtocolProblem = unexplainedNoStep
 		return ck, nil
