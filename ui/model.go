@@ -167,6 +167,7 @@ func (m *Model) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 	switch msg := msg.(type) {
 	case tea.WindowSizeMsg:
 		m.resize(msg.Width, msg.Height)
+		m.clampWard()
 	case tea.KeyMsg:
 		return m, m.handleKey(msg)
 	case entryChanged:
@@ -198,6 +199,8 @@ func (m *Model) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 	case wardMsg:
 		if m.ward != nil {
 			m.ward.rows, m.ward.summary, m.ward.err, m.ward.loading = msg.rows, msg.summary, msg.err, false
+			m.ward.cursor = min(m.ward.cursor, max(len(msg.rows)-1, 0))
+			m.clampWard()
 		}
 	case benchMsg:
 		m.machine.setPreview(msg.res, msg.err)
@@ -474,7 +477,9 @@ func (m *Model) View() string {
 	case m.overlay != nil:
 		body = m.box(m.overlay.title, m.overlay.text, bodyH, true, m.overlay.offset)
 	case m.ward != nil:
-		body = m.box("Ward: every bed's last check", m.ward.view(), bodyH, true, max(m.ward.cursor-(bodyH-6), 0))
+		w, _ := m.wardSize()
+		lines, _, _ := m.ward.lines(w)
+		body = m.box("Ward: every bed's last check", strings.Join(lines, "\n"), bodyH, true, m.ward.offset)
 	default:
 		top, bottom := m.split(bodyH)
 		p := m.panels[m.focus]
@@ -544,7 +549,7 @@ func (m *Model) titleBar() string {
 		if i == panelCautions && m.out.plan != nil {
 			name += fmt.Sprintf("(%d)", len(m.out.plan.Cautions))
 		}
-		if i == m.focus {
+		if i == m.focus && m.ward == nil { // over the ward, no panel is shown
 			tabs = append(tabs, s.TabActive.Render("["+name+"]"))
 		} else if m.w < 100 {
 			tabs = append(tabs, s.Tab.Render(" "+name))
@@ -633,6 +638,11 @@ func (m *Model) helpLine() string {
 	case m.overlay != nil:
 		b = []key.Binding{key.NewBinding(key.WithKeys("esc"), key.WithHelp("esc", "close")),
 			key.NewBinding(key.WithKeys("pgdown"), key.WithHelp("↑/↓ pgup/pgdn", "scroll"))}
+	case m.ward != nil:
+		b = []key.Binding{key.NewBinding(key.WithKeys("down"), key.WithHelp("↑/↓ pgup/pgdn", "choose a bed")),
+			key.NewBinding(key.WithKeys("enter"), key.WithHelp("enter", "start its check")),
+			key.NewBinding(key.WithKeys("esc"), key.WithHelp("esc", "close")),
+			key.NewBinding(key.WithKeys("f1"), key.WithHelp("F1-F6", "panel")), m.keys.Quit}
 	default:
 		// The general keys first, so that a narrow window drops a panel's
 		// own keys rather than how to find every key.

@@ -2,7 +2,6 @@ package ui
 
 import (
 	"fmt"
-	"strings"
 
 	"github.com/charmbracelet/bubbles/key"
 	tea "github.com/charmbracelet/bubbletea"
@@ -27,7 +26,10 @@ type wardView struct {
 	err     error
 	loading bool
 	cursor  int
-	styles  *Styles
+	// offset is the first line shown; Update keeps the cursor's bed in
+	// view (clampWard), View only draws.
+	offset int
+	styles *Styles
 }
 
 // readWard reads the ward from the log with a command, on copies.
@@ -46,23 +48,93 @@ func (m *Model) readWard() tea.Cmd {
 
 func (m *Model) wardKey(msg tea.KeyMsg) tea.Cmd {
 	w := m.ward
+	defer m.clampWard()
+	last := max(len(w.rows)-1, 0)
 	switch {
 	case key.Matches(msg, m.keys.Quit):
 		return m.quit()
 	case msg.Type == tea.KeyEsc:
 		m.ward = nil
 	case msg.Type == tea.KeyDown:
-		w.cursor = min(w.cursor+1, max(len(w.rows)-1, 0))
+		w.cursor = min(w.cursor+1, last)
 	case msg.Type == tea.KeyUp:
 		w.cursor = max(w.cursor-1, 0)
+	case key.Matches(msg, m.keys.PageDn):
+		w.cursor = min(w.cursor+m.wardPage(), last)
+	case key.Matches(msg, m.keys.PageUp):
+		w.cursor = max(w.cursor-m.wardPage(), 0)
+	case msg.Type == tea.KeyHome:
+		w.cursor = 0
+	case msg.Type == tea.KeyEnd:
+		w.cursor = last
 	case msg.Type == tea.KeyEnter && len(w.rows) > 0:
 		r := w.rows[w.cursor]
 		m.ward = nil
 		return m.startFromRecord(r.Record)
 	case isTyping(msg):
 		m.note = "nothing to type into here: arrows choose a bed, Enter opens it, Esc closes"
+	case key.Matches(msg, m.keys.Next), key.Matches(msg, m.keys.Prev), m.isPanelKey(msg):
+		// A panel key leaves the ward for that panel, as it says.
+		m.ward = nil
+		cmd, _ := m.globalKey(msg)
+		return cmd
+	case key.Matches(msg, m.keys.Help), key.Matches(msg, m.keys.Ward), key.Matches(msg, m.keys.Suspend):
+		cmd, _ := m.globalKey(msg) // the keys over the ward, F7 reads it again
+		return cmd
+	default:
+		m.note = "in the ward: arrows choose a bed, Enter opens it, Esc closes"
 	}
 	return nil
+}
+
+// isPanelKey reports whether msg is one of the keys that choose a panel.
+func (m *Model) isPanelKey(msg tea.KeyMsg) bool {
+	for _, b := range m.keys.Panel {
+		if key.Matches(msg, b) {
+			return true
+		}
+	}
+	return false
+}
+
+// wardSize is the width of the ward's text and how many lines of it show.
+func (m *Model) wardSize() (w, h int) {
+	fw, fh := m.panelFrame()
+	return m.w - fw, m.h - fixedRows - fh - 1
+}
+
+// wardPage is how many beds PgUp and PgDn move: about half a screen.
+func (m *Model) wardPage() int {
+	w, h := m.wardSize()
+	_, top, bottom := m.ward.lines(w)
+	return max(h/2/max(bottom-top+1, 1), 1)
+}
+
+// clampWard scrolls the ward so that the chosen bed's lines are in view,
+// below the "more above" marker and above the "more below" one.
+func (m *Model) clampWard() {
+	if m.ward == nil {
+		return
+	}
+	w, h := m.wardSize()
+	lines, top, bottom := m.ward.lines(w)
+	m.ward.offset = keepInView(m.ward.offset, top, bottom, len(lines), h)
+}
+
+// keepInView is the first line to show of n, h at a time, so that lines
+// top to bottom are in view and not under a marker of window (which
+// takes the first line when some are above, the last when some are below).
+func keepInView(off, top, bottom, n, h int) int {
+	if n <= h || h < 3 || bottom <= h-2 {
+		return 0 // all fits, or the lines are in the first screen
+	}
+	if bottom > off+h-2 {
+		off = bottom - h + 2
+	}
+	if top < off+1 {
+		off = top - 1
+	}
+	return min(max(off, 0), n-h)
 }
 
 // startFromRecord fills the patient and the handover entries from a
@@ -97,29 +169,35 @@ type recordStart struct {
 	label   string
 }
 
-func (w *wardView) view() string {
+// lines is the ward wrapped to width, and the first and last line of the
+// chosen bed's row.
+func (w *wardView) lines(width int) (lines []string, top, bottom int) {
 	s := w.styles
 	if w.loading {
-		return s.Hint.Render("reading the log ...")
+		return wrapBlock(s.Hint.Render("reading the log ..."), width), 0, 0
 	}
-	var l []string
+	add := func(text string) { lines = append(lines, wrapBlock(text, width)...) }
 	if w.err != nil {
-		l = append(l, s.Error.Render("! "+safetext.Escape(w.err.Error())))
+		add(s.Error.Render("! " + safetext.Escape(w.err.Error())))
 	}
 	if len(w.rows) == 0 && w.err == nil {
-		l = append(l, "No checks recorded yet.")
+		add("No checks recorded yet.")
 	}
-	l = append(l, s.Label.Render(fmt.Sprintf("%d bed%s, most urgent first; OVERDUE after %g h (%s)", len(w.rows), plural(len(w.rows)), setup.DefaultCheckEvery.Hours(), setup.CheckEverySource)))
+	add(s.Label.Render(fmt.Sprintf("%d bed%s, most urgent first; OVERDUE after %g h (%s)", len(w.rows), plural(len(w.rows)), setup.DefaultCheckEvery.Hours(), setup.CheckEverySource)))
 	for i, r := range w.rows {
 		mark := "  "
 		st := s.Value
 		if i == w.cursor {
 			mark, st = "> ", s.FieldFocused
+			top = len(lines)
 		}
-		l = append(l, mark+st.Render(safetext.Escape(setup.WardLine(r))))
+		add(mark + st.Render(safetext.Escape(setup.WardLine(r))))
+		if i == w.cursor {
+			bottom = len(lines) - 1
+		}
 	}
 	for _, p := range w.summary.Lines() {
-		l = append(l, s.Error.Render("! "+safetext.Escape(p)))
+		add(s.Error.Render("! " + safetext.Escape(p)))
 	}
-	return strings.Join(l, "\n")
+	return lines, top, bottom
 }

@@ -1,6 +1,7 @@
 package ui
 
 import (
+	"fmt"
 	"os"
 	"path/filepath"
 	"strings"
@@ -152,4 +153,54 @@ func TestNothingFromAFileReachesTheScreenRaw(t *testing.T) {
 	v = m.View()
 	raw(v)
 	require.Contains(t, v, `\x1b]0;x\x07`)
+}
+
+// A surge ward of 30 beds at 80x24, where each bed's row wraps to two
+// lines: the chosen bed is always in view, the page keys the "more"
+// markers name move through the beds, a panel key leaves the ward for
+// that panel, and a key that acts elsewhere is refused with a note.
+func TestWardOf30BedsKeepsTheChosenBedInView(t *testing.T) {
+	logPath := filepath.Join(t.TempDir(), "ward.jsonl")
+	for i := 1; i <= 30; i++ {
+		recordCheck(t, logPath, fmt.Sprintf("B%d", i), 175, physiology.Male, "8", 21, 1.4, testNow().Add(-time.Duration(i)*time.Minute))
+	}
+	p, src := demoProfile(t, "demo-a")
+	m := New(Options{Profile: p, Source: src, ProfilesDir: t.TempDir(), Now: testNow, LogPath: logPath})
+	m.Update(tea.WindowSizeMsg{Width: 80, Height: 24})
+	press(m, tea.KeyMsg{Type: tea.KeyF7})
+	chosen := func() string {
+		for _, l := range strings.Split(screen(m), "\n") {
+			if f := strings.Fields(strings.Trim(l, "┃ ")); len(f) > 1 && f[0] == ">" {
+				return f[1]
+			}
+		}
+		return ""
+	}
+	require.Equal(t, "B1", chosen())
+	for i := 0; i < 12; i++ {
+		press(m, down)
+	}
+	require.Equal(t, "B13", chosen(), "the 13th bed is in view:\n%s", screen(m))
+	press(m, tea.KeyMsg{Type: tea.KeyPgDown})
+	require.Greater(t, m.ward.cursor, 12, "PgDn moves through the beds")
+	require.Equal(t, m.ward.rows[m.ward.cursor].Bed, chosen())
+	press(m, tea.KeyMsg{Type: tea.KeyEnd})
+	require.Equal(t, "B30", chosen())
+	require.NotContains(t, screen(m), "more lines below")
+	press(m, tea.KeyMsg{Type: tea.KeyHome})
+	require.Equal(t, "B1", chosen())
+	require.NotContains(t, screen(m), "more line above", "the first screen again, from the top")
+	require.Contains(t, screen(m), "enter start its check", "the help line is the ward's")
+
+	press(m, ctrlS)
+	require.NotNil(t, m.ward)
+	require.Contains(t, screen(m), "in the ward: arrows choose a bed")
+	before, err := os.ReadFile(logPath)
+	require.NoError(t, err)
+	press(m, fkey(6))
+	require.Nil(t, m.ward, "F6 leaves the ward")
+	require.Equal(t, panelHandover, m.focus)
+	after, err := os.ReadFile(logPath)
+	require.NoError(t, err)
+	require.Equal(t, before, after, "nothing was recorded")
 }
