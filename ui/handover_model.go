@@ -97,7 +97,7 @@ func (m *Model) record() (setup.Record, error) {
 func (m *Model) recordAsked() tea.Cmd {
 	if m.recordedAt != "" && !m.confirmRecord {
 		m.confirmRecord = true
-		m.out.saveNote = m.styles.Error.Render("! this check was already recorded at " + m.recordedAt + " UTC: Ctrl+S again records it a second time")
+		m.handoverNote(m.styles.Error.Render("! this check was already recorded at " + m.recordedAt + " UTC: Ctrl+S again records it a second time"))
 		return nil
 	}
 	m.confirmRecord = false
@@ -109,11 +109,11 @@ func (m *Model) recordAsked() tea.Cmd {
 func (m *Model) save() tea.Cmd {
 	rec, err := m.record()
 	if err != nil {
-		m.out.saveNote = m.styles.Error.Render("! not recorded: " + err.Error())
+		m.handoverNote(m.styles.Error.Render("! not recorded: " + err.Error()))
 		return nil
 	}
 	if m.logPath == "" {
-		m.out.saveNote = m.styles.Error.Render("! not recorded: no log file (start with --log FILE)")
+		m.handoverNote(m.styles.Error.Render("! not recorded: no log file (start with --log FILE)"))
 		return nil
 	}
 	path, at := m.logPath, rec.Time
@@ -126,20 +126,29 @@ func (m *Model) save() tea.Cmd {
 	}
 }
 
+// handoverNote puts what became of a record, a card, a history or a step
+// at the top of the handover panel's results, and scrolls the panel back
+// to it: pressed while the panel is scrolled down, Ctrl+S must still show
+// "Recorded" or why not (and its question before recording twice).
+func (m *Model) handoverNote(note string) {
+	m.out.saveNote = note
+	m.scroll[panelHandover] = 0
+}
+
 func (m *Model) saved(msg savedMsg) {
 	if msg.err != nil {
-		m.out.saveNote = m.styles.Error.Render("! NOT recorded: " + msg.err.Error())
+		m.handoverNote(m.styles.Error.Render("! NOT recorded: " + msg.err.Error()))
 		return
 	}
 	m.unsaved = false
 	m.recordedAt = msg.at.UTC().Format("15:04")
-	m.out.saveNote = m.styles.Value.Render(fmt.Sprintf("Recorded for bed %s at %s UTC in %s", msg.bed, m.recordedAt, msg.path))
+	m.handoverNote(m.styles.Value.Render(fmt.Sprintf("Recorded for bed %s at %s UTC in %s", msg.bed, m.recordedAt, msg.path)))
 }
 
 func (m *Model) card() {
 	rec, err := m.record()
 	if err != nil {
-		m.out.saveNote = m.styles.Error.Render("! no card: " + err.Error())
+		m.handoverNote(m.styles.Error.Render("! no card: " + err.Error()))
 		return
 	}
 	var b strings.Builder
@@ -150,11 +159,11 @@ func (m *Model) card() {
 func (m *Model) history() tea.Cmd {
 	bed := m.checkField("bed").Value()
 	if err := setup.CheckBedLabel(bed); err != nil {
-		m.out.saveNote = m.styles.Error.Render("! " + err.Error())
+		m.handoverNote(m.styles.Error.Render("! " + err.Error()))
 		return nil
 	}
 	if m.logPath == "" {
-		m.out.saveNote = m.styles.Error.Render("! no log file (start with --log FILE)")
+		m.handoverNote(m.styles.Error.Render("! no log file (start with --log FILE)"))
 		return nil
 	}
 	path := m.logPath

@@ -104,7 +104,7 @@ func (p *handoverPanel) protocolWhy(add func(string), j setup.CheckJSON) {
 func (m *Model) takeStep() {
 	e, ok := stepToTake(&m.out)
 	if !ok {
-		m.out.saveNote = m.styles.Error.Render("! no protocol step to take: enter a blood gas or oximeter reading with a complete check")
+		m.handoverNote(m.styles.Error.Render("! no protocol step to take: enter a blood gas or oximeter reading with a complete check"))
 		return
 	}
 	for name, v := range e {

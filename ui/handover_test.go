@@ -109,3 +109,19 @@ func TestHandoverBedLabelThatLooksLikeAName(t *testing.T) {
 	_, err := os.Stat(logPath)
 	require.ErrorIs(t, err, os.ErrNotExist, "nothing was written")
 }
+
+// Ctrl+S pressed with the panel scrolled down still shows what became of
+// the record: "Recorded", and before a second record of the same check
+// the question; both are at the top of the results, where the panel now
+// scrolls back to.
+func TestRecordingShowsItsOutcomeWhenThePanelIsScrolled(t *testing.T) {
+	m, _ := handoverModel(t)
+	press(m, runes("B4"), enter, runes("ab"), enter, runes("8"), enter, runes("21"), enter, runes("1.4"), enter,
+		enter, enter, runes("17"), enter, runes("14"))
+	press(m, tea.KeyMsg{Type: tea.KeyPgDown}, tea.KeyMsg{Type: tea.KeyPgDown})
+	require.Positive(t, m.scroll[panelHandover])
+	press(m, ctrlS)
+	require.Contains(t, screen(m), "Recorded for bed B4")
+	press(m, tea.KeyMsg{Type: tea.KeyPgDown}, ctrlS)
+	require.Contains(t, screen(m), "this check was already recorded at")
+}
