@@ -33,10 +33,10 @@ func ExampleLogSummary_Lines() {
 		fmt.Println(strings.TrimPrefix(l, path+" "))
 	}
 	// Output:
-	// line 1: not a check record; skipped
-	// line 2: not a check record; skipped
-	// line 3: not a check record; skipped
-	// line 4: not a check record; skipped
-	// line 5: not a check record; skipped
+	// line 1: not a whole check record; skipped
+	// line 2: not a whole check record; skipped
+	// line 3: not a whole check record; skipped
+	// line 4: not a whole check record; skipped
+	// line 5: not a whole check record; skipped
 	// and 3 more damaged lines
 }

@@ -6,10 +6,33 @@ import (
 	"strings"
 	"testing"
 	"time"
+
+	"crankside/physiology"
+	"crankside/profiles"
 )
 
+// wholeRecord is a check record as this program writes one: a real check
+// of demo-a, so that the seeds are records the readers keep.
+func wholeRecord(f *testing.F, bed string, at time.Time) Record {
+	f.Helper()
+	p, _, err := profiles.Open("demo-a", "")
+	if err != nil {
+		f.Fatal(err)
+	}
+	ck, err := RunCheck(CheckRequest{Patient: Patient{HeightCm: 175, Sex: physiology.Male},
+		Setting: Setting{Hole: "8", RPM: 21, DwellS: 1.4, PEEPCmH2O: 5}, Now: at}, p)
+	if err != nil {
+		f.Fatal(err)
+	}
+	rec, err := NewRecord(ck, bed, "AB", at)
+	if err != nil {
+		f.Fatal(err)
+	}
+	return rec
+}
+
 func FuzzReadLog(f *testing.F) {
-	good, _ := json.Marshal(Record{Format: RecordFormat, Bed: "B4", Initials: "AB"})
+	good, _ := json.Marshal(wholeRecord(f, "B4", time.Date(2026, 12, 1, 9, 0, 0, 0, time.UTC)))
 	f.Add(append(append(good, '\n'), good...))
 	f.Add([]byte(string(good) + "\n{\"format\":\"crankside-check/1\",\"bed\""))
 	f.Add([]byte("\x00\x01\x02\n\n\n" + strings.Repeat("x", 5000)))
@@ -36,7 +59,7 @@ func FuzzReadLog(f *testing.F) {
 // reader), once duplicates (the same JSON on re-encoding) are dropped
 // from the latter, and the ward's quick look picks each bed's newest.
 func FuzzStreamMatchesWhole(f *testing.F) {
-	rec := Record{Format: RecordFormat, Bed: "B4", Initials: "AB", Time: time.Date(2026, 12, 1, 9, 0, 0, 0, time.UTC)}
+	rec := wholeRecord(f, "B4", time.Date(2026, 12, 1, 9, 0, 0, 0, time.UTC))
 	good, _ := json.Marshal(rec)
 	rec.Bed, rec.Time = "B5", rec.Time.Add(time.Minute)
 	other, _ := json.Marshal(rec)
@@ -47,6 +70,9 @@ func FuzzStreamMatchesWhole(f *testing.F) {
 	// The same record again with a field this program does not read: it
 	// decodes to the same record, so it is a copy (a CI smoke run found it).
 	f.Add([]byte(string(good) + "\n" + strings.TrimSuffix(string(good), "}") + `,"x":1}` + "\n"))
+	// A line of the format with only a bed and a time is not a check: it
+	// must not become the bed's last one.
+	f.Add([]byte(string(good) + "\n" + `{"format":"crankside-check/1","bed":"B4","time":"2026-12-01T23:59:00Z"}` + "\n"))
 	f.Fuzz(func(t *testing.T, data []byte) {
 		recs, _, err := readRecords(bytes.NewReader(data))
 		if err != nil {

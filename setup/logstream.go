@@ -23,7 +23,7 @@ type LogSummary struct {
 	Logs       []string     // the files read, in order
 	Records    int          // records counted (of the bed asked for, if one was), duplicates once
 	Duplicates int          // records found again, in another log or the same one, counted once
-	Damaged    int          // lines skipped: torn, junk, over-long, not a check record
+	Damaged    int          // lines skipped: torn, junk, over-long, not a whole check record
 	Problems   []LogProblem // the first MaxProblemsKept damaged lines
 }
 
@@ -62,7 +62,7 @@ func moreDamaged(n int) string {
 const (
 	reasonTooLong = "longer than %d bytes; skipped"
 	reasonTorn    = "torn last line (the program stopped while writing it); skipped"
-	reasonJunk    = "not a check record; skipped"
+	reasonJunk    = "not a whole check record; skipped"
 )
 
 // scanLog reads r line by line in bounded memory and hands visit each
@@ -137,12 +137,38 @@ func nextLine(br *bufio.Reader, buf *[]byte) (text []byte, tooLong, complete boo
 }
 
 // decodeRecord decodes one complete line; ok is false for anything that
-// is not a whole check record of this format.
+// is not a whole check record of this format (see missingFromRecord).
 func decodeRecord(text []byte) (rec Record, ok bool) {
-	if err := json.Unmarshal(text, &rec); err != nil || rec.Format != RecordFormat {
+	if err := json.Unmarshal(text, &rec); err != nil || rec.Format != RecordFormat || missingFromRecord(rec) != "" {
 		return Record{}, false
 	}
 	return rec, true
+}
+
+// missingFromRecord names what a decoded record lacks of a check as this
+// program writes one, or is "". A line of the right format that holds
+// only a bed and a time (half written, or written by hand) must not
+// become a bed's last check: it would stand in the ward in place of the
+// real one, and of its STOP.
+func missingFromRecord(r Record) string {
+	switch {
+	case r.Time.IsZero():
+		return "time"
+	case r.Bed == "":
+		return "bed"
+	case r.ProfileID == "":
+		return "profile_id"
+	case !(r.HeightCm > 0) || r.Sex == "" || !(r.PBWKg > 0):
+		return "patient"
+	case r.Setting.Hole == "" || !(r.Setting.RPM > 0) || r.Setting.DwellS < 0:
+		return "setting"
+	case r.ClinicalCaution == "":
+		return "clinical_caution"
+	case !r.Unexplained() && (!(r.DeliveredVtML > 0) || !(r.RateBPM > 0)):
+		// Without readings no lung explains, a check has its figures.
+		return "figures"
+	}
+	return ""
 }
 
 // recordKey identifies a record by its canonical JSON: the decoded record

@@ -2,6 +2,7 @@ package setup_test
 
 import (
 	"encoding/json"
+	"fmt"
 	"os"
 	"path/filepath"
 	"sort"
@@ -273,4 +274,29 @@ func TestWardRowsAreExactWhenALineMisleadsTheQuickLook(t *testing.T) {
 	h, _, err := setup.ReadBedHistory([]string{path}, "B1", 0)
 	require.NoError(t, err)
 	require.Len(t, h.Entries, 1, "the escaped label is found by the bed filter too")
+}
+
+// A line of the record format holding only a bed and a time (half
+// written, or written by hand into a shared folder) is not a check: it
+// is counted as damaged and never stands in the ward, or in the bed's
+// history, in place of the real last check and its STOP.
+func TestABareRecordNeverReplacesABedsLastCheck(t *testing.T) {
+	dir := t.TempDir()
+	stop := wardRecord(t, "B9", at(10, 0), 21, setup.Stop)
+	a := writeLog(t, filepath.Join(dir, "a.jsonl"), recordLine(t, stop)+"\n")
+	bare := fmt.Sprintf(`{"format":%q,"bed":"B9","time":%q}`, setup.RecordFormat, at(11, 59).Format(time.RFC3339))
+	empty := fmt.Sprintf(`{"format":%q,"time":%q,"bed":"B9","initials":"AB","setting":{"hole":"","motor_rpm":0}}`, setup.RecordFormat, at(11, 58).Format(time.RFC3339))
+	b := writeLog(t, filepath.Join(dir, "z.jsonl"), bare+"\n", empty+"\n", "{}\n")
+
+	rows, sum, err := setup.WardRows([]string{a, b}, at(12, 0), 0)
+	require.NoError(t, err)
+	require.Len(t, rows, 1)
+	require.Equal(t, setup.Stop, rows[0].HighestLevel, "the real check's STOP stands")
+	require.True(t, rows[0].CheckedAt.Equal(at(10, 0)))
+	require.Equal(t, 3, sum.Damaged)
+
+	h, sum, err := setup.ReadBedHistory([]string{a, b}, "B9", 0)
+	require.NoError(t, err)
+	require.Len(t, h.Entries, 1)
+	require.Equal(t, 2, sum.Damaged, "the two lines that name B9; {} cannot hold the bed and is not decoded")
 }
