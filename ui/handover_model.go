@@ -203,9 +203,10 @@ func (m *Model) showHistory(msg historyMsg) {
 	m.overlay = &textOverlay{title: "Bed " + msg.bed + ": earlier checks", text: strings.Join(l, "\n")}
 }
 
-// quit asks first when a computed check has not been recorded.
+// quit asks first when the handover panel holds entries or a check that
+// have not been recorded, or a refit is not saved.
 func (m *Model) quit() tea.Cmd {
-	if (m.unsaved && m.out.check != nil) || m.machine.mode == machinePreview {
+	if m.unsaved || m.machine.mode == machinePreview {
 		m.confirmQuit = true
 		return nil
 	}

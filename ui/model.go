@@ -70,7 +70,8 @@ type Model struct {
 	overlay *textOverlay
 	// scroll is each panel's first line shown, moved by the page keys.
 	scroll [6]int
-	// unsaved is true while a computed handover check has not been recorded.
+	// unsaved is true while the handover panel holds entries or a check
+	// that have not been recorded.
 	unsaved     bool
 	confirmQuit bool
 	// recordedAt is when the current check was recorded; recording it
@@ -212,7 +213,9 @@ func (m *Model) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 
 func (m *Model) entryChanged() {
 	m.recompute()
-	if m.out.check != nil {
+	// An entry typed on the handover panel is part of a check to record,
+	// complete or not; elsewhere an entry matters once there is a check.
+	if m.out.check != nil || m.focus == panelHandover {
 		m.unsaved = true
 		m.recordedAt = ""
 		m.out.saveNote = ""

@@ -29,6 +29,9 @@ type wardView struct {
 	// offset is the first line shown; Update keeps the cursor's bed in
 	// view (clampWard), View only draws.
 	offset int
+	// confirmStart is true while Enter has asked whether to drop an
+	// unrecorded check for the chosen bed's.
+	confirmStart bool
 	styles *Styles
 }
 
@@ -50,9 +53,13 @@ func (m *Model) wardKey(msg tea.KeyMsg) tea.Cmd {
 	w := m.ward
 	defer m.clampWard()
 	last := max(len(w.rows)-1, 0)
+	asked := w.confirmStart
+	w.confirmStart = false // a question is answered by the very next key
 	switch {
 	case key.Matches(msg, m.keys.Quit):
 		return m.quit()
+	case msg.Type == tea.KeyEsc && asked:
+		m.note = "kept: the check on F6 is as it was"
 	case msg.Type == tea.KeyEsc:
 		m.ward = nil
 	case msg.Type == tea.KeyDown:
@@ -69,6 +76,13 @@ func (m *Model) wardKey(msg tea.KeyMsg) tea.Cmd {
 		w.cursor = last
 	case msg.Type == tea.KeyEnter && len(w.rows) > 0:
 		r := w.rows[w.cursor]
+		if m.unsaved && !asked {
+			// The entries on the handover panel are not recorded: starting
+			// another bed's check replaces them, so it asks first.
+			w.confirmStart = true
+			m.note = "the check on F6 is not recorded: Enter again drops it and starts " + safetext.Escape(r.Bed) + "; Esc keeps it"
+			return nil
+		}
 		m.ward = nil
 		return m.startFromRecord(r.Record)
 	case isTyping(msg):
@@ -140,8 +154,24 @@ func keepInView(off, top, bottom, n, h int) int {
 // startFromRecord fills the patient and the handover entries from a
 // bed's last record and opens the handover panel, marking what came from
 // the record, so that a machine found otherwise shows the difference.
+//
+// Everything else on the handover panel belonged to the check before,
+// another bed and perhaps another patient: it is cleared (readings, blood
+// gas, dead space, cylinder, proposal), and so are the Patient panel's
+// lung condition and mechanics, which the record does not hold; the
+// cursor goes to the first field and the last record's note goes.
 func (m *Model) startFromRecord(r setup.Record) tea.Cmd {
 	e := setup.RecordEntries(r)
+	for _, f := range m.handover.form.fields {
+		f.SetValue("")
+		f.from = ""
+	}
+	for name, v := range map[string]string{"lung": "normal", "compliance": "", "resistance": ""} { // the panel's defaults
+		if f := m.field(name); f != nil {
+			f.SetValue(v)
+			f.from = ""
+		}
+	}
 	at := "from the record at " + r.Time.UTC().Format("15:04") + " UTC"
 	for name, v := range e {
 		if f := m.checkField(name); f != nil {
@@ -155,10 +185,12 @@ func (m *Model) startFromRecord(r setup.Record) tea.Cmd {
 			f.from = at
 		}
 	}
-	for _, name := range []string{"peak", "end-pressure", "propose-hole", "propose-rpm", "propose-dwell-s", "propose-peep"} {
-		m.checkField(name).SetValue("")
-	}
-	m.fromRecord = &recordStart{entries: e, label: "Started " + at + " (bed " + safetext.Escape(r.Bed) + ")"}
+	m.fromRecord = &recordStart{entries: e, label: "Started " + at + " (bed " + safetext.Escape(r.Bed) + "); the lung condition is not in the record: F1 says which is assumed"}
+	m.out.saveNote = ""
+	m.unsaved, m.recordedAt = false, ""
+	m.handover.form.current().blur()
+	m.handover.form.cursor = 0
+	m.scroll[panelHandover] = 0
 	m.recompute()
 	return m.focusPanel(panelHandover)
 }

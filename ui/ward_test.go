@@ -204,3 +204,67 @@ func TestWardOf30BedsKeepsTheChosenBedInView(t *testing.T) {
 	require.NoError(t, err)
 	require.Equal(t, before, after, "nothing was recorded")
 }
+
+// Starting a bed's check from the ward brings only that bed's record:
+// the blood gas, proposal, readings and cylinder of the check before, and
+// the Patient panel's lung condition (not in a record), belonged to
+// another bed and are cleared; the cursor is on the first field and the
+// last record's note is gone.
+func TestStartingABedFromTheWardCarriesNothingFromTheBedBefore(t *testing.T) {
+	logPath := wardLog(t)
+	p, src := demoProfile(t, "demo-a")
+	m := New(Options{Profile: p, Source: src, ProfilesDir: t.TempDir(), Now: testNow, LogPath: logPath})
+	m.Update(tea.WindowSizeMsg{Width: 80, Height: 24})
+	m.field("lung").SetValue("ards")
+	press(m, tea.KeyMsg{Type: tea.KeyF7}, enter) // B2, the overdue bed
+	require.Equal(t, "B2", m.checkField("bed").Value())
+	for name, v := range map[string]string{"spo2": "90", "ph": "7,25", "paco2": "55", "propose-o2-lpm": "3.1", "peak": "17", "end-pressure": "14", "cylinder-l": "10", "cylinder-bar": "150", "initials": "ab"} {
+		f := m.checkField(name)
+		require.NotNil(t, f, name)
+		f.SetValue(v)
+	}
+	m.entryChanged()
+	press(m, ctrlS)
+	require.Contains(t, screen(m), "Recorded for bed B2")
+	press(m, tea.KeyMsg{Type: tea.KeyF7}, down, enter) // the next bed, B7
+	require.Nil(t, m.ward, "nothing unrecorded: no question")
+	require.Equal(t, "B7", m.checkField("bed").Value())
+	for _, f := range m.handover.form.fields {
+		switch f.name {
+		case "bed", "hole", "rpm", "dwell-s", "peep", "o2-lpm":
+		default:
+			require.Empty(t, f.Value(), "%s is not B7's", f.name)
+		}
+	}
+	require.Equal(t, "normal", m.field("lung").Value(), "the lung condition was the bed before's; the default again")
+	require.Equal(t, 0, m.handover.form.cursor)
+	require.NotContains(t, screen(m), "Recorded for bed B2")
+}
+
+// Entries typed on the handover panel and not recorded are never dropped
+// without a question: not by Ctrl+C, complete check or not, and not by
+// starting another bed's check from the ward.
+func TestUnrecordedHandoverEntriesAreNotDroppedWithoutAsking(t *testing.T) {
+	logPath := wardLog(t)
+	p, src := demoProfile(t, "demo-a")
+	m := New(Options{Profile: p, Source: src, ProfilesDir: t.TempDir(), Now: testNow, LogPath: logPath,
+		Prefill: map[string]string{"height-cm": "175", "sex": "male"}})
+	m.Update(tea.WindowSizeMsg{Width: 80, Height: 24})
+	press(m, fkey(6), runes("B9"), enter, runes("zz"), enter, runes("8"), enter, runes("21"), enter)
+	require.Nil(t, m.out.check, "the dwell is still blank")
+	require.Nil(t, press(m, tea.KeyMsg{Type: tea.KeyCtrlC}), "Ctrl+C asks, it does not quit")
+	require.True(t, m.confirmQuit)
+	press(m, tea.KeyMsg{Type: tea.KeyEsc})
+	require.False(t, m.confirmQuit)
+
+	press(m, tea.KeyMsg{Type: tea.KeyF7}, enter)
+	require.NotNil(t, m.ward, "Enter asked first")
+	require.Contains(t, screen(m), "the check on F6 is not recorded")
+	press(m, tea.KeyMsg{Type: tea.KeyEsc})
+	require.NotNil(t, m.ward)
+	require.Equal(t, "B9", m.checkField("bed").Value(), "Esc kept it")
+	press(m, enter, enter)
+	require.Nil(t, m.ward, "asked, then Enter again starts the bed")
+	require.Equal(t, "B2", m.checkField("bed").Value())
+	require.NotNil(t, press(m, tea.KeyMsg{Type: tea.KeyCtrlC}), "nothing typed since the start from the record: Ctrl+C quits")
+}
