@@ -32,7 +32,7 @@ type wardView struct {
 	// confirmStart is true while Enter has asked whether to drop an
 	// unrecorded check for the chosen bed's.
 	confirmStart bool
-	styles *Styles
+	styles       *Styles
 }
 
 // readWard reads the ward from the log with a command, on copies.
