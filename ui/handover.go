@@ -184,6 +184,13 @@ func (p *handoverPanel) results() string {
 	if st := setup.FirstStop(ck.Current.Cautions); st != nil {
 		add(s.levelWord(setup.Stop) + " " + s.Error.Render("DO NOT USE THIS SETTING AS IT IS: "+st.Message))
 	}
+	if j := o.checkJSON; ck.Proposed != nil && (j.ProposalFrom == "" || j.ProposalFrom == setup.ProposalEntered) {
+		// A proposal typed by hand is judged as loudly as the setting (the
+		// step's own stop is said with its offer).
+		if st := setup.FirstStop(ck.Proposed.Cautions); st != nil {
+			add(s.levelWord(setup.Stop) + " " + s.Error.Render("DO NOT MAKE THE PROPOSED CHANGE AS IT IS: "+st.Message))
+		}
+	}
 	// Then, in this order so that at 80x24 the comparison is in view
 	// under the alarms: the lung in one line, the protocol's offer, the
 	// setting and what the patient gets now and proposed, the cautions,

@@ -3,6 +3,7 @@ package ui
 import (
 	"os"
 	"path/filepath"
+	"strings"
 	"testing"
 
 	tea "github.com/charmbracelet/bubbletea"
@@ -124,4 +125,26 @@ func TestRecordingShowsItsOutcomeWhenThePanelIsScrolled(t *testing.T) {
 	require.Contains(t, screen(m), "Recorded for bed B4")
 	press(m, tea.KeyMsg{Type: tea.KeyPgDown}, ctrlS)
 	require.Contains(t, screen(m), "this check was already recorded at")
+}
+
+// A proposal typed by hand that has a STOP (hole 22 of demo-a gives 12.7
+// mL/kg PBW: above 10, ARDS Network 2000 protocol) is said as loudly as a
+// stop of the setting: above the comparison, and on the strip beside the
+// panel; and the strip never shows the plan's figures as the bed's while
+// the check waits.
+func TestAProposalWithAStopIsSaidAboveTheComparison(t *testing.T) {
+	m, _ := handoverModel(t)
+	press(m, runes("B4"), enter, runes("ab"), enter, runes("8"), enter, runes("21"), enter)
+	require.Nil(t, m.out.check)
+	require.Contains(t, screen(m), "CHECK WAITING for")
+	require.NotContains(t, screen(m), "Plan: ", "the plan's figures would read as the bed's")
+	press(m, runes("1.4"), enter, enter, enter, runes("22"), enter, runes("18"))
+	m.checkField("propose-hole").SetValue("22")
+	m.entryChanged()
+	v := screen(m)
+	stop := strings.Index(v, "DO NOT MAKE THE PROPOSED CHANGE AS")
+	require.Contains(t, v, "tidal volume 12.7 mL/kg PBW is at")
+	table := strings.Index(v, "SETTING ")
+	require.True(t, stop >= 0 && table > stop, "the stop comes before the comparison:\n%s", v)
+	require.Contains(t, v, "Proposed: STOP | Set now: WARN")
 }

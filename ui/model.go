@@ -583,12 +583,24 @@ func (m *Model) summary() string {
 	}
 	// On the handover panel the strip is what the machine is set to now;
 	// elsewhere it is the plan.
-	if m.focus == panelHandover && m.out.check != nil {
+	if m.focus == panelHandover {
 		ck := m.out.check
-		if ck.Unexplained() {
+		switch {
+		case ck == nil:
+			// Never the plan's figures here: they would read as the bed's.
+			reason := "the machine's setting"
+			if len(m.out.checkWaiting) > 0 {
+				reason = strings.Join(m.out.checkWaiting, "; ")
+			}
+			return truncate(s.Waiting.Render("CHECK WAITING for "+reason), m.w)
+		case ck.Unexplained():
 			return truncate(s.levelWord(setup.Stop)+s.Error.Render(" Set now: readings unexplained, what the patient gets is NOT KNOWN"), m.w)
 		}
-		return m.strip("Set now: ", ck.Current.Figures, ck.Current.Cautions)
+		lead := "Set now: "
+		if ck.Proposed != nil && setup.FirstStop(ck.Proposed.Cautions) != nil {
+			lead = "Proposed: STOP | Set now: "
+		}
+		return m.strip(lead, ck.Current.Figures, ck.Current.Cautions)
 	}
 	pl := m.out.plan
 	if pl == nil {
