@@ -6,6 +6,8 @@ import (
 
 	"github.com/charmbracelet/bubbles/key"
 	tea "github.com/charmbracelet/bubbletea"
+
+	"crankside/setup"
 )
 
 // cautionsPanel lists every caution with its advice and the source of its
@@ -47,14 +49,37 @@ func (p *cautionsPanel) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 	return p, nil
 }
 
+// lines are the plan's cautions and, once the handover panel has a check,
+// the check's (now and proposed) under their own headings: the handover's
+// STOPs are never only on F6.
 func (p *cautionsPanel) lines() []string {
 	s := p.styles
-	if p.out == nil || p.out.plan == nil {
-		return strings.Split(s.waitingView(p.waiting()), "\n")
+	var l []string
+	var ck *setup.Check
+	if p.out != nil {
+		ck = p.out.check
 	}
-	cs := p.out.plan.Cautions
+	if ck != nil {
+		l = append(l, s.Section.Render("HANDOVER CHECK (F6): what the machine is set to now"))
+		l = append(l, p.cautionList(ck.Current.Cautions, "No cautions for the setting found.")...)
+		if ck.Proposed != nil {
+			l = append(l, "", s.Section.Render("HANDOVER CHECK (F6): the proposed change"))
+			l = append(l, p.cautionList(ck.Proposed.Cautions, "No cautions for the proposed change.")...)
+		}
+		l = append(l, "", s.Section.Render("NEW PATIENT PLAN (F1-F4)"))
+	}
+	if p.out == nil || p.out.plan == nil {
+		return append(l, strings.Split(s.waitingView(p.waiting()), "\n")...)
+	}
+	return append(l, p.cautionList(p.out.plan.Cautions, "No cautions for this setting.")...)
+}
+
+// cautionList is every caution with its level, value and limit, message,
+// advice and source; none is cut short.
+func (p *cautionsPanel) cautionList(cs []setup.Caution, none string) []string {
+	s := p.styles
 	if len(cs) == 0 {
-		return []string{s.Value.Render("No cautions for this setting."), s.Hint.Render("Confirm it at the bedside all the same.")}
+		return []string{s.Value.Render(none), s.Hint.Render("Confirm it at the bedside all the same.")}
 	}
 	var l []string
 	indent := "     "

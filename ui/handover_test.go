@@ -1,6 +1,7 @@
 package ui
 
 import (
+	"fmt"
 	"os"
 	"path/filepath"
 	"strings"
@@ -147,4 +148,29 @@ func TestAProposalWithAStopIsSaidAboveTheComparison(t *testing.T) {
 	table := strings.Index(v, "SETTING ")
 	require.True(t, stop >= 0 && table > stop, "the stop comes before the comparison:\n%s", v)
 	require.Contains(t, v, "Proposed: STOP | Set now: WARN")
+}
+
+// The Cautions panel lists the handover check's cautions too: with the
+// manometer at 120/100 (above 40 cmH2O: MHRA RMVS001) its STOPs are on
+// F5 under their own heading, and the tab counts them after a "+".
+func TestTheCautionsPanelListsTheChecksCautions(t *testing.T) {
+	m, _ := handoverModel(t)
+	press(m, runes("B4"), enter, runes("ab"), enter, runes("8"), enter, runes("21"), enter, runes("1.4"), enter,
+		enter, enter, runes("120"), enter, runes("100"))
+	require.NotNil(t, m.out.check)
+	n := len(m.out.check.Current.Cautions)
+	require.Contains(t, m.titleBar(), fmt.Sprintf("Cautions(%d+%d)", len(m.out.plan.Cautions), n))
+	press(m, fkey(5))
+	v := strings.Join(m.panels[panelCautions].(*cautionsPanel).lines(), "\n")
+	require.Contains(t, v, "HANDOVER CHECK (F6): what the machine is set to now")
+	require.Contains(t, v, "NEW PATIENT PLAN (F1-F4)")
+	check := v[:strings.Index(v, "NEW PATIENT PLAN")]
+	words := 0
+	for _, l := range strings.Split(check, "\n") {
+		if strings.HasPrefix(l, "STOP ") || strings.HasPrefix(l, "WARN ") || strings.HasPrefix(l, "NOTE ") {
+			words++
+		}
+	}
+	require.Equal(t, n, words, "every caution of the check, with its level word:\n%s", v)
+	require.Contains(t, v, "STOP")
 }

@@ -549,8 +549,8 @@ func (m *Model) titleBar() string {
 	var tabs []string
 	for i, p := range m.panels {
 		name := fmt.Sprintf("F%d %s", i+1, p.Title())
-		if i == panelCautions && m.out.plan != nil {
-			name += fmt.Sprintf("(%d)", len(m.out.plan.Cautions))
+		if i == panelCautions {
+			name += m.cautionCount()
 		}
 		if i == m.focus && m.ward == nil { // over the ward, no panel is shown
 			tabs = append(tabs, s.TabActive.Render("["+name+"]"))
@@ -570,6 +570,26 @@ func (m *Model) titleBar() string {
 	}
 	lead := s.Title.Render("crankside") + s.Label.Render(" · "+m.out.profile.ID+" ")
 	return truncate(lead+" "+bar, m.w)
+}
+
+// cautionCount is the Cautions tab's count: the plan's, and with a
+// handover check its own (now and proposed) after a "+".
+func (m *Model) cautionCount() string {
+	n := ""
+	if m.out.plan != nil {
+		n = fmt.Sprint(len(m.out.plan.Cautions))
+	}
+	if ck := m.out.check; ck != nil {
+		c := len(ck.Current.Cautions)
+		if ck.Proposed != nil {
+			c += len(ck.Proposed.Cautions)
+		}
+		n += fmt.Sprintf("+%d", c)
+	}
+	if n == "" {
+		return ""
+	}
+	return "(" + n + ")"
 }
 
 // summary is the strip that stays on every panel.
