@@ -120,14 +120,14 @@ func TestTakingTheStepInATerminal(t *testing.T) {
 		tm.Type(k)
 	}
 	teatest.WaitFor(t, tm.Output(), func(b []byte) bool { return strings.Contains(ansi.Strip(string(b)), "Ctrl+T takes it") },
-		teatest.WithDuration(5*time.Second), teatest.WithCheckInterval(20*time.Millisecond))
+		teatest.WithDuration(20*time.Second), teatest.WithCheckInterval(20*time.Millisecond))
 	tm.Send(ctrlT)
 	teatest.WaitFor(t, tm.Output(), func(b []byte) bool { return strings.Contains(ansi.Strip(string(b)), "taken into PROPOSE") },
-		teatest.WithDuration(5*time.Second), teatest.WithCheckInterval(20*time.Millisecond))
+		teatest.WithDuration(20*time.Second), teatest.WithCheckInterval(20*time.Millisecond))
 	// Not recorded: the first Ctrl+C asks, the second quits.
 	tm.Send(tea.KeyMsg{Type: tea.KeyCtrlC})
 	tm.Send(tea.KeyMsg{Type: tea.KeyCtrlC})
-	tm.WaitFinished(t, teatest.WithFinalTimeout(5*time.Second))
+	tm.WaitFinished(t, teatest.WithFinalTimeout(20*time.Second))
 	final := tm.FinalModel(t).(*Model)
 	require.Equal(t, "28.5", final.checkField("propose-rpm").Value(), "derived in typeAcidoticHandover")
 	require.Equal(t, "1.1", final.checkField("propose-dwell-s").Value())

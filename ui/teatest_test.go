@@ -31,9 +31,9 @@ func TestWholeFlowInATerminal(t *testing.T) {
 			strip := regexp.MustCompile(regexp.QuoteMeta(fmt.Sprintf("Hole %s | %.1f rpm | dwell %.1f s", want.Hole.Label, want.Timing.RPM, want.Timing.DwellS)))
 			teatest.WaitFor(t, tm.Output(), func(b []byte) bool {
 				return strip.Match(b) && bytes.Contains(b, []byte("SET ON THE MACHINE"))
-			}, teatest.WithDuration(5*time.Second), teatest.WithCheckInterval(20*time.Millisecond))
+			}, teatest.WithDuration(20*time.Second), teatest.WithCheckInterval(20*time.Millisecond))
 			tm.Send(tea.KeyMsg{Type: tea.KeyCtrlC})
-			tm.WaitFinished(t, teatest.WithFinalTimeout(5*time.Second))
+			tm.WaitFinished(t, teatest.WithFinalTimeout(20*time.Second))
 			final := tm.FinalModel(t).(*Model)
 			require.Equal(t, panelSetting, final.focus)
 			require.Equal(t, want.Hole.Label, final.out.plan.Hole.Label)

@@ -80,14 +80,14 @@ func TestWardViewInATerminal(t *testing.T) {
 	tm := teatest.NewTestModel(t, m, teatest.WithInitialTermSize(80, 24))
 	tm.Send(tea.KeyMsg{Type: tea.KeyF7})
 	teatest.WaitFor(t, tm.Output(), func(b []byte) bool { return strings.Contains(string(b), "most urgent first") },
-		teatest.WithDuration(5*time.Second), teatest.WithCheckInterval(20*time.Millisecond))
+		teatest.WithDuration(20*time.Second), teatest.WithCheckInterval(20*time.Millisecond))
 	tm.Send(tea.KeyMsg{Type: tea.KeyDown})
 	tm.Send(tea.KeyMsg{Type: tea.KeyEnter})
 	teatest.WaitFor(t, tm.Output(), func(b []byte) bool { return strings.Contains(string(b), "from the record at 08:30") },
-		teatest.WithDuration(5*time.Second), teatest.WithCheckInterval(20*time.Millisecond))
+		teatest.WithDuration(20*time.Second), teatest.WithCheckInterval(20*time.Millisecond))
 	tm.Send(tea.KeyMsg{Type: tea.KeyCtrlC})
 	tm.Send(tea.KeyMsg{Type: tea.KeyCtrlC})
-	tm.WaitFinished(t, teatest.WithFinalTimeout(5*time.Second))
+	tm.WaitFinished(t, teatest.WithFinalTimeout(20*time.Second))
 	final := tm.FinalModel(t).(*Model)
 	require.Equal(t, "168", final.field("height-cm").Value())
 	require.Equal(t, "7", final.checkField("hole").Value())
