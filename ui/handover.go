@@ -47,12 +47,12 @@ func newHandoverPanel(s *Styles) *handoverPanel {
 			textField("hole", "Hole", "", "", kindLabel),
 			numberField("rpm", "Motor rpm", "rpm", ""),
 			numberField("dwell-s", "Dwell s", "s", ""),
-			numberField("peep", "PEEP valve", "cmH2O", "blank: 5"),
+			numberField("peep", "PEEP cmH2O", "cmH2O", "blank: 5"),
 			numberField("o2-lpm", "O2 L/min", "L/min", "blank: none"),
 		}},
 		section{title: "MANOMETER READS", fields: []*field{
-			numberField("peak", "Peak", "cmH2O", ""),
-			numberField("end-pressure", "End insp.", "cmH2O", ""),
+			numberField("peak", "Peak cmH2O", "cmH2O", ""),
+			numberField("end-pressure", "End cmH2O", "cmH2O", ""),
 		}},
 		section{title: "BLOOD GAS / OXIMETER", fields: []*field{
 			numberField("spo2", "SpO2 %", "%", ""),
@@ -69,7 +69,7 @@ func newHandoverPanel(s *Styles) *handoverPanel {
 			textField("propose-hole", "Hole", "", "", kindLabel),
 			numberField("propose-rpm", "Motor rpm", "rpm", ""),
 			numberField("propose-dwell-s", "Dwell s", "s", ""),
-			numberField("propose-peep", "PEEP", "cmH2O", ""),
+			numberField("propose-peep", "PEEP cmH2O", "cmH2O", ""),
 			numberField("propose-o2-lpm", "O2 L/min", "L/min", ""),
 		}},
 	)
@@ -120,9 +120,11 @@ func (p *handoverPanel) View() string {
 		// Said in words, as the full-width forms say it beside the field:
 		// without colour the highlight of a selected value is not drawn.
 		head += "\n" + s.Hint.Render(f.label+": typing replaces "+f.Value()+"; an arrow edits it")
-	} else if g := setup.GasGoalLine(f.name); p.form.focused && g != "" {
-		// A gas reading's goal, and the rule it serves, beside the form.
-		head += "\n" + s.Hint.Render(g)
+	} else if g := setup.CheckHint(f.name); p.form.focused && g != "" {
+		// What the entry is and what a blank one is taken to be (a gas
+		// reading's goal and the rule it serves), as the full-width forms
+		// say it beside the field.
+		head += "\n" + s.Hint.Render(f.label+": "+g)
 	}
 	rw := max(p.w-formColumn-2, 20)
 	left := lipgloss.NewStyle().Width(formColumn).Render(p.form.view())

@@ -174,3 +174,16 @@ func TestTheCautionsPanelListsTheChecksCautions(t *testing.T) {
 	require.Equal(t, n, words, "every caution of the check, with its level word:\n%s", v)
 	require.Contains(t, v, "STOP")
 }
+
+// The compact handover form says, above it, what the focused entry is and
+// what a blank one is taken to be: a blank PEEP valve is checked as 5
+// cmH2O (ARDS Network 2000 protocol: at least 5), whatever the plan's PEEP.
+func TestTheHandoverSaysWhatABlankEntryIsTakenToBe(t *testing.T) {
+	m, _ := handoverModel(t)
+	press(m, runes("B4"), enter, runes("ab"), enter, runes("8"), enter, runes("21"), enter, runes("1.4"), enter)
+	require.Equal(t, "peep", m.handover.form.current().name)
+	require.Contains(t, screen(m), "PEEP cmH2O: what the PEEP valve is set to; blank: 5 cmH2O assumed")
+	press(m, enter, enter)
+	require.Equal(t, "peak", m.handover.form.current().name)
+	require.Contains(t, screen(m), "Peak cmH2O: the manometer at the peak of delivery")
+}

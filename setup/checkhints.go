@@ -1,0 +1,32 @@
+package setup
+
+import "fmt"
+
+// CheckHint is what a handover entry means and what a blank one is taken
+// to be, with the source of a default, for a form to show beside the
+// focused entry; "" for an entry it does not know. (Hint is the same for
+// the plan's entries; a check's PEEP valve, say, is what the valve is set
+// to, not the protocol's table.)
+func CheckHint(name string) string {
+	switch name {
+	case "bed":
+		return "the bed's label, like B4: never a patient's name"
+	case "initials":
+		return "who checks: 1 to 4 letters, or blank"
+	case "hole", "rpm", "dwell-s":
+		return "required: as set on the machine"
+	case "peep":
+		return fmt.Sprintf("what the PEEP valve is set to; blank: %d cmH2O assumed (ARDS Network 2000 protocol: at least 5)", DefaultPEEPCmH2O)
+	case "o2-lpm":
+		return "the O2 bleed into the reservoir; blank: none (room air)"
+	case "peak":
+		return "the manometer at the peak of delivery, patient passive; with the end reading, or neither"
+	case "end-pressure":
+		return "the manometer when the piston stops (end of delivery); with the peak, or neither"
+	case "cylinder-l", "cylinder-bar":
+		return "optional: the cylinder's capacity and pressure together"
+	case "propose-hole", "propose-rpm", "propose-dwell-s", "propose-peep", "propose-o2-lpm":
+		return "a change to evaluate beside the setting; blank: as now"
+	}
+	return GasGoalLine(name)
+}
