@@ -103,7 +103,9 @@ func (p *handoverPanel) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 		return p, ask(cardRequested{})
 	case key.Matches(km, p.keys.History):
 		return p, ask(historyRequested{})
-	case key.Matches(km, p.keys.Take):
+	case key.Matches(km, p.keys.Take), km.String() == "ctrl+t":
+		// Shown in the help only when there is a step; without one the
+		// key says why rather than nothing.
 		return p, ask(stepTakeRequested{})
 	}
 	return p, p.updateForm(km)

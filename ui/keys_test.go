@@ -297,3 +297,17 @@ func TestCompactFormSaysASelectedValueInWords(t *testing.T) {
 	require.Equal(t, "cd", m.checkField("initials").Value(), "the first key replaced it")
 	require.NotContains(t, screen(m), "typing replaces")
 }
+
+// An action key pressed on a panel that has no such action is said where
+// it acts, never dropped without a word; Ctrl+T with no step says why.
+func TestAnActionKeyElsewhereSaysWhereItActs(t *testing.T) {
+	m := newTestModel(t, map[string]string{"height-cm": "175", "sex": "male"})
+	m.focusPanel(panelTargets)
+	press(m, ctrlS)
+	require.Contains(t, screen(m), "ctrl+s record: on F6 Handover")
+	press(m, tea.KeyMsg{Type: tea.KeyCtrlB})
+	require.Contains(t, screen(m), "ctrl+b refit from a bench file: on F3 Machine")
+	press(m, fkey(6), tea.KeyMsg{Type: tea.KeyCtrlT})
+	require.Contains(t, screen(m), "no protocol step to take")
+	require.Contains(t, screen(m), "ctrl+s record", "on the handover panel its own keys come first in the help line")
+}

@@ -3,6 +3,7 @@ package ui
 import (
 	"errors"
 	"fmt"
+	"slices"
 	"strings"
 	"time"
 
@@ -244,8 +245,35 @@ func (m *Model) handleKey(msg tea.KeyMsg) tea.Cmd {
 		m.note = "nothing to type into here (" + m.panels[m.focus].Title() + "): F1, F2 and F6 have entries"
 		return nil
 	}
+	if where := m.keyElsewhere(msg); where != "" {
+		m.note = where
+		return nil
+	}
 	_, cmd := m.panels[m.focus].Update(msg)
 	return cmd
+}
+
+// keyElsewhere says where an action key of another panel acts when the
+// focused panel has no such key ("ctrl+s record: on F6 Handover"), so
+// that it is never dropped without a word; "" otherwise. Only the keys
+// that act (record, card, history, the step; load a profile, refit, save
+// the refit) are looked for: editing keys stay the focused field's.
+func (m *Model) keyElsewhere(msg tea.KeyMsg) string {
+	hk, mk := m.handover.keys, m.machine.keys
+	for _, a := range []struct {
+		panel    int
+		bindings []key.Binding
+	}{{panelHandover, []key.Binding{hk.Save, hk.Card, hk.History, hk.Take}}, {panelMachine, []key.Binding{mk.Pick, mk.Bench, mk.Write}}} {
+		if a.panel == m.focus {
+			continue
+		}
+		for _, b := range a.bindings {
+			if slices.Contains(b.Keys(), msg.String()) {
+				return fmt.Sprintf("%s %s: on F%d %s", b.Help().Key, b.Help().Desc, a.panel+1, m.panels[a.panel].Title())
+			}
+		}
+	}
+	return ""
 }
 
 // isTyping reports whether a key types: a printable character or a space.
@@ -679,10 +707,11 @@ func (m *Model) helpLine() string {
 			key.NewBinding(key.WithKeys("esc"), key.WithHelp("esc", "close")),
 			key.NewBinding(key.WithKeys("f1"), key.WithHelp("F1-F6", "panel")), m.keys.Quit}
 	default:
-		// The general keys first, so that a narrow window drops a panel's
-		// own keys rather than how to find every key.
-		b = []key.Binding{m.keys.Help, key.NewBinding(key.WithKeys("f1"), key.WithHelp("F1-F6", "panel")), m.keys.Ward, m.keys.Next, m.keys.Quit}
-		b = append(b, m.panels[m.focus].ShortHelp()...)
+		// How to find every key first, then the panel's own keys (record,
+		// card, history on the handover panel), then the general ones: a
+		// narrow window drops the keys that are the same everywhere.
+		b = append([]key.Binding{m.keys.Help}, m.panels[m.focus].ShortHelp()...)
+		b = append(b, key.NewBinding(key.WithKeys("f1"), key.WithHelp("F1-F6", "panel")), m.keys.Ward, m.keys.Next, m.keys.Quit)
 	}
 	// The help line drops the keys that do not fit; F1 ... ? come first.
 	return ansi.Truncate(m.help.ShortHelpView(b), m.w, "")
