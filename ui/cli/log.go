@@ -123,7 +123,7 @@ func runLogShow(env Env, args []string) int {
 	if asJSON() {
 		status = writeJSON(env, logJSON(hist, sum))
 	} else {
-		status = writeText(env, "log show", func(w io.Writer) error { return writeHistory(w, hist, len(sum.Logs) > 1) })
+		status = writeText(env, "log show", func(w io.Writer) error { return writeHistory(w, hist, bed(), len(sum.Logs) > 1) })
 	}
 	if status == ExitOK && damaged {
 		return ExitFailure
@@ -147,10 +147,13 @@ func logJSON(hist []setup.BedHistory, sum setup.LogSummary) any {
 	return out
 }
 
-func writeHistory(w io.Writer, hist []setup.BedHistory, manyLogs bool) error {
+func writeHistory(w io.Writer, hist []setup.BedHistory, bed string, manyLogs bool) error {
 	var b strings.Builder
-	if len(hist) == 0 {
-		b.WriteString("No checks recorded for that bed.\n")
+	switch {
+	case len(hist) == 0 && bed == "":
+		b.WriteString("No checks recorded.\n")
+	case len(hist) == 0:
+		fmt.Fprintf(&b, "No checks recorded for bed %s.\n", safetext.Escape(bed))
 	}
 	for _, h := range hist {
 		fmt.Fprintf(&b, "Bed %s: %d check(s), newest first\n", h.Bed, len(h.Entries))
