@@ -199,3 +199,11 @@ func (r CalibrationResult) WriteText(w io.Writer) error {
 	_, err := io.WriteString(w, b.String())
 	return err
 }
+
+// ReadBench reads a bench CSV for p (profiles.ReadBenchNumbers) with the
+// one number parser, physiology.ParseNumber: a decimal comma is a decimal
+// mark ("480,5" quoted in a comma-separated file, or bare in a
+// semicolon-separated one, is 480.5).
+func ReadBench(r io.Reader, source string, p profiles.Profile) ([]profiles.BenchPoint, error) {
+	return profiles.ReadBenchNumbers(r, source, p, physiology.ParseNumber)
+}

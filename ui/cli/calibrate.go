@@ -16,7 +16,10 @@ const calibrateLong = `Usage: crankside calibrate --profile ID|PATH --bench FILE
 
 Refits a machine's bench calibration. The bench file is CSV with the header
   hole,test_lung_compliance_ml_per_cmh2o,test_lung_resistance_cmh2o_per_l_s,rpm,measured_ml
-and one row per bench breath into a test lung, delivered from rest. Each
+and one row per bench breath into a test lung, delivered from rest. A
+decimal comma is a decimal mark ("480,5", quoted in a comma-separated
+file); a file whose header is separated by semicolons, as spreadsheets
+write it where the comma is the decimal mark, is read that way. Each
 point's residual is shown with whether it is within +/-(4 mL + 15%).
 --write stores the new calibration and date in the profile file (the old
 file is kept as FILE.bak); without it nothing is written. --write refuses
@@ -102,7 +105,7 @@ func readBench(env Env, path string, p profiles.Profile) ([]profiles.BenchPoint,
 		return nil, UsageError(env.Stderr, "calibrate", "--bench: "+err.Error())
 	}
 	defer bf.Close()
-	points, err := profiles.ReadBench(bf, path, p)
+	points, err := setup.ReadBench(bf, path, p)
 	var be *profiles.BenchError
 	switch {
 	case errors.As(err, &be):
