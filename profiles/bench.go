@@ -1,6 +1,7 @@
 package profiles
 
 import (
+	"bytes"
 	"encoding/csv"
 	"errors"
 	"fmt"
@@ -52,10 +53,28 @@ func (e *BenchError) Is(target error) bool { return target == ErrBench }
 
 // ReadBench reads a bench CSV for profile p: one row per bench breath into
 // a test lung, delivered from rest. Every bad row is reported with its line
-// number and reason; any bad row refuses the whole file.
+// number and reason; any bad row refuses the whole file. Numbers are read
+// with a decimal point only; ReadBenchNumbers takes the caller's parser.
 func ReadBench(r io.Reader, source string, p Profile) ([]BenchPoint, error) {
+	return ReadBenchNumbers(r, source, p, nil)
+}
+
+// ReadBenchNumbers is ReadBench with each number cell read by parse (nil:
+// a decimal point only). This package imports no number parser of its own;
+// setup hands it physiology.ParseNumber, so that "480,5" is 480.5 as
+// everywhere else. A file whose header line is separated by semicolons, as
+// spreadsheets write CSV where the comma is the decimal mark, is read with
+// semicolons between the cells.
+func ReadBenchNumbers(r io.Reader, source string, p Profile, parse func(string) (float64, error)) ([]BenchPoint, error) {
 	fail := func(ps ...RowProblem) ([]BenchPoint, error) { return nil, &BenchError{Source: source, Problems: ps} }
-	cr := csv.NewReader(io.LimitReader(r, MaxFileBytes+1))
+	data, err := io.ReadAll(io.LimitReader(r, MaxFileBytes+1))
+	if err != nil {
+		return fail(RowProblem{1, err.Error()})
+	}
+	cr := csv.NewReader(bytes.NewReader(data))
+	if semicolonHeader(data) {
+		cr.Comma = ';'
+	}
 	cr.FieldsPerRecord = -1
 	cr.TrimLeadingSpace = true
 	cr.ReuseRecord = false
@@ -96,7 +115,7 @@ func ReadBench(r io.Reader, source string, p Profile) ([]BenchPoint, error) {
 			problems = append(problems, RowProblem{line, "more bad lines not listed"})
 			break
 		}
-		pt, why := benchRow(trimAll(rec), p)
+		pt, why := benchRow(trimAll(rec), p, parse)
 		if why != "" {
 			problems = append(problems, RowProblem{line, why})
 			continue
@@ -115,6 +134,15 @@ func ReadBench(r io.Reader, source string, p Profile) ([]BenchPoint, error) {
 	return points, nil
 }
 
+// semicolonHeader says whether the first line is the header with
+// semicolons between its names.
+func semicolonHeader(data []byte) bool {
+	first, _, _ := bytes.Cut(data, []byte("\n"))
+	first = bytes.TrimPrefix(bytes.TrimRight(first, "\r"), []byte("\ufeff"))
+	names := strings.Split(string(first), ";")
+	return len(names) == len(benchHeader) && strings.Join(trimAll(names), ",") == BenchHeader()
+}
+
 func trimAll(rec []string) []string {
 	out := make([]string, len(rec))
 	for i, f := range rec {
@@ -124,13 +152,16 @@ func trimAll(rec []string) []string {
 }
 
 // benchRow checks one row; the reason is empty when it is good.
-func benchRow(rec []string, p Profile) (BenchPoint, string) {
+func benchRow(rec []string, p Profile, parse func(string) (float64, error)) (BenchPoint, string) {
+	if parse == nil {
+		parse = func(t string) (float64, error) { return strconv.ParseFloat(t, 64) }
+	}
 	if len(rec) != len(benchHeader) {
 		return BenchPoint{}, fmt.Sprintf("%d columns; a row has %d (%s)", len(rec), len(benchHeader), BenchHeader())
 	}
 	var bad []string
 	num := func(i int, lo, hi float64, unit string) float64 {
-		v, err := strconv.ParseFloat(rec[i], 64)
+		v, err := parse(rec[i])
 		switch {
 		case err != nil || math.IsNaN(v) || math.IsInf(v, 0):
 			bad = append(bad, fmt.Sprintf("%s %s is not a number", benchHeader[i], quote(rec[i])))

@@ -6,6 +6,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"strconv"
 	"strings"
 	"testing"
 
@@ -338,4 +339,23 @@ func TestReadBenchReportsEveryBadLine(t *testing.T) {
 	require.NoError(t, err)
 	require.Len(t, pts, 2)
 	require.Equal(t, "8", pts[1].Hole)
+}
+
+// Issue rule: a header separated by semicolons (a spreadsheet's CSV where
+// the comma is the decimal mark) is read with semicolons, line numbers and
+// all; a comma-separated file is still read with commas.
+func TestReadBenchSemicolonSeparated(t *testing.T) {
+	p := demo(t, "demo-a")
+	semi := strings.ReplaceAll(BenchHeader(), ",", ";")
+	pts, err := ReadBench(strings.NewReader("\ufeff"+semi+"\r\n5;50;5;20;318\r\n8; 50; 5; 20; 408.5\r\n"), "b.csv", p)
+	require.NoError(t, err)
+	require.Equal(t, []float64{318, 408.5}, []float64{pts[0].MeasuredML, pts[1].MeasuredML})
+	// A bad row of a semicolon file is named by its line.
+	_, err = ReadBench(strings.NewReader(semi+"\n5;50;5;20;318\n8;50;x;20;408\n"), "b.csv", p)
+	require.ErrorContains(t, err, "line 3")
+	// The parser given reads each number cell.
+	comma := func(s string) (float64, error) { return strconv.ParseFloat(strings.Replace(s, ",", ".", 1), 64) }
+	pts, err = ReadBenchNumbers(strings.NewReader(semi+"\n5;50;5;20;318,5\n"), "b.csv", p, comma)
+	require.NoError(t, err)
+	require.Equal(t, 318.5, pts[0].MeasuredML)
 }

@@ -51,6 +51,16 @@ type CalibrationResult struct {
 	LeakBefore      float64
 	LeakFitted      bool
 	LeakNote        string
+	// status is the calibration as a plan will read it from Profile.
+	status CalibrationStatus
+}
+
+// Unwritable lists the cautions that keep this calibration out of the
+// profile file: a k outside CalKMin-CalKMax, or a hole whose effective
+// volume would exceed its geometric volume (DESIGN, cautions). Empty when
+// the calibration may be written.
+func (r CalibrationResult) Unwritable() []Caution {
+	return calibrationFitCautions(r.status)
 }
 
 // Calibrate fits k and b to bench points for profile p. Each point is
@@ -78,31 +88,32 @@ func Calibrate(p profiles.Profile, points []profiles.BenchPoint, date string, no
 	if err != nil {
 		return CalibrationResult{}, err
 	}
-	res := CalibrationResult{Before: old.cal.Calibration, K: fit.K, BML: fit.BML, ThroughOrigin: fit.ThroughOrigin, Date: date,
-		LeakLPerMinAt20: fit.LeakLPerMinAt20CmH2O, LeakBefore: p.Circuit.LeakLMinAt20CmH2O, LeakFitted: fit.LeakFitted, LeakNote: fit.LeakNote}
-	holes := map[string]bool{}
-	outside := 0
-	for i, pt := range points {
-		r := fit.Residuals[i]
-		within := machine.WithinISOTolerance(pt.MeasuredML, r.PredictedML)
-		if !within {
-			outside++
-		}
-		holes[pt.Hole] = true
-		res.Points = append(res.Points, PointResult{Hole: pt.Hole, RPM: pt.RPM, SweptML: r4(gains[i].SweptML), Gain: r4(gains[i].Gain),
-			MeasuredML: pt.MeasuredML, PredictedML: r4(r.PredictedML), ResidualML: r4(r.ResidualML), ResidualPct: r4(r.ResidualPct), Within: within})
+	// The profile that --write stores: the bench points, their date and the
+	// leak the fit used. A plan derives k and b from these (fitCalibration),
+	// so the line shown here is derived the same way from the same profile:
+	// what is previewed is what is written and then used, to the digit. The
+	// joint fit above chooses the leak; k and b are the line at that leak.
+	np := p
+	np.Calibration = &profiles.Calibration{Date: date, Points: append([]profiles.BenchPoint(nil), points...)}
+	np.Circuit.LeakLMinAt20CmH2O = fit.LeakLPerMinAt20CmH2O
+	nu, err := newUnit(np, now)
+	if err != nil {
+		return CalibrationResult{}, err
 	}
-	res.Holes = len(holes)
-	res.Profile = p
-	res.Profile.Calibration = &profiles.Calibration{Date: date, Points: append([]profiles.BenchPoint(nil), points...)}
-	res.Profile.Circuit.LeakLMinAt20CmH2O = fit.LeakLPerMinAt20CmH2O
-	mf := machine.Fit{Calibration: fit.Calibration, ThroughOrigin: fit.ThroughOrigin, Residuals: fit.Residuals}
-	res.Cautions = calibrationCautions(CalibrationStatus{Calibration: fit.Calibration, Date: date, AgeDays: int(now.Sub(d).Hours() / 24),
-		Points: len(points), Holes: res.Holes, Fit: &mf, Outside: outside, SweptMinML: old.cal.SweptMinML, SweptMaxML: old.cal.SweptMaxML})
+	st := nu.cal
+	res := CalibrationResult{Profile: np, Before: old.cal.Calibration, K: st.K, BML: st.BML, ThroughOrigin: st.Fit.ThroughOrigin, Date: date,
+		LeakLPerMinAt20: fit.LeakLPerMinAt20CmH2O, LeakBefore: p.Circuit.LeakLMinAt20CmH2O, LeakFitted: fit.LeakFitted, LeakNote: fit.LeakNote,
+		Holes: st.Holes, status: st}
+	for i, pt := range points {
+		r := st.Fit.Residuals[i]
+		res.Points = append(res.Points, PointResult{Hole: pt.Hole, RPM: pt.RPM, SweptML: r4(gains[i].SweptML), Gain: r4(gains[i].Gain),
+			MeasuredML: pt.MeasuredML, PredictedML: r4(r.PredictedML), ResidualML: r4(r.ResidualML), ResidualPct: r4(r.ResidualPct), Within: st.Residuals[i].Within})
+	}
+	res.Cautions = calibrationCautions(st)
 	for _, h := range p.Crank.Holes {
 		swept := machine.SweptVolumeML(p.Cylinder.BoreCm, old.crank(h))
 		res.Volumes = append(res.Volumes, VolumeChange{Hole: h.Label, SweptML: r4(swept),
-			BeforeML: r4(old.cal.EffectiveSweptML(swept)), AfterML: r4(fit.EffectiveSweptML(swept))})
+			BeforeML: r4(old.cal.EffectiveSweptML(swept)), AfterML: r4(st.EffectiveSweptML(swept))})
 	}
 	return res, nil
 }
@@ -187,4 +198,12 @@ func (r CalibrationResult) WriteText(w io.Writer) error {
 	writeCautions(&b, r.Cautions)
 	_, err := io.WriteString(w, b.String())
 	return err
+}
+
+// ReadBench reads a bench CSV for p (profiles.ReadBenchNumbers) with the
+// one number parser, physiology.ParseNumber: a decimal comma is a decimal
+// mark ("480,5" quoted in a comma-separated file, or bare in a
+// semicolon-separated one, is 480.5).
+func ReadBench(r io.Reader, source string, p profiles.Profile) ([]profiles.BenchPoint, error) {
+	return profiles.ReadBenchNumbers(r, source, p, physiology.ParseNumber)
 }

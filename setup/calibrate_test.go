@@ -136,3 +136,40 @@ func BenchmarkCalibrationFit(b *testing.B) {
 		}
 	}
 }
+
+// Issue rule: the k and b Calibrate shows are those a plan derives from the
+// profile it returns (what --write stores), exactly: an invented bench
+// whose test lungs are 2.5 times apart, so the leak is fitted too.
+func TestCalibrateShowsTheLineThePlanUses(t *testing.T) {
+	p := profile(t, "demo-a")
+	pts := benchRows(20, "4", "9", "14", "20")
+	for i, row := range []struct{ c, ml float64 }{{20, 255}, {50, 415}, {20, 500}, {50, 712}} {
+		pts[i].TestLungComplianceMLPerCmH2O, pts[i].MeasuredML = row.c, row.ml
+	}
+	res, err := setup.Calibrate(p, pts, "2026-11-30", today)
+	require.NoError(t, err)
+	require.True(t, res.LeakFitted)
+	sum, err := setup.DescribeProfile(res.Profile, today)
+	require.NoError(t, err)
+	require.Equal(t, res.K, sum.Calibration.K, "k previewed and k used")
+	require.Equal(t, res.BML, sum.Calibration.BML, "b previewed and b used")
+	for i, pt := range res.Points {
+		require.InDelta(t, sum.Calibration.Fit.Residuals[i].ResidualML, pt.ResidualML, 1e-4, "point %d residual", i+1)
+	}
+}
+
+// Design rule (cautions): a k above 1.1 is not written.
+func TestCalibrateUnwritableNamesTheCaution(t *testing.T) {
+	p := profile(t, "demo-a")
+	pts := benchRows(20, "4", "9", "14", "20")
+	for i, row := range []struct{ c, ml float64 }{{20, 330}, {50, 520}, {20, 640}, {50, 900}} {
+		pts[i].TestLungComplianceMLPerCmH2O, pts[i].MeasuredML = row.c, row.ml
+	}
+	res, err := setup.Calibrate(p, pts, "2026-11-30", today)
+	require.NoError(t, err)
+	var ids []string
+	for _, c := range res.Unwritable() {
+		ids = append(ids, c.ID)
+	}
+	require.Contains(t, ids, "calibration-k-implausible")
+}

@@ -66,14 +66,17 @@ func (s ProfileSummary) WriteText(w io.Writer) error {
 		fmt.Fprintf(&b, "Motor       %.1f-%.1f rpm in %.2f rpm steps, rated %.1f N m\n", p.Motor.MinRPM, p.Motor.MaxRPM, p.Motor.RPMStep, p.Motor.RatedTorqueNm)
 	}
 	fmt.Fprintf(&b, "Controller  dwell in %.2f s steps up to %.1f s\n", p.Controller.DwellStepS, p.Controller.MaxDwellS)
-	fmt.Fprintf(&b, "Circuit     compliance %.2f mL/cmH2O, expiratory valve %.1f cmH2O/(L/s), relief %.0f cmH2O\n",
-		p.Circuit.ComplianceMLPerCmH2O, p.Circuit.ExpiratoryResistanceCmH2OPerLS, p.Circuit.ReliefCmH2O)
+	fmt.Fprintf(&b, "Circuit     compliance %.2f mL/cmH2O, expiratory valve %.1f cmH2O/(L/s), relief %.0f cmH2O, leak %.2f L/min at 20 cmH2O\n",
+		p.Circuit.ComplianceMLPerCmH2O, p.Circuit.ExpiratoryResistanceCmH2OPerLS, p.Circuit.ReliefCmH2O, p.Circuit.LeakLMinAt20CmH2O)
 	c := s.Calibration
 	switch {
 	case c.Fit == nil && c.Date == "":
 		fmt.Fprintf(&b, "Calibration NONE: volumes are geometric (k 1, b 0 mL)\n")
 	case c.Fit == nil:
 		fmt.Fprintf(&b, "Calibration dated %s but has no bench points: volumes are geometric\n", c.Date)
+	case c.AgeDays < 0:
+		// The calibration-future caution below says what to do.
+		fmt.Fprintf(&b, "Calibration %s (WARN: dated in the future), k %.4f, b %.1f mL, %d points on %d holes\n", c.Date, c.K, c.BML, c.Points, c.Holes)
 	default:
 		fmt.Fprintf(&b, "Calibration %s (%d days old), k %.4f, b %.1f mL, %d points on %d holes\n", c.Date, c.AgeDays, c.K, c.BML, c.Points, c.Holes)
 	}

@@ -184,3 +184,27 @@ func orNow(t time.Time) time.Time {
 	}
 	return t
 }
+
+// A bedside manometer's readings: anything outside 0-150 cmH2O is a
+// typing slip, not a reading (common practice: the scale of a ventilator's
+// airway manometer; the cautions judge readings far inside it).
+const (
+	ManometerMinCmH2O = 0
+	ManometerMaxCmH2O = 150
+)
+
+// CheckReadings refuses manometer readings outside ManometerMinCmH2O-
+// ManometerMaxCmH2O, naming the entry ("peak", "end-pressure"). The entry
+// builder calls it on a check's readings.
+func CheckReadings(rd physiology.Readings) Problems {
+	var ps Problems
+	for _, r := range []struct {
+		field, quantity string
+		v               float64
+	}{{"peak", "peak reading", rd.PeakCmH2O}, {"end-pressure", "end reading", rd.EndCmH2O}} {
+		if err := checkRange(r.field, r.quantity, r.v, ManometerMinCmH2O, ManometerMaxCmH2O, "cmH2O"); err != nil {
+			ps = append(ps, err.(*InputError))
+		}
+	}
+	return ps
+}

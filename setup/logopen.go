@@ -6,6 +6,7 @@ import (
 	"io/fs"
 	"os"
 	"path/filepath"
+	"strings"
 )
 
 // fileKind names what a path is, for a message.
@@ -78,12 +79,49 @@ func CheckLogPath(path string) error {
 // refused later when opened; a folder with no log is an error, as is an
 // empty list.
 func ExpandLogPaths(paths []string) ([]string, error) {
+	files, _, err := expandLogPaths(paths, false)
+	return files, err
+}
+
+// SkippedLog is a log found by expanding a folder that fails the log checks
+// (a link, not a regular file, another user's, readable by others, or
+// unreadable): it is left out, and Err says why.
+type SkippedLog struct {
+	Path string
+	Err  error
+}
+
+// String is the line for a person: "log DIR/x.jsonl skipped: has mode
+// 0644, ...; its beds are not shown".
+func (s SkippedLog) String() string {
+	why := s.Err.Error()
+	for _, prefix := range []string{"log " + s.Path + ": ", "log " + s.Path + " "} {
+		if rest, ok := strings.CutPrefix(why, prefix); ok {
+			why = rest
+			break
+		}
+	}
+	return fmt.Sprintf("log %s skipped: %s; its beds are not shown", s.Path, why)
+}
+
+// ExpandLogFolders is ExpandLogPaths, except that a file found inside a
+// folder is opened once here and, when it fails the log checks, left out
+// and returned in skipped, so that one group-readable file does not hide
+// every other bed of the ward. A file named directly is not checked here:
+// opening it refuses it, as ExpandLogPaths does. The caller must say
+// loudly what was skipped (its beds are missing from what it shows).
+func ExpandLogFolders(paths []string) (files []string, skipped []SkippedLog, err error) {
+	return expandLogPaths(paths, true)
+}
+
+func expandLogPaths(paths []string, skipBad bool) ([]string, []SkippedLog, error) {
 	if len(paths) == 0 {
-		return nil, errors.New("no log file given")
+		return nil, nil, errors.New("no log file given")
 	}
 	var out []string
+	var skipped []SkippedLog
 	var seen []os.FileInfo
-	add := func(p string) {
+	add := func(p string, inFolder bool) {
 		st, err := os.Lstat(p)
 		if err == nil {
 			for _, s := range seen {
@@ -93,28 +131,36 @@ func ExpandLogPaths(paths []string) ([]string, error) {
 			}
 			seen = append(seen, st)
 		}
+		if inFolder && skipBad {
+			f, err := openLogForRead(p)
+			if err != nil {
+				skipped = append(skipped, SkippedLog{Path: p, Err: err})
+				return
+			}
+			f.Close()
+		}
 		out = append(out, p)
 	}
 	for _, p := range paths {
 		st, err := os.Lstat(p)
 		if err != nil || !st.IsDir() {
-			add(p) // opening it gives the precise refusal
+			add(p, false) // opening it gives the precise refusal
 			continue
 		}
 		entries, err := os.ReadDir(p)
 		if err != nil {
-			return nil, fmt.Errorf("log folder %s: %w", p, unwrapPathError(err))
+			return nil, nil, fmt.Errorf("log folder %s: %w", p, unwrapPathError(err))
 		}
 		n := 0
 		for _, e := range entries { // ReadDir sorts by name
 			if filepath.Ext(e.Name()) == ".jsonl" {
-				add(filepath.Join(p, e.Name()))
+				add(filepath.Join(p, e.Name()), true)
 				n++
 			}
 		}
 		if n == 0 {
-			return nil, fmt.Errorf("log folder %s holds no *.jsonl log", p)
+			return nil, nil, fmt.Errorf("log folder %s holds no *.jsonl log", p)
 		}
 	}
-	return out, nil
+	return out, skipped, nil
 }

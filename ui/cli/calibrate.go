@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"os"
+	"strings"
 	"time"
 
 	"crankside/profiles"
@@ -15,10 +16,15 @@ const calibrateLong = `Usage: crankside calibrate --profile ID|PATH --bench FILE
 
 Refits a machine's bench calibration. The bench file is CSV with the header
   hole,test_lung_compliance_ml_per_cmh2o,test_lung_resistance_cmh2o_per_l_s,rpm,measured_ml
-and one row per bench breath into a test lung, delivered from rest. Each
+and one row per bench breath into a test lung, delivered from rest. A
+decimal comma is a decimal mark ("480,5", quoted in a comma-separated
+file); a file whose header is separated by semicolons, as spreadsheets
+write it where the comma is the decimal mark, is read that way. Each
 point's residual is shown with whether it is within +/-(4 mL + 15%).
 --write stores the new calibration and date in the profile file (the old
-file is kept as FILE.bak); without it nothing is written.
+file is kept as FILE.bak); without it nothing is written. --write refuses
+(exit 1) a fit whose k is implausible or that gives any hole more than its
+geometric swept volume.
 
 Flags:
 `
@@ -61,6 +67,17 @@ func runCalibrate(env Env) int {
 		return jobError(env.Stderr, "calibrate", err)
 	}
 	if write() {
+		// A line the preview itself calls implausible is not stored: a plan
+		// would use it for every patient on this machine.
+		if bad := res.Unwritable(); len(bad) > 0 {
+			ids := make([]string, len(bad))
+			for i, c := range bad {
+				ids[i] = setup.LevelWord(c.Level) + " " + c.ID
+			}
+			fmt.Fprintf(env.Stderr, "crankside calibrate: nothing written: the fit is implausible (%s: %s); re-measure on the bench, or run without --write to see the whole fit\n",
+				strings.Join(ids, ", "), safetext.Escape(bad[0].Message))
+			return ExitFailure
+		}
 		// Refuse to write over a file that changed since it was read here:
 		// two refits at once must not lose one silently.
 		if err := profiles.SaveWithBackupIfUnchanged(src.Path, res.Profile, src.Stamp); err != nil {
@@ -88,7 +105,7 @@ func readBench(env Env, path string, p profiles.Profile) ([]profiles.BenchPoint,
 		return nil, UsageError(env.Stderr, "calibrate", "--bench: "+err.Error())
 	}
 	defer bf.Close()
-	points, err := profiles.ReadBench(bf, path, p)
+	points, err := setup.ReadBench(bf, path, p)
 	var be *profiles.BenchError
 	switch {
 	case errors.As(err, &be):

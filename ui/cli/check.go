@@ -47,11 +47,11 @@ func checkFlagSet() (*flags, checkOptions) {
 	f.entry("dwell-s", "the dwell set, in s: the motor's stop after each turn (required)")
 	f.entry("peep", "the PEEP valve, cmH2O (default 5)")
 	f.entry("o2-lpm", "oxygen bled into the intake, L/min (default 0)")
-	f.entry("peak", "manometer peak during delivery, cmH2O (with --end-pressure)")
-	f.entry("end-pressure", "manometer reading when the piston stops, cmH2O (with --peak)")
+	f.entry("peak", "manometer peak during delivery, cmH2O, 0-150 (with --end-pressure)")
+	f.entry("end-pressure", "manometer reading when the piston stops, cmH2O, 0-150 (with --peak)")
 	f.entry("lung", "lung condition for the assumed mechanics: normal, ards or obstructive")
-	f.entry("compliance", "assumed compliance when no readings are given")
-	f.entry("resistance", "assumed resistance when no readings are given")
+	f.entry("compliance", "assumed compliance when no readings are given (not used when the readings give the lung)")
+	f.entry("resistance", "assumed resistance when no readings are given (not used when the readings give the lung)")
 	f.entry("cylinder-l", "oxygen cylinder water capacity, L (with --cylinder-bar)")
 	f.entry("cylinder-bar", "oxygen cylinder pressure, bar (with --cylinder-l)")
 	f.entry("room-c", "room temperature in C for the BTPS factor (0-45; default 22, common practice)")
@@ -74,7 +74,7 @@ func checkFlagSet() (*flags, checkOptions) {
 	o.bed = f.text("bed", "", "bed label for the record, like B4 (never a patient's name)")
 	o.initials = f.text("initials", "", "the checking operator's initials, for the record (recommended)")
 	o.logPath = f.text("log", "", "append the check to this log file (one JSON line; with --bed)")
-	o.card = f.boolean("card", "print a handover card (plain text, 80 columns)")
+	o.card = f.boolean("card", "print a handover card (plain text, 80 columns; not with --json)")
 	o.asJSON = f.boolean("json", "print one JSON object")
 	return f, o
 }
@@ -108,8 +108,15 @@ func runCheck(env Env) int {
 		return status
 	}
 	req, problems := setup.BuildCheckRequest(f.entries, time.Now())
+	if req.Readings != nil {
+		// The entry builder should make this call itself (setup/entries.go).
+		problems = append(problems, setup.CheckReadings(*req.Readings)...)
+	}
 	if len(problems) > 0 {
 		return problemsError(env.Stderr, "check", problems)
+	}
+	if o.card() && o.asJSON() {
+		return UsageError(env.Stderr, "check", "--card and --json do not go together: the card is plain text; give one of them")
 	}
 	// Refuse a bad bed label or initials before anything is computed or shown.
 	if msg := o.recordProblem(); msg != "" {
@@ -122,6 +129,15 @@ func runCheck(env Env) int {
 	ck, err := setup.RunCheck(req, p)
 	if err != nil {
 		return jobError(env.Stderr, "check", err)
+	}
+	// An assumed lung beside readings that gave the lung is said, not
+	// dropped silently.
+	if ck.Fitted != nil {
+		for _, name := range []string{"compliance", "resistance", "lung"} {
+			if v, ok := f.entries[name]; ok {
+				fmt.Fprintf(env.Stderr, "crankside check: note: --%s %s is not used: the readings give the lung\n", name, safetext.Escape(v))
+			}
+		}
 	}
 	var rec setup.Record
 	if o.logPath() != "" || o.card() {

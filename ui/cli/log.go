@@ -25,9 +25,10 @@ your local interval); the most urgent first (stop, overdue, warn).
 --log may be given more than once, and may name a folder of *.jsonl logs
 (each bedside terminal keeps its own): records are merged by time, and a
 record found in two logs (a copied file) is counted once. Damaged or torn
-lines are skipped, and summarised on stderr; earlier records stay.
-
-Flags:
+lines are skipped, and summarised on stderr; earlier records stay. A log
+found in a folder that fails the log checks (readable by others, a link,
+another user's) is skipped and said on stderr, with exit 1 after the rest;
+a log named directly with --log is refused.
 `
 
 var logCommand = &Command{
@@ -46,6 +47,7 @@ func runLog(env Env) int {
 	switch args[0] {
 	case "--help", "-h", "help":
 		fmt.Fprint(env.Stdout, logLong)
+		fmt.Fprint(env.Stdout, "\nRun 'crankside log show --help' or 'crankside log beds --help' for their flags.\n")
 		return ExitOK
 	case "show":
 		return runLogShow(env, args[1:])
@@ -64,9 +66,29 @@ func summarise(env Env, cmd string, sum setup.LogSummary) bool {
 	return sum.Damaged > 0
 }
 
+// expandLogs turns the --log files and folders into files, saying on
+// stderr of each log found in a folder that it was skipped because it
+// fails the log checks (its beds are missing from what follows). skipped
+// tells the caller to exit 1 once the rest is printed; done means stop
+// now with status.
+func expandLogs(env Env, cmd string, logs []string) (files []string, skipped bool, status int, done bool) {
+	files, skips, err := setup.ExpandLogFolders(logs)
+	if err != nil {
+		return nil, false, UsageError(env.Stderr, cmd, err.Error()), true
+	}
+	for _, s := range skips {
+		fmt.Fprintf(env.Stderr, "crankside %s: %s\n", cmd, safetext.Escape(s.String()))
+	}
+	if len(files) == 0 {
+		fmt.Fprintf(env.Stderr, "crankside %s: no log could be read: every log found was skipped\n", cmd)
+		return nil, true, ExitFailure, true
+	}
+	return files, len(skips) > 0, ExitOK, false
+}
+
 // logFlags are the flags both log sub-commands take: the logs, and JSON.
 func logFlags(cmd string) (f *flags, logs *[]string, asJSON func() bool) {
-	f = newFlags(cmd, logLong)
+	f = newFlags(cmd, logLong+"\nFlags:\n")
 	logs = f.repeated("log", "a log file or a folder of logs (may be repeated)")
 	asJSON = f.boolean("json", "print JSON")
 	return f, logs, asJSON
@@ -89,16 +111,19 @@ func runLogShow(env Env, args []string) int {
 	if status, done := parseLogFlags(env, f, logs, args, "log show"); done {
 		return status
 	}
-	hist, sum, err := setup.ReadHistories(*logs, bed(), 0)
+	files, skipped, status, done := expandLogs(env, "log show", *logs)
+	if done {
+		return status
+	}
+	hist, sum, err := setup.ReadHistories(files, bed(), 0)
 	if err != nil {
 		return UsageError(env.Stderr, "log show", err.Error())
 	}
-	damaged := summarise(env, "log show", sum)
-	status := ExitOK
+	damaged := summarise(env, "log show", sum) || skipped
 	if asJSON() {
 		status = writeJSON(env, logJSON(hist, sum))
 	} else {
-		status = writeText(env, "log show", func(w io.Writer) error { return writeHistory(w, hist, len(sum.Logs) > 1) })
+		status = writeText(env, "log show", func(w io.Writer) error { return writeHistory(w, hist, bed(), len(sum.Logs) > 1) })
 	}
 	if status == ExitOK && damaged {
 		return ExitFailure
@@ -122,10 +147,13 @@ func logJSON(hist []setup.BedHistory, sum setup.LogSummary) any {
 	return out
 }
 
-func writeHistory(w io.Writer, hist []setup.BedHistory, manyLogs bool) error {
+func writeHistory(w io.Writer, hist []setup.BedHistory, bed string, manyLogs bool) error {
 	var b strings.Builder
-	if len(hist) == 0 {
-		b.WriteString("No checks recorded for that bed.\n")
+	switch {
+	case len(hist) == 0 && bed == "":
+		b.WriteString("No checks recorded.\n")
+	case len(hist) == 0:
+		fmt.Fprintf(&b, "No checks recorded for bed %s.\n", safetext.Escape(bed))
 	}
 	for _, h := range hist {
 		fmt.Fprintf(&b, "Bed %s: %d check(s), newest first\n", h.Bed, len(h.Entries))
@@ -156,12 +184,15 @@ func runLogBeds(env Env, args []string) int {
 	if ie != nil {
 		return UsageError(env.Stderr, "log beds", "--every: "+ie.Reason)
 	}
-	rows, sum, err := setup.WardRows(*logs, time.Now(), interval)
+	files, skipped, status, done := expandLogs(env, "log beds", *logs)
+	if done {
+		return status
+	}
+	rows, sum, err := setup.WardRows(files, time.Now(), interval)
 	if err != nil {
 		return UsageError(env.Stderr, "log beds", err.Error())
 	}
-	damaged := summarise(env, "log beds", sum)
-	status := ExitOK
+	damaged := summarise(env, "log beds", sum) || skipped
 	if asJSON() {
 		if rows == nil {
 			rows = []setup.WardRow{}

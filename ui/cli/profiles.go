@@ -117,14 +117,7 @@ func profilesShow(env Env, ref, dir string, asJSON bool) int {
 func profilesValidate(env Env, path string) int {
 	p, err := profiles.ReadFile(path)
 	if err == nil {
-		fmt.Fprintf(env.Stdout, "%s: valid %s profile\n", safetext.Escape(path), safetext.Escape(p.Format))
-		for _, d := range p.Defaults {
-			fmt.Fprintf(env.Stdout, "%s: note: %s not in the file: the default is used\n", safetext.Escape(path), safetext.Escape(d))
-		}
-		for _, w := range profiles.Warnings(p) {
-			fmt.Fprintf(env.Stdout, "%s: warning: %s\n", safetext.Escape(path), safetext.Escape(w.Error()))
-		}
-		return ExitOK
+		return validProfile(env, path, p)
 	}
 	var pe *profiles.Error
 	if errors.As(err, &pe) {
@@ -142,6 +135,31 @@ func profilesValidate(env Env, path string) int {
 	return ExitUsage
 }
 
+// validProfile prints the "valid" line and, under it, every warning the
+// profile's own checks give, each with its level word: the defaults used,
+// look-alike hole labels, and the machine's cautions (relief valve,
+// calibration) as profiles show gives them.
+func validProfile(env Env, path string, p profiles.Profile) int {
+	name := safetext.Escape(path)
+	fmt.Fprintf(env.Stdout, "%s: valid %s profile\n", name, safetext.Escape(p.Format))
+	for _, d := range p.Defaults {
+		fmt.Fprintf(env.Stdout, "%s: %s %s not in the file: the default is used\n", name, setup.LevelWord(setup.Note), safetext.Escape(d))
+	}
+	for _, w := range profiles.Warnings(p) {
+		fmt.Fprintf(env.Stdout, "%s: %s %s\n", name, setup.LevelWord(setup.Warn), safetext.Escape(w.Error()))
+	}
+	s, err := setup.DescribeProfile(p, time.Now())
+	if err != nil {
+		fmt.Fprintf(env.Stderr, "crankside profiles validate: %s: %s\n", name, safetext.Escape(err.Error()))
+		return ExitFailure
+	}
+	for _, c := range s.Cautions {
+		fmt.Fprintf(env.Stdout, "%s: %s %s: %s; %s [%s]\n", name, setup.LevelWord(c.Level), c.ID,
+			safetext.Escape(c.Message), safetext.Escape(c.Advice), c.Source)
+	}
+	return ExitOK
+}
+
 func profilesNew(env Env, args []string) int {
 	f := newFlags("profiles new", profilesLong)
 	from := f.text("from", profiles.DefaultID, "the profile to start from")
@@ -153,6 +171,13 @@ func profilesNew(env Env, args []string) int {
 	}
 	if id() == "" {
 		return UsageError(env.Stderr, "profiles new", "--id is required")
+	}
+	if builtin, err := profiles.Embedded(); err == nil {
+		for _, e := range builtin {
+			if e.ID == id() {
+				return UsageError(env.Stderr, "profiles new", fmt.Sprintf("--id %s is a built-in demo's id, and that id opens the built-in one; give the new unit its own id", physiology.Quote(id())))
+			}
+		}
 	}
 	p, _, err := profiles.Open(from(), dir())
 	if err != nil {
