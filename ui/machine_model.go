@@ -33,7 +33,7 @@ func (m *Model) readBench(path string) tea.Cmd {
 			return benchMsg{err: err}
 		}
 		defer f.Close()
-		points, err := profiles.ReadBench(f, path, p)
+		points, err := setup.ReadBench(f, path, p) // decimal commas and semicolons too
 		if err != nil {
 			var be *profiles.BenchError
 			if errors.As(err, &be) && len(be.Problems) > 1 {
@@ -58,6 +58,12 @@ func (m *Model) writeRefit() tea.Cmd {
 	}
 	if m.out.source.Embedded {
 		m.machine.note = "! an embedded demo cannot be written; save a copy with 'crankside profiles show " + m.out.profile.ID + " --json'"
+		return nil
+	}
+	if bad := prev.Unwritable(); len(bad) > 0 {
+		// As calibrate --write: a fit its own cautions call implausible
+		// is never saved.
+		m.machine.note = "! nothing written: the fit is implausible (" + setup.LevelWord(bad[0].Level) + " " + bad[0].ID + ": " + bad[0].Message + "); re-measure on the bench"
 		return nil
 	}
 	path, p, stamp := m.out.source.Path, prev.Profile, m.out.source.Stamp

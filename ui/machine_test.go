@@ -70,3 +70,35 @@ func TestRefitOfABadBenchFileSaysWhy(t *testing.T) {
 	require.Contains(t, m.machine.note, `"99"`)
 	require.Contains(t, screen(m), "! bench file")
 }
+
+// Design rule (cautions): a calibration whose k is implausible, or that
+// makes a hole's effective volume exceed its geometric one, is flagged;
+// the screen, like calibrate --write, never saves such a fit. (The bench
+// is invented: it says the piston delivers more than it sweeps.)
+func TestAnImplausibleRefitIsNotSaved(t *testing.T) {
+	dir := t.TempDir()
+	unit := filepath.Join(dir, "unit.json")
+	p, _ := demoProfile(t, "demo-a")
+	p.ID, p.Label = "unit-1", "Unit 1"
+	data, err := profiles.Marshal(p)
+	require.NoError(t, err)
+	require.NoError(t, os.WriteFile(unit, data, 0o600))
+	bench := filepath.Join(dir, "bench.csv")
+	require.NoError(t, os.WriteFile(bench, []byte(profiles.BenchHeader()+"\n4,20,5,20,330\n9,50,5,20,520\n14,20,5,20,640\n20,50,5,20,900\n"), 0o600))
+	p, stamp, err := profiles.ReadFileStamped(unit)
+	require.NoError(t, err)
+	m := New(Options{Profile: p, Source: profiles.Source{Path: unit, Stamp: stamp}, ProfilesDir: dir, Now: testNow,
+		Prefill: map[string]string{"height-cm": "175", "sex": "male"}})
+	m.Update(tea.WindowSizeMsg{Width: 80, Height: 24})
+	press(m, fkey(3), ctrlB)
+	press(m, tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune(bench), Paste: true})
+	runCmd(m, press(m, enter))
+	require.Equal(t, machinePreview, m.machine.mode, m.machine.note)
+	require.NotEmpty(t, m.machine.preview.Unwritable())
+	runCmd(m, press(m, ctrlW))
+	require.Contains(t, m.machine.note, "nothing written: the fit is implausible")
+	after, err := os.ReadFile(unit)
+	require.NoError(t, err)
+	require.Equal(t, data, after)
+	require.NoFileExists(t, unit+".bak")
+}
