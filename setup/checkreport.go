@@ -221,8 +221,10 @@ func (ck Check) WriteText(w io.Writer) error {
 	return err
 }
 
-// CardWidth is the widest line of a handover card.
-const CardWidth = 80
+// CardWidth is the widest line of a handover card: it fits an 80-column
+// terminal, and the screen's frame at 80x24 (76 columns inside), where a
+// wider card would be wrapped a second time into fragments.
+const CardWidth = 76
 
 // WriteCard prints a handover card: plain text, at most 80 columns, for a
 // printer or the bedside folder.

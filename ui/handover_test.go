@@ -187,3 +187,17 @@ func TestTheHandoverSaysWhatABlankEntryIsTakenToBe(t *testing.T) {
 	require.Equal(t, "peak", m.handover.form.current().name)
 	require.Contains(t, screen(m), "Peak cmH2O: the manometer at the peak of delivery")
 }
+
+// The card on screen at 80x24 is not wrapped a second time: each of its
+// lines fits the frame (setup.CardWidth), so no line is a fragment of
+// the one before.
+func TestTheCardFitsTheFrameAt80x24(t *testing.T) {
+	m := filledModel(t)
+	press(m, tea.KeyMsg{Type: tea.KeyCtrlO})
+	require.NotNil(t, m.overlay)
+	fw, _ := m.panelFrame()
+	require.LessOrEqual(t, setup.CardWidth, m.w-fw)
+	for _, l := range strings.Split(m.overlay.text, "\n") {
+		require.LessOrEqual(t, len([]rune(l)), m.w-fw, "a card line wider than the frame: %q", l)
+	}
+}
