@@ -318,11 +318,20 @@ func unexplainedCaution(fitProblem string) Caution {
 }
 
 // assumedLungCaution marks a proposal evaluated on the assumed lung because
-// the readings could not be explained.
-func assumedLungCaution() Caution {
-	return Caution{ID: "proposal-on-assumed-lung", Level: Warn,
-		Message: "this proposal is evaluated with the ASSUMED lung: the readings could not be explained",
-		Advice:  "re-take the readings at the new setting before relying on its figures", Source: srcCommon}
+// the readings rd at the current setting could not be explained. It is a
+// stop: a measured alarm is never hidden by a prediction, and the
+// proposal's figures, however mild, rest on a lung the manometer
+// contradicts (DESIGN.md, Cautions, version 2: readings no lung explains,
+// stop).
+func assumedLungCaution(rd *physiology.Readings) Caution {
+	reads := "readings that no lung explains"
+	if rd != nil && finiteNumber(rd.PeakCmH2O) && finiteNumber(rd.EndCmH2O) {
+		reads = fmt.Sprintf("%s/%s cmH2O (peak/end)", plain(rd.PeakCmH2O), plain(rd.EndCmH2O))
+	}
+	return Caution{ID: "proposal-on-assumed-lung", Level: Stop, Unit: "",
+		Message: "this proposal's figures rest on an ASSUMED lung, while the manometer reads " + reads + " at the current setting",
+		Advice:  "do not use: find the cause (patient, tube, circuit, manometer) and re-take both readings before any change is made",
+		Source:  "DESIGN.md Cautions, version 2: readings no lung explains (stop)"}
 }
 
 // checkCautions are a check's current cautions: the readings' own first,

@@ -224,7 +224,7 @@ func RunCheck(req CheckRequest, p profiles.Profile) (Check, error) {
 			return Check{}, err
 		}
 		if ck.FitProblem != "" {
-			ev.Cautions = append([]Caution{assumedLungCaution()}, ev.Cautions...)
+			ev.Cautions = append([]Caution{assumedLungCaution(req.Readings)}, ev.Cautions...)
 			sort.SliceStable(ev.Cautions, func(i, j int) bool { return ev.Cautions[i].Level > ev.Cautions[j].Level })
 		}
 		ck.Proposed = &ev
