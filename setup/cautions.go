@@ -111,6 +111,12 @@ const (
 	// production that is about two thirds of the usual 60 mL/kg/min, so
 	// PaCO2 rises by half (alveolar ventilation equation; common practice).
 	AlveolarVentLowMLPerKgMin = 40.0
+	// Alveolar ventilation below 20 mL/kg PBW/min is a stop: a third of
+	// the usual 60 mL/kg/min, so at a usual CO2 production PaCO2 is about
+	// three times normal (alveolar ventilation equation, PaCO2
+	// proportional to VCO2/VA; common practice). Vt at or below the dead
+	// space (no alveolar ventilation at all) is a stop too.
+	AlveolarVentStopMLPerKgMin = 20.0
 	// A fixed-speed motor cannot be turned to a wanted Ti: a change under
 	// this share is a note, above it a warn.
 	TiChangeFixedNotePct = 20.0
@@ -428,6 +434,11 @@ func ventilationCautions(a assessment) []Caution {
 		out = append(out, Caution{ID: "alveolar-ventilation-low", Level: Stop, Value: va, Limit: AlveolarVentLowMLPerKgMin, Unit: "mL/kg PBW/min",
 			Message: fmt.Sprintf("tidal volume %.0f mL does not exceed the estimated dead space %.0f mL (%.1f mL/kg PBW): no alveolar ventilation", mlkg*a.pbwKg, dead, DeadSpaceMLPerKg),
 			Advice:  "do not use: larger hole", Source: srcRadford})
+	case va < AlveolarVentStopMLPerKgMin:
+		out = append(out, Caution{ID: "alveolar-ventilation-low", Level: Stop, Value: va, Limit: AlveolarVentStopMLPerKgMin, Unit: "mL/kg PBW/min",
+			Message: fmt.Sprintf("alveolar ventilation %.0f mL/kg PBW/min (%.1f L/min = rate %.1f x (Vt %.0f mL - dead space %.0f mL)) is below %.0f mL/kg/min: the patient is barely ventilated",
+				va, va*a.pbwKg/1000, rate, mlkg*a.pbwKg, dead, AlveolarVentStopMLPerKgMin),
+			Advice: "do not use: larger hole or higher rate; PaCO2 would be about three times normal or more", Source: srcRadford + "; stop below 20 mL/kg/min, a third of the usual 60 (alveolar ventilation equation): common practice"})
 	case va < AlveolarVentLowMLPerKgMin:
 		out = append(out, Caution{ID: "alveolar-ventilation-low", Level: Warn, Value: va, Limit: AlveolarVentLowMLPerKgMin, Unit: "mL/kg PBW/min",
 			Message: fmt.Sprintf("alveolar ventilation %.0f mL/kg PBW/min (%.1f L/min = rate %.1f x (Vt %.0f mL - dead space %.0f mL)) is below %.0f mL/kg/min",
