@@ -340,6 +340,39 @@ func assumedLungCaution(rd *physiology.Readings) Caution {
 		Source:  "DESIGN.md Cautions, version 2: readings no lung explains (stop)"}
 }
 
+// judgesAssumedLung reports whether the caution id judges a figure
+// the lung model predicts (volume, plateau, driving pressure, peak,
+// trapped gas, minute and alveolar ventilation from the predicted volume,
+// crank torque from the predicted pressures). The rest judge what does not
+// depend on the lung: the patient's height, the rate, I:E and reach of the
+// motor and controller, the PEEP valve, the relief valve, the calibration,
+// the cylinder. A new caution is kept unless it is listed here: when in
+// doubt a caution is shown.
+func judgesAssumedLung(id string) bool {
+	switch id {
+	case "tidal-volume-high", "tidal-volume-low", "plateau-high", "driving-pressure-high",
+		"peak-above-relief", "peak-high", "intrinsic-peep", "minute-ventilation-low",
+		"alveolar-ventilation-low", "torque-high":
+		return true
+	}
+	return false
+}
+
+// withoutAssumedLungFigures drops from a setting's cautions those that
+// judge the assumed lung's predicted figures: with readings no lung
+// explains, none of them is what the patient gets, and a screen that says
+// THE PATIENT GETS: NOT KNOWN must not judge them beside it. The readings'
+// own stops and the unexplained stop say what is known.
+func withoutAssumedLungFigures(cs []Caution) []Caution {
+	out := make([]Caution, 0, len(cs))
+	for _, c := range cs {
+		if !judgesAssumedLung(c.ID) {
+			out = append(out, c)
+		}
+	}
+	return out
+}
+
 // checkCautions are a check's current cautions: the readings' own first,
 // then the unexplained readings, then the setting's, most serious first.
 func checkCautions(rd *physiology.Readings, peepCmH2O, reliefCmH2O float64, fitProblem string, setting []Caution) []Caution {

@@ -52,3 +52,54 @@ func TestProposalOnExplainedReadingsHasNoAssumedLungStop(t *testing.T) {
 	_, ok := ids(ck.Proposed.Cautions)["proposal-on-assumed-lung"]
 	require.False(t, ok)
 }
+
+// lungFigureCautions are the cautions that judge a figure the lung model
+// predicts for a setting (volume, pressures, trapped gas, ventilation,
+// torque): with unexplained readings they would judge the assumed lung,
+// not the patient (DESIGN.md: nothing is shown as what the patient gets).
+var lungFigureCautions = []string{"tidal-volume-high", "tidal-volume-low", "plateau-high", "driving-pressure-high",
+	"peak-above-relief", "peak-high", "intrinsic-peep", "minute-ventilation-low", "alveolar-ventilation-low", "torque-high"}
+
+func TestUnexplainedCurrentCautionsDropTheAssumedLungsFigures(t *testing.T) {
+	// A 150 cm woman (PBW 42.7 kg) on hole 8: on the assumed lung the hole
+	// gives about 10 mL/kg, a tidal-volume-high caution when the readings
+	// are explained (control below), but at 120/100 no lung explains them.
+	req := checkReq("8", 21, 1.4)
+	req.Patient = setup.Patient{HeightCm: 150, Sex: physiology.Female}
+	explained := req
+	explained.ComplianceMLPerCmH2O = 60
+	ck, err := setup.RunCheck(explained, profile(t, "demo-a"))
+	require.NoError(t, err)
+	require.Contains(t, ids(ck.Current.Cautions), "tidal-volume-high", "control: the assumed lung's volume caution without readings")
+
+	req.Readings = &physiology.Readings{PeakCmH2O: 120, EndCmH2O: 100}
+	ck, err = setup.RunCheck(req, profile(t, "demo-a"))
+	require.NoError(t, err)
+	require.NotEmpty(t, ck.FitProblem)
+	got := ids(ck.Current.Cautions)
+	for _, id := range lungFigureCautions {
+		require.NotContains(t, got, id, "%s rests on the assumed lung beside THE PATIENT GETS: NOT KNOWN", id)
+	}
+	// Kept: the readings' own stops, the unexplained stop, and what does
+	// not depend on the lung (the patient's height, the calibration).
+	for _, id := range []string{"measured-peak-high", "measured-peak-above-relief", "readings-unexplained", "height-below-formula", "calibration-missing"} {
+		require.Contains(t, got, id)
+	}
+	require.Equal(t, "measured-peak-high", setup.FirstStop(ck.Current.Cautions).ID)
+}
+
+// Lung-independent cautions stay with unexplained readings: a rate and
+// an I:E from the motor and dwell, and a PEEP valve below 5.
+func TestUnexplainedKeepsTheSettingsOwnCautions(t *testing.T) {
+	// demo-a at 21 rpm with no dwell: rate above 30 (RMVS001 note range);
+	// PEEP 4 is below the protocol's 5 (ARDS Network 2000).
+	req := checkReq("8", 21, 0)
+	req.Setting.PEEPCmH2O = 4
+	req.Readings = &physiology.Readings{PeakCmH2O: 120, EndCmH2O: 100}
+	ck, err := setup.RunCheck(req, profile(t, "demo-a"))
+	require.NoError(t, err)
+	require.NotEmpty(t, ck.FitProblem)
+	got := ids(ck.Current.Cautions)
+	require.Contains(t, got, "peep-low")
+	require.Equal(t, setup.Warn, got["peep-low"])
+}
