@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"strings"
 	"testing"
+	"time"
 
 	"github.com/stretchr/testify/require"
 
@@ -102,4 +103,69 @@ func TestUnexplainedKeepsTheSettingsOwnCautions(t *testing.T) {
 	got := ids(ck.Current.Cautions)
 	require.Contains(t, got, "peep-low")
 	require.Equal(t, setup.Warn, got["peep-low"])
+}
+
+// unexplainedRecord is a record of demo-a hole 8 at 21 rpm, dwell 1.4 s,
+// PEEP 5, with readings no lung explains, and a proposal of hole 7.
+func unexplainedRecord(t *testing.T, peak, end float64) setup.Record {
+	t.Helper()
+	req := checkReq("8", 21, 1.4)
+	req.Readings = &physiology.Readings{PeakCmH2O: peak, EndCmH2O: end}
+	hole := "7"
+	req.Proposal.Hole = &hole
+	ck, err := setup.RunCheck(req, profile(t, "demo-a"))
+	require.NoError(t, err)
+	require.NotEmpty(t, ck.FitProblem)
+	rec, err := setup.NewRecord(ck, "B4", "jk", today)
+	require.NoError(t, err)
+	return rec
+}
+
+// Common practice: every number on a line carries its unit; a proposal
+// line says its highest caution and that it rests on the assumed lung.
+func TestHistoryAndProposalLinesCarryUnitsAndTheProposalsLevel(t *testing.T) {
+	rec := unexplainedRecord(t, 120, 100)
+	h := setup.HistoryLine(rec)
+	require.Contains(t, h, "PEEP 5 cmH2O:", h)
+	p := setup.ProposalLine(rec)
+	require.Contains(t, p, "hole 7, 21.0 rpm, dwell 1.4 s, PEEP 5 cmH2O:", p)
+	require.Contains(t, p, "highest STOP", p)
+	require.Contains(t, p, "(ASSUMED lung: readings unexplained)", p)
+
+	// An explained check (17/14 fit a lung): no assumed-lung note.
+	req := checkReq("8", 21, 1.4)
+	req.Readings = &physiology.Readings{PeakCmH2O: 17, EndCmH2O: 14}
+	hole := "7"
+	req.Proposal.Hole = &hole
+	ck, err := setup.RunCheck(req, profile(t, "demo-a"))
+	require.NoError(t, err)
+	ok, err := setup.NewRecord(ck, "B4", "jk", today)
+	require.NoError(t, err)
+	p = setup.ProposalLine(ok)
+	require.NotContains(t, p, "ASSUMED", p)
+	require.Contains(t, p, "PEEP 5 cmH2O:", p)
+	if len(ok.Proposed.Cautions) > 0 {
+		require.Contains(t, p, "highest "+setup.LevelWord(setup.Highest(ok.Proposed.Cautions)), p)
+	}
+	require.Contains(t, setup.HistoryLine(ok), "PEEP 5 cmH2O:")
+}
+
+// A ward line says which stop made the readings unexplained, so an
+// over-pressure and a disconnection do not read the same, and a proposal
+// with a stop says so.
+func TestWardLineNamesTheStopAndTheProposalsStop(t *testing.T) {
+	over := setup.WardLine(setup.NewWardRow(unexplainedRecord(t, 120, 100), "w.jsonl", today.Add(30*time.Minute), setup.DefaultCheckEvery))
+	disc := setup.WardLine(setup.NewWardRow(unexplainedRecord(t, 15, 3), "w.jsonl", today.Add(30*time.Minute), setup.DefaultCheckEvery))
+	// The first stop of each (MHRA RMVS001 2020: high pressure above 40;
+	// pressure not reached, disconnection), in a few words with the reading.
+	require.Contains(t, over, "(peak 120 cmH2O above 40)", over)
+	require.Contains(t, disc, "(end 3 cmH2O at or below PEEP)", disc)
+	for _, l := range []string{over, disc} {
+		require.Contains(t, l, "PEEP 5 cmH2O", l)
+		require.Contains(t, l, "STOP readings unexplained", l)
+		require.Contains(t, l, "change proposed: STOP", l)
+		// Reasonably short: the ward view wraps a long line, never cuts it;
+		// this keeps a bed to about two 80-column rows.
+		require.LessOrEqual(t, len(l), 170, l)
+	}
 }
