@@ -83,13 +83,14 @@ func (r WardRow) urgency() int {
 	return 3
 }
 
-// NewWardRow makes a bed's row from its last record. A check is overdue
+// NewWardRow makes a bed's row from its last record, under the bed's
+// upper-case label (BedKey). A check is overdue
 // when its age is strictly greater than every: at exactly every it is
 // due, not yet overdue.
 func NewWardRow(rec Record, source string, now time.Time, every time.Duration) WardRow {
 	age := now.Sub(rec.Time)
 	return WardRow{
-		Bed: rec.Bed, CheckedAt: rec.Time.UTC(), AgeMinutes: math.Round(age.Minutes()*10) / 10,
+		Bed: BedKey(rec.Bed), CheckedAt: rec.Time.UTC(), AgeMinutes: math.Round(age.Minutes()*10) / 10,
 		ProfileID: rec.ProfileID, Hole: rec.Setting.Hole, MotorRPM: rec.Setting.RPM, DwellS: rec.Setting.DwellS,
 		PEEPCmH2O: rec.Setting.PEEPCmH2O, MLPerKg: rec.MLPerKg, HighestLevel: Highest(rec.Cautions),
 		Proposed: rec.Proposed != nil, Overdue: age > every, Source: source, Record: rec,
@@ -193,6 +194,7 @@ func (w *wardReader) visit(log string, logIdx int) func(int, []byte) {
 			}
 		}
 		w.sum.Records++
+		bed = BedKey(bed)
 		c := wardCandidate{at: at, log: log, logIdx: logIdx, line: n}
 		cs := w.beds[bed]
 		if len(cs) < wardKeep {
@@ -226,7 +228,7 @@ func (w *wardReader) rows(now time.Time, every time.Duration) (rows []WardRow, e
 				w.sum.damaged(c.log, c.line, reasonJunk)
 				continue
 			}
-			if rec.Bed != bed || !rec.Time.Equal(c.at) {
+			if BedKey(rec.Bed) != bed || !rec.Time.Equal(c.at) {
 				return nil, false
 			}
 			rows, found = append(rows, NewWardRow(rec, c.log, now, every)), true
