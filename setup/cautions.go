@@ -111,6 +111,12 @@ const (
 	// production that is about two thirds of the usual 60 mL/kg/min, so
 	// PaCO2 rises by half (alveolar ventilation equation; common practice).
 	AlveolarVentLowMLPerKgMin = 40.0
+	// Alveolar ventilation below 20 mL/kg PBW/min is a stop: a third of
+	// the usual 60 mL/kg/min, so at a usual CO2 production PaCO2 is about
+	// three times normal (alveolar ventilation equation, PaCO2
+	// proportional to VCO2/VA; common practice). Vt at or below the dead
+	// space (no alveolar ventilation at all) is a stop too.
+	AlveolarVentStopMLPerKgMin = 20.0
 	// A fixed-speed motor cannot be turned to a wanted Ti: a change under
 	// this share is a note, above it a warn.
 	TiChangeFixedNotePct = 20.0
@@ -318,11 +324,53 @@ func unexplainedCaution(fitProblem string) Caution {
 }
 
 // assumedLungCaution marks a proposal evaluated on the assumed lung because
-// the readings could not be explained.
-func assumedLungCaution() Caution {
-	return Caution{ID: "proposal-on-assumed-lung", Level: Warn,
-		Message: "this proposal is evaluated with the ASSUMED lung: the readings could not be explained",
-		Advice:  "re-take the readings at the new setting before relying on its figures", Source: srcCommon}
+// the readings rd at the current setting could not be explained. It is a
+// stop: a measured alarm is never hidden by a prediction, and the
+// proposal's figures, however mild, rest on a lung the manometer
+// contradicts (DESIGN.md, Cautions, version 2: readings no lung explains,
+// stop).
+func assumedLungCaution(rd *physiology.Readings) Caution {
+	reads := "readings that no lung explains"
+	if rd != nil && finiteNumber(rd.PeakCmH2O) && finiteNumber(rd.EndCmH2O) {
+		reads = fmt.Sprintf("%s/%s cmH2O (peak/end)", plain(rd.PeakCmH2O), plain(rd.EndCmH2O))
+	}
+	return Caution{ID: "proposal-on-assumed-lung", Level: Stop, Unit: "",
+		Message: "this proposal's figures rest on an ASSUMED lung, while the manometer reads " + reads + " at the current setting",
+		Advice:  "do not use: find the cause (patient, tube, circuit, manometer) and re-take both readings before any change is made",
+		Source:  "DESIGN.md Cautions, version 2: readings no lung explains (stop)"}
+}
+
+// judgesAssumedLung reports whether the caution id judges a figure
+// the lung model predicts (volume, plateau, driving pressure, peak,
+// trapped gas, minute and alveolar ventilation from the predicted volume,
+// crank torque from the predicted pressures). The rest judge what does not
+// depend on the lung: the patient's height, the rate, I:E and reach of the
+// motor and controller, the PEEP valve, the relief valve, the calibration,
+// the cylinder. A new caution is kept unless it is listed here: when in
+// doubt a caution is shown.
+func judgesAssumedLung(id string) bool {
+	switch id {
+	case "tidal-volume-high", "tidal-volume-low", "plateau-high", "driving-pressure-high",
+		"peak-above-relief", "peak-high", "intrinsic-peep", "minute-ventilation-low",
+		"alveolar-ventilation-low", "torque-high":
+		return true
+	}
+	return false
+}
+
+// withoutAssumedLungFigures drops from a setting's cautions those that
+// judge the assumed lung's predicted figures: with readings no lung
+// explains, none of them is what the patient gets, and a screen that says
+// THE PATIENT GETS: NOT KNOWN must not judge them beside it. The readings'
+// own stops and the unexplained stop say what is known.
+func withoutAssumedLungFigures(cs []Caution) []Caution {
+	out := make([]Caution, 0, len(cs))
+	for _, c := range cs {
+		if !judgesAssumedLung(c.ID) {
+			out = append(out, c)
+		}
+	}
+	return out
 }
 
 // checkCautions are a check's current cautions: the readings' own first,
@@ -419,6 +467,11 @@ func ventilationCautions(a assessment) []Caution {
 		out = append(out, Caution{ID: "alveolar-ventilation-low", Level: Stop, Value: va, Limit: AlveolarVentLowMLPerKgMin, Unit: "mL/kg PBW/min",
 			Message: fmt.Sprintf("tidal volume %.0f mL does not exceed the estimated dead space %.0f mL (%.1f mL/kg PBW): no alveolar ventilation", mlkg*a.pbwKg, dead, DeadSpaceMLPerKg),
 			Advice:  "do not use: larger hole", Source: srcRadford})
+	case va < AlveolarVentStopMLPerKgMin:
+		out = append(out, Caution{ID: "alveolar-ventilation-low", Level: Stop, Value: va, Limit: AlveolarVentStopMLPerKgMin, Unit: "mL/kg PBW/min",
+			Message: fmt.Sprintf("alveolar ventilation %.0f mL/kg PBW/min (%.1f L/min = rate %.1f x (Vt %.0f mL - dead space %.0f mL)) is below %.0f mL/kg/min: the patient is barely ventilated",
+				va, va*a.pbwKg/1000, rate, mlkg*a.pbwKg, dead, AlveolarVentStopMLPerKgMin),
+			Advice: "do not use: larger hole or higher rate; PaCO2 would be about three times normal or more", Source: srcRadford + "; stop below 20 mL/kg/min, a third of the usual 60 (alveolar ventilation equation): common practice"})
 	case va < AlveolarVentLowMLPerKgMin:
 		out = append(out, Caution{ID: "alveolar-ventilation-low", Level: Warn, Value: va, Limit: AlveolarVentLowMLPerKgMin, Unit: "mL/kg PBW/min",
 			Message: fmt.Sprintf("alveolar ventilation %.0f mL/kg PBW/min (%.1f L/min = rate %.1f x (Vt %.0f mL - dead space %.0f mL)) is below %.0f mL/kg/min",

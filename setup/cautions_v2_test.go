@@ -46,8 +46,16 @@ func TestVersion2CautionsAtTheirLimits(t *testing.T) {
 		{"alveolar-ventilation-low", "Radford 1955 dead space 2.2 mL/kg; 40 mL/kg/min common practice", 40,
 			func(a *assessment, o bool) { a.f.Timing.RateBPM = 20; a.f.Hole.MLPerKg = pick(o, 4.19, 4.2) }, Warn, 0},
 		// derived: Vt 2.2 mL/kg equals the dead space: no alveolar ventilation.
+		// Just above it (14 x 0.01 = 0.14 mL/kg/min) the band below 20 is a
+		// stop too.
 		{"alveolar-ventilation-low", "Radford 1955: Vt at the dead space 2.2 mL/kg", 40,
-			func(a *assessment, o bool) { a.f.Hole.MLPerKg = pick(o, 2.2, 2.21) }, Stop, Warn},
+			func(a *assessment, o bool) { a.f.Hole.MLPerKg = pick(o, 2.2, 2.21) }, Stop, Stop},
+		// derived with Radford's 2.2 mL/kg: 20 x (3.19 - 2.2) = 19.8 < 20;
+		// 20 x (3.2 - 2.2) = 20 is not below. 20 is a third of the usual 60
+		// mL/kg/min, so PaCO2 about triples (alveolar ventilation equation,
+		// PaCO2 proportional to VCO2/VA; common practice).
+		{"alveolar-ventilation-low", "common practice: below 20 mL/kg PBW/min (a third of the usual 60) is a stop", 20,
+			func(a *assessment, o bool) { a.f.Timing.RateBPM = 20; a.f.Hole.MLPerKg = pick(o, 3.19, 3.2) }, Stop, Warn},
 		{"intrinsic-peep", "issue 10 / DESIGN v2: intrinsic PEEP above 5 is a stop", 5,
 			func(a *assessment, o bool) { a.f.IntrinsicPEEPCmH2O = pick(o, 5.01, 5) }, Stop, Warn},
 		{"relief-above-40", "MHRA RMVS001 2020: never more than 40 cmH2O", 40,

@@ -149,7 +149,10 @@ type Difference struct {
 // reproduces do not stop the check: FitProblem says which to re-take, the
 // current cautions carry the readings-unexplained stop, and the figures
 // use the assumed mechanics (the JSON and every report then withhold the
-// current setting's predicted figures). The readings are judged on their
+// current setting's predicted figures, and the current cautions leave out
+// those that judge them: withoutAssumedLungFigures). A proposal is then
+// evaluated on the assumed lung and carries the proposal-on-assumed-lung
+// stop. The readings are judged on their
 // own (ReadingCautions) whatever the fit gives.
 //
 // With a gas reading in req.Gas the check also carries the protocol's next
@@ -209,6 +212,9 @@ func RunCheck(req CheckRequest, p profiles.Profile) (Check, error) {
 	if err != nil {
 		return Check{}, err
 	}
+	if ck.FitProblem != "" {
+		ck.Current.Cautions = withoutAssumedLungFigures(ck.Current.Cautions)
+	}
 	if ck.Fitted != nil {
 		ck.Ranges = fitRanges(u, cur, *req.Readings, pbw, req)
 		ck.Current.Cautions = append(ck.Current.Cautions, rangeCautions(ck.Ranges, ck.Current.Figures, pbw)...)
@@ -224,7 +230,7 @@ func RunCheck(req CheckRequest, p profiles.Profile) (Check, error) {
 			return Check{}, err
 		}
 		if ck.FitProblem != "" {
-			ev.Cautions = append([]Caution{assumedLungCaution()}, ev.Cautions...)
+			ev.Cautions = append([]Caution{assumedLungCaution(req.Readings)}, ev.Cautions...)
 			sort.SliceStable(ev.Cautions, func(i, j int) bool { return ev.Cautions[i].Level > ev.Cautions[j].Level })
 		}
 		ck.Proposed = &ev

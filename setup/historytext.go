@@ -4,15 +4,12 @@ import "fmt"
 
 // HistoryLine is one recorded check on one line, as the log listing and
 // the screen's history both show it: when, who, the setting, what the
-// patient got, and the highest caution.
+// patient got, and the highest caution. Every number carries its unit.
 func HistoryLine(r Record) string {
-	line := fmt.Sprintf("%s UTC  %-4s  hole %s, %.1f rpm, dwell %.1f s, PEEP %.0f: %.0f mL %.1f mL/kg, %d caution(s)",
-		r.Time.UTC().Format("2006-01-02 15:04"), r.Initials, r.Setting.Hole, r.Setting.RPM, r.Setting.DwellS,
-		r.Setting.PEEPCmH2O, r.DeliveredVtML, r.MLPerKg, len(r.Cautions))
+	head := fmt.Sprintf("%s UTC  %-4s  %s", r.Time.UTC().Format("2006-01-02 15:04"), r.Initials, settingText(r.Setting))
+	line := fmt.Sprintf("%s: %.0f mL %.1f mL/kg, %d caution(s)", head, r.DeliveredVtML, r.MLPerKg, len(r.Cautions))
 	if r.Unexplained() {
-		line = fmt.Sprintf("%s UTC  %-4s  hole %s, %.1f rpm, dwell %.1f s, PEEP %.0f: STOP readings unexplained, volume not known, %d caution(s)",
-			r.Time.UTC().Format("2006-01-02 15:04"), r.Initials, r.Setting.Hole, r.Setting.RPM, r.Setting.DwellS,
-			r.Setting.PEEPCmH2O, len(r.Cautions))
+		line = fmt.Sprintf("%s: STOP readings unexplained, volume not known, %d caution(s)", head, len(r.Cautions))
 	}
 	if len(r.Cautions) > 0 {
 		line += ", highest " + LevelWord(Highest(r.Cautions))
@@ -23,22 +20,62 @@ func HistoryLine(r Record) string {
 	return line
 }
 
-// ProposalLine is a record's proposed setting on one line, or "".
+// settingText is a setting's hole, speed, dwell and PEEP valve, each
+// number with its unit.
+func settingText(s Setting) string {
+	return fmt.Sprintf("hole %s, %.1f rpm, dwell %.1f s, PEEP %.0f cmH2O", s.Hole, s.RPM, s.DwellS, s.PEEPCmH2O)
+}
+
+// ProposalLine is a record's proposed setting on one line, or "": its
+// figures, its highest caution, and whether it rests on the assumed lung
+// because the record's readings are unexplained.
 func ProposalLine(r Record) string {
 	if r.Proposed == nil {
 		return ""
 	}
 	s := r.Proposed.Setting
-	line := fmt.Sprintf("hole %s, %.1f rpm, dwell %.1f s, PEEP %.0f: %.0f mL %.1f mL/kg",
-		s.Hole, s.RPM, s.DwellS, s.PEEPCmH2O, r.Proposed.DeliveredVtML, r.Proposed.MLPerKg)
+	line := fmt.Sprintf("%s: %.0f mL %.1f mL/kg", settingText(s), r.Proposed.DeliveredVtML, r.Proposed.MLPerKg)
+	if len(r.Proposed.Cautions) > 0 {
+		line += ", highest " + LevelWord(Highest(r.Proposed.Cautions))
+	}
 	if s.O2LPerMin > 0 || r.Setting.O2LPerMin > 0 {
 		// A step often changes only the O2 bleed: without it the line
 		// would read as the setting itself.
 		line += fmt.Sprintf("; O2 %.1f L/min", s.O2LPerMin)
+	}
+	if r.Unexplained() {
+		line += " (ASSUMED lung: readings unexplained)"
 	}
 	switch r.ProposalFrom {
 	case ProposalFromStep, ProposalEnteredAsStep:
 		line += " (the protocol's step)"
 	}
 	return line
+}
+
+// unexplainedReason is the short reason a record's readings are
+// unexplained, for a ward line: the first stop the readings themselves
+// raised, in a few words with its reading ("peak 120 cmH2O above 40"), or
+// "" when only the unexplained stop was raised.
+func unexplainedReason(cs []Caution) string {
+	for _, c := range cs {
+		if c.Level != Stop || c.ID == "readings-unexplained" {
+			continue
+		}
+		v, lim := plain(c.Value), plain(c.Limit)
+		switch c.ID {
+		case "measured-peak-high":
+			return "peak " + v + " cmH2O above " + lim
+		case "measured-peak-above-relief":
+			return "peak " + v + " cmH2O above relief " + lim
+		case "measured-end-at-or-below-peep":
+			return "end " + v + " cmH2O at or below PEEP"
+		case "measured-peak-below-end":
+			return "peak " + v + " below end " + lim + " cmH2O"
+		case "readings-not-numbers":
+			return "a reading is not a number"
+		}
+		return c.ID
+	}
+	return ""
 }

@@ -73,6 +73,8 @@ func FuzzStreamMatchesWhole(f *testing.F) {
 	// A line of the format with only a bed and a time is not a check: it
 	// must not become the bed's last one.
 	f.Add([]byte(string(good) + "\n" + `{"format":"crankside-check/1","bed":"B4","time":"2026-12-01T23:59:00Z"}` + "\n"))
+	// An older record of the bed written lower case is one of its checks.
+	f.Add([]byte(string(good) + "\n" + strings.Replace(string(other), `"bed":"B5"`, `"bed":"b4"`, 1) + "\n"))
 	f.Fuzz(func(t *testing.T, data []byte) {
 		recs, _, err := readRecords(bytes.NewReader(data))
 		if err != nil {

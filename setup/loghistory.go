@@ -61,7 +61,8 @@ func (h *historyReader) take(log string, logIdx int, d decodedLine) {
 		return
 	}
 	rec := d.rec
-	if h.bed != "" && rec.Bed != h.bed {
+	bed := BedKey(rec.Bed)
+	if h.bed != "" && bed != h.bed {
 		return
 	}
 	if _, dup := h.keys[d.key]; dup {
@@ -70,12 +71,12 @@ func (h *historyReader) take(log string, logIdx int, d decodedLine) {
 	}
 	h.keys[d.key] = struct{}{}
 	h.sum.Records++
-	h.total[rec.Bed]++
-	items := append(h.byBed[rec.Bed], histItem{rec: rec, log: log, logIdx: logIdx, line: d.n})
+	h.total[bed]++
+	items := append(h.byBed[bed], histItem{rec: rec, log: log, logIdx: logIdx, line: d.n})
 	if h.keep > 0 && len(items) > 2*h.keep+16 {
 		items = newest(items, h.keep)
 	}
-	h.byBed[rec.Bed] = items
+	h.byBed[bed] = items
 }
 
 // newest sorts items by time and returns (a copy of) the newest keep.
@@ -88,11 +89,13 @@ func newest(items []histItem, keep int) []histItem {
 }
 
 // mayHoldLabel is the cheap test made before a line is decoded: the label
-// appears in it as written, or the line escapes a character a label may
-// hold (JSON allows "\u0042" for "B"), in which case only decoding can
-// tell.
+// (upper case, see BedKey) appears in it as written in any case of its
+// letters, or the line escapes a character a label may hold (JSON allows
+// "\u0042" for "B"), in which case only decoding can tell. A label with a
+// character outside the label set is looked for in every line with an
+// escape. It allocates nothing.
 func mayHoldLabel(text, label []byte) bool {
-	if bytes.Contains(text, label) {
+	if containsFoldASCII(text, label) {
 		return true
 	}
 	if bytes.IndexByte(text, '\\') < 0 {
@@ -101,17 +104,80 @@ func mayHoldLabel(text, label []byte) bool {
 	if bytes.Contains(text, []byte(`\/`)) {
 		return true
 	}
+	for _, c := range label {
+		if !labelByte(int(c)) {
+			return true
+		}
+	}
 	for rest := text; ; {
 		i := bytes.Index(rest, []byte(`\u00`))
 		if i < 0 || i+6 > len(rest) {
 			return false
 		}
-		c := hexByte(rest[i+4], rest[i+5])
-		if c >= '0' && c <= '9' || c >= 'A' && c <= 'Z' || c >= 'a' && c <= 'z' || c == '-' || c == '_' || c == '.' || c == '/' {
+		if labelByte(hexByte(rest[i+4], rest[i+5])) {
 			return true
 		}
 		rest = rest[i+4:]
 	}
+}
+
+// labelByte reports whether c is a character a bed label may hold.
+func labelByte(c int) bool {
+	return c >= '0' && c <= '9' || c >= 'A' && c <= 'Z' || c >= 'a' && c <= 'z' || c == '-' || c == '_' || c == '.' || c == '/'
+}
+
+// containsFoldASCII reports whether text holds label with ASCII letters
+// matched in either case, without allocating.
+func containsFoldASCII(text, label []byte) bool {
+	n := len(label)
+	if bytes.Contains(text, label) {
+		return true // as written: the common case, and the fast search
+	}
+	letters := false
+	for _, c := range label {
+		letters = letters || upperASCII(c) != c || (c >= 'A' && c <= 'Z')
+	}
+	if !letters {
+		return false
+	}
+	first := upperASCII(label[0])
+	for i := 0; i+n <= len(text); i++ {
+		if upperASCII(text[i]) != first {
+			continue
+		}
+		j := 1
+		for j < n && upperASCII(text[i+j]) == upperASCII(label[j]) {
+			j++
+		}
+		if j == n {
+			return true
+		}
+	}
+	return false
+}
+
+func upperASCII(c byte) byte {
+	if c >= 'a' && c <= 'z' {
+		return c - 'a' + 'A'
+	}
+	return c
+}
+
+// BedKey is the label a bed is recorded, grouped and looked up under: its
+// ASCII letters upper case, so that b4 and B4 are one bed (labels hold
+// only ASCII letters, digits and - _ . /; see CheckBedLabel). Other bytes
+// are kept as they are.
+func BedKey(label string) string {
+	for i := 0; i < len(label); i++ {
+		if c := label[i]; c >= 'a' && c <= 'z' {
+			b := []byte(label)
+			for j := i; j < len(b); j++ {
+				b[j] = upperASCII(b[j])
+			}
+			return string(b)
+		}
+	}
+	return label
 }
 
 func hexByte(hi, lo byte) int {
@@ -134,7 +200,8 @@ func hexByte(hi, lo byte) int {
 // NEWEST FIRST, at most limit of them (limit <= 0: all), each with what
 // changed since the bed's check before it and the log it came from. With
 // a bed label only that bed is kept, and a line is decoded only when the
-// label could be in it. paths are files or folders of *.jsonl logs (see
+// label could be in it. Bed labels are matched and grouped whatever the
+// case of their letters (BedKey): an older record of b4 is one of B4's. paths are files or folders of *.jsonl logs (see
 // ExpandLogPaths); records from several logs are merged by time, and a
 // record found twice (the same canonical JSON) is counted once.
 //
@@ -157,6 +224,7 @@ func ReadHistories(paths []string, bed string, limit int) ([]BedHistory, LogSumm
 }
 
 func newHistoryReader(bed string, limit int, sum *LogSummary) *historyReader {
+	bed = BedKey(bed)
 	h := &historyReader{bed: bed, keys: map[[sha256.Size]byte]struct{}{}, byBed: map[string][]histItem{}, total: map[string]int{}, sum: sum}
 	if bed != "" {
 		h.needle = []byte(bed)
@@ -207,7 +275,7 @@ func ReadBedHistory(paths []string, bed string, limit int) (BedHistory, LogSumma
 	}
 	hs, sum, err := ReadHistories(paths, bed, limit)
 	if err != nil || len(hs) == 0 {
-		return BedHistory{Bed: bed}, sum, err
+		return BedHistory{Bed: BedKey(bed)}, sum, err
 	}
 	return hs[0], sum, nil
 }

@@ -41,7 +41,7 @@ type lineBatch struct {
 func decodeLine(n int, text []byte, bed string) decodedLine {
 	rec, ok := decodeRecord(text)
 	d := decodedLine{n: n, rec: rec, ok: ok}
-	if ok && (bed == "" || rec.Bed == bed) {
+	if ok && (bed == "" || BedKey(rec.Bed) == bed) {
 		d.key = recordKey(&rec, text)
 	}
 	return d

@@ -239,7 +239,8 @@ func (r Record) MarshalJSON() ([]byte, error) {
 	return append(append(head[:len(head)-1], ','), body[1:]...), nil
 }
 
-// NewRecord stamps a check with its bed, initials and time.
+// NewRecord stamps a check with its bed, initials and time. The bed label
+// is written upper case (BedKey): b4 and B4 are one bed.
 func NewRecord(ck Check, bed, initials string, at time.Time) (Record, error) {
 	if err := CheckBedLabel(bed); err != nil {
 		return Record{}, err
@@ -247,7 +248,7 @@ func NewRecord(ck Check, bed, initials string, at time.Time) (Record, error) {
 	if err := CheckInitials(initials); err != nil {
 		return Record{}, err
 	}
-	return Record{Format: RecordFormat, Time: at.UTC().Truncate(time.Second), Bed: bed, Initials: strings.ToUpper(initials), CheckJSON: ck.JSON()}, nil
+	return Record{Format: RecordFormat, Time: at.UTC().Truncate(time.Second), Bed: BedKey(bed), Initials: strings.ToUpper(initials), CheckJSON: ck.JSON()}, nil
 }
 
 // CheckBedLabel accepts short labels such as "B4" or "ward3-12". A label

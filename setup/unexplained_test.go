@@ -114,7 +114,8 @@ func TestUnexplainedJSONHasNullFigures(t *testing.T) {
 			require.NotNil(t, d["current"])
 		}
 	}
-	require.Equal(t, setup.Warn, ids(ck.Proposed.Cautions)["proposal-on-assumed-lung"])
+	// A stop (DESIGN.md Cautions, version 2: readings no lung explains).
+	require.Equal(t, setup.Stop, ids(ck.Proposed.Cautions)["proposal-on-assumed-lung"])
 }
 
 func TestExplainedJSONKeepsFigures(t *testing.T) {

@@ -83,13 +83,14 @@ func (r WardRow) urgency() int {
 	return 3
 }
 
-// NewWardRow makes a bed's row from its last record. A check is overdue
+// NewWardRow makes a bed's row from its last record, under the bed's
+// upper-case label (BedKey). A check is overdue
 // when its age is strictly greater than every: at exactly every it is
 // due, not yet overdue.
 func NewWardRow(rec Record, source string, now time.Time, every time.Duration) WardRow {
 	age := now.Sub(rec.Time)
 	return WardRow{
-		Bed: rec.Bed, CheckedAt: rec.Time.UTC(), AgeMinutes: math.Round(age.Minutes()*10) / 10,
+		Bed: BedKey(rec.Bed), CheckedAt: rec.Time.UTC(), AgeMinutes: math.Round(age.Minutes()*10) / 10,
 		ProfileID: rec.ProfileID, Hole: rec.Setting.Hole, MotorRPM: rec.Setting.RPM, DwellS: rec.Setting.DwellS,
 		PEEPCmH2O: rec.Setting.PEEPCmH2O, MLPerKg: rec.MLPerKg, HighestLevel: Highest(rec.Cautions),
 		Proposed: rec.Proposed != nil, Overdue: age > every, Source: source, Record: rec,
@@ -193,6 +194,7 @@ func (w *wardReader) visit(log string, logIdx int) func(int, []byte) {
 			}
 		}
 		w.sum.Records++
+		bed = BedKey(bed)
 		c := wardCandidate{at: at, log: log, logIdx: logIdx, line: n}
 		cs := w.beds[bed]
 		if len(cs) < wardKeep {
@@ -226,7 +228,7 @@ func (w *wardReader) rows(now time.Time, every time.Duration) (rows []WardRow, e
 				w.sum.damaged(c.log, c.line, reasonJunk)
 				continue
 			}
-			if rec.Bed != bed || !rec.Time.Equal(c.at) {
+			if BedKey(rec.Bed) != bed || !rec.Time.Equal(c.at) {
 				return nil, false
 			}
 			rows, found = append(rows, NewWardRow(rec, c.log, now, every)), true
@@ -297,8 +299,10 @@ func decodedHeader(text []byte) (bed string, at time.Time, ok bool) {
 }
 
 // WardLine is one ward row as text for a terminal: bed, last check and its
-// age, the setting found, mL/kg, the highest caution, whether a change was
-// proposed, and OVERDUE when it is.
+// age, the setting found (each number with its unit), mL/kg or, for
+// readings no lung explains, the first stop the readings raised, the
+// highest caution, whether a change was proposed (": STOP" when the
+// proposal has a stop), and OVERDUE when it is.
 func WardLine(r WardRow) string {
 	level := "no cautions"
 	if r.HighestLevel != 0 {
@@ -311,16 +315,26 @@ func WardLine(r WardRow) string {
 	case r.AgeMinutes >= 120:
 		age = fmt.Sprintf("%.1f h ago", r.AgeMinutes/60)
 	}
-	line := fmt.Sprintf("%-8s %s UTC (%s)  %s hole %s, %.1f rpm, dwell %.1f s, PEEP %.0f", r.Bed,
-		r.CheckedAt.UTC().Format("01-02 15:04"), age, r.ProfileID, r.Hole, r.MotorRPM, r.DwellS, r.PEEPCmH2O)
-	if r.Record.Unexplained() {
-		line += ": readings unexplained"
-	} else {
-		line += fmt.Sprintf(": %.1f mL/kg", r.MLPerKg)
+	line := fmt.Sprintf("%-8s %s UTC (%s)  %s %s", r.Bed, r.CheckedAt.UTC().Format("01-02 15:04"), age, r.ProfileID,
+		settingText(Setting{Hole: r.Hole, RPM: r.MotorRPM, DwellS: r.DwellS, PEEPCmH2O: r.PEEPCmH2O}))
+	switch {
+	case r.Record.Unexplained() && r.HighestLevel == Stop:
+		// The level first, then which stop: an over-pressure and a
+		// disconnection must not read the same.
+		line += ": STOP readings unexplained"
+		if why := unexplainedReason(r.Record.Cautions); why != "" {
+			line += " (" + why + ")"
+		}
+	case r.Record.Unexplained():
+		line += ": readings unexplained, " + level
+	default:
+		line += fmt.Sprintf(": %.1f mL/kg, %s", r.MLPerKg, level)
 	}
-	line += ", " + level
 	if r.Proposed {
 		line += ", change proposed"
+		if p := r.Record.Proposed; p != nil && Highest(p.Cautions) == Stop {
+			line += ": STOP"
+		}
 	}
 	if r.Overdue {
 		line += "  OVERDUE"

@@ -54,8 +54,9 @@ func readRecords(r io.Reader) ([]Record, []LogProblem, error) {
 func History(recs []Record, bed string) []BedHistory {
 	byBed := map[string][]Record{}
 	for _, r := range recs {
-		if bed == "" || r.Bed == bed {
-			byBed[r.Bed] = append(byBed[r.Bed], r)
+		// Beds are one whatever the case of their letters (b4 is B4).
+		if key := BedKey(r.Bed); bed == "" || key == BedKey(bed) {
+			byBed[key] = append(byBed[key], r)
 		}
 	}
 	var beds []string

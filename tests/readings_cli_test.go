@@ -130,3 +130,16 @@ func TestAlarmingReadingsRecordKeepsTheStop(t *testing.T) {
 		}
 	}
 }
+
+// A 190 cm man on demo-a's smallest hole with a stiff lung (C 10): the
+// alveolar ventilation is about 2 mL/kg PBW/min, far below the stop at 20
+// (a third of the usual 60; PaCO2 about triples by the alveolar
+// ventilation equation; common practice).
+func TestBarelyVentilatedIsAStop(t *testing.T) {
+	r := crankside(t, "check", "--height-cm", "190", "--sex", "male", "--hole", "1", "--rpm", "21", "--dwell-s", "1.4",
+		"--compliance", "10", "--json")
+	require.Equal(t, 0, r.status, r.stderr)
+	var obj map[string]any
+	require.NoError(t, json.Unmarshal([]byte(r.stdout), &obj))
+	checkStopJSON(t, obj, "alveolar-ventilation-low", "common practice: below 20 mL/kg PBW/min is a stop")
+}
