@@ -337,7 +337,7 @@ func assumedLungCaution(rd *physiology.Readings) Caution {
 	return Caution{ID: "proposal-on-assumed-lung", Level: Stop, Unit: "",
 		Message: "this proposal's figures rest on an ASSUMED lung, while the manometer reads " + reads + " at the current setting",
 		Advice:  "do not use: find the cause (patient, tube, circuit, manometer) and re-take both readings before any change is made",
-		Source:  "DESIGN.md Cautions, version 2: readings no lung explains (stop)"}
+		Source:  srcCommon + ": a figure from an assumed lung never stands in for what the manometer shows"}
 }
 
 // judgesAssumedLung reports whether the caution id judges a figure
