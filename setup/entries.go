@@ -341,6 +341,7 @@ func BuildCheckRequest(e Entries, now time.Time) (CheckRequest, Problems) {
 	switch {
 	case hasPeak && hasEnd:
 		req.Readings = &physiology.Readings{PeakCmH2O: peak, EndCmH2O: end}
+		r.problems = append(r.problems, CheckReadings(*req.Readings)...)
 	case r.given("peak") && !r.given("end-pressure"):
 		r.fail("end-pressure", "peak and end-pressure go together: give both manometer readings or neither")
 	case r.given("end-pressure") && !r.given("peak"):

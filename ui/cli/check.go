@@ -108,10 +108,6 @@ func runCheck(env Env) int {
 		return status
 	}
 	req, problems := setup.BuildCheckRequest(f.entries, time.Now())
-	if req.Readings != nil {
-		// The entry builder should make this call itself (setup/entries.go).
-		problems = append(problems, setup.CheckReadings(*req.Readings)...)
-	}
 	if len(problems) > 0 {
 		return problemsError(env.Stderr, "check", problems)
 	}
