@@ -311,3 +311,17 @@ func TestAnActionKeyElsewhereSaysWhereItActs(t *testing.T) {
 	require.Contains(t, screen(m), "no protocol step to take")
 	require.Contains(t, screen(m), "ctrl+s record", "on the handover panel its own keys come first in the help line")
 }
+
+// In a window too small to show anything, no key acts unseen, and the
+// question before quitting an unrecorded check is in the small view.
+func TestATooSmallWindowActsOnNoKeyButQuit(t *testing.T) {
+	m, _ := handoverModel(t)
+	press(m, runes("B4"))
+	m.Update(tea.WindowSizeMsg{Width: 60, Height: 20})
+	press(m, fkey(4), runes("9"))
+	require.Equal(t, panelHandover, m.focus, "F4 did nothing unseen")
+	require.Equal(t, "B4", m.checkField("bed").Value(), "nothing typed unseen")
+	require.Nil(t, press(m, tea.KeyMsg{Type: tea.KeyCtrlC}))
+	require.Contains(t, screen(m), "Ctrl+C again: quit anyway")
+	require.NotNil(t, press(m, tea.KeyMsg{Type: tea.KeyCtrlC}))
+}

@@ -228,6 +228,17 @@ func (m *Model) handleKey(msg tea.KeyMsg) tea.Cmd {
 	if !key.Matches(msg, m.panels[panelHandover].(*handoverPanel).keys.Save) {
 		m.confirmRecord = false
 	}
+	if m.w < MinWidth || m.h < MinHeight {
+		// Nothing on the screen can be seen: no key acts unseen but the
+		// quit, and its question is in the small view.
+		switch {
+		case m.confirmQuit:
+			return m.confirmingQuit(msg)
+		case key.Matches(msg, m.keys.Quit):
+			return m.quit()
+		}
+		return nil
+	}
 	switch {
 	case m.confirmQuit:
 		return m.confirmingQuit(msg)
@@ -498,6 +509,9 @@ func (m *Model) split(bodyH int) (top, bottom int) {
 func (m *Model) View() string {
 	if m.w < MinWidth || m.h < MinHeight {
 		msg := fmt.Sprintf("Make the window larger: crankside needs %dx%d, this is %dx%d.", MinWidth, MinHeight, m.w, m.h)
+		if m.confirmQuit {
+			msg = "NOT RECORDED or not saved. Ctrl+C again: quit anyway; Esc: stay. " + msg
+		}
 		return fit(strings.Join(wrapWords(max(m.w, 1), strings.Fields(msg)...), "\n"), max(m.w, 1), max(m.h, 1))
 	}
 	var body string
