@@ -197,9 +197,15 @@ func (p *machinePanel) View() string {
 	if off < len(rows) {
 		rows = rows[off:]
 	}
-	if len(rows) > room-1 {
-		rows = append(rows[:room-2], s.Hint.Render(fmt.Sprintf("  v %d more holes (down arrow)", len(table)-1-off-(room-2))))
+	var above []string
+	if off > 0 {
+		// Said, as below: a hole scrolled out of view is never silently gone.
+		above = []string{s.Hint.Render(fmt.Sprintf("  ^ %d more hole%s above (up arrow)", off, plural(off)))}
 	}
+	if shown := room - 1 - len(above); len(rows) > shown {
+		rows = append(rows[:shown-1], s.Hint.Render(fmt.Sprintf("  v %d more holes (down arrow)", len(rows)-(shown-1))))
+	}
+	rows = append(above, rows...)
 	return strings.Join(top, "\n") + "\n" + table[0] + "\n" + strings.Join(rows, "\n")
 }
 

@@ -102,3 +102,16 @@ func TestAnImplausibleRefitIsNotSaved(t *testing.T) {
 	require.Equal(t, data, after)
 	require.NoFileExists(t, unit+".bak")
 }
+
+// The hole table scrolled down says how many holes are above, as it says
+// how many are below: demo-a's 25 holes at 80x24 do not fit.
+func TestTheHoleTableSaysWhatIsAbove(t *testing.T) {
+	m := newTestModel(t, map[string]string{"height-cm": "175", "sex": "male"})
+	press(m, fkey(3))
+	require.Contains(t, screen(m), "more holes (down arrow)")
+	require.NotContains(t, screen(m), "above (up arrow)")
+	press(m, down, down, down)
+	v := screen(m)
+	require.Contains(t, v, "^ 3 more holes above (up arrow)")
+	require.Contains(t, v, "more holes (down arrow)")
+}
