@@ -201,9 +201,10 @@ func hexByte(hi, lo byte) int {
 // changed since the bed's check before it and the log it came from. With
 // a bed label only that bed is kept, and a line is decoded only when the
 // label could be in it. Bed labels are matched and grouped whatever the
-// case of their letters (BedKey): an older record of b4 is one of B4's. paths are files or folders of *.jsonl logs (see
-// ExpandLogPaths); records from several logs are merged by time, and a
-// record found twice (the same canonical JSON) is counted once.
+// case of their letters (BedKey): an older record of b4 is one of B4's.
+// paths are files or folders of *.jsonl logs (see ExpandLogPaths);
+// records from several logs are merged by time, and a record found twice
+// (the same canonical JSON) is counted once.
 //
 // A log that cannot be opened as the user's own regular file (see
 // CheckLogPath) stops the read with an error; damaged lines do not, and
