@@ -127,33 +127,55 @@ func labelByte(c int) bool {
 }
 
 // containsFoldASCII reports whether text holds label with ASCII letters
-// matched in either case, without allocating.
+// matched in either case, without allocating. Each place where the
+// label's first character (in either case) occurs is found with
+// bytes.IndexByte and compared there, so a line without the label costs
+// little more than bytes.Contains.
 func containsFoldASCII(text, label []byte) bool {
 	n := len(label)
-	if bytes.Contains(text, label) {
+	if n == 0 || bytes.Contains(text, label) {
 		return true // as written: the common case, and the fast search
 	}
 	letters := false
 	for _, c := range label {
-		letters = letters || upperASCII(c) != c || (c >= 'A' && c <= 'Z')
+		letters = letters || upperASCII(c) != lowerASCII(c)
 	}
 	if !letters {
 		return false
 	}
-	first := upperASCII(label[0])
-	for i := 0; i+n <= len(text); i++ {
-		if upperASCII(text[i]) != first {
-			continue
+	up, lo := upperASCII(label[0]), lowerASCII(label[0])
+	for _, first := range [2]byte{up, lo} {
+		for rest := text; ; {
+			i := bytes.IndexByte(rest, first)
+			if i < 0 || len(rest)-i < n {
+				break
+			}
+			if equalFoldASCII(rest[i:i+n], label) {
+				return true
+			}
+			rest = rest[i+1:]
 		}
-		j := 1
-		for j < n && upperASCII(text[i+j]) == upperASCII(label[j]) {
-			j++
-		}
-		if j == n {
-			return true
+		if up == lo {
+			break
 		}
 	}
 	return false
+}
+
+func equalFoldASCII(a, b []byte) bool {
+	for i := range a {
+		if upperASCII(a[i]) != upperASCII(b[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+func lowerASCII(c byte) byte {
+	if c >= 'A' && c <= 'Z' {
+		return c - 'A' + 'a'
+	}
+	return c
 }
 
 func upperASCII(c byte) byte {

@@ -1,6 +1,7 @@
 package setup
 
 import (
+	"bytes"
 	"encoding/json"
 	"testing"
 	"time"
@@ -21,6 +22,33 @@ func BenchmarkQuickHeader(b *testing.B) {
 	for i := 0; i < b.N; i++ {
 		if bed, _, ok := quickHeader(line); !ok || bed != "B7" {
 			b.Fatalf("quick look failed on %s", line)
+		}
+	}
+}
+
+// containsFoldASCII agrees with the standard library's answer (upper-case
+// both, then bytes.Contains) on every short text and label over a small
+// alphabet, where case and overlap matter most.
+func TestContainsFoldASCIIAgreesWithTheStandardLibrary(t *testing.T) {
+	alphabet := []byte("bB4-x")
+	var all [][]byte
+	var gen func(prefix []byte, n int)
+	gen = func(prefix []byte, n int) {
+		all = append(all, append([]byte(nil), prefix...))
+		if n == 0 {
+			return
+		}
+		for _, c := range alphabet {
+			gen(append(prefix, c), n-1)
+		}
+	}
+	gen(nil, 5)
+	for _, text := range all {
+		for _, label := range all[1:32] {
+			want := bytes.Contains(bytes.ToUpper(text), bytes.ToUpper(label))
+			if got := containsFoldASCII(text, label); got != want {
+				t.Fatalf("containsFoldASCII(%q, %q) = %v, the standard library says %v", text, label, got, want)
+			}
 		}
 	}
 }
