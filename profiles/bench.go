@@ -51,16 +51,10 @@ var ErrBench = errors.New("bench file")
 
 func (e *BenchError) Is(target error) bool { return target == ErrBench }
 
-// ReadBench reads a bench CSV for profile p: one row per bench breath into
-// a test lung, delivered from rest. Every bad row is reported with its line
-// number and reason; any bad row refuses the whole file. Numbers are read
-// with a decimal point only; ReadBenchNumbers takes the caller's parser.
-func ReadBench(r io.Reader, source string, p Profile) ([]BenchPoint, error) {
-	return ReadBenchNumbers(r, source, p, nil)
-}
-
-// ReadBenchNumbers is ReadBench with each number cell read by parse (nil:
-// a decimal point only). This package imports no number parser of its own;
+// ReadBenchNumbers reads a bench CSV for profile p: one row per bench
+// breath into a test lung, delivered from rest. Every bad row is reported
+// with its line number and reason; any bad row refuses the whole file.
+// Each number cell is read by parse (nil: a decimal point only). This package imports no number parser of its own;
 // setup hands it physiology.ParseNumber, so that "480,5" is 480.5 as
 // everywhere else. A file whose header line is separated by semicolons, as
 // spreadsheets write CSV where the comma is the decimal mark, is read with
