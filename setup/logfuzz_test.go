@@ -12,7 +12,8 @@ import (
 )
 
 // wholeRecord is a check record as this program writes one: a real check
-// of demo-a, so that the seeds are records the readers keep.
+// of demo-a, so that the inputs added to the corpus are records the
+// readers keep.
 func wholeRecord(f *testing.F, bed string, at time.Time) Record {
 	f.Helper()
 	p, _, err := profiles.Open("demo-a", "")
