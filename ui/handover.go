@@ -162,6 +162,9 @@ func (p *handoverPanel) results() string {
 		var reasons []string
 		if o != nil {
 			reasons = o.checkWaiting
+			for _, c := range o.readingStops {
+				add(s.levelWord(c.Level) + " " + s.Error.Render(c.Message+": "+c.Advice))
+			}
 		}
 		add(s.waitingView(reasons))
 		return strings.Join(l, "\n")

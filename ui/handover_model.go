@@ -44,6 +44,12 @@ func (m *Model) recomputeCheck(plan setup.Entries, planProblems setup.Problems) 
 	}
 	req, problems := setup.BuildCheckRequest(e, m.now())
 	m.out.checkLung = req.Lung.String()
+	m.out.readingStops = nil
+	if req.Readings != nil && problems.Field("peak") == nil && problems.Field("end-pressure") == nil && problems.Field("peep") == nil {
+		// The manometer is judged on its own, before and without a fit or a
+		// patient: an alarming reading is never only "waiting".
+		m.out.readingStops = setup.ReadingCautions(*req.Readings, req.Setting.PEEPCmH2O, m.out.profile.Circuit.ReliefCmH2O)
+	}
 	for _, p := range problems {
 		if f := m.checkField(p.Field); f != nil {
 			if !p.Missing {

@@ -201,3 +201,18 @@ func TestTheCardFitsTheFrameAt80x24(t *testing.T) {
 		require.LessOrEqual(t, len([]rune(l)), m.w-fw, "a card line wider than the frame: %q", l)
 	}
 }
+
+// A manometer reading of 120 cmH2O is a stop before any patient is
+// entered (above 40: MHRA RMVS001): the check that waits for the height
+// never shows it only as "waiting".
+func TestAnAlarmingReadingIsAStopWhileTheCheckWaits(t *testing.T) {
+	p, src := demoProfile(t, "demo-a")
+	m := New(Options{Profile: p, Source: src, ProfilesDir: t.TempDir(), Now: testNow})
+	m.Update(tea.WindowSizeMsg{Width: 80, Height: 24})
+	press(m, fkey(6), runes("B4"), enter, runes("ab"), enter, runes("8"), enter, runes("21"), enter, runes("1.4"), enter,
+		enter, enter, runes("120"), enter, runes("100"))
+	require.Nil(t, m.out.check, "no patient yet")
+	v := screen(m)
+	require.Contains(t, v, "STOP the manometer reads a peak of 120.0")
+	require.NotContains(t, v, "CHECK WAITING", "the strip says the stop, not that it waits")
+}

@@ -648,6 +648,9 @@ func (m *Model) summary() string {
 	if m.focus == panelHandover {
 		ck := m.out.check
 		switch {
+		case ck == nil && len(m.out.readingStops) > 0:
+			c := m.out.readingStops[0]
+			return truncate(s.levelWord(c.Level)+s.Error.Render(" "+c.Message), m.w)
 		case ck == nil:
 			// Never the plan's figures here: they would read as the bed's.
 			reason := "the machine's setting"

@@ -27,6 +27,9 @@ type outcome struct {
 	check        *setup.Check
 	checkJSON    setup.CheckJSON // check's report body, built once per recompute
 	checkWaiting []string
+	// readingStops are the manometer readings' own cautions, judged
+	// while the check still waits for other entries.
+	readingStops []setup.Caution
 	checkLung    string // the lung condition the check's assumed mechanics are for
 	// started says which record the check was started from, and
 	// changedFromRecord what the entries now hold otherwise.
