@@ -35,7 +35,7 @@ var checkCommand = &Command{
 // how to print.
 type checkOptions struct {
 	profile, dir, bed, initials, second, logPath func() string
-	asJSON, card                         func() bool
+	asJSON, card                                 func() bool
 }
 
 func checkFlagSet() (*flags, checkOptions) {
