@@ -7,7 +7,8 @@ import "flag"
 // 700): about ten seconds of CPU. By default they read smaller files of the
 // same make-up, which exercise the same paths (every kind of damaged line,
 // more problems than are kept, copies across logs); run
-// go test ./setup -run Log -logs.large before changing the readers.
+// go test ./setup -run 'Log|Stream|History' -logs.large before changing
+// the readers.
 var largeLogs = flag.Bool("logs.large", false, "log tests: read the large generated files")
 
 // logSize is small by default and large under -logs.large.
