@@ -18,9 +18,13 @@ const MaxRecordBytes = 256 << 10
 // through a link: see CheckLogPath), locked against other writers, the line
 // is written with a single write and synced before the lock is released.
 // If the file's last line was torn by an earlier crash, the record starts
-// on a fresh line so the torn one stays alone. On error nothing earlier in
-// the file is touched.
+// on a fresh line so the torn one stays alone. A record that breaks the
+// rules the reader holds records to (recordProblem) is refused before the
+// file is opened. On error nothing earlier in the file is touched.
 func AppendRecord(path string, rec Record) error {
+	if p := recordProblem(&rec); p != "" {
+		return fmt.Errorf("log %s: record NOT written (nothing was written): %s", path, p)
+	}
 	line, err := json.Marshal(rec)
 	if err != nil {
 		return err
