@@ -27,8 +27,8 @@ type decodedLine struct {
 	n       int
 	rec     Record
 	ok      bool
-	problem string // why the line is damaged, when it is not ok
-	key [sha256.Size]byte // set when the record is of the bed asked for
+	problem string            // why the line is damaged, when it is not ok
+	key     [sha256.Size]byte // set when the record is of the bed asked for
 }
 
 type lineBatch struct {

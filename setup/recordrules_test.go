@@ -186,4 +186,3 @@ func TestRemovedCautionsMakeTheLineDamaged(t *testing.T) {
 	requireDamaged(t, "tidal-volume-low at stop, the record has warn", []string{"B4"}, b4,
 		at(1.99, setup.Caution{ID: "tidal-volume-low", Level: setup.Warn}))
 }
-
