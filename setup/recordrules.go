@@ -56,6 +56,9 @@ func recordProblem(r *Record) string {
 	if CheckInitials(r.Initials) != nil {
 		return fmt.Sprintf("initials %s are not ones the writer accepts (1-4 letters A-Z)", strconv.QuoteToASCII(r.Initials))
 	}
+	if CheckInitials(r.SecondInitials) != nil || (r.SecondInitials != "" && r.Initials == "") {
+		return fmt.Sprintf("second initials %s are not ones the writer accepts (1-4 letters A-Z, after the first's)", strconv.QuoteToASCII(r.SecondInitials))
+	}
 	if p := patientProblem(r); p != "" {
 		return p
 	}

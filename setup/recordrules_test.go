@@ -102,6 +102,8 @@ func TestLookAlikeLabelsAreDamagedAndShownEscaped(t *testing.T) {
 	}
 	initials := strings.Replace(recordLine(t, wardRecord(t, "B5", at(10, 0), 21, 0)), `"initials":"AB"`, `"initials":"A\u0412"`, 1)
 	requireDamaged(t, `initials "A\u0412" are not ones the writer accepts`, []string{"B4"}, b4, initials)
+	second := strings.Replace(recordLine(t, wardRecord(t, "B5", at(10, 0), 21, 0)), `"initials":"AB"`, `"initials":"AB","second_initials":"C\u00a0"`, 1)
+	requireDamaged(t, `second initials "C\u00a0" are not ones the writer accepts`, []string{"B4"}, b4, second)
 }
 
 // Figures outside what the entries accept, or that disagree with one
