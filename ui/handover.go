@@ -72,6 +72,11 @@ func newHandoverPanel(s *Styles) *handoverPanel {
 			numberField("propose-peep", "PEEP cmH2O", "cmH2O", ""),
 			numberField("propose-o2-lpm", "O2 L/min", "L/min", ""),
 		}},
+		// Asked at every check: this unit cannot follow a patient's
+		// breath (setup's patient-triggering stop).
+		section{title: "BREATHING AGAINST THE UNIT?", fields: []*field{
+			choiceField("breathing-against", "Fights unit", "", -1, choice{"y", "yes", "yes"}, choice{"n", "no", "no"}),
+		}},
 	)
 	f.compact = true
 	p := &handoverPanel{keys: newHandoverKeys()}
