@@ -235,10 +235,7 @@ func WriteCard(w io.Writer, r Record) error {
 	rw := &reportWriter{width: CardWidth}
 	rule := strings.Repeat("=", CardWidth)
 	rw.line("%s", rule)
-	by := r.Initials
-	if by == "" {
-		by = "(initials not given)"
-	}
+	by := checkedBy(r)
 	if r.Unexplained() {
 		rw.line("STOP: READINGS UNEXPLAINED - NOTHING ON THIS CARD IS WHAT THE PATIENT GETS")
 	}
@@ -250,6 +247,9 @@ func WriteCard(w io.Writer, r Record) error {
 	rw.line("Patient %.0f cm %s, PBW %.1f kg (no name or identifier recorded)", r.HeightCm, r.Sex, r.PBWKg)
 	rw.line("%s", rule)
 	rw.checkBody(r.CheckJSON)
+	if l := secondSignatureLine(r); l != "" {
+		rw.line("%s", l)
+	}
 	rw.line("%s", rule)
 	rw.line("%s", ClinicalCaution)
 	_, err := io.WriteString(w, rw.b.String())

@@ -164,6 +164,9 @@ func missingFromRecord(r Record) string {
 		return "setting"
 	case r.ClinicalCaution == "":
 		return "clinical_caution"
+	case CheckSecondInitials(r.SecondInitials) != nil || (r.SecondInitials != "" && r.Initials == ""):
+		// Second initials the writer refuses are not a record it wrote.
+		return "second_initials"
 	case !r.Unexplained() && (!(r.DeliveredVtML > 0) || !(r.RateBPM > 0)):
 		// Without readings no lung explains, a check has its figures.
 		return "figures"

@@ -213,6 +213,9 @@ type Record struct {
 	Time     time.Time `json:"time"`
 	Bed      string    `json:"bed"`
 	Initials string    `json:"initials"`
+	// SecondInitials are a second checker's, when a ward double-checks a
+	// change (written only when given).
+	SecondInitials string `json:"second_initials,omitempty"`
 	CheckJSON
 }
 
@@ -222,13 +225,15 @@ type recordHead struct {
 	Time     time.Time `json:"time"`
 	Bed      string    `json:"bed"`
 	Initials string    `json:"initials"`
+	// SecondInitials: see Record.
+	SecondInitials string `json:"second_initials,omitempty"`
 }
 
 // MarshalJSON writes the record's own keys, then the check's as
 // CheckJSON writes them (its MarshalJSON would otherwise stand for the
 // whole record, since the check is embedded).
 func (r Record) MarshalJSON() ([]byte, error) {
-	head, err := json.Marshal(recordHead{Format: r.Format, Time: r.Time, Bed: r.Bed, Initials: r.Initials})
+	head, err := json.Marshal(recordHead{Format: r.Format, Time: r.Time, Bed: r.Bed, Initials: r.Initials, SecondInitials: r.SecondInitials})
 	if err != nil {
 		return nil, err
 	}
