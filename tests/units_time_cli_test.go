@@ -118,3 +118,21 @@ func TestGasUnitsOnTheCommandLine(t *testing.T) {
 	require.Equal(t, 0, r.status, r.stderr)
 	require.Contains(t, r.stdout, "peak reading 17 hPa = 17.34 cmH2O") // REFERENCES: 17 hPa -> 17.34 cmH2O
 }
+
+// A record of a check typed in the ward's units keeps what was converted,
+// and the log's reader takes it back as the writer wrote it.
+func TestARecordWithConvertedEntriesReadsBack(t *testing.T) {
+	logPath := filepath.Join(t.TempDir(), "handover.jsonl")
+	r := crankside(t, "check", "--height-cm", `5'10"`, "--sex", "male", "--hole", "8", "--rpm", "21", "--dwell-s", "1.4",
+		"--pressure-unit", "mbar", "--peak", "17", "--end-pressure", "14", "--gas-unit", "kpa", "--paco2", "6", "--ph", "7.35",
+		"--bed", "B7", "--log", logPath)
+	require.Equal(t, 0, r.status, r.stderr)
+	raw, err := os.ReadFile(logPath)
+	require.NoError(t, err)
+	require.Contains(t, string(raw), `"text":"height 70 in = 177.8 cm"`)
+	require.Contains(t, string(raw), `"text":"PaCO2 6 kPa = 45.0 mmHg"`) // NIST SP 811: 6 x 7.50062 = 45.004
+	show := crankside(t, "log", "show", "--log", logPath, "--bed", "B7")
+	require.Equal(t, 0, show.status, show.stderr)
+	require.Contains(t, show.stdout, "Bed B7: 1 check(s)")
+	require.Empty(t, show.stderr)
+}
