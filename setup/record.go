@@ -65,6 +65,8 @@ type CheckJSON struct {
 	// What to time to confirm the setting, and the watch band (absent when
 	// no lung explains the readings); older records have neither.
 	TimingCheck *TimingCheck `json:"timing_check,omitempty"`
+	// What a stopwatch check inferred ("" when the dials were read).
+	InferredFromStopwatch string `json:"inferred_from_stopwatch,omitempty"`
 	Watch       *WatchJSON   `json:"watch,omitempty"`
 }
 
@@ -204,7 +206,7 @@ func (ck Check) JSON() CheckJSON {
 		j.Proposed = p
 	}
 	tc := ck.TimingCheck.JSON()
-	j.TimingCheck = &tc
+	j.TimingCheck, j.InferredFromStopwatch = &tc, ck.Inferred
 	if ck.Watch != nil {
 		w := ck.Watch.JSON()
 		j.Watch = &w
