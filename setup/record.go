@@ -66,8 +66,8 @@ type CheckJSON struct {
 	// no lung explains the readings); older records have neither.
 	TimingCheck *TimingCheck `json:"timing_check,omitempty"`
 	// What a stopwatch check inferred ("" when the dials were read).
-	InferredFromStopwatch string `json:"inferred_from_stopwatch,omitempty"`
-	Watch       *WatchJSON   `json:"watch,omitempty"`
+	InferredFromStopwatch string     `json:"inferred_from_stopwatch,omitempty"`
+	Watch                 *WatchJSON `json:"watch,omitempty"`
 }
 
 // Unexplained reports whether no lung explains the readings: then no
