@@ -84,6 +84,9 @@ type CheckRequest struct {
 	// ManometerStepCmH2O is the manometer's resolution (0: DefaultManometerStepCmH2O);
 	// each reading is taken as +/- half a step.
 	ManometerStepCmH2O float64
+	// Converted are the entries typed in the ward's units, echoed by the
+	// check (BuildCheckRequest fills it).
+	Converted []Conversion
 
 	// v1Gas, for tests only (export_test.go): the BTPS factor exactly 1
 	// and the cylinder's gas left out, which with no leak and a relief
@@ -135,6 +138,8 @@ type Check struct {
 	// Inferred says what a stopwatch check inferred ("" when the dials were
 	// read): the speed and dwell, the measured values, the nearest steps.
 	Inferred string
+	// Converted are the entries typed in the ward's units.
+	Converted []Conversion
 }
 
 // Unexplained reports whether no lung explains the readings: then none of
@@ -172,6 +177,14 @@ type Difference struct {
 // step (runCheckWithStep): a proposal entered by hand is still the one
 // evaluated, and the check says whether it is the step's.
 func RunCheck(req CheckRequest, p profiles.Profile) (Check, error) {
+	ck, err := runCheck(req, p)
+	if err == nil {
+		ck.Converted = req.Converted
+	}
+	return ck, err
+}
+
+func runCheck(req CheckRequest, p profiles.Profile) (Check, error) {
 	if !req.Gas.Empty() {
 		return runCheckWithStep(req, p)
 	}
