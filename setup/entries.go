@@ -66,6 +66,7 @@ type EntrySpec struct {
 
 var planSpecs = []EntrySpec{
 	{Name: "height-cm", Label: "Height", Unit: "cm", Required: true},
+	{Name: "height-in", Label: "Height", Unit: "in"},
 	{Name: "sex", Label: "Sex", Kind: kindChoice, Required: true},
 	{Name: "lung", Label: "Lung", Kind: kindChoice},
 	{Name: "ml-per-kg", Label: "Tidal volume", Unit: "mL/kg", ZeroIsDefault: true},
@@ -77,26 +78,35 @@ var planSpecs = []EntrySpec{
 	{Name: "resistance", Label: "Resistance", Unit: "cmH2O/(L/s)", ZeroIsDefault: true},
 	{Name: "cylinder-l", Label: "Cylinder", Unit: "L", ZeroIsDefault: true},
 	{Name: "cylinder-bar", Label: "Cylinder", Unit: "bar"},
+	{Name: "cylinder-reserve-bar", Label: "Cylinder reserve", Unit: "bar", ZeroIsDefault: true},
 	{Name: "room-c", Label: "Room temperature", Unit: "C"},
 	{Name: "room-rh", Label: "Room humidity", Unit: "%"},
 	{Name: "barometric-mmhg", Label: "Barometer", Unit: "mmHg"},
+	{Name: "barometric-hpa", Label: "Barometer", Unit: "hPa"},
+	{Name: "pressure-unit", Label: "Pressure unit", Kind: kindChoice},
 }
 
 var checkSpecs = []EntrySpec{
 	{Name: "height-cm", Label: "Height", Unit: "cm", Required: true},
+	{Name: "height-in", Label: "Height", Unit: "in"},
 	{Name: "sex", Label: "Sex", Kind: kindChoice, Required: true},
 	{Name: "lung", Label: "Lung", Kind: kindChoice},
 	{Name: "compliance", Label: "Compliance", Unit: "mL/cmH2O", ZeroIsDefault: true},
 	{Name: "resistance", Label: "Resistance", Unit: "cmH2O/(L/s)", ZeroIsDefault: true},
 	{Name: "hole", Label: "Hole", Kind: kindText, Required: true},
-	{Name: "rpm", Label: "Motor speed", Unit: "rpm", Required: true},
-	{Name: "dwell-s", Label: "Dwell", Unit: "s", Required: true},
+	{Name: "rpm", Label: "Motor speed", Unit: "rpm"},
+	{Name: "turn-s", Label: "One turn timed", Unit: "s", ZeroIsDefault: true},
+	{Name: "dwell-s", Label: "Dwell", Unit: "s"},
+	{Name: "pause-s", Label: "Pause timed", Unit: "s"},
+	{Name: "breaths-per-min", Label: "Breaths counted", Unit: "/min", ZeroIsDefault: true},
 	{Name: "peep", Label: "PEEP valve", Unit: "cmH2O"},
 	{Name: "o2-lpm", Label: "O2 flow", Unit: "L/min"},
 	{Name: "peak", Label: "Peak reading", Unit: "cmH2O"},
 	{Name: "end-pressure", Label: "End reading", Unit: "cmH2O"},
+	{Name: "breathing-against", Label: "Breathing against the unit", Kind: kindChoice},
 	{Name: "cylinder-l", Label: "Cylinder", Unit: "L", ZeroIsDefault: true},
 	{Name: "cylinder-bar", Label: "Cylinder", Unit: "bar"},
+	{Name: "cylinder-reserve-bar", Label: "Cylinder reserve", Unit: "bar", ZeroIsDefault: true},
 	{Name: "spo2", Label: "SpO2", Unit: "%"},
 	{Name: "pao2", Label: "PaO2", Unit: "mmHg"},
 	{Name: "ph", Label: "pH"},
@@ -110,7 +120,10 @@ var checkSpecs = []EntrySpec{
 	{Name: "room-c", Label: "Room temperature", Unit: "C"},
 	{Name: "room-rh", Label: "Room humidity", Unit: "%"},
 	{Name: "barometric-mmhg", Label: "Barometer", Unit: "mmHg"},
+	{Name: "barometric-hpa", Label: "Barometer", Unit: "hPa"},
 	{Name: "manometer-step", Label: "Manometer step", Unit: "cmH2O", ZeroIsDefault: true},
+	{Name: "pressure-unit", Label: "Pressure unit", Kind: kindChoice},
+	{Name: "gas-unit", Label: "Gas unit", Kind: kindChoice},
 }
 
 // Spec returns the entry of that flag name, from the plan's or the
@@ -231,8 +244,9 @@ func (r *entryReader) cylinder() (waterL, bar float64) {
 // BuildRequest turns a plan's entries into a Request, with every problem
 // at once. The request is only for MakePlan when Problems is empty.
 func BuildRequest(e Entries, now time.Time) (Request, Problems) {
+	e, converted, unitProblems := convertUnits(e, planSpecs)
 	r := &entryReader{e: e}
-	req := Request{Patient: r.patient(), Now: now}
+	req := Request{Patient: r.patient(), Now: now, Converted: converted}
 	t := Targets{Lung: r.lung()}
 	t.MLPerKg, _ = r.number("ml-per-kg")
 	t.RateBPM, _ = r.number("rate")
@@ -250,9 +264,11 @@ func BuildRequest(e Entries, now time.Time) (Request, Problems) {
 		t.IE = ie
 	}
 	t.CylinderWaterL, t.CylinderBar = r.cylinder()
+	t.CylinderReserveBar = r.cylinderReserve()
 	req.Targets = t
 	req.Room = r.room()
 	r.rangeProblems(req.Targets)
+	r.unitProblems(converted, unitProblems)
 	return req, r.sorted(planSpecs)
 }
 
@@ -321,16 +337,16 @@ const DefaultPEEPCmH2O = 5
 // problem at once. Whether the hole, speed and dwell suit this machine is
 // RunCheck's to say, since it needs the profile.
 func BuildCheckRequest(e Entries, now time.Time) (CheckRequest, Problems) {
+	e, converted, unitProblems := convertUnits(e, checkSpecs)
 	r := &entryReader{e: e}
-	req := CheckRequest{Patient: r.patient(), Lung: r.lung(), Now: now}
+	req := CheckRequest{Patient: r.patient(), Lung: r.lung(), Now: now, Converted: converted}
 	req.ComplianceMLPerCmH2O, _ = r.number("compliance")
 	req.ResistanceCmH2OPerLS, _ = r.number("resistance")
 	req.Setting.Hole = r.text("hole")
 	if req.Setting.Hole == "" {
 		r.missing("hole", "required: the hole the pin is in")
 	}
-	req.Setting.RPM, _ = r.number("rpm")
-	req.Setting.DwellS, _ = r.number("dwell-s")
+	r.timing(&req.Setting)
 	req.Setting.PEEPCmH2O = DefaultPEEPCmH2O
 	if v, ok := r.number("peep"); ok {
 		req.Setting.PEEPCmH2O = v
@@ -348,6 +364,8 @@ func BuildCheckRequest(e Entries, now time.Time) (CheckRequest, Problems) {
 		r.fail("peak", "peak and end-pressure go together: give both manometer readings or neither")
 	}
 	req.CylinderWaterL, req.CylinderBar = r.cylinder()
+	req.CylinderReserveBar = r.cylinderReserve()
+	req.BreathingAgainst = r.yesNo("breathing-against", false)
 	req.Room = r.room()
 	if v, ok := r.number("manometer-step"); ok {
 		if err := checkRange("manometer-step", "manometer step", v, ManometerStepMinCmH2O, ManometerStepMaxCmH2O, "cmH2O"); err != nil {
@@ -369,6 +387,7 @@ func BuildCheckRequest(e Entries, now time.Time) (CheckRequest, Problems) {
 	req.Gas = r.gas()
 	r.rangeProblems(Targets{ComplianceMLPerCmH2O: req.ComplianceMLPerCmH2O, ResistanceCmH2OPerLS: req.ResistanceCmH2OPerLS,
 		CylinderWaterL: req.CylinderWaterL, CylinderBar: req.CylinderBar})
+	r.unitProblems(converted, unitProblems)
 	return req, r.sorted(checkSpecs)
 }
 
@@ -401,8 +420,18 @@ func Hint(name string, lung physiology.Lung) string {
 		return def(d.Compliance, "%g mL/cmH2O")
 	case "resistance":
 		return def(d.Resistance, "%g cmH2O/(L/s)")
-	case "hole", "rpm", "dwell-s":
+	case "hole":
 		return "required: as set on the machine"
+	case "rpm":
+		return "required: as set, or time one turn (turn-s)"
+	case "dwell-s":
+		return "required: as set, or time the pause (pause-s) or count breaths (breaths-per-min)"
+	case "turn-s":
+		return "seconds for one turn, timed: in place of rpm"
+	case "pause-s":
+		return "seconds of the pause after a turn, timed: in place of dwell-s"
+	case "breaths-per-min":
+		return "breaths counted in one minute, with the turn: in place of dwell-s"
 	case "peak", "end-pressure":
 		return "optional: both readings, or neither"
 	case "o2-lpm":
@@ -413,6 +442,10 @@ func Hint(name string, lung physiology.Lung) string {
 		return def(v, "%g")
 	case "manometer-step":
 		return def(physiology.Value{Value: DefaultManometerStepCmH2O, Source: srcManometerStep}, "%g cmH2O")
+	case "cylinder-reserve-bar":
+		return def(physiology.Value{Value: DefaultCylinderReserveBar, Source: srcDefaultReserve}, "%g bar")
+	case "breathing-against":
+		return BreathingAgainstQuestion + " y or n; blank: no"
 	}
 	if strings.HasPrefix(name, "propose-") {
 		return "blank: as now"
@@ -446,6 +479,21 @@ func RecordEntries(r Record) Entries {
 		"height-cm": num(r.HeightCm), "sex": r.Sex, "bed": r.Bed,
 		"hole": r.Setting.Hole, "rpm": num(r.Setting.RPM), "dwell-s": num(r.Setting.DwellS),
 		"peep": num(r.Setting.PEEPCmH2O),
+	}
+	// A timed setting starts the next check from what was timed, not from
+	// a speed no dial shows.
+	if m := r.Setting.Measured; m != nil {
+		for name, v := range map[string]*float64{"turn-s": m.TurnS, "pause-s": m.PauseS, "breaths-per-min": m.BreathsPerMin} {
+			if v != nil {
+				e[name] = num(*v)
+			}
+		}
+		if m.TurnS != nil {
+			delete(e, "rpm")
+		}
+		if m.PauseS != nil || m.BreathsPerMin != nil {
+			delete(e, "dwell-s")
+		}
 	}
 	if r.Setting.O2LPerMin != 0 {
 		e["o2-lpm"] = num(r.Setting.O2LPerMin)

@@ -17,6 +17,17 @@ func (m *Model) checkField(name string) *field { return m.handover.form.byName(n
 // patientEntries are the entries of the Patient panel that a check uses.
 var patientEntries = []string{"height-cm", "sex", "lung", "compliance", "resistance"}
 
+// settingBlank reports whether nothing of the setting is entered yet:
+// neither the hole nor the speed and dwell, dialled or timed.
+func (m *Model) settingBlank() bool {
+	for _, name := range []string{"hole", "rpm", "dwell-s", "turn-s", "pause-s", "breaths-per-min"} {
+		if m.checkField(name).Value() != "" {
+			return false
+		}
+	}
+	return true
+}
+
 // recomputeCheck runs the handover check of what the machine is set to,
 // for the patient on the Patient panel: the entries as typed go to setup's
 // check builder, and every problem is marked beside its field. It waits,
@@ -26,7 +37,7 @@ func (m *Model) recomputeCheck(plan setup.Entries, planProblems setup.Problems) 
 	h.clearErrors()
 	m.out.check, m.out.checkWaiting = nil, nil
 	wait := func(r string) { m.out.checkWaiting = append(m.out.checkWaiting, r) }
-	if m.checkField("hole").Value() == "" && m.checkField("rpm").Value() == "" && m.checkField("dwell-s").Value() == "" {
+	if m.settingBlank() {
 		wait("enter the hole, motor speed and dwell the machine is set to")
 		return
 	}
@@ -103,7 +114,7 @@ func (m *Model) record() (setup.Record, error) {
 func (m *Model) recordAsked() tea.Cmd {
 	if m.recordedAt != "" && !m.confirmRecord {
 		m.confirmRecord = true
-		m.handoverNote(m.styles.Error.Render("! this check was already recorded at " + m.recordedAt + " UTC: Ctrl+S again records it a second time"))
+		m.handoverNote(m.styles.Error.Render("! this check was already recorded at " + m.recordedAt + ": Ctrl+S again records it a second time"))
 		return nil
 	}
 	m.confirmRecord = false
@@ -147,8 +158,8 @@ func (m *Model) saved(msg savedMsg) {
 		return
 	}
 	m.unsaved = false
-	m.recordedAt = msg.at.UTC().Format("15:04")
-	m.handoverNote(m.styles.Value.Render(fmt.Sprintf("Recorded for bed %s at %s UTC in %s", msg.bed, m.recordedAt, msg.path)))
+	m.recordedAt, m.recordedTime = setup.LocalClock(msg.at), msg.at
+	m.handoverNote(m.styles.Value.Render(fmt.Sprintf("Recorded for bed %s at %s in %s", msg.bed, m.recordedAt, msg.path)))
 }
 
 func (m *Model) card() {
@@ -157,9 +168,16 @@ func (m *Model) card() {
 		m.handoverNote(m.styles.Error.Render("! no card: " + err.Error()))
 		return
 	}
+	title := "Handover card, not recorded yet (also: crankside check ... --card)"
+	if m.recordedAt != "" {
+		// The card of a recorded check is stamped with the record's time,
+		// not the time it is opened.
+		rec.Time = m.recordedTime
+		title = "Handover card, as recorded at " + m.recordedAt
+	}
 	var b strings.Builder
 	setup.WriteCard(&b, rec)
-	m.overlay = &textOverlay{title: "Handover card (also: crankside check ... --card)", text: b.String()}
+	m.overlay = &textOverlay{title: title, text: b.String()}
 }
 
 func (m *Model) history() tea.Cmd {
