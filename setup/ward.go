@@ -395,11 +395,11 @@ func WardLine(r WardRow) string {
 	case r.AgeMinutes >= 120:
 		age = fmt.Sprintf("%.1f h ago", r.AgeMinutes/60)
 	}
-	when := r.CheckedAt.UTC().Format("01-02 15:04")
+	when := LocalShort(r.CheckedAt)
 	if r.AgeMinutes < -FutureSkew.Minutes() {
-		when = r.CheckedAt.UTC().Format("2006-01-02 15:04") // its year: 2099 must not read as this year
+		when = LocalDateTime(r.CheckedAt) // its year: 2099 must not read as this year
 	}
-	line := fmt.Sprintf("%-8s %s UTC (%s)  %s %s", r.Bed, when, age, r.ProfileID,
+	line := fmt.Sprintf("%-8s %s (%s)  %s %s", r.Bed, when, age, r.ProfileID,
 		settingText(Setting{Hole: r.Hole, RPM: r.MotorRPM, DwellS: r.DwellS, PEEPCmH2O: r.PEEPCmH2O}))
 	switch {
 	case r.Record.Unexplained() && r.HighestLevel == Stop:
@@ -427,7 +427,7 @@ func WardLine(r WardRow) string {
 		line += "  " + r.Conflict
 	}
 	if !r.FutureAt.IsZero() && !r.FutureAt.Equal(r.CheckedAt) {
-		line += fmt.Sprintf("  (a record dated %s UTC, in the future, from %s: check that terminal's clock)", r.FutureAt.Format("2006-01-02 15:04"), r.FutureLog)
+		line += fmt.Sprintf("  (a record dated %s, in the future, from %s: check that terminal's clock)", LocalDateTime(r.FutureAt), r.FutureLog)
 	}
 	return line
 }

@@ -94,14 +94,14 @@ func conflictNote(group []wardItem) string {
 	sortItemsByLog(g)
 	same := true
 	for _, it := range g[1:] {
-		same = same && it.rec.Time.UTC().Format("15:04") == g[0].rec.Time.UTC().Format("15:04")
+		same = same && LocalClock(it.rec.Time) == LocalClock(g[0].rec.Time)
 	}
 	var parts []string
 	for _, it := range g {
 		if same {
 			parts = append(parts, it.log)
 		} else {
-			parts = append(parts, it.rec.Time.UTC().Format("15:04")+" UTC from "+it.log)
+			parts = append(parts, LocalClock(it.rec.Time)+" from "+it.log)
 		}
 	}
 	count := map[int]string{2: "two", 3: "three"}[len(g)]
@@ -110,7 +110,7 @@ func conflictNote(group []wardItem) string {
 	}
 	list := strings.Join(parts[:len(parts)-1], ", ") + " and " + parts[len(parts)-1]
 	if same {
-		return fmt.Sprintf("conflict: %s checks at %s UTC from %s", count, g[0].rec.Time.UTC().Format("15:04"), list)
+		return fmt.Sprintf("conflict: %s checks at %s from %s", count, LocalClock(g[0].rec.Time), list)
 	}
 	return fmt.Sprintf("conflict: %s checks within %.0f min: %s", count, ConflictWindow.Minutes(), list)
 }
