@@ -9,10 +9,12 @@ import (
 	"crankside/setup"
 )
 
-const checkLong = `Usage: crankside check --height-cm N --sex male|female --hole LABEL --rpm N --dwell-s N [flags]
-       crankside check --height-cm N --sex male|female --hole LABEL --turn-s N --pause-s N [flags]
+var checkUsage = []string{
+	"check --height-cm N --sex male|female --hole LABEL --rpm N --dwell-s N [flags]",
+	"check --height-cm N --sex male|female --hole LABEL --turn-s N --pause-s N [flags]",
+}
 
-Shift handover: what the machine is set to and what the manometer reads ->
+const checkLong = `Shift handover: what the machine is set to and what the manometer reads ->
 the readings judged, what the patient really gets, the lung mechanics the
 readings imply, a proposed change side by side, and a record appended to
 the log. With a blood gas or oximeter reading (--spo2, --pao2, --ph,
@@ -31,11 +33,10 @@ Flags:
 `
 
 var checkCommand = &Command{
-	Name:      "check",
-	UsageLine: "check --height-cm N --sex S --hole L --rpm N --dwell-s N [flags]",
-	Short:     "shift handover: what the patient gets now",
-	Long:      checkLong,
-	Run:       runCheck,
+	Name:  "check",
+	Usage: checkUsage,
+	Short: "shift handover: what the patient gets now",
+	Run:   runCheck,
 }
 
 // checkOptions are the flags a check reads itself: where to record, and
@@ -46,7 +47,7 @@ type checkOptions struct {
 }
 
 func checkFlagSet() (*flags, checkOptions) {
-	f := newFlags("check", checkLong)
+	f := newFlags("check", help(checkUsage, checkLong))
 	f.entry("height-cm", "patient's height in cm, or with its unit: 70in, 5'10\" (required, or --height-in)")
 	f.entry("height-in", "patient's height in inches, instead of --height-cm")
 	f.entry("sex", "male or female (required)")

@@ -7,9 +7,9 @@ import (
 	"crankside/setup"
 )
 
-const planLong = `Usage: crankside plan --height-cm N --sex male|female [flags]
+var planUsage = []string{"plan --height-cm N --sex male|female [flags]"}
 
-A new patient's setting on one machine: PBW, target volume, the hole to pin,
+const planLong = `A new patient's setting on one machine: PBW, target volume, the hole to pin,
 the motor speed and dwell the controller can be set to, the predictions and
 the cautions. A decimal comma is read as a decimal point (0,9 is 0.9).
 
@@ -17,11 +17,10 @@ Flags:
 `
 
 var planCommand = &Command{
-	Name:      "plan",
-	UsageLine: "plan --height-cm N --sex male|female [flags]",
-	Short:     "a new patient's setting on one machine",
-	Long:      planLong,
-	Run:       runPlan,
+	Name:  "plan",
+	Usage: planUsage,
+	Short: "a new patient's setting on one machine",
+	Run:   runPlan,
 }
 
 // planFlagSet declares the plan's entries; the screen takes the same ones.
@@ -52,7 +51,7 @@ func planFlagSet(name, usage string) (f *flags, profile, dir func() string) {
 }
 
 func runPlan(env Env) int {
-	f, profile, dir := planFlagSet("plan", planLong)
+	f, profile, dir := planFlagSet("plan", help(planUsage, planLong))
 	asJSON := f.boolean("json", "print one JSON object")
 	if status, done := f.parse(env, env.Args, "plan", false); done {
 		return status
