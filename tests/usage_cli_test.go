@@ -40,3 +40,31 @@ func TestUsageLinesAgreeBetweenTopHelpAndCommandHelp(t *testing.T) {
 		require.Equal(t, own, inTop, "%s: the usage lines of its help and of the top-level help", cmd)
 	}
 }
+
+// flagHelp is each "--name text" line of a command's help, by name.
+func flagHelp(help string) map[string]string {
+	out := map[string]string{}
+	for _, line := range strings.Split(help, "\n") {
+		if f := strings.Fields(line); len(f) > 1 && strings.HasPrefix(f[0], "--") {
+			out[strings.TrimPrefix(f[0], "--")] = strings.Join(f[1:], " ")
+		}
+	}
+	return out
+}
+
+// The entries that mean the same to plan and check are explained the same
+// way by both (their help was written twice and had drifted: the height's
+// range was in one and not the other).
+func TestPlanAndCheckExplainTheirCommonEntriesAlike(t *testing.T) {
+	plan := flagHelp(crankside(t, "plan", "--help").stdout)
+	check := flagHelp(crankside(t, "check", "--help").stdout)
+	for _, name := range []string{"height-cm", "height-in", "sex", "cylinder-l", "cylinder-bar", "cylinder-reserve-bar",
+		"room-c", "room-rh", "barometric-mmhg", "barometric-hpa"} {
+		require.NotEmpty(t, plan[name], "plan --%s", name)
+		require.Equal(t, plan[name], check[name], "--%s", name)
+	}
+	// DESIGN.md: heights outside 130-230 cm are refused; derived: 1 in =
+	// 2.54 cm, 130/2.54 = 51.18 -> 51.2 in, 230/2.54 = 90.55 -> 90.6 in.
+	require.Contains(t, plan["height-cm"], "(130-230)")
+	require.Contains(t, plan["height-in"], "(51.2-90.6)")
+}

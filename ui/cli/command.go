@@ -327,3 +327,23 @@ func interspersed(args []string, fs *flag.FlagSet) []string {
 	}
 	return append(fl, pos...)
 }
+
+// sharedEntries declares the entries plan and check (and the screen) take
+// with one meaning: the patient's height and sex, the oxygen cylinder and
+// the room. Their help is written here once, with the ranges the entry
+// builder holds them to; what differs between the commands (a PEEP wanted
+// or set, a lung planned for or assumed) each command writes itself.
+func (f *flags) sharedEntries() {
+	f.entry("height-cm", fmt.Sprintf("patient's height in cm (%g-%g), or with its unit: 70in, 5'10\" (required, or --height-in)",
+		physiology.HeightMinCm, physiology.HeightMaxCm))
+	f.entry("height-in", fmt.Sprintf("patient's height in inches (%.1f-%.1f), instead of --height-cm",
+		physiology.HeightMinCm/2.54, physiology.HeightMaxCm/2.54))
+	f.entry("sex", "male or female (required)")
+	f.entry("cylinder-l", "oxygen cylinder water capacity in L (optional, with --cylinder-bar)")
+	f.entry("cylinder-bar", "oxygen cylinder pressure in bar (with --cylinder-l)")
+	f.entry("cylinder-reserve-bar", "change the cylinder at this pressure, bar (1-150; default 40: about a fifth of a full cylinder, common practice)")
+	f.entry("room-c", "room temperature in C for the BTPS factor (0-45; default 22, common practice)")
+	f.entry("room-rh", "room relative humidity in % (0-100; default 50, common practice)")
+	f.entry("barometric-mmhg", "barometric pressure in mmHg (450-800; default 760, sea level: enter the local barometer)")
+	f.entry("barometric-hpa", "barometric pressure in hPa, instead of --barometric-mmhg (1 hPa = 0.750062 mmHg)")
+}
