@@ -179,21 +179,7 @@ func (p *handoverPanel) results() string {
 	for _, w := range o.checkWaiting {
 		add(s.Hint.Render(w))
 	}
-	if o.started != "" {
-		add(s.Hint.Render(o.started))
-		switch {
-		case len(o.toConfirm) > 0:
-			// Nobody has looked at the machine yet: nothing here is called
-			// found until each value is confirmed or changed.
-			add(s.Error.Render(strings.ToUpper(o.fromAt[:1]) + o.fromAt[1:] + ": confirm each value at the machine (" +
-				strings.Join(o.toConfirm, ", ") + "): Enter confirms, typing changes"))
-		case len(o.changedFromRecord) == 0:
-			add(s.Label.Render("Found as recorded."))
-		}
-		for _, c := range o.changedFromRecord {
-			add(s.Caution.Render("Found otherwise: " + c))
-		}
-	}
+	p.recordLines(add)
 	if ck.Unexplained() {
 		// A measured alarm is never replaced by a calm prediction: the
 		// reason comes first, in full, and no figure is shown as what
@@ -240,6 +226,29 @@ func (p *handoverPanel) results() string {
 		add(s.Hint.Render(o.logNote))
 	}
 	return strings.Join(l, "\n")
+}
+
+// recordLines say which record the check was started from and, until
+// each value of the setting is confirmed or changed at the machine, that
+// it is still the record's; only then whether it was found as recorded.
+func (p *handoverPanel) recordLines(add func(string)) {
+	s, o := p.styles, p.out
+	if o.started == "" {
+		return
+	}
+	add(s.Hint.Render(o.started))
+	switch {
+	case len(o.toConfirm) > 0:
+		// Nobody has looked at the machine yet: nothing here is called
+		// found until each value is confirmed or changed.
+		add(s.Error.Render(strings.ToUpper(o.fromAt[:1]) + o.fromAt[1:] + ": confirm each value at the machine (" +
+			strings.Join(o.toConfirm, ", ") + "): Enter confirms, typing changes"))
+	case len(o.changedFromRecord) == 0:
+		add(s.Label.Render("Found as recorded."))
+	}
+	for _, c := range o.changedFromRecord {
+		add(s.Caution.Render("Found otherwise: " + c))
+	}
 }
 
 // levelLine is the highest level now and proposed, and the dial line.
