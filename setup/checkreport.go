@@ -106,6 +106,9 @@ func (w *reportWriter) checkBody(j CheckJSON) {
 	} else {
 		w.figureTable("THE PATIENT GETS", FigureRows(j.FiguresJSON, propFigures))
 	}
+	if j.TimingCheck != nil {
+		w.watchSection(j.watchToSet(), *j.TimingCheck, WhyNoWatch(j.Unexplained()))
+	}
 	w.cautionList("NOW", j.Cautions)
 	if j.Proposed != nil {
 		label := "PROPOSED"
@@ -114,6 +117,16 @@ func (w *reportWriter) checkBody(j CheckJSON) {
 		}
 		w.cautionList(label, j.Proposed.Cautions)
 	}
+}
+
+// watchToSet is the check's watch band when the current setting has no
+// stop, nil otherwise: no alarm limits are given for a setting not to be
+// used.
+func (j CheckJSON) watchToSet() *WatchJSON {
+	if FirstStop(j.Cautions) != nil {
+		return nil
+	}
+	return j.Watch
 }
 
 // fitRanges prints what the manometer's step allows of the fitted lung,

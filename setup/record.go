@@ -62,6 +62,10 @@ type CheckJSON struct {
 	FitRangeNote          string      `json:"fit_range_note,omitempty"`
 	PatientEffortNote     string      `json:"patient_effort_note,omitempty"`
 	Gas                   *GasJSON    `json:"gas,omitempty"`
+	// What to time to confirm the setting, and the watch band (absent when
+	// no lung explains the readings); older records have neither.
+	TimingCheck *TimingCheck `json:"timing_check,omitempty"`
+	Watch       *WatchJSON   `json:"watch,omitempty"`
 }
 
 // Unexplained reports whether no lung explains the readings: then no
@@ -198,6 +202,12 @@ func (ck Check) JSON() CheckJSON {
 			p.Differences = append(p.Differences, differenceJSON(d, ck.FitProblem != ""))
 		}
 		j.Proposed = p
+	}
+	tc := ck.TimingCheck.JSON()
+	j.TimingCheck = &tc
+	if ck.Watch != nil {
+		w := ck.Watch.JSON()
+		j.Watch = &w
 	}
 	ck.protocolJSON(&j)
 	return j
