@@ -76,6 +76,7 @@ func refusedPaste(controls string) string {
 
 func (p *formPanel) paste(rs []rune) (tea.Cmd, string) {
 	f := p.form.current()
+	f.note = ""
 	if c := pasteControls(rs); c != "" {
 		f.note = refusedPaste(c)
 		return nil, f.note

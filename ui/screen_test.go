@@ -102,6 +102,7 @@ func TestABracketedPasteIsTextOnly(t *testing.T) {
 
 	press(m, tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune("B4"), Paste: true})
 	require.Equal(t, "B4", m.checkField("bed").Value(), "a paste the field can hold goes in")
+	require.Empty(t, m.checkField("bed").note, "the refusal before is gone")
 	press(m, tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune("12345678901234"), Paste: true})
 	require.Equal(t, "B4", m.checkField("bed").Value(), "too long for the field: refused whole")
 
