@@ -732,7 +732,7 @@ func (m *Model) summary() string {
 			if len(m.out.checkWaiting) > 0 {
 				reason = strings.Join(m.out.checkWaiting, "; ")
 			}
-			return m.withLead(s.Waiting.Render("CHECK WAITING for " + reason))
+			return m.waitingLine(s.Waiting.Render("CHECK WAITING for "+reason), s.Waiting.Render("CHECK WAITING for entries: F6 says which"))
 		case ck.Unexplained():
 			return m.withLead(s.Error.Render("Set now: readings unexplained, patient gets NOT KNOWN"))
 		}
@@ -748,7 +748,7 @@ func (m *Model) summary() string {
 		if len(m.out.waiting) > 0 {
 			reason = strings.Join(m.out.waiting, "; ")
 		}
-		return m.withLead(s.Waiting.Render("SETTING WAITING for " + reason))
+		return m.waitingLine(s.Waiting.Render("SETTING WAITING for "+reason), s.Waiting.Render("SETTING WAITING for entries: see beside them"))
 	}
 	return m.withLead(m.strip("Plan: ", pl.Figures, pl.Cautions)...)
 }

@@ -120,3 +120,12 @@ func (m *Model) withLead(rest ...string) string {
 	}
 	return ansi.Truncate(line, m.w, "")
 }
+
+// waitingLine is the status line while figures wait: the reasons in full
+// when they fit after the lead, else where they are said.
+func (m *Model) waitingLine(full, short string) string {
+	if line := m.withLead(full); lipgloss.Width(line) < lipgloss.Width(m.withLead())+lipgloss.Width(full) {
+		return m.withLead(short)
+	}
+	return m.withLead(full)
+}
