@@ -337,16 +337,20 @@ func (ck *Check) judgeGas(g GasReadings) {
 // history line: its gas cautions with their level words and the graded
 // oxygenation index ("gas: WARN low O2 (SpO2 87 %), WARN pH 7.24 low;
 // S/F 414 none"), or "" for a record without a gas or oximeter reading.
-func GasRecordText(r Record) string {
-	if r.GasReadings == nil || r.GasReadings.empty() {
+func GasRecordText(r Record) string { return GasCheckText(r.CheckJSON) }
+
+// GasCheckText is GasRecordText for a check's JSON body, as the screen
+// holds it.
+func GasCheckText(j CheckJSON) string {
+	if j.GasReadings == nil || j.GasReadings.empty() {
 		return ""
 	}
-	words := GasWardWords(r.Cautions)
+	words := GasWardWords(j.Cautions)
 	if words == "" {
 		words = "no gas caution"
 	}
 	out := "gas: " + words
-	if o := OxygenationShort(r.OxygenationJSON); o != "" {
+	if o := OxygenationShort(j.OxygenationJSON); o != "" {
 		out += "; " + o
 	}
 	return out
