@@ -125,6 +125,11 @@ type Check struct {
 	// Ranges are what the manometer's resolution allows of the fit (nil
 	// without readings or when no lung explains them).
 	Ranges *FitRanges
+	// Watch is the current setting's watch band and alarm limits; nil when
+	// no lung explains the readings. TimingCheck is what to time to
+	// confirm the current setting (the machine's timing, whatever the lung).
+	Watch       *Watch
+	TimingCheck TimingCheck
 }
 
 // Unexplained reports whether no lung explains the readings: then none of
@@ -241,6 +246,11 @@ func RunCheck(req CheckRequest, p profiles.Profile) (Check, error) {
 	}
 	if !finiteFigures(ck.Current.Figures) || (ck.Proposed != nil && !finiteFigures(ck.Proposed.Figures)) {
 		return Check{}, &InputError{Field: "setting", Reason: "the model gave no finite figures for this setting"}
+	}
+	ck.TimingCheck = timingCheckOf(ck.Current.Figures)
+	if ck.FitProblem == "" {
+		w := watchOf(ck.Current.Figures, u.p.Circuit.ReliefCmH2O, manometerStep(req), ck.Fitted != nil)
+		ck.Watch = &w
 	}
 	return ck, nil
 }

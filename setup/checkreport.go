@@ -106,6 +106,9 @@ func (w *reportWriter) checkBody(j CheckJSON) {
 	} else {
 		w.figureTable("THE PATIENT GETS", FigureRows(j.FiguresJSON, propFigures))
 	}
+	if j.TimingCheck != nil {
+		w.watchSection(j.watchToSet(), *j.TimingCheck, WhyNoWatch(j.Unexplained()))
+	}
 	w.cautionList("NOW", j.Cautions)
 	if j.Proposed != nil {
 		label := "PROPOSED"
@@ -114,6 +117,16 @@ func (w *reportWriter) checkBody(j CheckJSON) {
 		}
 		w.cautionList(label, j.Proposed.Cautions)
 	}
+}
+
+// watchToSet is the check's watch band when the current setting has no
+// stop, nil otherwise: no alarm limits are given for a setting not to be
+// used.
+func (j CheckJSON) watchToSet() *WatchJSON {
+	if FirstStop(j.Cautions) != nil {
+		return nil
+	}
+	return j.Watch
 }
 
 // fitRanges prints what the manometer's step allows of the fitted lung,
@@ -232,10 +245,7 @@ func WriteCard(w io.Writer, r Record) error {
 	rw := &reportWriter{width: CardWidth}
 	rule := strings.Repeat("=", CardWidth)
 	rw.line("%s", rule)
-	by := r.Initials
-	if by == "" {
-		by = "(initials not given)"
-	}
+	by := checkedBy(r)
 	if r.Unexplained() {
 		rw.line("STOP: READINGS UNEXPLAINED - NOTHING ON THIS CARD IS WHAT THE PATIENT GETS")
 	}
@@ -247,6 +257,9 @@ func WriteCard(w io.Writer, r Record) error {
 	rw.line("Patient %.0f cm %s, PBW %.1f kg (no name or identifier recorded)", r.HeightCm, r.Sex, r.PBWKg)
 	rw.line("%s", rule)
 	rw.checkBody(r.CheckJSON)
+	if l := secondSignatureLine(r); l != "" {
+		rw.line("%s", l)
+	}
 	rw.line("%s", rule)
 	rw.line("%s", ClinicalCaution)
 	_, err := io.WriteString(w, rw.b.String())

@@ -53,6 +53,12 @@ type Plan struct {
 	// Gas is the version 2 breath's room (with the BTPS factor), cylinder
 	// head, leak and relief valve, as used in every stroke of the plan.
 	Gas GasModel
+
+	// Watch is what the manometer should show on this setting and the
+	// alarm limits (on the assumed lung, read to the default manometer
+	// step); TimingCheck is what to time to confirm the setting.
+	Watch       Watch
+	TimingCheck TimingCheck
 }
 
 // MakePlan turns a request into a setting on the machine described by p:
@@ -123,6 +129,8 @@ func MakePlan(req Request, p profiles.Profile) (Plan, error) {
 		timing: &pl.Timing, targetMLPerK: r.mlPerKg.Value, offTargetPct: pl.OffTargetPct,
 		cal: u.cal, ratedTorque: p.Motor.RatedTorqueNm, fixedMotor: p.Motor.Fixed(),
 	})
+	pl.Watch = watchOf(pl.Figures, p.Circuit.ReliefCmH2O, physiology.Value{Value: DefaultManometerStepCmH2O, Source: srcManometerStep}, false)
+	pl.TimingCheck = timingCheckOf(pl.Figures)
 	if err := finite(pl); err != nil {
 		return Plan{}, err
 	}

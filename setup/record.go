@@ -64,6 +64,10 @@ type CheckJSON struct {
 	FitRangeNote          string      `json:"fit_range_note,omitempty"`
 	PatientEffortNote     string      `json:"patient_effort_note,omitempty"`
 	Gas                   *GasJSON    `json:"gas,omitempty"`
+	// What to time to confirm the setting, and the watch band (absent when
+	// no lung explains the readings); older records have neither.
+	TimingCheck *TimingCheck `json:"timing_check,omitempty"`
+	Watch       *WatchJSON   `json:"watch,omitempty"`
 }
 
 // Unexplained reports whether no lung explains the readings: then no
@@ -201,6 +205,12 @@ func (ck Check) JSON() CheckJSON {
 		}
 		j.Proposed = p
 	}
+	tc := ck.TimingCheck.JSON()
+	j.TimingCheck = &tc
+	if ck.Watch != nil {
+		w := ck.Watch.JSON()
+		j.Watch = &w
+	}
 	ck.protocolJSON(&j)
 	return j
 }
@@ -212,6 +222,9 @@ type Record struct {
 	Time     time.Time `json:"time"`
 	Bed      string    `json:"bed"`
 	Initials string    `json:"initials"`
+	// SecondInitials are a second checker's, when a ward double-checks a
+	// change (written only when given).
+	SecondInitials string `json:"second_initials,omitempty"`
 	CheckJSON
 }
 
@@ -221,13 +234,15 @@ type recordHead struct {
 	Time     time.Time `json:"time"`
 	Bed      string    `json:"bed"`
 	Initials string    `json:"initials"`
+	// SecondInitials: see Record.
+	SecondInitials string `json:"second_initials,omitempty"`
 }
 
 // MarshalJSON writes the record's own keys, then the check's as
 // CheckJSON writes them (its MarshalJSON would otherwise stand for the
 // whole record, since the check is embedded).
 func (r Record) MarshalJSON() ([]byte, error) {
-	head, err := json.Marshal(recordHead{Format: r.Format, Time: r.Time, Bed: r.Bed, Initials: r.Initials})
+	head, err := json.Marshal(recordHead{Format: r.Format, Time: r.Time, Bed: r.Bed, Initials: r.Initials, SecondInitials: r.SecondInitials})
 	if err != nil {
 		return nil, err
 	}

@@ -110,6 +110,11 @@ type PlanJSON struct {
 	Cautions        []Caution              `json:"cautions"`
 	ClinicalCaution string                 `json:"clinical_caution"`
 	GasJSON
+	// What to watch and time at the bed (setup/watch.go) and the bedside
+	// checklist (setup/checklist.go).
+	Watch       WatchJSON       `json:"watch"`
+	TimingCheck TimingCheck     `json:"timing_check"`
+	Checklist   []ChecklistItem `json:"checklist"`
 }
 
 // GasJSON is the room and the machine's gas path used by every stroke.
@@ -164,7 +169,18 @@ func (pl Plan) JSON() PlanJSON {
 		},
 		Changes: roundChanges(pl.Changes), Cautions: roundCautions(pl.Cautions), ClinicalCaution: ClinicalCaution,
 		GasJSON: gasJSON(pl.Gas),
+		Watch:   pl.Watch.JSON(), TimingCheck: pl.TimingCheck.JSON(), Checklist: Checklist(pl.watchToSet()),
 	}
+}
+
+// watchToSet is the plan's watch band when its setting may be set, nil
+// with a stop: no alarm limits are given for a setting not to be used.
+func (pl Plan) watchToSet() *WatchJSON {
+	if FirstStop(pl.Cautions) != nil {
+		return nil
+	}
+	w := pl.Watch.JSON()
+	return &w
 }
 
 func roundChanges(cs []Change) []Change {
@@ -229,6 +245,9 @@ func (pl Plan) WriteText(w io.Writer) error {
 	p("  %s\n", DrivingNote)
 	writeGasOutcome(&b, pl.Figures)
 	p("  Exhalation tau %.2f s; torque %.0f%% of the motor's rating\n", pl.TauS, 100*pl.TorqueShareOfRating)
+	rw := &reportWriter{}
+	rw.watchSection(pl.watchToSet(), pl.TimingCheck.JSON(), WhyNoWatch(false))
+	b.WriteString("\n" + rw.b.String())
 	if len(pl.Changes) > 0 {
 		p("\nWHAT THE MACHINE'S STEPS CHANGED\n")
 		for _, c := range pl.Changes {

@@ -238,9 +238,9 @@ func (w *wardReader) rows(now time.Time, every time.Duration) (rows []WardRow, e
 		sort.Slice(cs, func(i, j int) bool { return cs[j].before(cs[i]) })
 		found := false
 		for _, c := range cs {
-			rec, ok := decodeRecord(c.text)
-			if !ok {
-				w.sum.damaged(c.log, c.line, reasonJunk)
+			rec, problem := decodeRecord(c.text)
+			if problem != "" {
+				w.sum.damaged(c.log, c.line, problem)
 				continue
 			}
 			if BedKey(rec.Bed) != bed || !rec.Time.Equal(c.at) {

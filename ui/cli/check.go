@@ -34,8 +34,8 @@ var checkCommand = &Command{
 // checkOptions are the flags a check reads itself: where to record, and
 // how to print.
 type checkOptions struct {
-	profile, dir, bed, initials, logPath func() string
-	asJSON, card                         func() bool
+	profile, dir, bed, initials, second, logPath func() string
+	asJSON, card                                 func() bool
 }
 
 func checkFlagSet() (*flags, checkOptions) {
@@ -73,6 +73,7 @@ func checkFlagSet() (*flags, checkOptions) {
 	o.dir = f.text("profiles", profiles.DefaultDir(), "directory of profile files")
 	o.bed = f.text("bed", "", "bed label for the record, like B4 (never a patient's name)")
 	o.initials = f.text("initials", "", "the checking operator's initials, for the record (recommended)")
+	o.second = f.text("second-initials", "", "a second checker's initials, for a change checked by two (with --initials)")
 	o.logPath = f.text("log", "", "append the check to this log file (one JSON line; with --bed)")
 	o.card = f.boolean("card", "print a handover card (plain text, 80 columns; not with --json)")
 	o.asJSON = f.boolean("json", "print one JSON object")
@@ -83,8 +84,10 @@ func checkFlagSet() (*flags, checkOptions) {
 func (o checkOptions) recordProblem() string {
 	bed, initials, logPath, card := o.bed(), o.initials(), o.logPath(), o.card()
 	switch {
-	case (bed != "" || initials != "") && logPath == "" && !card:
-		return "--bed and --initials are for the record: add --log FILE or --card"
+	case (bed != "" || initials != "" || o.second() != "") && logPath == "" && !card:
+		return "--bed, --initials and --second-initials are for the record: add --log FILE or --card"
+	case o.second() != "" && initials == "":
+		return "--second-initials goes with --initials (the first checker's)"
 	case logPath != "" && bed == "":
 		return "--log needs --bed (a bed label such as B4; never a patient's name)"
 	case card && bed == "":
@@ -98,6 +101,9 @@ func (o checkOptions) recordProblem() string {
 	}
 	if err := setup.CheckInitials(initials); err != nil {
 		return "--initials: " + err.(*setup.InputError).Reason
+	}
+	if err := setup.CheckSecondInitials(o.second()); err != nil {
+		return "--second-initials: " + err.(*setup.InputError).Reason
 	}
 	return ""
 }
@@ -137,7 +143,10 @@ func runCheck(env Env) int {
 	}
 	var rec setup.Record
 	if o.logPath() != "" || o.card() {
-		if rec, err = setup.NewRecord(ck, o.bed(), o.initials(), req.Now); err != nil {
+		if rec, err = setup.NewRecord(ck, o.bed(), o.initials(), req.Now); err == nil {
+			rec, err = rec.WithSecondInitials(o.second())
+		}
+		if err != nil {
 			return UsageError(env.Stderr, "check", err.Error())
 		}
 	}
