@@ -237,18 +237,24 @@ type gasDisagreement struct {
 	spo2Lo, spo2Hi     float64
 }
 
-func disagreementOf(g GasReadings) gasDisagreement {
+func disagreementOf(g GasReadings) gasDisagreement { return disagreementBeyond(g, 0) }
+
+// disagreementBeyond is disagreementOf with each plausible range widened
+// by margin (mmol/L, or points of SpO2): the log's reader uses it, as a
+// record keeps the readings to four decimals and what they imply may
+// move by a hair.
+func disagreementBeyond(g GasReadings, margin float64) gasDisagreement {
 	var d gasDisagreement
 	if g.PH != nil && g.PaCO2MmHg != nil {
 		// The same formula as BicarbonateMmolL, without its range checks:
 		// the entries' own ranges were checked before, and this rule must
 		// judge whatever it is given.
 		d.hco3 = physiology.CO2SolubilityMmolLPerMmHg * *g.PaCO2MmHg * math.Pow(10, *g.PH-physiology.BicarbonatePKa)
-		d.acidBase = below(d.hco3, physiology.BicarbonatePlausibleMinMmolL) || above(d.hco3, physiology.BicarbonatePlausibleMaxMmolL)
+		d.acidBase = below(d.hco3, physiology.BicarbonatePlausibleMinMmolL-margin) || above(d.hco3, physiology.BicarbonatePlausibleMaxMmolL+margin)
 	}
 	if g.SpO2Pct != nil && g.PaO2MmHg != nil {
 		d.spo2Lo, d.spo2Hi = physiology.SpO2RangeForPaO2(*g.PaO2MmHg)
-		d.oximetry = below(*g.SpO2Pct, d.spo2Lo) || above(*g.SpO2Pct, d.spo2Hi)
+		d.oximetry = below(*g.SpO2Pct, d.spo2Lo-margin) || above(*g.SpO2Pct, d.spo2Hi+margin)
 	}
 	return d
 }
@@ -385,4 +391,49 @@ func (r WardRow) gasLevel() Level {
 		}
 	}
 	return l
+}
+
+// recordGasReadings are a record's gas readings as a check's, or false
+// when it has none.
+func recordGasReadings(r *Record) (GasReadings, bool) {
+	j := r.GasReadings
+	if j == nil || j.empty() {
+		return GasReadings{}, false
+	}
+	return GasReadings{SpO2Pct: j.SpO2Pct, PaO2MmHg: j.PaO2MmHg, PH: j.PH, PaCO2MmHg: j.PaCO2MmHg, ApparatusDeadSpaceML: j.ApparatusDeadSpaceML}, true
+}
+
+// gasRecordProblem holds a record's gas readings to the entries' ranges,
+// as the log's reader keeps the writer's rules; "" when they are in them.
+func gasRecordProblem(r *Record) string {
+	g, ok := recordGasReadings(r)
+	if !ok {
+		return ""
+	}
+	if bad := CheckGasEntries(g); len(bad) > 0 {
+		return "gas reading " + bad[0].Error()
+	}
+	return ""
+}
+
+// recordGasCautions are the gas cautions a record's readings call for,
+// for the log's reader: a record whose gas STOP was edited out must not
+// read calm in the ward. oxygenation-high (a note that rests on the FiO2
+// estimate) is left out; a disagreement is called for only when it holds
+// with a margin of 0.01 (see disagreementBeyond).
+func recordGasCautions(r *Record) []Caution {
+	g, ok := recordGasReadings(r)
+	if !ok {
+		return nil
+	}
+	var out []Caution
+	for _, c := range GasCautions(g, GasContext{PEEPCmH2O: r.Setting.PEEPCmH2O}) {
+		if c.ID == "gas-readings-disagree" {
+			if d := disagreementBeyond(g, 0.01); !d.acidBase && !d.oximetry {
+				continue
+			}
+		}
+		out = append(out, Caution{ID: c.ID, Level: c.Level})
+	}
+	return out
 }

@@ -3,6 +3,7 @@ package setup_test
 import (
 	"encoding/json"
 	"path/filepath"
+	"strings"
 	"testing"
 	"time"
 
@@ -161,4 +162,30 @@ func TestTheWardRanksGasCautions(t *testing.T) {
 	}
 	require.Equal(t, []string{"B9", "B2", "B3", "B1"}, order)
 	require.Contains(t, setup.WardLine(rows[0]), "gas: STOP pH 7.10 low")
+}
+
+// The log's reader keeps the writer's gas rules: a record whose gas STOP
+// was edited out, or whose pH was edited outside the entry's range, is
+// damaged, never a calm bed.
+func TestAnEditedGasRecordIsDamaged(t *testing.T) {
+	b4 := recordLine(t, wardRecord(t, "B4", at(9, 0), 21, 0))
+	rec, err := setup.NewRecord(gasCheck(t, setup.Entries{"ph": "7.10", "paco2": "75"}), "B9", "ab", at(10, 0))
+	require.NoError(t, err)
+	ward, _, ws, _ := readBoth(t, b4, recordLine(t, rec))
+	require.Equal(t, []string{"B9", "B4"}, ward, "as written, the record is read")
+	require.Zero(t, ws.Damaged)
+	calm := rec
+	calm.Cautions = nil
+	// ARDS Network protocol card: pH below 7.15 is the severe branch.
+	requireDamaged(t, "its figures call for caution ph-low at stop, the record has none", []string{"B4"}, b4, recordLine(t, calm))
+	// physiology.PHMin = 6.8: the pH entry's range.
+	line := strings.Replace(recordLine(t, rec), `"ph":7.1,`, `"ph":6.5,`, 1)
+	require.Contains(t, line, `"ph":6.5,`)
+	requireDamaged(t, "gas reading ph: pH 6.5 is outside", []string{"B4"}, b4, line)
+	// REFERENCES.md: pH 7.60 with PaCO2 100 -> HCO3 94.9: the disagreement
+	// stop cannot be edited away either.
+	bad, err := setup.NewRecord(gasCheck(t, setup.Entries{"ph": "7.60", "paco2": "100"}), "B9", "ab", at(10, 0))
+	require.NoError(t, err)
+	bad.Cautions = []setup.Caution{{ID: "ph-high", Level: setup.Warn}}
+	requireDamaged(t, "gas-readings-disagree at stop, the record has none", []string{"B4"}, b4, recordLine(t, bad))
 }
