@@ -79,6 +79,9 @@ type CheckRequest struct {
 	// ManometerStepCmH2O is the manometer's resolution (0: DefaultManometerStepCmH2O);
 	// each reading is taken as +/- half a step.
 	ManometerStepCmH2O float64
+	// Converted are the entries typed in the ward's units, echoed by the
+	// check (BuildCheckRequest fills it).
+	Converted []Conversion
 
 	// v1Gas, for tests only (export_test.go): the BTPS factor exactly 1
 	// and the cylinder's gas left out, which with no leak and a relief
@@ -130,6 +133,8 @@ type Check struct {
 	// confirm the current setting (the machine's timing, whatever the lung).
 	Watch       *Watch
 	TimingCheck TimingCheck
+	// Converted are the entries typed in the ward's units.
+	Converted []Conversion
 }
 
 // Unexplained reports whether no lung explains the readings: then none of
@@ -167,6 +172,14 @@ type Difference struct {
 // step (runCheckWithStep): a proposal entered by hand is still the one
 // evaluated, and the check says whether it is the step's.
 func RunCheck(req CheckRequest, p profiles.Profile) (Check, error) {
+	ck, err := runCheck(req, p)
+	if err == nil {
+		ck.Converted = req.Converted
+	}
+	return ck, err
+}
+
+func runCheck(req CheckRequest, p profiles.Profile) (Check, error) {
 	if !req.Gas.Empty() {
 		return runCheckWithStep(req, p)
 	}

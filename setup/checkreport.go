@@ -80,6 +80,9 @@ func (w *reportWriter) checkBody(j CheckJSON) {
 	if s := FirstStop(j.Cautions); s != nil && s.ID != "readings-unexplained" {
 		w.line("%s", StopLine(j.Cautions))
 	}
+	if line := ConversionLine(j.EntriesConverted); line != "" {
+		w.line("ENTERED  %s", line)
+	}
 	w.protocolSection(j)
 	w.settingTable(cur, prop, j.Cautions)
 	if j.Readings != nil {
@@ -252,7 +255,7 @@ func WriteCard(w io.Writer, r Record) error {
 	if s := FirstStop(r.Cautions); s != nil {
 		rw.line("STOP: THIS SETTING IS NOT TO BE USED AS IT IS (%s)", s.ID)
 	}
-	rw.line("HANDOVER CARD  bed %s  %s UTC  checked by %s", r.Bed, r.Time.UTC().Format("2006-01-02 15:04"), by)
+	rw.line("HANDOVER CARD  bed %s  %s  checked by %s", r.Bed, LocalDateTime(r.Time), by)
 	rw.line("Machine %s, calibration %s", r.ProfileID, orNone(r.CalibrationDate))
 	rw.line("Patient %.0f cm %s, PBW %.1f kg (no name or identifier recorded)", r.HeightCm, r.Sex, r.PBWKg)
 	rw.line("%s", rule)

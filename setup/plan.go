@@ -59,6 +59,8 @@ type Plan struct {
 	// step); TimingCheck is what to time to confirm the setting.
 	Watch       Watch
 	TimingCheck TimingCheck
+	// Converted are the entries typed in the ward's units.
+	Converted []Conversion
 }
 
 // MakePlan turns a request into a setting on the machine described by p:
@@ -98,7 +100,7 @@ func MakePlan(req Request, p profiles.Profile) (Plan, error) {
 		Patient: req.Patient, ProfileID: p.ID, ProfileLabel: p.Label, Calibration: u.cal,
 		Lung: r.lung, MLPerKg: r.mlPerKg, Rate: r.rate, IE: r.ie, PEEP: r.peep, FiO2: r.fio2,
 		Compliance: r.compliance, Resistance: r.resistance, PEEPTable: r.table,
-		PBWKg: pbw, TargetVtML: targetML,
+		PBWKg: pbw, TargetVtML: targetML, Converted: req.Converted,
 	}
 	ls := lungState{
 		lung:  machine.Lung{ComplianceMLPerCmH2O: r.compliance.Value, ResistanceCmH2OPerLS: r.resistance.Value},

@@ -68,6 +68,9 @@ type CheckJSON struct {
 	// no lung explains the readings); older records have neither.
 	TimingCheck *TimingCheck `json:"timing_check,omitempty"`
 	Watch       *WatchJSON   `json:"watch,omitempty"`
+	// EntriesConverted are the entries typed in the ward's units and what
+	// each was read as (absent when all were in the tool's own).
+	EntriesConverted []Conversion `json:"entries_converted,omitempty"`
 }
 
 // Unexplained reports whether no lung explains the readings: then no
@@ -174,7 +177,7 @@ func evaluationJSON(e Evaluation) EvaluationJSON {
 // JSON is the check as the --json object.
 func (ck Check) JSON() CheckJSON {
 	j := CheckJSON{
-		ProfileID: ck.ProfileID, CalibrationDate: ck.Calibration.Date,
+		ProfileID: ck.ProfileID, CalibrationDate: ck.Calibration.Date, EntriesConverted: ck.Converted,
 		HeightCm: r4(ck.Patient.HeightCm), Sex: ck.Patient.Sex.String(), PBWKg: r4(ck.PBWKg),
 		Setting: ck.Current.Setting, FitProblem: ck.FitProblem, MechanicsSource: ck.Mechanics.Source,
 		EvaluationJSON: evaluationJSON(ck.Current), ClinicalCaution: ClinicalCaution,

@@ -115,6 +115,9 @@ type PlanJSON struct {
 	Watch       WatchJSON       `json:"watch"`
 	TimingCheck TimingCheck     `json:"timing_check"`
 	Checklist   []ChecklistItem `json:"checklist"`
+	// EntriesConverted are the entries typed in the ward's units and what
+	// each was read as; absent when every entry was in the tool's units.
+	EntriesConverted []Conversion `json:"entries_converted,omitempty"`
 }
 
 // GasJSON is the room and the machine's gas path used by every stroke.
@@ -168,8 +171,8 @@ func (pl Plan) JSON() PlanJSON {
 			"resistance_cmh2o_per_l_s": {r4(pl.Resistance.Value), pl.Resistance.Source},
 		},
 		Changes: roundChanges(pl.Changes), Cautions: roundCautions(pl.Cautions), ClinicalCaution: ClinicalCaution,
-		GasJSON: gasJSON(pl.Gas),
-		Watch:   pl.Watch.JSON(), TimingCheck: pl.TimingCheck.JSON(), Checklist: Checklist(pl.watchToSet()),
+		GasJSON: gasJSON(pl.Gas), EntriesConverted: pl.Converted,
+		Watch: pl.Watch.JSON(), TimingCheck: pl.TimingCheck.JSON(), Checklist: Checklist(pl.watchToSet()),
 	}
 }
 
@@ -214,6 +217,9 @@ func (pl Plan) WriteText(w io.Writer) error {
 	p("Target    %.1f mL/kg PBW = %.0f mL, rate %.0f /min, I:E 1:%.1f, PEEP %.0f cmH2O, FiO2 %.2f\n",
 		pl.MLPerKg.Value, pl.TargetVtML, pl.Rate.Value, pl.IE.Value, pl.PEEP.Value, pl.FiO2.Value)
 	p("Lung      C %.0f mL/cmH2O (%s), R %.0f cmH2O/(L/s) (%s)\n", pl.Compliance.Value, pl.Compliance.Source, pl.Resistance.Value, pl.Resistance.Source)
+	if line := ConversionLine(pl.Converted); line != "" {
+		p("Entered   %s\n", line)
+	}
 	writeGas(&b, pl.Gas)
 	if line := StopLine(pl.Cautions); line != "" {
 		p("\n%s", line)

@@ -330,7 +330,7 @@ func WardLine(r WardRow) string {
 	case r.AgeMinutes >= 120:
 		age = fmt.Sprintf("%.1f h ago", r.AgeMinutes/60)
 	}
-	line := fmt.Sprintf("%-8s %s UTC (%s)  %s %s", r.Bed, r.CheckedAt.UTC().Format("01-02 15:04"), age, r.ProfileID,
+	line := fmt.Sprintf("%-8s %s (%s)  %s %s", r.Bed, LocalShort(r.CheckedAt), age, r.ProfileID,
 		settingText(Setting{Hole: r.Hole, RPM: r.MotorRPM, DwellS: r.DwellS, PEEPCmH2O: r.PEEPCmH2O}))
 	switch {
 	case r.Record.Unexplained() && r.HighestLevel == Stop:
