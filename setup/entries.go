@@ -93,8 +93,11 @@ var checkSpecs = []EntrySpec{
 	{Name: "compliance", Label: "Compliance", Unit: "mL/cmH2O", ZeroIsDefault: true},
 	{Name: "resistance", Label: "Resistance", Unit: "cmH2O/(L/s)", ZeroIsDefault: true},
 	{Name: "hole", Label: "Hole", Kind: kindText, Required: true},
-	{Name: "rpm", Label: "Motor speed", Unit: "rpm", Required: true},
-	{Name: "dwell-s", Label: "Dwell", Unit: "s", Required: true},
+	{Name: "rpm", Label: "Motor speed", Unit: "rpm"},
+	{Name: "turn-s", Label: "One turn timed", Unit: "s", ZeroIsDefault: true},
+	{Name: "dwell-s", Label: "Dwell", Unit: "s"},
+	{Name: "pause-s", Label: "Pause timed", Unit: "s"},
+	{Name: "breaths-per-min", Label: "Breaths counted", Unit: "/min", ZeroIsDefault: true},
 	{Name: "peep", Label: "PEEP valve", Unit: "cmH2O"},
 	{Name: "o2-lpm", Label: "O2 flow", Unit: "L/min"},
 	{Name: "peak", Label: "Peak reading", Unit: "cmH2O"},
@@ -339,8 +342,7 @@ func BuildCheckRequest(e Entries, now time.Time) (CheckRequest, Problems) {
 	if req.Setting.Hole == "" {
 		r.missing("hole", "required: the hole the pin is in")
 	}
-	req.Setting.RPM, _ = r.number("rpm")
-	req.Setting.DwellS, _ = r.number("dwell-s")
+	r.timing(&req.Setting)
 	req.Setting.PEEPCmH2O = DefaultPEEPCmH2O
 	if v, ok := r.number("peep"); ok {
 		req.Setting.PEEPCmH2O = v
@@ -412,8 +414,18 @@ func Hint(name string, lung physiology.Lung) string {
 		return def(d.Compliance, "%g mL/cmH2O")
 	case "resistance":
 		return def(d.Resistance, "%g cmH2O/(L/s)")
-	case "hole", "rpm", "dwell-s":
+	case "hole":
 		return "required: as set on the machine"
+	case "rpm":
+		return "required: as set, or time one turn (turn-s)"
+	case "dwell-s":
+		return "required: as set, or time the pause (pause-s) or count breaths (breaths-per-min)"
+	case "turn-s":
+		return "seconds for one turn, timed: in place of rpm"
+	case "pause-s":
+		return "seconds of the pause after a turn, timed: in place of dwell-s"
+	case "breaths-per-min":
+		return "breaths counted in one minute, with the turn: in place of dwell-s"
 	case "peak", "end-pressure":
 		return "optional: both readings, or neither"
 	case "o2-lpm":
@@ -457,6 +469,21 @@ func RecordEntries(r Record) Entries {
 		"height-cm": num(r.HeightCm), "sex": r.Sex, "bed": r.Bed,
 		"hole": r.Setting.Hole, "rpm": num(r.Setting.RPM), "dwell-s": num(r.Setting.DwellS),
 		"peep": num(r.Setting.PEEPCmH2O),
+	}
+	// A timed setting starts the next check from what was timed, not from
+	// a speed no dial shows.
+	if m := r.Setting.Measured; m != nil {
+		for name, v := range map[string]*float64{"turn-s": m.TurnS, "pause-s": m.PauseS, "breaths-per-min": m.BreathsPerMin} {
+			if v != nil {
+				e[name] = num(*v)
+			}
+		}
+		if m.TurnS != nil {
+			delete(e, "rpm")
+		}
+		if m.PauseS != nil || m.BreathsPerMin != nil {
+			delete(e, "dwell-s")
+		}
 	}
 	if r.Setting.O2LPerMin != 0 {
 		e["o2-lpm"] = num(r.Setting.O2LPerMin)
