@@ -27,7 +27,7 @@ func gasCheck(t *testing.T, gas setup.Entries) setup.Check {
 	return ck
 }
 
-func cautionOf(cs []setup.Caution, id string) *setup.Caution {
+func gasCautionOf(cs []setup.Caution, id string) *setup.Caution {
 	for i := range cs {
 		if cs[i].ID == id {
 			return &cs[i]
@@ -42,11 +42,11 @@ func cautionOf(cs []setup.Caution, id string) *setup.Caution {
 // it reads back in the history and the ward, text and JSON.
 func TestABadGasIsAStopInTheRecordTheHistoryAndTheWard(t *testing.T) {
 	ck := gasCheck(t, setup.Entries{"ph": "7.60", "paco2": "100", "spo2": "93"})
-	c := cautionOf(ck.Current.Cautions, "gas-readings-disagree")
+	c := gasCautionOf(ck.Current.Cautions, "gas-readings-disagree")
 	require.NotNil(t, c)
 	require.Equal(t, setup.Stop, c.Level)
 	require.Equal(t, setup.Stop, ck.Current.Cautions[0].Level, "most serious first")
-	require.NotNil(t, cautionOf(ck.Current.Cautions, "ph-high"), "pH 7.60 is above 7.45 (ARDSNet), judged on its own")
+	require.NotNil(t, gasCautionOf(ck.Current.Cautions, "ph-high"), "pH 7.60 is above 7.45 (ARDSNet), judged on its own")
 	require.NotNil(t, ck.Protocol, "the SpO2 is still read")
 	require.Nil(t, ck.Protocol.Readings.PH, "the pH is refused")
 	require.Contains(t, ck.Protocol.Notes, "the gas readings disagree (gas-readings-disagree): pH and PaCO2 not used by the step")
@@ -108,7 +108,7 @@ func TestOnlyADisagreeingPairGivesNoStep(t *testing.T) {
 	require.Nil(t, ck.Protocol)
 	require.Contains(t, ck.ProtocolProblem, "no protocol step: the gas readings disagree")
 	require.Nil(t, ck.Proposed, "no step, no proposal")
-	require.NotNil(t, cautionOf(ck.Current.Cautions, "gas-readings-disagree"))
+	require.NotNil(t, gasCautionOf(ck.Current.Cautions, "gas-readings-disagree"))
 }
 
 // The case: SpO2 87 %, pH 7.24, PaCO2 61 mmHg at room air.
@@ -117,9 +117,9 @@ func TestOnlyADisagreeingPairGivesNoStep(t *testing.T) {
 // 87 / 0.21 = 414.3 -> 414, above 315: none (Rice 2007).
 func TestTheHypoxicAcidoticBedSaysSo(t *testing.T) {
 	ck := gasCheck(t, setup.Entries{"spo2": "87", "ph": "7.24", "paco2": "61"})
-	require.Equal(t, setup.Warn, cautionOf(ck.Current.Cautions, "oxygenation-low").Level)
-	require.Equal(t, setup.Warn, cautionOf(ck.Current.Cautions, "ph-low").Level)
-	require.Nil(t, cautionOf(ck.Current.Cautions, "gas-readings-disagree"))
+	require.Equal(t, setup.Warn, gasCautionOf(ck.Current.Cautions, "oxygenation-low").Level)
+	require.Equal(t, setup.Warn, gasCautionOf(ck.Current.Cautions, "ph-low").Level)
+	require.Nil(t, gasCautionOf(ck.Current.Cautions, "gas-readings-disagree"))
 	j := ck.JSON()
 	require.Equal(t, 414.0, *j.SFRatio)
 	require.Nil(t, j.PFRatio)
