@@ -121,8 +121,8 @@ func (w *reportWriter) checkBody(j CheckJSON) {
 func (w *reportWriter) fitRanges(j CheckJSON) {
 	if j.FittedComplianceRange != nil && j.ManometerStepCmH2O != nil {
 		c, r, v := j.FittedComplianceRange, j.FittedResistanceRange, j.DeliveredVtRangeML
-		w.line("  readings +/- half the manometer's %s cmH2O step allow C %s-%s, R %s-%s, tidal volume %.0f-%.0f mL (BTPS)",
-			plain(*j.ManometerStepCmH2O), sig2(c[0]), sig2(c[1]), sig2(r[0]), sig2(r[1]), v[0], v[1])
+		w.line("  readings +/- half the manometer's %s cmH2O step allow C %s, R %s, tidal volume %s mL (BTPS), %s",
+			plain(*j.ManometerStepCmH2O), jsonRangeText(c, sig2), jsonRangeText(r, sig2), jsonRangeText(v, func(x float64) string { return fmt.Sprintf("%.0f", x) }), FitRangeLabel)
 	}
 	if j.FitRangeNote != "" {
 		w.line("  %s", j.FitRangeNote)
@@ -130,6 +130,20 @@ func (w *reportWriter) fitRanges(j CheckJSON) {
 	if j.PatientEffortNote != "" {
 		w.line("  %s", j.PatientEffortNote)
 	}
+}
+
+// jsonRangeText prints a JSON range, a null end as "open".
+func jsonRangeText(r *[2]*float64, format func(float64) string) string {
+	var v [2]float64
+	var open [2]bool
+	for i, x := range r {
+		if x == nil {
+			open[i] = true
+		} else {
+			v[i] = *x
+		}
+	}
+	return rangeText(v, open, format)
 }
 
 // lungFreeRows are the figures the machine's timing alone sets.

@@ -54,14 +54,15 @@ type CheckJSON struct {
 	ProposalFrom       string            `json:"proposal_from,omitempty"`
 	ClinicalCaution    string            `json:"clinical_caution"`
 	// Version 2: what the manometer's resolution allows of the fit, each
-	// [low, high] (null without a fit), and the room and gas path.
-	ManometerStepCmH2O    *float64    `json:"manometer_step_cmh2o,omitempty"`
-	FittedComplianceRange *[2]float64 `json:"fitted_compliance_range"`
-	FittedResistanceRange *[2]float64 `json:"fitted_resistance_range"`
-	DeliveredVtRangeML    *[2]float64 `json:"delivered_vt_range_ml"`
-	FitRangeNote          string      `json:"fit_range_note,omitempty"`
-	PatientEffortNote     string      `json:"patient_effort_note,omitempty"`
-	Gas                   *GasJSON    `json:"gas,omitempty"`
+	// [low, high] (null without a fit; an end null when the range is open
+	// on that side, said in FitRangeNote), and the room and gas path.
+	ManometerStepCmH2O    *float64     `json:"manometer_step_cmh2o,omitempty"`
+	FittedComplianceRange *[2]*float64 `json:"fitted_compliance_range"`
+	FittedResistanceRange *[2]*float64 `json:"fitted_resistance_range"`
+	DeliveredVtRangeML    *[2]*float64 `json:"delivered_vt_range_ml"`
+	FitRangeNote          string       `json:"fit_range_note,omitempty"`
+	PatientEffortNote     string       `json:"patient_effort_note,omitempty"`
+	Gas                   *GasJSON     `json:"gas,omitempty"`
 }
 
 // Unexplained reports whether no lung explains the readings: then no
@@ -183,10 +184,9 @@ func (ck Check) JSON() CheckJSON {
 	}
 	if fr := ck.Ranges; fr != nil {
 		step := r4(fr.StepCmH2O.Value)
-		round := func(v [2]float64) *[2]float64 { return &[2]float64{r4(v[0]), r4(v[1])} }
 		j.ManometerStepCmH2O = &step
-		j.FittedComplianceRange, j.FittedResistanceRange = round(fr.ComplianceMLPerCmH2O), round(fr.ResistanceCmH2OPerLS)
-		j.DeliveredVtRangeML, j.FitRangeNote = round(fr.DeliveredML), fr.Note()
+		j.FittedComplianceRange, j.FittedResistanceRange = rangeJSON(fr.ComplianceMLPerCmH2O, fr.OpenC), rangeJSON(fr.ResistanceCmH2OPerLS, fr.OpenR)
+		j.DeliveredVtRangeML, j.FitRangeNote = rangeJSON(fr.DeliveredML, fr.OpenVt), fr.Note()
 	}
 	if ck.Gas.Room.BTPSFactor > 0 {
 		g := gasJSON(ck.Gas)
@@ -201,6 +201,18 @@ func (ck Check) JSON() CheckJSON {
 	}
 	ck.protocolJSON(&j)
 	return j
+}
+
+// rangeJSON is a range with an open end as null.
+func rangeJSON(v [2]float64, open [2]bool) *[2]*float64 {
+	var out [2]*float64
+	for i := range v {
+		if !open[i] {
+			x := r4(v[i])
+			out[i] = &x
+		}
+	}
+	return &out
 }
 
 // Record is one handover check as kept in the log: a bed label and the

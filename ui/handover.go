@@ -253,9 +253,8 @@ func (p *handoverPanel) fitLines(add func(string), ck *setup.Check) {
 	}
 	add(s.Section.Render("HOW SURE THE FITTED LUNG IS"))
 	if r := ck.Ranges; r != nil {
-		add(s.Label.Render(fmt.Sprintf("readings +/- %g/2 cmH2O: ", r.StepCmH2O.Value)) + s.Value.Render(fmt.Sprintf(
-			"C %.0f-%.0f, R %.0f-%.0f, Vt %.0f-%.0f mL (%.1f-%.1f mL/kg)", r.ComplianceMLPerCmH2O[0], r.ComplianceMLPerCmH2O[1],
-			r.ResistanceCmH2OPerLS[0], r.ResistanceCmH2OPerLS[1], r.DeliveredML[0], r.DeliveredML[1], r.MLPerKg[0], r.MLPerKg[1])))
+		add(s.Label.Render(fmt.Sprintf("readings +/- %g/2 cmH2O: ", r.StepCmH2O.Value)) + s.Value.Render(r.Text()) +
+			s.Hint.Render(", "+setup.FitRangeLabel))
 		if n := r.Note(); n != "" {
 			add(s.Hint.Render(n))
 		}
