@@ -45,6 +45,10 @@ type Mechanics struct {
 	// the resistance is the one given, not fitted, because the peak told
 	// nothing (it sat at the relief pressure).
 	EndOnly bool
+	// RAtLeast marks, with EndOnly, a resistance that is the least for
+	// which the model's peak reaches the relief pressure: the real one may
+	// be higher (set by the caller that fitted at the relief pressure).
+	RAtLeast bool
 }
 
 // FitTolCmH2O is how closely a fit must reproduce each reading: a
@@ -211,7 +215,7 @@ func (s fitter) newton(lc, lr float64) (Mechanics, bool, error) {
 	for it := 1; it <= 30; it++ {
 		norm := math.Hypot(f1, f2)
 		if norm < 1e-6 {
-			return Mechanics{math.Exp(lc), math.Exp(lr), it, false}, true, nil
+			return Mechanics{ComplianceMLPerCmH2O: math.Exp(lc), ResistanceCmH2OPerLS: math.Exp(lr), Iterations: it}, true, nil
 		}
 		// Difference inward at the box's upper edges.
 		hc, hr := h, h
@@ -250,7 +254,7 @@ func (s fitter) newton(lc, lr float64) (Mechanics, bool, error) {
 		}
 	}
 	if math.Abs(f1) < FitTolCmH2O && math.Abs(f2) < FitTolCmH2O {
-		return Mechanics{math.Exp(lc), math.Exp(lr), 30, false}, true, nil
+		return Mechanics{ComplianceMLPerCmH2O: math.Exp(lc), ResistanceCmH2OPerLS: math.Exp(lr), Iterations: 30}, true, nil
 	}
 	return Mechanics{}, false, nil
 }
@@ -336,7 +340,7 @@ func (s fitter) bracketed() (Mechanics, error) {
 			"no compliance and resistance reproduce peak %.1f and end %.1f cmH2O at this setting (closest C %.0f mL/cmH2O, R %.0f cmH2O/(L/s))",
 			s.rd.PeakCmH2O, s.rd.EndCmH2O, math.Exp(lc), math.Exp(lr))}
 	}
-	return Mechanics{math.Exp(lc), math.Exp(lr), n, false}, nil
+	return Mechanics{ComplianceMLPerCmH2O: math.Exp(lc), ResistanceCmH2OPerLS: math.Exp(lr), Iterations: n}, nil
 }
 
 // complianceError says that the readings need a compliance outside the

@@ -203,8 +203,7 @@ func RunCheck(req CheckRequest, p profiles.Profile) (Check, error) {
 			ck.FitProblem = err.Error()
 		default:
 			ck.Fitted = &m
-			ck.Mechanics = physiology.Value{Value: m.ComplianceMLPerCmH2O, Source: "fitted to the manometer readings"}
-			ck.Resistance = physiology.Value{Value: m.ResistanceCmH2OPerLS, Source: "fitted to the manometer readings"}
+			ck.Mechanics, ck.Resistance = fittedValues(m, r.resistance)
 		}
 	}
 	lung := machine.Lung{ComplianceMLPerCmH2O: ck.Mechanics.Value, ResistanceCmH2OPerLS: ck.Resistance.Value}
@@ -220,6 +219,7 @@ func RunCheck(req CheckRequest, p profiles.Profile) (Check, error) {
 		ck.Current.Cautions = append(ck.Current.Cautions, rangeCautions(ck.Ranges, ck.Current.Figures, pbw)...)
 	}
 	ck.Current.Cautions = checkCautions(req.Readings, cur.PEEPCmH2O, u.p.Circuit.ReliefCmH2O, ck.FitProblem, ck.Current.Cautions)
+	ck.Current.Cautions = withFitCautions(ck, req, u.p.Circuit.ReliefCmH2O)
 	if !req.Proposal.Empty() {
 		next := req.Proposal.Apply(cur)
 		if err := checkSetting(u, next, "propose-"); err != nil {

@@ -86,6 +86,14 @@ func (w *reportWriter) checkBody(j CheckJSON) {
 		w.line("MANOMETER  peak %.1f cmH2O, end of inspiration %.1f cmH2O", j.Readings.PeakCmH2O, j.Readings.EndCmH2O)
 	}
 	switch {
+	case j.FittedResistanceAtLeast != nil:
+		w.line("LUNG (fitted to the end pressure: the peak is at the relief valve)  C %s mL/cmH2O; R at least %s cmH2O/(L/s) (the peak cannot tell more)",
+			sig2(*j.FittedComplianceMLPerCmH2O), sig2(*j.FittedResistanceAtLeast))
+		w.fitRanges(j)
+	case j.FittedComplianceMLPerCmH2O != nil && j.FittedResistanceCmH2OPerLS == nil:
+		w.line("LUNG (fitted to the end pressure alone: the peak is at the relief valve and cannot tell R)  C %s mL/cmH2O; R %s cmH2O/(L/s) assumed (the peak cannot tell it)",
+			sig2(*j.FittedComplianceMLPerCmH2O), sig2(j.ResistanceCmH2OPerLS))
+		w.fitRanges(j)
 	case j.FittedComplianceMLPerCmH2O != nil:
 		w.line("LUNG (fitted)  C %s mL/cmH2O, R %s cmH2O/(L/s)", sig2(*j.FittedComplianceMLPerCmH2O), sig2(*j.FittedResistanceCmH2OPerLS))
 		w.fitRanges(j)
@@ -104,7 +112,7 @@ func (w *reportWriter) checkBody(j CheckJSON) {
 	if j.Unexplained() {
 		w.unexplainedFigures(j.FiguresJSON, propFigures)
 	} else {
-		w.figureTable("THE PATIENT GETS", FigureRows(j.FiguresJSON, propFigures))
+		w.figureTable(j.PatientGetsHeading(), FigureRows(j.FiguresJSON, propFigures))
 	}
 	w.cautionList("NOW", j.Cautions)
 	if j.Proposed != nil {
@@ -130,6 +138,23 @@ func (w *reportWriter) fitRanges(j CheckJSON) {
 	if j.PatientEffortNote != "" {
 		w.line("  %s", j.PatientEffortNote)
 	}
+}
+
+// PatientGetsHeading heads the current figures: what the patient gets, or,
+// when the volumes are upper bounds, that and why.
+func (j CheckJSON) PatientGetsHeading() string {
+	if j.VolumeUpperBound {
+		return "AT MOST (UPPER BOUNDS: " + j.VolumeNote + ")"
+	}
+	return "THE PATIENT GETS"
+}
+
+// PatientGetsShort is PatientGetsHeading for a screen's table column.
+func (j CheckJSON) PatientGetsShort() string {
+	if j.VolumeUpperBound {
+		return "AT MOST"
+	}
+	return "PATIENT GETS"
 }
 
 // jsonRangeText prints a JSON range, a null end as "open".
@@ -255,6 +280,9 @@ func WriteCard(w io.Writer, r Record) error {
 	}
 	if s := FirstStop(r.Cautions); s != nil {
 		rw.line("STOP: THIS SETTING IS NOT TO BE USED AS IT IS (%s)", s.ID)
+	}
+	if r.VolumeUpperBound {
+		rw.line("THE VOLUMES ON THIS CARD ARE UPPER BOUNDS, NOT WHAT THE PATIENT GETS")
 	}
 	rw.line("HANDOVER CARD  bed %s  %s UTC  checked by %s", r.Bed, r.Time.UTC().Format("2006-01-02 15:04"), by)
 	rw.line("Machine %s, calibration %s", r.ProfileID, orNone(r.CalibrationDate))

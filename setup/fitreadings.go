@@ -3,6 +3,7 @@ package setup
 import (
 	"fmt"
 	"math"
+	"sort"
 
 	"crankside/machine"
 	"crankside/physiology"
@@ -53,9 +54,68 @@ func (rf readingsFit) fit(rd physiology.Readings, near *physiology.Mechanics) (p
 		return physiology.Mechanics{}, &physiology.ReadingError{Retake: "peak", Reason: fmt.Sprintf(
 			"peak %.1f cmH2O is above this machine's relief valve at %s cmH2O: the valve vents above it, so no lung gives that reading", rd.PeakCmH2O, plain(relief))}
 	case PeakAtRelief(rd.PeakCmH2O, relief, rf.halfStep) && !(rd.EndCmH2O > rd.PeakCmH2O):
-		return physiology.FitComplianceFromEnd(rd.EndCmH2O, rf.s.PEEPCmH2O, rf.assumedR, model)
+		return rf.fitAtRelief(rd, relief, near, model)
 	case near != nil:
 		return physiology.FitMechanicsNear(rd, rf.s.PEEPCmH2O, *near, model)
 	}
 	return physiology.FitMechanics(rd, rf.s.PEEPCmH2O, model)
+}
+
+// reliefMarginCmH2O is how far under the relief pressure a fit at the
+// relief aims the peak: the model's peak never exceeds the relief, and
+// 0.01 cmH2O is far below any manometer's step (derived).
+const reliefMarginCmH2O = 0.01
+
+// fitAtRelief fits a breath whose peak sat at the relief valve: the end
+// pressure still tells the compliance; the peak tells only that the
+// resistance is at least the one that brings the model's peak to the
+// relief pressure (RAtLeast). When no lung reaches it, the compliance is
+// fitted to the end pressure at the assumed resistance.
+func (rf readingsFit) fitAtRelief(rd physiology.Readings, relief float64, near *physiology.Mechanics, model physiology.PressureModel) (physiology.Mechanics, error) {
+	at := physiology.Readings{PeakCmH2O: relief - reliefMarginCmH2O, EndCmH2O: rd.EndCmH2O}
+	var m physiology.Mechanics
+	var err error
+	if near != nil {
+		m, err = physiology.FitMechanicsNear(at, rf.s.PEEPCmH2O, *near, model)
+	} else {
+		m, err = physiology.FitMechanics(at, rf.s.PEEPCmH2O, model)
+	}
+	if err == nil {
+		m.EndOnly, m.RAtLeast = true, true
+		return m, nil
+	}
+	return physiology.FitComplianceFromEnd(rd.EndCmH2O, rf.s.PEEPCmH2O, rf.assumedR, model)
+}
+
+// Where a fitted lung's figures come from.
+const (
+	srcFitted        = "fitted to the manometer readings"
+	srcFittedEndOnly = "fitted to the end pressure alone (the peak is at the relief valve)"
+)
+
+// fittedValues are a fit's compliance and resistance with their sources:
+// a fit to the end pressure alone keeps the assumed resistance, said so.
+func fittedValues(m physiology.Mechanics, assumedR physiology.Value) (physiology.Value, physiology.Value) {
+	if m.RAtLeast {
+		return physiology.Value{Value: m.ComplianceMLPerCmH2O, Source: srcFittedEndOnly},
+			physiology.Value{Value: m.ResistanceCmH2OPerLS, Source: "at least this: the least resistance that brings the peak to the relief valve; the peak cannot tell more"}
+	}
+	if m.EndOnly {
+		return physiology.Value{Value: m.ComplianceMLPerCmH2O, Source: srcFittedEndOnly},
+			physiology.Value{Value: assumedR.Value, Source: "assumed, " + assumedR.Source + ": the peak at the relief valve cannot tell it"}
+	}
+	return physiology.Value{Value: m.ComplianceMLPerCmH2O, Source: srcFitted}, physiology.Value{Value: m.ResistanceCmH2OPerLS, Source: srcFitted}
+}
+
+// withFitCautions adds what the fit says (fitCautions) to the check's
+// current cautions, most serious first, the readings' own order kept.
+func withFitCautions(ck Check, req CheckRequest, reliefCmH2O float64) []Caution {
+	step := manometerStep(req)
+	add := fitCautions(ck.Readings, ck.Fitted, reliefCmH2O, step.Value/2, ck.Current.Figures.Hole.DeliveredML, step)
+	if len(add) == 0 {
+		return ck.Current.Cautions
+	}
+	out := append(add, ck.Current.Cautions...)
+	sort.SliceStable(out, func(i, j int) bool { return out[i].Level > out[j].Level })
+	return out
 }

@@ -55,8 +55,11 @@ const FitRangeLabel = "from the manometer's step alone (the gauge's own error is
 // open, or is "".
 func (fr FitRanges) Note() string {
 	var parts []string
-	if fr.EndOnly {
+	switch {
+	case fr.EndOnly && fr.OpenR[0]:
 		parts = append(parts, "the peak is at the relief valve and tells nothing of the resistance: it is assumed, and its range is open on both sides")
+	case fr.EndOnly:
+		parts = append(parts, "the peak is at the relief valve: the resistance is at least the one shown, and its range is open above")
 	}
 	if len(fr.Skipped) > 0 {
 		parts = append(parts, fmt.Sprintf("no lung explains the readings at %s (within the manometer's step): the ranges are open on the side%s shown as 'open'",
@@ -125,7 +128,7 @@ func fitRanges(rf readingsFit, rd physiology.Readings, m physiology.Mechanics, r
 	peaks := []float64{-half, half}
 	if m.EndOnly {
 		peaks = []float64{0}
-		fr.OpenR = [2]bool{true, true}
+		fr.OpenR = [2]bool{!m.RAtLeast, true}
 	}
 	for _, dp := range peaks {
 		for _, de := range []float64{-half, half} {

@@ -40,7 +40,19 @@ type CheckJSON struct {
 	FittedComplianceMLPerCmH2O *float64 `json:"fitted_compliance_ml_per_cmh2o"`
 	FittedResistanceCmH2OPerLS *float64 `json:"fitted_resistance_cmh2o_per_l_s"`
 	FitProblem                 string   `json:"fit_problem,omitempty"`
-	MechanicsSource            string   `json:"mechanics_source"`
+	// FitEndOnly: the fit is to the end pressure alone (the peak sat at
+	// the relief valve), so there is no fitted resistance (null).
+	FitEndOnly bool `json:"fit_end_only,omitempty"`
+	// FittedResistanceAtLeast: with FitEndOnly, the least resistance that
+	// brings the model's peak to the relief valve (the real one may be
+	// higher); null when the resistance is assumed.
+	FittedResistanceAtLeast *float64 `json:"fitted_resistance_at_least_cmh2o_per_l_s,omitempty"`
+	// VolumeUpperBound: the readings suggest a leak (readings-suggest-leak)
+	// or the peak sat at the relief valve, so the volumes are upper bounds,
+	// never what the patient gets; VolumeNote says why in a sentence.
+	VolumeUpperBound bool   `json:"delivered_vt_is_upper_bound,omitempty"`
+	VolumeNote       string `json:"volume_note,omitempty"`
+	MechanicsSource  string `json:"mechanics_source"`
 	EvaluationJSON
 	Proposed *ProposedJSON `json:"proposed,omitempty"`
 	// The blood gas and oximeter, and the protocol's next step they led
@@ -179,7 +191,17 @@ func (ck Check) JSON() CheckJSON {
 	}
 	if ck.Fitted != nil {
 		c, r := r4(ck.Fitted.ComplianceMLPerCmH2O), r4(ck.Fitted.ResistanceCmH2OPerLS)
-		j.FittedComplianceMLPerCmH2O, j.FittedResistanceCmH2OPerLS = &c, &r
+		j.FittedComplianceMLPerCmH2O = &c
+		switch {
+		case ck.Fitted.RAtLeast:
+			j.FittedResistanceAtLeast = &r
+		case !ck.Fitted.EndOnly:
+			j.FittedResistanceCmH2OPerLS = &r
+		}
+		j.FitEndOnly = ck.Fitted.EndOnly
+		if n := ck.VolumeBoundNote(); n != "" {
+			j.VolumeUpperBound, j.VolumeNote = true, n
+		}
 		j.PatientEffortNote = PatientEffortNote
 	}
 	if fr := ck.Ranges; fr != nil {

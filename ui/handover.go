@@ -235,6 +235,8 @@ func (p *handoverPanel) lungLine(add func(string), ck *setup.Check) {
 	s := p.styles
 	lung := fmt.Sprintf("C %.0f mL/cmH2O, R %.0f cmH2O/(L/s)", ck.Mechanics.Value, ck.Resistance.Value)
 	switch {
+	case ck.Fitted != nil && ck.Fitted.EndOnly:
+		add(s.Label.Render("Lung from the end pressure alone ") + s.Value.Render(lung) + s.Hint.Render(" (R "+ck.Resistance.Source+")"))
 	case ck.Fitted != nil:
 		add(s.Label.Render("Fitted lung ") + s.Value.Render(lung))
 	case ck.Unexplained():
@@ -297,7 +299,10 @@ func (p *handoverPanel) figureTable(add func(string), j setup.CheckJSON) {
 	for _, r := range rows {
 		lw = max(lw, len(r.Label))
 	}
-	head := fmt.Sprintf("%-*s %7s", lw, "PATIENT GETS", "now")
+	if j.VolumeUpperBound {
+		add(s.Error.Render(j.VolumeNote))
+	}
+	head := fmt.Sprintf("%-*s %7s", lw, j.PatientGetsShort(), "now")
 	if prop != nil {
 		head += fmt.Sprintf(" %8s %6s", "proposed", "change")
 	}
