@@ -71,7 +71,7 @@ func FitMechanics(rd Readings, peepCmH2O float64, model PressureModel) (Mechanic
 	if err := checkReadings(rd, peepCmH2O); err != nil {
 		return Mechanics{}, err
 	}
-	s := fitter{rd: rd, peep: peepCmH2O, model: model}
+	s := newFitter(rd, peepCmH2O, model)
 	lc, lr, err := s.start()
 	if err != nil {
 		return Mechanics{}, err
@@ -86,7 +86,7 @@ func FitMechanicsNear(rd Readings, peepCmH2O float64, near Mechanics, model Pres
 	if err := checkReadings(rd, peepCmH2O); err != nil {
 		return Mechanics{}, err
 	}
-	s := fitter{rd: rd, peep: peepCmH2O, model: model}
+	s := newFitter(rd, peepCmH2O, model)
 	lc, lr := math.Log(near.ComplianceMLPerCmH2O), math.Log(near.ResistanceCmH2OPerLS)
 	if math.IsNaN(lc+lr) || math.IsInf(lc+lr, 0) {
 		var err error
@@ -94,7 +94,7 @@ func FitMechanicsNear(rd Readings, peepCmH2O float64, near Mechanics, model Pres
 			return Mechanics{}, err
 		}
 	}
-	return s.solve(clampTo(lc, logCMin, logCMax), clampTo(lr, logRMin, logRMax))
+	return s.solve(clampTo(lc, s.logCMin, s.logCMax), clampTo(lr, s.logRMin, s.logRMax))
 }
 
 // solve runs Newton from (lc, lr) and, when it stalls, the bracketing solve.
@@ -118,7 +118,7 @@ func FitComplianceFromEnd(endCmH2O, peepCmH2O, r float64, model PressureModel) (
 	if !(r >= FitRMin && r <= FitRMax) {
 		panic(fmt.Sprintf("physiology: FitComplianceFromEnd at R %v, outside %g-%g", r, FitRMin, FitRMax))
 	}
-	s := fitter{rd: Readings{PeakCmH2O: endCmH2O, EndCmH2O: endCmH2O}, peep: peepCmH2O, model: model}
+	s := newFitter(Readings{PeakCmH2O: endCmH2O, EndCmH2O: endCmH2O}, peepCmH2O, model)
 	lc, side, n, err := s.complianceFor(math.Log(r))
 	if err != nil {
 		return Mechanics{}, err
@@ -147,17 +147,18 @@ func checkReadings(rd Readings, peepCmH2O float64) error {
 	return nil
 }
 
-// The solver's box, in log C and log R: the plausible ranges.
-var (
-	logCMin, logCMax = math.Log(FitCMin), math.Log(FitCMax)
-	logRMin, logRMax = math.Log(FitRMin), math.Log(FitRMax)
-)
-
-// fitter holds one fit's readings and model.
+// fitter holds one fit's readings and model, and the solver's box in
+// log C and log R (the plausible ranges).
 type fitter struct {
-	rd    Readings
-	peep  float64
-	model PressureModel
+	rd                                 Readings
+	peep                               float64
+	model                              PressureModel
+	logCMin, logCMax, logRMin, logRMax float64
+}
+
+func newFitter(rd Readings, peepCmH2O float64, model PressureModel) fitter {
+	return fitter{rd: rd, peep: peepCmH2O, model: model,
+		logCMin: math.Log(FitCMin), logCMax: math.Log(FitCMax), logRMin: math.Log(FitRMin), logRMax: math.Log(FitRMax)}
 }
 
 // residual is the model's readings minus the measured ones at log C, log R.
@@ -186,7 +187,7 @@ func (s fitter) start() (float64, float64, error) {
 	}
 	lc := math.Log(c0)
 	if e0 > s.peep {
-		lc = clampTo(math.Log(c0*(e0-s.peep)/(s.rd.EndCmH2O-s.peep)), logCMin, logCMax)
+		lc = clampTo(math.Log(c0*(e0-s.peep)/(s.rd.EndCmH2O-s.peep)), s.logCMin, s.logCMax)
 	}
 	p1, e1, err := s.model(math.Exp(lc), r1)
 	if err != nil {
@@ -196,9 +197,9 @@ func (s fitter) start() (float64, float64, error) {
 	if gap := s.rd.PeakCmH2O - s.rd.EndCmH2O; p1-e1 > 0 && gap > 0 {
 		lr = math.Log(r1 * gap / (p1 - e1))
 	} else if gap <= 0 {
-		lr = logRMin
+		lr = s.logRMin
 	}
-	return lc, clampTo(lr, logRMin, logRMax), nil
+	return lc, clampTo(lr, s.logRMin, s.logRMax), nil
 }
 
 func clampTo(v, lo, hi float64) float64 { return math.Max(lo, math.Min(hi, v)) }
@@ -219,10 +220,10 @@ func (s fitter) newton(lc, lr float64) (Mechanics, bool, error) {
 		}
 		// Difference inward at the box's upper edges.
 		hc, hr := h, h
-		if lc+hc > logCMax {
+		if lc+hc > s.logCMax {
 			hc = -h
 		}
-		if lr+hr > logRMax {
+		if lr+hr > s.logRMax {
 			hr = -h
 		}
 		a1, a2, err1 := s.residual(lc+hc, lr)
@@ -242,7 +243,7 @@ func (s fitter) newton(lc, lr float64) (Mechanics, bool, error) {
 		}
 		improved := false
 		for k := 0; k < 16 && !improved; k++ {
-			nc, nr := clampTo(lc+dc, logCMin, logCMax), clampTo(lr+dr, logRMin, logRMax)
+			nc, nr := clampTo(lc+dc, s.logCMin, s.logCMax), clampTo(lr+dr, s.logRMin, s.logRMax)
 			g1, g2, err := s.residual(nc, nr)
 			if err == nil && math.Hypot(g1, g2) < norm {
 				lc, lr, f1, f2, improved = nc, nr, g1, g2, true
@@ -268,21 +269,21 @@ func (s fitter) complianceFor(lr float64) (lc float64, side, n int, err error) {
 		_, e, err := s.residual(x, lr)
 		return e, err
 	}
-	lo, err := f(logCMin)
+	lo, err := f(s.logCMin)
 	if err != nil {
 		return 0, 0, 0, err
 	}
 	if lo < 0 {
-		return logCMin, -1, 1, nil
+		return s.logCMin, -1, 1, nil
 	}
-	hi, err := f(logCMax)
+	hi, err := f(s.logCMax)
 	if err != nil {
 		return 0, 0, 0, err
 	}
 	if hi > 0 {
-		return logCMax, 1, 2, nil
+		return s.logCMax, 1, 2, nil
 	}
-	lc, n, err = illinois(f, logCMin, logCMax, lo, hi)
+	lc, n, err = illinois(f, s.logCMin, s.logCMax, lo, hi)
 	return lc, 0, n + 2, err
 }
 
@@ -299,12 +300,12 @@ func (s fitter) bracketed() (Mechanics, error) {
 		p, _, err := s.residual(lc, lr)
 		return p, err
 	}
-	lo, err := g(logRMin)
+	lo, err := g(s.logRMin)
 	if err != nil {
 		return Mechanics{}, err
 	}
 	sideLo := side
-	hi, err := g(logRMax)
+	hi, err := g(s.logRMax)
 	if err != nil {
 		return Mechanics{}, err
 	}
@@ -320,7 +321,7 @@ func (s fitter) bracketed() (Mechanics, error) {
 		return Mechanics{}, &ReadingError{Retake: "peak", Reason: fmt.Sprintf(
 			"peak %.1f cmH2O is too far above the end pressure %.1f for this setting: the readings need a resistance above %g cmH2O/(L/s)", s.rd.PeakCmH2O, s.rd.EndCmH2O, FitRMax)}
 	}
-	lr, n, err := illinois(g, logRMin, logRMax, lo, hi)
+	lr, n, err := illinois(g, s.logRMin, s.logRMax, lo, hi)
 	if err != nil {
 		return Mechanics{}, err
 	}
