@@ -205,8 +205,10 @@ func (s fitter) start() (float64, float64, error) {
 func clampTo(v, lo, hi float64) float64 { return math.Max(lo, math.Min(hi, v)) }
 
 // newton takes damped Newton steps on log C and log R, each kept inside
-// the box, with a finite-difference Jacobian and step halving; ok when the
-// readings are reproduced to FitTolCmH2O within 30 steps.
+// the box, with a finite-difference Jacobian and step halving, to a
+// residual of 1e-9 cmH2O (a figure built on the fit then reproduces the
+// readings to float noise); ok when, if it stalls first, the readings are
+// still reproduced to FitTolCmH2O.
 func (s fitter) newton(lc, lr float64) (Mechanics, bool, error) {
 	f1, f2, err := s.residual(lc, lr)
 	if err != nil {
@@ -215,7 +217,7 @@ func (s fitter) newton(lc, lr float64) (Mechanics, bool, error) {
 	const h = 1e-4
 	for it := 1; it <= 30; it++ {
 		norm := math.Hypot(f1, f2)
-		if norm < 1e-6 {
+		if norm < 1e-9 {
 			return Mechanics{ComplianceMLPerCmH2O: math.Exp(lc), ResistanceCmH2OPerLS: math.Exp(lr), Iterations: it}, true, nil
 		}
 		// Difference inward at the box's upper edges.
@@ -357,8 +359,8 @@ func complianceError(side int) error {
 
 // illinois finds a root of f in [a, b], given fa = f(a) and fb = f(b) of
 // opposite signs, by regula falsi with the Illinois halving (Dowell and
-// Jarratt 1971): to |f| below FitTolCmH2O/100 or a bracket of 1e-10, at
-// most 60 steps. n is the number of evaluations.
+// Jarratt 1971): to |f| below 1e-10 or a bracket of 1e-12, at most 60
+// steps. n is the number of evaluations.
 func illinois(f func(float64) (float64, error), a, b, fa, fb float64) (x float64, n int, err error) {
 	side := 0
 	x = a
@@ -371,7 +373,7 @@ func illinois(f func(float64) (float64, error), a, b, fa, fb float64) (x float64
 		if err != nil {
 			return 0, n, err
 		}
-		if math.Abs(fx) < FitTolCmH2O/100 || math.Abs(b-a) < 1e-10 {
+		if math.Abs(fx) < 1e-10 || math.Abs(b-a) < 1e-12 {
 			return x, n, nil
 		}
 		if (fx > 0) == (fb > 0) {

@@ -79,6 +79,9 @@ type CheckRequest struct {
 	// ManometerStepCmH2O is the manometer's resolution (0: DefaultManometerStepCmH2O);
 	// each reading is taken as +/- half a step.
 	ManometerStepCmH2O float64
+	// Converted are the entries typed in the ward's units, echoed by the
+	// check (BuildCheckRequest fills it).
+	Converted []Conversion
 
 	// v1Gas, for tests only (export_test.go): the BTPS factor exactly 1
 	// and the cylinder's gas left out, which with no leak and a relief
@@ -122,6 +125,13 @@ type Check struct {
 	// Ranges are what the manometer's resolution allows of the fit (nil
 	// without readings or when no lung explains them).
 	Ranges *FitRanges
+	// Watch is the current setting's watch band and alarm limits; nil when
+	// no lung explains the readings. TimingCheck is what to time to
+	// confirm the current setting (the machine's timing, whatever the lung).
+	Watch       *Watch
+	TimingCheck TimingCheck
+	// Converted are the entries typed in the ward's units.
+	Converted []Conversion
 }
 
 // Unexplained reports whether no lung explains the readings: then none of
@@ -159,6 +169,14 @@ type Difference struct {
 // step (runCheckWithStep): a proposal entered by hand is still the one
 // evaluated, and the check says whether it is the step's.
 func RunCheck(req CheckRequest, p profiles.Profile) (Check, error) {
+	ck, err := runCheck(req, p)
+	if err == nil {
+		ck.Converted = req.Converted
+	}
+	return ck, err
+}
+
+func runCheck(req CheckRequest, p profiles.Profile) (Check, error) {
 	if !req.Gas.Empty() {
 		return runCheckWithStep(req, p)
 	}
@@ -238,6 +256,11 @@ func RunCheck(req CheckRequest, p profiles.Profile) (Check, error) {
 	}
 	if !finiteFigures(ck.Current.Figures) || (ck.Proposed != nil && !finiteFigures(ck.Proposed.Figures)) {
 		return Check{}, &InputError{Field: "setting", Reason: "the model gave no finite figures for this setting"}
+	}
+	ck.TimingCheck = timingCheckOf(ck.Current.Figures)
+	if ck.FitProblem == "" {
+		w := watchOf(ck.Current.Figures, u.p.Circuit.ReliefCmH2O, manometerStep(req), ck.Fitted != nil)
+		ck.Watch = &w
 	}
 	return ck, nil
 }

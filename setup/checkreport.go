@@ -80,6 +80,9 @@ func (w *reportWriter) checkBody(j CheckJSON) {
 	if s := FirstStop(j.Cautions); s != nil && s.ID != "readings-unexplained" {
 		w.line("%s", StopLine(j.Cautions))
 	}
+	if line := ConversionLine(j.EntriesConverted); line != "" {
+		w.line("ENTERED  %s", line)
+	}
 	w.protocolSection(j)
 	w.settingTable(cur, prop, j.Cautions)
 	if j.Readings != nil {
@@ -114,6 +117,9 @@ func (w *reportWriter) checkBody(j CheckJSON) {
 	} else {
 		w.figureTable(j.PatientGetsHeading(), FigureRows(j.FiguresJSON, propFigures))
 	}
+	if j.TimingCheck != nil {
+		w.watchSection(j.watchToSet(), *j.TimingCheck, WhyNoWatch(j.Unexplained()))
+	}
 	w.cautionList("NOW", j.Cautions)
 	if j.Proposed != nil {
 		label := "PROPOSED"
@@ -122,6 +128,16 @@ func (w *reportWriter) checkBody(j CheckJSON) {
 		}
 		w.cautionList(label, j.Proposed.Cautions)
 	}
+}
+
+// watchToSet is the check's watch band when the current setting has no
+// stop, nil otherwise: no alarm limits are given for a setting not to be
+// used.
+func (j CheckJSON) watchToSet() *WatchJSON {
+	if FirstStop(j.Cautions) != nil {
+		return nil
+	}
+	return j.Watch
 }
 
 // fitRanges prints what the manometer's step allows of the fitted lung,
@@ -271,10 +287,7 @@ func WriteCard(w io.Writer, r Record) error {
 	rw := &reportWriter{width: CardWidth}
 	rule := strings.Repeat("=", CardWidth)
 	rw.line("%s", rule)
-	by := r.Initials
-	if by == "" {
-		by = "(initials not given)"
-	}
+	by := checkedBy(r)
 	if r.Unexplained() {
 		rw.line("STOP: READINGS UNEXPLAINED - NOTHING ON THIS CARD IS WHAT THE PATIENT GETS")
 	}
@@ -284,11 +297,14 @@ func WriteCard(w io.Writer, r Record) error {
 	if r.VolumeUpperBound {
 		rw.line("THE VOLUMES ON THIS CARD ARE UPPER BOUNDS, NOT WHAT THE PATIENT GETS")
 	}
-	rw.line("HANDOVER CARD  bed %s  %s UTC  checked by %s", r.Bed, r.Time.UTC().Format("2006-01-02 15:04"), by)
+	rw.line("HANDOVER CARD  bed %s  %s  checked by %s", r.Bed, LocalDateTime(r.Time), by)
 	rw.line("Machine %s, calibration %s", r.ProfileID, orNone(r.CalibrationDate))
 	rw.line("Patient %.0f cm %s, PBW %.1f kg (no name or identifier recorded)", r.HeightCm, r.Sex, r.PBWKg)
 	rw.line("%s", rule)
 	rw.checkBody(r.CheckJSON)
+	if l := secondSignatureLine(r); l != "" {
+		rw.line("%s", l)
+	}
 	rw.line("%s", rule)
 	rw.line("%s", ClinicalCaution)
 	_, err := io.WriteString(w, rw.b.String())

@@ -66,6 +66,7 @@ type EntrySpec struct {
 
 var planSpecs = []EntrySpec{
 	{Name: "height-cm", Label: "Height", Unit: "cm", Required: true},
+	{Name: "height-in", Label: "Height", Unit: "in"},
 	{Name: "sex", Label: "Sex", Kind: kindChoice, Required: true},
 	{Name: "lung", Label: "Lung", Kind: kindChoice},
 	{Name: "ml-per-kg", Label: "Tidal volume", Unit: "mL/kg", ZeroIsDefault: true},
@@ -80,10 +81,13 @@ var planSpecs = []EntrySpec{
 	{Name: "room-c", Label: "Room temperature", Unit: "C"},
 	{Name: "room-rh", Label: "Room humidity", Unit: "%"},
 	{Name: "barometric-mmhg", Label: "Barometer", Unit: "mmHg"},
+	{Name: "barometric-hpa", Label: "Barometer", Unit: "hPa"},
+	{Name: "pressure-unit", Label: "Pressure unit", Kind: kindChoice},
 }
 
 var checkSpecs = []EntrySpec{
 	{Name: "height-cm", Label: "Height", Unit: "cm", Required: true},
+	{Name: "height-in", Label: "Height", Unit: "in"},
 	{Name: "sex", Label: "Sex", Kind: kindChoice, Required: true},
 	{Name: "lung", Label: "Lung", Kind: kindChoice},
 	{Name: "compliance", Label: "Compliance", Unit: "mL/cmH2O", ZeroIsDefault: true},
@@ -110,7 +114,10 @@ var checkSpecs = []EntrySpec{
 	{Name: "room-c", Label: "Room temperature", Unit: "C"},
 	{Name: "room-rh", Label: "Room humidity", Unit: "%"},
 	{Name: "barometric-mmhg", Label: "Barometer", Unit: "mmHg"},
+	{Name: "barometric-hpa", Label: "Barometer", Unit: "hPa"},
 	{Name: "manometer-step", Label: "Manometer step", Unit: "cmH2O", ZeroIsDefault: true},
+	{Name: "pressure-unit", Label: "Pressure unit", Kind: kindChoice},
+	{Name: "gas-unit", Label: "Gas unit", Kind: kindChoice},
 }
 
 // Spec returns the entry of that flag name, from the plan's or the
@@ -231,8 +238,9 @@ func (r *entryReader) cylinder() (waterL, bar float64) {
 // BuildRequest turns a plan's entries into a Request, with every problem
 // at once. The request is only for MakePlan when Problems is empty.
 func BuildRequest(e Entries, now time.Time) (Request, Problems) {
+	e, converted, unitProblems := convertUnits(e, planSpecs)
 	r := &entryReader{e: e}
-	req := Request{Patient: r.patient(), Now: now}
+	req := Request{Patient: r.patient(), Now: now, Converted: converted}
 	t := Targets{Lung: r.lung()}
 	t.MLPerKg, _ = r.number("ml-per-kg")
 	t.RateBPM, _ = r.number("rate")
@@ -253,6 +261,7 @@ func BuildRequest(e Entries, now time.Time) (Request, Problems) {
 	req.Targets = t
 	req.Room = r.room()
 	r.rangeProblems(req.Targets)
+	r.unitProblems(converted, unitProblems)
 	return req, r.sorted(planSpecs)
 }
 
@@ -321,8 +330,9 @@ const DefaultPEEPCmH2O = 5
 // problem at once. Whether the hole, speed and dwell suit this machine is
 // RunCheck's to say, since it needs the profile.
 func BuildCheckRequest(e Entries, now time.Time) (CheckRequest, Problems) {
+	e, converted, unitProblems := convertUnits(e, checkSpecs)
 	r := &entryReader{e: e}
-	req := CheckRequest{Patient: r.patient(), Lung: r.lung(), Now: now}
+	req := CheckRequest{Patient: r.patient(), Lung: r.lung(), Now: now, Converted: converted}
 	req.ComplianceMLPerCmH2O, _ = r.number("compliance")
 	req.ResistanceCmH2OPerLS, _ = r.number("resistance")
 	req.Setting.Hole = r.text("hole")
@@ -369,6 +379,7 @@ func BuildCheckRequest(e Entries, now time.Time) (CheckRequest, Problems) {
 	req.Gas = r.gas()
 	r.rangeProblems(Targets{ComplianceMLPerCmH2O: req.ComplianceMLPerCmH2O, ResistanceCmH2OPerLS: req.ResistanceCmH2OPerLS,
 		CylinderWaterL: req.CylinderWaterL, CylinderBar: req.CylinderBar})
+	r.unitProblems(converted, unitProblems)
 	return req, r.sorted(checkSpecs)
 }
 

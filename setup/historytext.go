@@ -6,7 +6,11 @@ import "fmt"
 // the screen's history both show it: when, who, the setting, what the
 // patient got, and the highest caution. Every number carries its unit.
 func HistoryLine(r Record) string {
-	head := fmt.Sprintf("%s UTC  %-4s  %s", r.Time.UTC().Format("2006-01-02 15:04"), r.Initials, settingText(r.Setting))
+	who := r.Initials
+	if r.SecondInitials != "" {
+		who += "+" + r.SecondInitials
+	}
+	head := fmt.Sprintf("%s  %-4s  %s", LocalDateTime(r.Time), who, settingText(r.Setting))
 	line := fmt.Sprintf("%s: %.0f mL %.1f mL/kg, %d caution(s)", head, r.DeliveredVtML, r.MLPerKg, len(r.Cautions))
 	if r.Unexplained() {
 		line = fmt.Sprintf("%s: STOP readings unexplained, volume not known, %d caution(s)", head, len(r.Cautions))

@@ -39,6 +39,9 @@ type Request struct {
 	Now time.Time
 	// Room is the room's air (BTPS); nil fields mean the defaults.
 	Room Room
+	// Converted are the entries typed in the ward's units, echoed by the
+	// plan (BuildRequest fills it).
+	Converted []Conversion
 
 	// v1Gas, for tests only (export_test.go): the BTPS factor exactly 1
 	// and the cylinder's gas left out, which with no leak and a relief

@@ -18,9 +18,15 @@ const MaxRecordBytes = 256 << 10
 // through a link: see CheckLogPath), locked against other writers, the line
 // is written with a single write and synced before the lock is released.
 // If the file's last line was torn by an earlier crash, the record starts
-// on a fresh line so the torn one stays alone. On error nothing earlier in
-// the file is touched.
+// on a fresh line so the torn one stays alone. An append that fails (a
+// full disk, a file-size limit) is cut back, under the lock, to the file's
+// length before it: no part of the record stays. A record that breaks the
+// rules the reader holds records to (recordProblem) is refused before the
+// file is opened. On error nothing earlier in the file is touched.
 func AppendRecord(path string, rec Record) error {
+	if p := recordProblem(&rec); p != "" {
+		return fmt.Errorf("log %s: record NOT written (nothing was written): %s", path, p)
+	}
 	line, err := json.Marshal(rec)
 	if err != nil {
 		return err
@@ -37,19 +43,40 @@ func AppendRecord(path string, rec Record) error {
 		return fmt.Errorf("log %s: cannot lock: %w", path, err)
 	}
 	defer unlockFile(f)
-	if torn, err := endsTorn(f); err != nil {
-		return fmt.Errorf("log %s: %w", path, err)
+	st, err := f.Stat()
+	if err != nil {
+		return fmt.Errorf("log %s: record NOT written (nothing was written): %w", path, unwrapPathError(err))
+	}
+	if torn, err := endsTorn(f, st.Size()); err != nil {
+		return fmt.Errorf("log %s: record NOT written (nothing was written): %w", path, err)
 	} else if torn {
 		line = append([]byte{'\n'}, line...)
 	}
 	line = append(line, '\n')
 	if _, err := f.Write(line); err != nil {
-		return fmt.Errorf("log %s: record not saved: %w", path, unwrapPathError(err))
+		return cutBack(f, path, st.Size(), "record NOT written", err)
 	}
 	if err := f.Sync(); err != nil {
-		return fmt.Errorf("log %s: record may not be on disk: %w", path, unwrapPathError(err))
+		// The kernel may have dropped the pages it could not write: the
+		// record is taken back so that what is on disk is certain.
+		return cutBack(f, path, st.Size(), "record NOT written (it could not be synced to disk)", err)
 	}
 	return nil
+}
+
+// cutBack truncates the log, still locked, to its length before the
+// append, so that a failed write (a full disk, a file-size limit) leaves
+// no part of the record, and says so; if even that fails, it says the
+// log may end in a torn line, which the reader then skips.
+func cutBack(f *os.File, path string, size int64, what string, cause error) error {
+	cause = unwrapPathError(cause)
+	if err := f.Truncate(size); err != nil {
+		return fmt.Errorf("log %s: %s, and part of it may remain as a torn last line (cutting it off failed: %v): %w", path, what, unwrapPathError(err), cause)
+	}
+	if err := f.Sync(); err != nil {
+		return fmt.Errorf("log %s: %s; it was cut off, but the log may not be synced (%v): %w", path, what, unwrapPathError(err), cause)
+	}
+	return fmt.Errorf("log %s: %s: nothing was written, the log is as it was (%d bytes): %w", path, what, size, cause)
 }
 
 func unwrapPathError(err error) error {
@@ -60,15 +87,14 @@ func unwrapPathError(err error) error {
 	return err
 }
 
-// endsTorn reports whether the open, non-empty file does not end in a
-// newline.
-func endsTorn(f *os.File) (bool, error) {
-	st, err := f.Stat()
-	if err != nil || st.Size() == 0 {
-		return false, err
+// endsTorn reports whether the open file of that size, when not empty,
+// does not end in a newline.
+func endsTorn(f *os.File, size int64) (bool, error) {
+	if size == 0 {
+		return false, nil
 	}
 	b := make([]byte, 1)
-	if _, err := f.ReadAt(b, st.Size()-1); err != nil {
+	if _, err := f.ReadAt(b, size-1); err != nil {
 		return false, err
 	}
 	return b[0] != '\n', nil

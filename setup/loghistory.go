@@ -57,7 +57,7 @@ func (h *historyReader) visit(log string, logIdx int) func(int, []byte) {
 // once.
 func (h *historyReader) take(log string, logIdx int, d decodedLine) {
 	if !d.ok {
-		h.sum.damaged(log, d.n, reasonJunk)
+		h.sum.damaged(log, d.n, d.problem)
 		return
 	}
 	rec := d.rec

@@ -24,10 +24,11 @@ type rawLine struct {
 }
 
 type decodedLine struct {
-	n   int
-	rec Record
-	ok  bool
-	key [sha256.Size]byte // set when the record is of the bed asked for
+	n       int
+	rec     Record
+	ok      bool
+	problem string            // why the line is damaged, when it is not ok
+	key     [sha256.Size]byte // set when the record is of the bed asked for
 }
 
 type lineBatch struct {
@@ -39,8 +40,9 @@ type lineBatch struct {
 
 // decodeLine decodes one line, and keys the record when its bed is kept.
 func decodeLine(n int, text []byte, bed string) decodedLine {
-	rec, ok := decodeRecord(text)
-	d := decodedLine{n: n, rec: rec, ok: ok}
+	rec, problem := decodeRecord(text)
+	ok := problem == ""
+	d := decodedLine{n: n, rec: rec, ok: ok, problem: problem}
 	if ok && (bed == "" || BedKey(rec.Bed) == bed) {
 		d.key = recordKey(&rec, text)
 	}

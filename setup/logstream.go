@@ -63,6 +63,7 @@ const (
 	reasonTooLong = "longer than %d bytes; skipped"
 	reasonTorn    = "torn last line (the program stopped while writing it); skipped"
 	reasonJunk    = "not a whole check record; skipped"
+	reasonRules   = "not a record this program writes: %s; skipped"
 )
 
 // scanLog reads r line by line in bounded memory and hands visit each
@@ -136,13 +137,20 @@ func nextLine(br *bufio.Reader, buf *[]byte) (text []byte, tooLong, complete boo
 	return line, tooLong, false, err
 }
 
-// decodeRecord decodes one complete line; ok is false for anything that
-// is not a whole check record of this format (see missingFromRecord).
-func decodeRecord(text []byte) (rec Record, ok bool) {
-	if err := json.Unmarshal(text, &rec); err != nil || rec.Format != RecordFormat || missingFromRecord(rec) != "" {
-		return Record{}, false
+// decodeRecord decodes one complete line; problem is "" for a whole
+// check record of this format that keeps the writer's rules (recordProblem,
+// keysProblem), else the reason the line is damaged, for the summary.
+func decodeRecord(text []byte) (rec Record, problem string) {
+	if err := json.Unmarshal(text, &rec); err != nil {
+		return Record{}, reasonJunk
 	}
-	return rec, true
+	if p := recordProblem(&rec); p != "" {
+		return Record{}, fmt.Sprintf(reasonRules, p)
+	}
+	if p := keysProblem(text); p != "" {
+		return Record{}, fmt.Sprintf(reasonRules, p)
+	}
+	return rec, ""
 }
 
 // missingFromRecord names what a decoded record lacks of a check as this

@@ -50,7 +50,7 @@ func messyLog(t *testing.T, path string, n, beds int, seed int64) {
 // give the same entries as reading every record with ReadLog and
 // grouping them with History, which decodes every line.
 func TestStreamReaderMatchesWholeFileReader(t *testing.T) {
-	for seed := int64(1); seed <= 6; seed++ {
+	for seed := int64(1); seed <= int64(logSize(2, 6)); seed++ {
 		path := filepath.Join(t.TempDir(), "messy.jsonl")
 		messyLog(t, path, 400, 7, seed)
 		recs, _, err := setup.ReadLog(path)
@@ -92,13 +92,13 @@ func TestStreamReaderMatchesWholeFileReader(t *testing.T) {
 	}
 }
 
-// TestReadLogOnJunkKeepsAFewProblemsAndCountsTheRest writes 50 MB of
-// junk around three good records: the readers keep at most
+// TestReadLogOnJunkKeepsAFewProblemsAndCountsTheRest writes 4 MB (50 MB
+// under -logs.large) of junk around three good records: the readers keep at most
 // MaxProblemsKept problems whatever the junk, count every damaged line,
 // and lose no record.
 func TestReadLogOnJunkKeepsAFewProblemsAndCountsTheRest(t *testing.T) {
 	path := filepath.Join(t.TempDir(), "junk.jsonl")
-	junkLines := writeJunkLog(t, path, 50<<20)
+	junkLines := writeJunkLog(t, path, logSize(4<<20, 50<<20))
 	recs, problems, err := setup.ReadLog(path)
 	require.NoError(t, err)
 	require.Len(t, recs, 3)
@@ -166,7 +166,7 @@ func TestHistoryReadIsTheSameOnOneCoreAndOnMany(t *testing.T) {
 	var paths []string
 	for seed := int64(1); seed <= 3; seed++ {
 		path := filepath.Join(dir, fmt.Sprintf("messy%d.jsonl", seed))
-		messyLog(t, path, 700, 7, seed)
+		messyLog(t, path, logSize(250, 700), 7, seed)
 		paths = append(paths, path)
 	}
 	// A copy of the first log as a fourth terminal's: every record in it

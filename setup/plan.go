@@ -53,6 +53,14 @@ type Plan struct {
 	// Gas is the version 2 breath's room (with the BTPS factor), cylinder
 	// head, leak and relief valve, as used in every stroke of the plan.
 	Gas GasModel
+
+	// Watch is what the manometer should show on this setting and the
+	// alarm limits (on the assumed lung, read to the default manometer
+	// step); TimingCheck is what to time to confirm the setting.
+	Watch       Watch
+	TimingCheck TimingCheck
+	// Converted are the entries typed in the ward's units.
+	Converted []Conversion
 }
 
 // MakePlan turns a request into a setting on the machine described by p:
@@ -92,7 +100,7 @@ func MakePlan(req Request, p profiles.Profile) (Plan, error) {
 		Patient: req.Patient, ProfileID: p.ID, ProfileLabel: p.Label, Calibration: u.cal,
 		Lung: r.lung, MLPerKg: r.mlPerKg, Rate: r.rate, IE: r.ie, PEEP: r.peep, FiO2: r.fio2,
 		Compliance: r.compliance, Resistance: r.resistance, PEEPTable: r.table,
-		PBWKg: pbw, TargetVtML: targetML,
+		PBWKg: pbw, TargetVtML: targetML, Converted: req.Converted,
 	}
 	ls := lungState{
 		lung:  machine.Lung{ComplianceMLPerCmH2O: r.compliance.Value, ResistanceCmH2OPerLS: r.resistance.Value},
@@ -123,6 +131,8 @@ func MakePlan(req Request, p profiles.Profile) (Plan, error) {
 		timing: &pl.Timing, targetMLPerK: r.mlPerKg.Value, offTargetPct: pl.OffTargetPct,
 		cal: u.cal, ratedTorque: p.Motor.RatedTorqueNm, fixedMotor: p.Motor.Fixed(),
 	})
+	pl.Watch = watchOf(pl.Figures, p.Circuit.ReliefCmH2O, physiology.Value{Value: DefaultManometerStepCmH2O, Source: srcManometerStep}, false)
+	pl.TimingCheck = timingCheckOf(pl.Figures)
 	if err := finite(pl); err != nil {
 		return Plan{}, err
 	}

@@ -75,6 +75,13 @@ type CheckJSON struct {
 	FitRangeNote          string       `json:"fit_range_note,omitempty"`
 	PatientEffortNote     string       `json:"patient_effort_note,omitempty"`
 	Gas                   *GasJSON     `json:"gas,omitempty"`
+	// What to time to confirm the setting, and the watch band (absent when
+	// no lung explains the readings); older records have neither.
+	TimingCheck *TimingCheck `json:"timing_check,omitempty"`
+	Watch       *WatchJSON   `json:"watch,omitempty"`
+	// EntriesConverted are the entries typed in the ward's units and what
+	// each was read as (absent when all were in the tool's own).
+	EntriesConverted []Conversion `json:"entries_converted,omitempty"`
 }
 
 // Unexplained reports whether no lung explains the readings: then no
@@ -181,7 +188,7 @@ func evaluationJSON(e Evaluation) EvaluationJSON {
 // JSON is the check as the --json object.
 func (ck Check) JSON() CheckJSON {
 	j := CheckJSON{
-		ProfileID: ck.ProfileID, CalibrationDate: ck.Calibration.Date,
+		ProfileID: ck.ProfileID, CalibrationDate: ck.Calibration.Date, EntriesConverted: ck.Converted,
 		HeightCm: r4(ck.Patient.HeightCm), Sex: ck.Patient.Sex.String(), PBWKg: r4(ck.PBWKg),
 		Setting: ck.Current.Setting, FitProblem: ck.FitProblem, MechanicsSource: ck.Mechanics.Source,
 		EvaluationJSON: evaluationJSON(ck.Current), ClinicalCaution: ClinicalCaution,
@@ -221,6 +228,12 @@ func (ck Check) JSON() CheckJSON {
 		}
 		j.Proposed = p
 	}
+	tc := ck.TimingCheck.JSON()
+	j.TimingCheck = &tc
+	if ck.Watch != nil {
+		w := ck.Watch.JSON()
+		j.Watch = &w
+	}
 	ck.protocolJSON(&j)
 	return j
 }
@@ -244,6 +257,9 @@ type Record struct {
 	Time     time.Time `json:"time"`
 	Bed      string    `json:"bed"`
 	Initials string    `json:"initials"`
+	// SecondInitials are a second checker's, when a ward double-checks a
+	// change (written only when given).
+	SecondInitials string `json:"second_initials,omitempty"`
 	CheckJSON
 }
 
@@ -253,13 +269,15 @@ type recordHead struct {
 	Time     time.Time `json:"time"`
 	Bed      string    `json:"bed"`
 	Initials string    `json:"initials"`
+	// SecondInitials: see Record.
+	SecondInitials string `json:"second_initials,omitempty"`
 }
 
 // MarshalJSON writes the record's own keys, then the check's as
 // CheckJSON writes them (its MarshalJSON would otherwise stand for the
 // whole record, since the check is embedded).
 func (r Record) MarshalJSON() ([]byte, error) {
-	head, err := json.Marshal(recordHead{Format: r.Format, Time: r.Time, Bed: r.Bed, Initials: r.Initials})
+	head, err := json.Marshal(recordHead{Format: r.Format, Time: r.Time, Bed: r.Bed, Initials: r.Initials, SecondInitials: r.SecondInitials})
 	if err != nil {
 		return nil, err
 	}

@@ -110,6 +110,14 @@ type PlanJSON struct {
 	Cautions        []Caution              `json:"cautions"`
 	ClinicalCaution string                 `json:"clinical_caution"`
 	GasJSON
+	// What to watch and time at the bed (setup/watch.go) and the bedside
+	// checklist (setup/checklist.go).
+	Watch       WatchJSON       `json:"watch"`
+	TimingCheck TimingCheck     `json:"timing_check"`
+	Checklist   []ChecklistItem `json:"checklist"`
+	// EntriesConverted are the entries typed in the ward's units and what
+	// each was read as; absent when every entry was in the tool's units.
+	EntriesConverted []Conversion `json:"entries_converted,omitempty"`
 }
 
 // GasJSON is the room and the machine's gas path used by every stroke.
@@ -163,8 +171,19 @@ func (pl Plan) JSON() PlanJSON {
 			"resistance_cmh2o_per_l_s": {r4(pl.Resistance.Value), pl.Resistance.Source},
 		},
 		Changes: roundChanges(pl.Changes), Cautions: roundCautions(pl.Cautions), ClinicalCaution: ClinicalCaution,
-		GasJSON: gasJSON(pl.Gas),
+		GasJSON: gasJSON(pl.Gas), EntriesConverted: pl.Converted,
+		Watch: pl.Watch.JSON(), TimingCheck: pl.TimingCheck.JSON(), Checklist: Checklist(pl.watchToSet()),
 	}
+}
+
+// watchToSet is the plan's watch band when its setting may be set, nil
+// with a stop: no alarm limits are given for a setting not to be used.
+func (pl Plan) watchToSet() *WatchJSON {
+	if FirstStop(pl.Cautions) != nil {
+		return nil
+	}
+	w := pl.Watch.JSON()
+	return &w
 }
 
 func roundChanges(cs []Change) []Change {
@@ -198,6 +217,9 @@ func (pl Plan) WriteText(w io.Writer) error {
 	p("Target    %.1f mL/kg PBW = %.0f mL, rate %.0f /min, I:E 1:%.1f, PEEP %.0f cmH2O, FiO2 %.2f\n",
 		pl.MLPerKg.Value, pl.TargetVtML, pl.Rate.Value, pl.IE.Value, pl.PEEP.Value, pl.FiO2.Value)
 	p("Lung      C %.0f mL/cmH2O (%s), R %.0f cmH2O/(L/s) (%s)\n", pl.Compliance.Value, pl.Compliance.Source, pl.Resistance.Value, pl.Resistance.Source)
+	if line := ConversionLine(pl.Converted); line != "" {
+		p("Entered   %s\n", line)
+	}
 	writeGas(&b, pl.Gas)
 	if line := StopLine(pl.Cautions); line != "" {
 		p("\n%s", line)
@@ -229,6 +251,9 @@ func (pl Plan) WriteText(w io.Writer) error {
 	p("  %s\n", DrivingNote)
 	writeGasOutcome(&b, pl.Figures)
 	p("  Exhalation tau %.2f s; torque %.0f%% of the motor's rating\n", pl.TauS, 100*pl.TorqueShareOfRating)
+	rw := &reportWriter{}
+	rw.watchSection(pl.watchToSet(), pl.TimingCheck.JSON(), WhyNoWatch(false))
+	b.WriteString("\n" + rw.b.String())
 	if len(pl.Changes) > 0 {
 		p("\nWHAT THE MACHINE'S STEPS CHANGED\n")
 		for _, c := range pl.Changes {

@@ -223,9 +223,9 @@ func (w *wardReader) rows(now time.Time, every time.Duration) (rows []WardRow, e
 		sort.Slice(cs, func(i, j int) bool { return cs[j].before(cs[i]) })
 		found := false
 		for _, c := range cs {
-			rec, ok := decodeRecord(c.text)
-			if !ok {
-				w.sum.damaged(c.log, c.line, reasonJunk)
+			rec, problem := decodeRecord(c.text)
+			if problem != "" {
+				w.sum.damaged(c.log, c.line, problem)
 				continue
 			}
 			if BedKey(rec.Bed) != bed || !rec.Time.Equal(c.at) {
@@ -315,7 +315,7 @@ func WardLine(r WardRow) string {
 	case r.AgeMinutes >= 120:
 		age = fmt.Sprintf("%.1f h ago", r.AgeMinutes/60)
 	}
-	line := fmt.Sprintf("%-8s %s UTC (%s)  %s %s", r.Bed, r.CheckedAt.UTC().Format("01-02 15:04"), age, r.ProfileID,
+	line := fmt.Sprintf("%-8s %s (%s)  %s %s", r.Bed, LocalShort(r.CheckedAt), age, r.ProfileID,
 		settingText(Setting{Hole: r.Hole, RPM: r.MotorRPM, DwellS: r.DwellS, PEEPCmH2O: r.PEEPCmH2O}))
 	switch {
 	case r.Record.Unexplained() && r.HighestLevel == Stop:

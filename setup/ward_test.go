@@ -261,19 +261,26 @@ func TestSeveralLogsMergeByTimeAndCountACopiedRecordOnce(t *testing.T) {
 }
 
 func TestWardRowsAreExactWhenALineMisleadsTheQuickLook(t *testing.T) {
-	// A record whose real bed key is escaped and which carries an unknown
-	// nested "bed": the quick look sees B9, decoding sees B1. The ward
-	// must show B1 (as every line decoded would), and no B9.
+	// A record that carries an unknown nested "bed": the quick look sees a
+	// second "bed" and decodes the line, which is B1's. The ward must show
+	// B1 (as every line decoded would), and no B9.
 	line := recordLine(t, wardRecord(t, "B1", at(8, 0), 20, 0))
-	line = strings.Replace(line, `"bed":"B1"`, `"b\u0065d":"B1","extra":{"bed":"B9"}`, 1)
-	path := writeLog(t, filepath.Join(t.TempDir(), "w.jsonl"), line+"\n")
-	rows, _, err := setup.WardRows([]string{path}, at(9, 0), 0)
+	nested := strings.Replace(line, `"bed":"B1"`, `"bed":"B1","extra":{"bed":"B9"}`, 1)
+	// The same with the record's own key escaped: the writer never escapes
+	// a key, so the line is damaged, never B1's nor B9's check.
+	escaped := strings.Replace(line, `"bed":"B1"`, `"b\u0065d":"B1","extra":{"bed":"B9"}`, 1)
+	escaped = strings.Replace(escaped, at(8, 0).Format(time.RFC3339), at(8, 30).Format(time.RFC3339), 1)
+	path := writeLog(t, filepath.Join(t.TempDir(), "w.jsonl"), nested+"\n", escaped+"\n")
+	rows, sum, err := setup.WardRows([]string{path}, at(9, 0), 0)
 	require.NoError(t, err)
 	require.Len(t, rows, 1)
 	require.Equal(t, "B1", rows[0].Bed)
+	require.True(t, rows[0].CheckedAt.Equal(at(8, 0)), "the escaped line at 08:30 is not B1's newest check")
+	require.Equal(t, 1, sum.Damaged)
+	require.Contains(t, sum.Problems[0].Reason, `key "b\\u0065d" is written escaped`)
 	h, _, err := setup.ReadBedHistory([]string{path}, "B1", 0)
 	require.NoError(t, err)
-	require.Len(t, h.Entries, 1, "the escaped label is found by the bed filter too")
+	require.Len(t, h.Entries, 1, "the escaped line is damaged for the bed filter too")
 }
 
 // A line of the record format holding only a bed and a time (half

@@ -35,9 +35,9 @@ func readRecords(r io.Reader) ([]Record, []LogProblem, error) {
 	var recs []Record
 	var sum LogSummary
 	err := scanLog(r, "", &sum, func(n int, text []byte) {
-		rec, ok := decodeRecord(text)
-		if !ok {
-			sum.damaged("", n, reasonJunk)
+		rec, problem := decodeRecord(text)
+		if problem != "" {
+			sum.damaged("", n, problem)
 			return
 		}
 		recs = append(recs, rec)

@@ -9,33 +9,29 @@ import (
 	"github.com/stretchr/testify/require"
 )
 
-// Values no number flag may accept (common practice: only plain finite
-// decimals are numbers at a bedside).
-var hostileNumbers = []string{"NaN", "nan", "Inf", "-Inf", "+Inf", "1e999", "-1e999", "abc", "", " ", "0x1A", "1,5,0", "1.5,0", "1,", "١٧٥", "17 5", "1e", "--", "\x7f"}
-
+// A few hostile number values through the built binary: what a shell sees
+// is exit status 2 and one line on stderr naming the flag (common practice:
+// only plain finite decimals are numbers at a bedside). The whole table, every
+// number flag of plan and check with every hostile value, runs in-process
+// through the same entry in ../main_test.go.
 func TestEveryNumberFlagRefusesHostileValues(t *testing.T) {
 	plan := []string{"plan", "--height-cm", "175", "--sex", "male"}
 	check := []string{"check", "--height-cm", "175", "--sex", "male", "--hole", "8", "--rpm", "21", "--dwell-s", "1.4"}
 	cases := []struct {
-		base []string
-		flag string
+		base        []string
+		flag, value string
 	}{
-		{plan, "--height-cm"}, {plan, "--ml-per-kg"}, {plan, "--rate"}, {plan, "--peep"}, {plan, "--fio2"},
-		{plan, "--compliance"}, {plan, "--resistance"}, {plan, "--cylinder-l"}, {plan, "--cylinder-bar"},
-		{check, "--height-cm"}, {check, "--rpm"}, {check, "--dwell-s"}, {check, "--peep"}, {check, "--o2-lpm"},
-		{check, "--peak"}, {check, "--end-pressure"}, {check, "--compliance"}, {check, "--resistance"},
-		{check, "--cylinder-l"}, {check, "--cylinder-bar"}, {check, "--propose-rpm"}, {check, "--propose-dwell-s"}, {check, "--propose-peep"},
+		{plan, "--height-cm", "NaN"}, {plan, "--fio2", "1e999"}, {plan, "--rate", "١٧٥"},
+		{check, "--dwell-s", "\x7f"}, {check, "--peak", "-Inf"}, {check, "--propose-peep", ""},
 	}
 	for _, c := range cases {
-		for _, v := range hostileNumbers {
-			args := append(append([]string(nil), c.base...), c.flag, v)
-			r := crankside(t, args...)
-			require.Equal(t, 2, r.status, "%s %q: %s", c.flag, v, r.stderr)
-			require.Contains(t, r.stderr, c.flag, "%s %q: the message names the flag", c.flag, v)
-			require.Equal(t, 1, strings.Count(strings.TrimRight(r.stderr, "\n"), "\n")+1, "%s %q: one line: %q", c.flag, v, r.stderr)
-			require.NotContains(t, r.stderr, "goroutine")
-			require.Empty(t, r.stdout)
-		}
+		args := append(append([]string(nil), c.base...), c.flag, c.value)
+		r := crankside(t, args...)
+		require.Equal(t, 2, r.status, "%s %q: %s", c.flag, c.value, r.stderr)
+		require.Contains(t, r.stderr, c.flag, "%s %q: the message names the flag", c.flag, c.value)
+		require.Equal(t, 1, strings.Count(strings.TrimRight(r.stderr, "\n"), "\n")+1, "%s %q: one line: %q", c.flag, c.value, r.stderr)
+		require.NotContains(t, r.stderr, "goroutine")
+		require.Empty(t, r.stdout)
 	}
 }
 

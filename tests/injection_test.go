@@ -34,18 +34,28 @@ func TestLogTextFromFilesIsNeverRaw(t *testing.T) {
 	data, err := os.ReadFile(logPath)
 	require.NoError(t, err)
 	evil := `\u001b[2J\u001b]0;pwned\u0007\u001b]52;c;ZXZpbA==\u0007\u009b31m\u202e\u200b`
-	line := string(data)
-	for _, field := range []string{`"initials":"AB"`, `"bed":"B4"`, `"profile_id":"demo-a"`, `"hole":"8"`, `"sex":"male"`} {
+	// Free text fields: the record is read and shown, escaped.
+	shown := string(data)
+	for _, field := range []string{`"profile_id":"demo-a"`, `"hole":"8"`} {
 		key := strings.SplitN(field, ":", 2)[0]
-		line = strings.Replace(line, field, key+`:"X`+evil+`"`, 1)
+		shown = strings.Replace(shown, field, key+`:"X`+evil+`"`, 1)
 	}
-	require.NotEqual(t, string(data), line)
-	require.NoError(t, os.WriteFile(logPath, []byte(line), 0o600))
+	// Fields the writer holds to a set of letters: the line is damaged,
+	// and its summary on stderr shows the label escaped.
+	damaged := string(data)
+	for _, field := range []string{`"initials":"AB"`, `"bed":"B4"`, `"sex":"male"`} {
+		key := strings.SplitN(field, ":", 2)[0]
+		damaged = strings.Replace(damaged, field, key+`:"X`+evil+`"`, 1)
+	}
+	require.NotEqual(t, string(data), shown)
+	require.NotEqual(t, string(data), damaged)
+	require.NoError(t, os.WriteFile(logPath, []byte(shown+damaged), 0o600))
 	for _, args := range [][]string{{"log", "show", "--log", logPath}, {"log", "beds", "--log", logPath}} {
 		r := crankside(t, args...)
 		requireNoRawControls(t, strings.Join(args[:2], " ")+" stdout", r.stdout)
 		requireNoRawControls(t, strings.Join(args[:2], " ")+" stderr", r.stderr)
 		require.Contains(t, r.stdout, `\x1b]0;pwned`, "%v shows the text escaped", args)
+		require.Contains(t, r.stderr, `bed label "X\x1b[2J\x1b]0;pwned`, "%v names the damaged line's label escaped", args)
 	}
 }
 

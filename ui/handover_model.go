@@ -103,7 +103,7 @@ func (m *Model) record() (setup.Record, error) {
 func (m *Model) recordAsked() tea.Cmd {
 	if m.recordedAt != "" && !m.confirmRecord {
 		m.confirmRecord = true
-		m.handoverNote(m.styles.Error.Render("! this check was already recorded at " + m.recordedAt + " UTC: Ctrl+S again records it a second time"))
+		m.handoverNote(m.styles.Error.Render("! this check was already recorded at " + m.recordedAt + ": Ctrl+S again records it a second time"))
 		return nil
 	}
 	m.confirmRecord = false
@@ -147,8 +147,8 @@ func (m *Model) saved(msg savedMsg) {
 		return
 	}
 	m.unsaved = false
-	m.recordedAt = msg.at.UTC().Format("15:04")
-	m.handoverNote(m.styles.Value.Render(fmt.Sprintf("Recorded for bed %s at %s UTC in %s", msg.bed, m.recordedAt, msg.path)))
+	m.recordedAt, m.recordedTime = setup.LocalClock(msg.at), msg.at
+	m.handoverNote(m.styles.Value.Render(fmt.Sprintf("Recorded for bed %s at %s in %s", msg.bed, m.recordedAt, msg.path)))
 }
 
 func (m *Model) card() {
@@ -157,9 +157,16 @@ func (m *Model) card() {
 		m.handoverNote(m.styles.Error.Render("! no card: " + err.Error()))
 		return
 	}
+	title := "Handover card, not recorded yet (also: crankside check ... --card)"
+	if m.recordedAt != "" {
+		// The card of a recorded check is stamped with the record's time,
+		// not the time it is opened.
+		rec.Time = m.recordedTime
+		title = "Handover card, as recorded at " + m.recordedAt
+	}
 	var b strings.Builder
 	setup.WriteCard(&b, rec)
-	m.overlay = &textOverlay{title: "Handover card (also: crankside check ... --card)", text: b.String()}
+	m.overlay = &textOverlay{title: title, text: b.String()}
 }
 
 func (m *Model) history() tea.Cmd {

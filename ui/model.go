@@ -78,6 +78,7 @@ type Model struct {
 	// recordedAt is when the current check was recorded; recording it
 	// again asks first (confirmRecord).
 	recordedAt    string
+	recordedTime  time.Time // the record's own time, which its card carries
 	confirmRecord bool
 	// ward is every bed's last check, shown over the panels (F7).
 	ward *wardView

@@ -29,6 +29,9 @@ func updating() bool {
 func TestMain(m *testing.M) {
 	// Golden screens and assertions read plain text: no colour codes.
 	lipgloss.SetColorProfile(termenv.Ascii)
+	// Local times are read in UTC, whatever the TZ of the computer
+	// running the tests, so that golden screens hold.
+	time.Local = time.UTC
 	os.Exit(m.Run())
 }
 

@@ -126,6 +126,13 @@ func (p *settingPanel) details(pl *setup.Plan) string {
 			add(s.levelWord(c.Level) + " " + s.Caution.Render(c.Message))
 		}
 	}
+	for _, wl := range pl.WatchLines() {
+		if wl.Heading {
+			add(s.Section.Render(wl.Text))
+		} else {
+			add(" " + s.Unit.Render(wl.Text))
+		}
+	}
 	return strings.Join(l, "\n")
 }
 

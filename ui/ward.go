@@ -172,7 +172,7 @@ func (m *Model) startFromRecord(r setup.Record) tea.Cmd {
 			f.from = ""
 		}
 	}
-	at := "from the record at " + r.Time.UTC().Format("15:04") + " UTC"
+	at := "from the record at " + setup.LocalClock(r.Time)
 	for name, v := range e {
 		if f := m.checkField(name); f != nil {
 			f.SetValue(v)

@@ -34,13 +34,14 @@ var checkCommand = &Command{
 // checkOptions are the flags a check reads itself: where to record, and
 // how to print.
 type checkOptions struct {
-	profile, dir, bed, initials, logPath func() string
-	asJSON, card                         func() bool
+	profile, dir, bed, initials, second, logPath func() string
+	asJSON, card                                 func() bool
 }
 
 func checkFlagSet() (*flags, checkOptions) {
 	f := newFlags("check", checkLong)
-	f.entry("height-cm", "patient's height in cm (required)")
+	f.entry("height-cm", "patient's height in cm, or with its unit: 70in, 5'10\" (required, or --height-in)")
+	f.entry("height-in", "patient's height in inches, instead of --height-cm")
 	f.entry("sex", "male or female (required)")
 	f.entry("hole", "the hole the pin is in (required)")
 	f.entry("rpm", "the motor speed set (required)")
@@ -57,6 +58,9 @@ func checkFlagSet() (*flags, checkOptions) {
 	f.entry("room-c", "room temperature in C for the BTPS factor (0-45; default 22, common practice)")
 	f.entry("room-rh", "room relative humidity in % (0-100; default 50, common practice)")
 	f.entry("barometric-mmhg", "barometric pressure in mmHg (450-800; default 760, sea level: enter the local barometer)")
+	f.entry("barometric-hpa", "barometric pressure in hPa, instead of --barometric-mmhg (1 hPa = 0.750062 mmHg)")
+	f.entry("pressure-unit", "the manometer's unit for --peak, --end-pressure, --manometer-step, --peep, --propose-peep: cmh2o (default), hpa or mbar (1 hPa = 1 mbar = 1.01972 cmH2O)")
+	f.entry("gas-unit", "the unit of --pao2 and --paco2: mmhg (default) or kpa (1 kPa = 7.50062 mmHg)")
 	f.entry("manometer-step", "the manometer's resolution in cmH2O (0.1-5; default 1, common practice): readings are +/- half a step")
 	f.entry("propose-hole", "a proposed hole")
 	f.entry("propose-rpm", "a proposed motor speed")
@@ -64,15 +68,16 @@ func checkFlagSet() (*flags, checkOptions) {
 	f.entry("propose-peep", "a proposed PEEP")
 	f.entry("propose-o2-lpm", "a proposed oxygen flow, L/min")
 	f.entry("spo2", "SpO2 %, for the protocol's oxygenation goal 88-95 % (ARDS Network)")
-	f.entry("pao2", "PaO2 mmHg, for the oxygenation goal 55-80 mmHg; decides over SpO2")
+	f.entry("pao2", "PaO2 in mmHg (or --gas-unit kpa), for the oxygenation goal 55-80 mmHg; decides over SpO2")
 	f.entry("ph", "arterial pH, for the pH goal 7.30-7.45 (with --paco2)")
-	f.entry("paco2", "PaCO2 mmHg, with --ph: the new rate holds the bicarbonate")
+	f.entry("paco2", "PaCO2 in mmHg (or --gas-unit kpa), with --ph: the new rate holds the bicarbonate")
 	f.entry("dead-space-ml", "apparatus dead space (tube, filter, connectors), mL (default 0)")
 	var o checkOptions
 	o.profile = f.text("profile", profiles.DefaultID, "machine profile: an id or a path to a .json file")
 	o.dir = f.text("profiles", profiles.DefaultDir(), "directory of profile files")
 	o.bed = f.text("bed", "", "bed label for the record, like B4 (never a patient's name)")
 	o.initials = f.text("initials", "", "the checking operator's initials, for the record (recommended)")
+	o.second = f.text("second-initials", "", "a second checker's initials, for a change checked by two (with --initials)")
 	o.logPath = f.text("log", "", "append the check to this log file (one JSON line; with --bed)")
 	o.card = f.boolean("card", "print a handover card (plain text, 80 columns; not with --json)")
 	o.asJSON = f.boolean("json", "print one JSON object")
@@ -83,8 +88,10 @@ func checkFlagSet() (*flags, checkOptions) {
 func (o checkOptions) recordProblem() string {
 	bed, initials, logPath, card := o.bed(), o.initials(), o.logPath(), o.card()
 	switch {
-	case (bed != "" || initials != "") && logPath == "" && !card:
-		return "--bed and --initials are for the record: add --log FILE or --card"
+	case (bed != "" || initials != "" || o.second() != "") && logPath == "" && !card:
+		return "--bed, --initials and --second-initials are for the record: add --log FILE or --card"
+	case o.second() != "" && initials == "":
+		return "--second-initials goes with --initials (the first checker's)"
 	case logPath != "" && bed == "":
 		return "--log needs --bed (a bed label such as B4; never a patient's name)"
 	case card && bed == "":
@@ -98,6 +105,9 @@ func (o checkOptions) recordProblem() string {
 	}
 	if err := setup.CheckInitials(initials); err != nil {
 		return "--initials: " + err.(*setup.InputError).Reason
+	}
+	if err := setup.CheckSecondInitials(o.second()); err != nil {
+		return "--second-initials: " + err.(*setup.InputError).Reason
 	}
 	return ""
 }
@@ -137,7 +147,10 @@ func runCheck(env Env) int {
 	}
 	var rec setup.Record
 	if o.logPath() != "" || o.card() {
-		if rec, err = setup.NewRecord(ck, o.bed(), o.initials(), req.Now); err != nil {
+		if rec, err = setup.NewRecord(ck, o.bed(), o.initials(), req.Now); err == nil {
+			rec, err = rec.WithSecondInitials(o.second())
+		}
+		if err != nil {
 			return UsageError(env.Stderr, "check", err.Error())
 		}
 	}

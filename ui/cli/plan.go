@@ -27,7 +27,8 @@ var planCommand = &Command{
 // planFlagSet declares the plan's entries; the screen takes the same ones.
 func planFlagSet(name, usage string) (f *flags, profile, dir func() string) {
 	f = newFlags(name, usage)
-	f.entry("height-cm", "patient's height in cm (130-230; required)")
+	f.entry("height-cm", "patient's height in cm (130-230), or with its unit: 70in, 5'10\" (required, or --height-in)")
+	f.entry("height-in", "patient's height in inches (51.2-90.6), instead of --height-cm")
 	f.entry("sex", "male or female (required)")
 	f.entry("ml-per-kg", "tidal volume in mL per kg PBW (4-10; default 6, ARDS Network 2000)")
 	f.entry("rate", "breaths per minute (default by lung: normal 14, ards 18, obstructive 10)")
@@ -42,6 +43,8 @@ func planFlagSet(name, usage string) (f *flags, profile, dir func() string) {
 	f.entry("room-c", "room temperature in C for the BTPS factor (0-45; default 22, common practice)")
 	f.entry("room-rh", "room relative humidity in % (0-100; default 50, common practice)")
 	f.entry("barometric-mmhg", "barometric pressure in mmHg (450-800; default 760, sea level: enter the local barometer)")
+	f.entry("barometric-hpa", "barometric pressure in hPa, instead of --barometric-mmhg (1 hPa = 0.750062 mmHg)")
+	f.entry("pressure-unit", "the unit of --peep: cmh2o (default), hpa or mbar (1 hPa = 1 mbar = 1.01972 cmH2O)")
 	profile = f.text("profile", profiles.DefaultID, "machine profile: an id or a path to a .json file")
 	dir = f.text("profiles", profiles.DefaultDir(), "directory of profile files")
 	return f, profile, dir
