@@ -20,6 +20,10 @@ type Setting struct {
 	DwellS    float64 `json:"dwell_s"`
 	PEEPCmH2O float64 `json:"peep_cmh2o"`
 	O2LPerMin float64 `json:"o2_flow_l_min"`
+	// Measured is what was timed with a stopwatch in place of the speed
+	// and dwell dials (setup/stopwatch.go); nil when both were read off
+	// the dials.
+	Measured *MeasuredTiming `json:"measured,omitempty"`
 }
 
 // Proposal is a change to a setting; a nil field keeps the current
@@ -37,6 +41,7 @@ func (p Proposal) Apply(s Setting) Setting {
 	if p.Hole != nil {
 		s.Hole = *p.Hole
 	}
+	s.Measured = s.Measured.keepOnly(p.RPM == nil, p.DwellS == nil)
 	if p.RPM != nil {
 		s.RPM = *p.RPM
 	}
@@ -70,6 +75,12 @@ type CheckRequest struct {
 	Proposal             Proposal
 	CylinderWaterL       float64
 	CylinderBar          float64
+	// CylinderReserveBar is where the cylinder's time runs to; 0:
+	// DefaultCylinderReserveBar.
+	CylinderReserveBar float64
+	// BreathingAgainst: the patient is breathing against the unit (the
+	// patient-triggering stop).
+	BreathingAgainst bool
 	// Gas is the blood gas and oximeter; with any reading the check also
 	// computes the protocol's next step (see RunCheck).
 	Gas GasReadings
@@ -130,6 +141,9 @@ type Check struct {
 	// confirm the current setting (the machine's timing, whatever the lung).
 	Watch       *Watch
 	TimingCheck TimingCheck
+	// Inferred says what a stopwatch check inferred ("" when the dials were
+	// read): the speed and dwell, the measured values, the nearest steps.
+	Inferred string
 	// Converted are the entries typed in the ward's units.
 	Converted []Conversion
 }
@@ -189,7 +203,8 @@ func runCheck(req CheckRequest, p profiles.Profile) (Check, error) {
 		return Check{}, err
 	}
 	r, err := resolveTargets(Targets{Lung: req.Lung, ComplianceMLPerCmH2O: req.ComplianceMLPerCmH2O,
-		ResistanceCmH2OPerLS: req.ResistanceCmH2OPerLS, CylinderWaterL: req.CylinderWaterL, CylinderBar: req.CylinderBar})
+		ResistanceCmH2OPerLS: req.ResistanceCmH2OPerLS, CylinderWaterL: req.CylinderWaterL, CylinderBar: req.CylinderBar,
+		CylinderReserveBar: req.CylinderReserveBar})
 	if err != nil {
 		return Check{}, err
 	}
@@ -202,6 +217,7 @@ func runCheck(req CheckRequest, p profiles.Profile) (Check, error) {
 		return Check{}, err
 	}
 	u.gas = withRoom(u.gas, room, req.v1Gas)
+	u.cylinderReserveBar = r.reserve.Value
 	if err := canonicalHoles(&req, p); err != nil {
 		return Check{}, err
 	}
@@ -257,12 +273,20 @@ func runCheck(req CheckRequest, p profiles.Profile) (Check, error) {
 	if !finiteFigures(ck.Current.Figures) || (ck.Proposed != nil && !finiteFigures(ck.Proposed.Figures)) {
 		return Check{}, &InputError{Field: "setting", Reason: "the model gave no finite figures for this setting"}
 	}
+	ck.atTheBed(u, req)
+	return ck, nil
+}
+
+// atTheBed adds what the bed needs between checks: what to time, the
+// watch band (none when no lung explains the readings), and what a
+// stopwatch check inferred.
+func (ck *Check) atTheBed(u unit, req CheckRequest) {
 	ck.TimingCheck = timingCheckOf(ck.Current.Figures)
 	if ck.FitProblem == "" {
 		w := watchOf(ck.Current.Figures, u.p.Circuit.ReliefCmH2O, manometerStep(req), ck.Fitted != nil)
 		ck.Watch = &w
 	}
-	return ck, nil
+	ck.Inferred = inferredLine(u, ck.Current.Setting)
 }
 
 // checkSetting refuses a setting this machine cannot be set to.
@@ -271,13 +295,16 @@ func checkSetting(u unit, s Setting, prefix string) error {
 		return &InputError{Field: prefix + "hole", Reason: fmt.Sprintf("%s is not a hole of %s (holes: %s)", physiology.Quote(s.Hole), u.p.ID, holeLabels(u.p))}
 	}
 	m := u.p.Motor
-	if !u.motor.Settable(s.RPM) {
+	if err := checkTimed(u, s, prefix); err != nil {
+		return err
+	}
+	if !s.Measured.speedTimed() && !u.motor.Settable(s.RPM) {
 		if m.Fixed() {
 			return &InputError{Field: prefix + "rpm", Reason: fmt.Sprintf("%s rpm: this motor runs only at %s rpm", plain(s.RPM), plain(m.RPM))}
 		}
 		return &InputError{Field: prefix + "rpm", Reason: fmt.Sprintf("%s rpm is not a speed of this motor: %s-%s rpm in %s rpm steps", plain(s.RPM), plain(m.MinRPM), plain(u.motor.TopRPM()), plain(m.RPMStep))}
 	}
-	if !u.controller.Settable(s.DwellS) {
+	if !s.Measured.dwellTimed() && !u.controller.Settable(s.DwellS) {
 		return &InputError{Field: prefix + "dwell-s", Reason: fmt.Sprintf("%s s is not a dwell of this controller: 0-%s s in %s s steps", plain(s.DwellS), plain(u.controller.MaxSettableDwellS()), plain(u.controller.DwellStepS))}
 	}
 	if err := checkRange(prefix+"peep", "PEEP", s.PEEPCmH2O, physiology.PEEPMin, physiology.PEEPMax, "cmH2O"); err != nil {
@@ -314,7 +341,7 @@ func evaluateSetting(u unit, s Setting, lung machine.Lung, pbw float64, req Chec
 		return Evaluation{}, &InputError{Field: "setting", Reason: err.Error()}
 	}
 	cs := assess(assessment{heightCm: req.Patient.HeightCm, pbwKg: pbw, f: f, reliefCmH2O: u.p.Circuit.ReliefCmH2O, clearanceNote: u.gas.ClearanceNote(),
-		cal: u.cal, ratedTorque: u.p.Motor.RatedTorqueNm, fixedMotor: u.p.Motor.Fixed()})
+		cal: u.cal, ratedTorque: u.p.Motor.RatedTorqueNm, fixedMotor: u.p.Motor.Fixed(), hz: checkHazards(u, s, req)})
 	return Evaluation{Setting: s, Figures: f, Cautions: cs}, nil
 }
 

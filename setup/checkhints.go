@@ -1,6 +1,10 @@
 package setup
 
-import "fmt"
+import (
+	"fmt"
+
+	"crankside/physiology"
+)
 
 // CheckHint is what a handover entry means and what a blank one is taken
 // to be, with the source of a default, for a form to show beside the
@@ -13,8 +17,8 @@ func CheckHint(name string) string {
 		return "the bed's label, like B4: never a patient's name"
 	case "initials":
 		return "who checks: 1 to 4 letters, or blank"
-	case "hole", "rpm", "dwell-s":
-		return "required: as set on the machine"
+	case "hole", "rpm", "dwell-s", "turn-s", "pause-s", "breaths-per-min":
+		return Hint(name, physiology.Normal)
 	case "peep":
 		return fmt.Sprintf("what the PEEP valve is set to; blank: %d cmH2O assumed (ARDS Network 2000 protocol: at least 5)", DefaultPEEPCmH2O)
 	case "o2-lpm":
@@ -27,6 +31,8 @@ func CheckHint(name string) string {
 		return "optional: the cylinder's capacity and pressure together"
 	case "gas-unit":
 		return "the unit of PaO2 and PaCO2: m mmHg or k kPa (1 kPa = 7.50062 mmHg, NIST SP 811); kept for the next start"
+	case "cylinder-reserve-bar", "breathing-against":
+		return Hint(name, physiology.Normal)
 	case "propose-hole", "propose-rpm", "propose-dwell-s", "propose-peep", "propose-o2-lpm":
 		return "a change to evaluate beside the setting; blank: as now"
 	}

@@ -85,6 +85,9 @@ func (w *reportWriter) checkBody(j CheckJSON) {
 	}
 	w.protocolSection(j)
 	w.settingTable(cur, prop, j.Cautions)
+	if j.InferredFromStopwatch != "" {
+		w.line("%s", j.InferredFromStopwatch)
+	}
 	if j.Readings != nil {
 		w.line("MANOMETER  peak %.1f cmH2O, end of inspiration %.1f cmH2O", j.Readings.PeakCmH2O, j.Readings.EndCmH2O)
 	}

@@ -78,6 +78,7 @@ var planSpecs = []EntrySpec{
 	{Name: "resistance", Label: "Resistance", Unit: "cmH2O/(L/s)", ZeroIsDefault: true},
 	{Name: "cylinder-l", Label: "Cylinder", Unit: "L", ZeroIsDefault: true},
 	{Name: "cylinder-bar", Label: "Cylinder", Unit: "bar"},
+	{Name: "cylinder-reserve-bar", Label: "Cylinder reserve", Unit: "bar", ZeroIsDefault: true},
 	{Name: "room-c", Label: "Room temperature", Unit: "C"},
 	{Name: "room-rh", Label: "Room humidity", Unit: "%"},
 	{Name: "barometric-mmhg", Label: "Barometer", Unit: "mmHg"},
@@ -93,14 +94,19 @@ var checkSpecs = []EntrySpec{
 	{Name: "compliance", Label: "Compliance", Unit: "mL/cmH2O", ZeroIsDefault: true},
 	{Name: "resistance", Label: "Resistance", Unit: "cmH2O/(L/s)", ZeroIsDefault: true},
 	{Name: "hole", Label: "Hole", Kind: kindText, Required: true},
-	{Name: "rpm", Label: "Motor speed", Unit: "rpm", Required: true},
-	{Name: "dwell-s", Label: "Dwell", Unit: "s", Required: true},
+	{Name: "rpm", Label: "Motor speed", Unit: "rpm"},
+	{Name: "turn-s", Label: "One turn timed", Unit: "s", ZeroIsDefault: true},
+	{Name: "dwell-s", Label: "Dwell", Unit: "s"},
+	{Name: "pause-s", Label: "Pause timed", Unit: "s"},
+	{Name: "breaths-per-min", Label: "Breaths counted", Unit: "/min", ZeroIsDefault: true},
 	{Name: "peep", Label: "PEEP valve", Unit: "cmH2O"},
 	{Name: "o2-lpm", Label: "O2 flow", Unit: "L/min"},
 	{Name: "peak", Label: "Peak reading", Unit: "cmH2O"},
 	{Name: "end-pressure", Label: "End reading", Unit: "cmH2O"},
+	{Name: "breathing-against", Label: "Breathing against the unit", Kind: kindChoice},
 	{Name: "cylinder-l", Label: "Cylinder", Unit: "L", ZeroIsDefault: true},
 	{Name: "cylinder-bar", Label: "Cylinder", Unit: "bar"},
+	{Name: "cylinder-reserve-bar", Label: "Cylinder reserve", Unit: "bar", ZeroIsDefault: true},
 	{Name: "spo2", Label: "SpO2", Unit: "%"},
 	{Name: "pao2", Label: "PaO2", Unit: "mmHg"},
 	{Name: "ph", Label: "pH"},
@@ -258,6 +264,7 @@ func BuildRequest(e Entries, now time.Time) (Request, Problems) {
 		t.IE = ie
 	}
 	t.CylinderWaterL, t.CylinderBar = r.cylinder()
+	t.CylinderReserveBar = r.cylinderReserve()
 	req.Targets = t
 	req.Room = r.room()
 	r.rangeProblems(req.Targets)
@@ -339,8 +346,7 @@ func BuildCheckRequest(e Entries, now time.Time) (CheckRequest, Problems) {
 	if req.Setting.Hole == "" {
 		r.missing("hole", "required: the hole the pin is in")
 	}
-	req.Setting.RPM, _ = r.number("rpm")
-	req.Setting.DwellS, _ = r.number("dwell-s")
+	r.timing(&req.Setting)
 	req.Setting.PEEPCmH2O = DefaultPEEPCmH2O
 	if v, ok := r.number("peep"); ok {
 		req.Setting.PEEPCmH2O = v
@@ -358,6 +364,8 @@ func BuildCheckRequest(e Entries, now time.Time) (CheckRequest, Problems) {
 		r.fail("peak", "peak and end-pressure go together: give both manometer readings or neither")
 	}
 	req.CylinderWaterL, req.CylinderBar = r.cylinder()
+	req.CylinderReserveBar = r.cylinderReserve()
+	req.BreathingAgainst = r.yesNo("breathing-against", false)
 	req.Room = r.room()
 	if v, ok := r.number("manometer-step"); ok {
 		if err := checkRange("manometer-step", "manometer step", v, ManometerStepMinCmH2O, ManometerStepMaxCmH2O, "cmH2O"); err != nil {
@@ -420,8 +428,18 @@ func Hint(name string, lung physiology.Lung) string {
 		return def(d.Compliance, "%g mL/cmH2O")
 	case "resistance":
 		return def(d.Resistance, "%g cmH2O/(L/s)")
-	case "hole", "rpm", "dwell-s":
+	case "hole":
 		return "required: as set on the machine"
+	case "rpm":
+		return "required: as set, or time one turn (turn-s)"
+	case "dwell-s":
+		return "required: as set, or time the pause (pause-s) or count breaths (breaths-per-min)"
+	case "turn-s":
+		return "seconds for one turn, timed: in place of rpm"
+	case "pause-s":
+		return "seconds of the pause after a turn, timed: in place of dwell-s"
+	case "breaths-per-min":
+		return "breaths counted in one minute, with the turn: in place of dwell-s"
 	case "peak", "end-pressure":
 		return "optional: both readings, or neither"
 	case "o2-lpm":
@@ -432,6 +450,10 @@ func Hint(name string, lung physiology.Lung) string {
 		return def(v, "%g")
 	case "manometer-step":
 		return def(physiology.Value{Value: DefaultManometerStepCmH2O, Source: srcManometerStep}, "%g cmH2O")
+	case "cylinder-reserve-bar":
+		return def(physiology.Value{Value: DefaultCylinderReserveBar, Source: srcDefaultReserve}, "%g bar")
+	case "breathing-against":
+		return BreathingAgainstQuestion + " y or n; blank: no"
 	}
 	if strings.HasPrefix(name, "propose-") {
 		return "blank: as now"
@@ -465,6 +487,21 @@ func RecordEntries(r Record) Entries {
 		"height-cm": num(r.HeightCm), "sex": r.Sex, "bed": r.Bed,
 		"hole": r.Setting.Hole, "rpm": num(r.Setting.RPM), "dwell-s": num(r.Setting.DwellS),
 		"peep": num(r.Setting.PEEPCmH2O),
+	}
+	// A timed setting starts the next check from what was timed, not from
+	// a speed no dial shows.
+	if m := r.Setting.Measured; m != nil {
+		for name, v := range map[string]*float64{"turn-s": m.TurnS, "pause-s": m.PauseS, "breaths-per-min": m.BreathsPerMin} {
+			if v != nil {
+				e[name] = num(*v)
+			}
+		}
+		if m.TurnS != nil {
+			delete(e, "rpm")
+		}
+		if m.PauseS != nil || m.BreathsPerMin != nil {
+			delete(e, "dwell-s")
+		}
 	}
 	if r.Setting.O2LPerMin != 0 {
 		e["o2-lpm"] = num(r.Setting.O2LPerMin)

@@ -65,7 +65,9 @@ type CheckJSON struct {
 	// What to time to confirm the setting, and the watch band (absent when
 	// no lung explains the readings); older records have neither.
 	TimingCheck *TimingCheck `json:"timing_check,omitempty"`
-	Watch       *WatchJSON   `json:"watch,omitempty"`
+	// What a stopwatch check inferred ("" when the dials were read).
+	InferredFromStopwatch string     `json:"inferred_from_stopwatch,omitempty"`
+	Watch                 *WatchJSON `json:"watch,omitempty"`
 	// EntriesConverted are the entries typed in the ward's units and what
 	// each was read as (absent when all were in the tool's own).
 	EntriesConverted []Conversion `json:"entries_converted,omitempty"`
@@ -207,7 +209,7 @@ func (ck Check) JSON() CheckJSON {
 		j.Proposed = p
 	}
 	tc := ck.TimingCheck.JSON()
-	j.TimingCheck = &tc
+	j.TimingCheck, j.InferredFromStopwatch = &tc, ck.Inferred
 	if ck.Watch != nil {
 		w := ck.Watch.JSON()
 		j.Watch = &w

@@ -73,6 +73,16 @@ func newHandoverPanel(s *Styles) *handoverPanel {
 			numberField("propose-peep", "PEEP cmH2O", "cmH2O", ""),
 			numberField("propose-o2-lpm", "O2 L/min", "L/min", ""),
 		}},
+		section{title: "NO SPEED DISPLAY: TIMED", fields: []*field{
+			numberField("turn-s", "Turn s", "s", "in place of rpm"),
+			numberField("pause-s", "Pause s", "s", "in place of dwell"),
+			numberField("breaths-per-min", "Count/min", "/min", "counted, in place of dwell"),
+		}},
+		// Asked at every check: this unit cannot follow a patient's
+		// breath (setup's patient-triggering stop).
+		section{title: "BREATHING AGAINST THE UNIT?", fields: []*field{
+			choiceField("breathing-against", "Fights unit", "", -1, choice{"y", "yes", "yes"}, choice{"n", "no", "no"}),
+		}},
 	)
 	f.compact = true
 	p := &handoverPanel{keys: newHandoverKeys()}
@@ -291,6 +301,9 @@ func (p *handoverPanel) settingTable(add func(string), j setup.CheckJSON) {
 			}
 		}
 		add(line + " " + s.Unit.Render(r.Unit))
+	}
+	if j.InferredFromStopwatch != "" {
+		add(s.Hint.Render(j.InferredFromStopwatch))
 	}
 }
 

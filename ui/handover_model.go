@@ -17,6 +17,17 @@ func (m *Model) checkField(name string) *field { return m.handover.form.byName(n
 // patientEntries are the entries of the Patient panel that a check uses.
 var patientEntries = []string{"height-cm", "sex", "lung", "compliance", "resistance"}
 
+// settingBlank reports whether nothing of the setting is entered yet:
+// neither the hole nor the speed and dwell, dialled or timed.
+func (m *Model) settingBlank() bool {
+	for _, name := range []string{"hole", "rpm", "dwell-s", "turn-s", "pause-s", "breaths-per-min"} {
+		if m.checkField(name).Value() != "" {
+			return false
+		}
+	}
+	return true
+}
+
 // recomputeCheck runs the handover check of what the machine is set to,
 // for the patient on the Patient panel: the entries as typed go to setup's
 // check builder, and every problem is marked beside its field. It waits,
@@ -26,7 +37,7 @@ func (m *Model) recomputeCheck(plan setup.Entries, planProblems setup.Problems) 
 	h.clearErrors()
 	m.out.check, m.out.checkWaiting = nil, nil
 	wait := func(r string) { m.out.checkWaiting = append(m.out.checkWaiting, r) }
-	if m.checkField("hole").Value() == "" && m.checkField("rpm").Value() == "" && m.checkField("dwell-s").Value() == "" {
+	if m.settingBlank() {
 		wait("enter the hole, motor speed and dwell the machine is set to")
 		return
 	}

@@ -10,6 +10,7 @@ import (
 )
 
 const checkLong = `Usage: crankside check --height-cm N --sex male|female --hole LABEL --rpm N --dwell-s N [flags]
+       crankside check --height-cm N --sex male|female --hole LABEL --turn-s N --pause-s N [flags]
 
 Shift handover: what the machine is set to and what the manometer reads ->
 the readings judged, what the patient really gets, the lung mechanics the
@@ -19,6 +20,12 @@ the log. With a blood gas or oximeter reading (--spo2, --pao2, --ph,
 machine and, unless a --propose-* is given (which is then evaluated
 instead, and said so), evaluates it as the proposal. No patient name or other identifier is ever stored: only a bed
 label. A decimal comma is read as a decimal point (0,9 is 0.9).
+
+A unit with no speed display is checked by stopwatch: --turn-s (one turn
+timed) in place of --rpm, and --pause-s (the pause timed) or
+--breaths-per-min (counted over a minute) in place of --dwell-s. The check
+runs at the speed and dwell these imply, rounds nothing measured, and says
+what it inferred and the nearest dial steps.
 
 Flags:
 `
@@ -44,8 +51,11 @@ func checkFlagSet() (*flags, checkOptions) {
 	f.entry("height-in", "patient's height in inches, instead of --height-cm")
 	f.entry("sex", "male or female (required)")
 	f.entry("hole", "the hole the pin is in (required)")
-	f.entry("rpm", "the motor speed set (required)")
-	f.entry("dwell-s", "the dwell set, in s: the motor's stop after each turn (required)")
+	f.entry("rpm", "the motor speed set (required, or --turn-s)")
+	f.entry("dwell-s", "the dwell set, in s: the motor's stop after each turn (required, or --pause-s or --breaths-per-min)")
+	f.entry("turn-s", "a unit with no speed display: one turn of the wheel timed with a stopwatch, s (0.5-30), in place of --rpm")
+	f.entry("pause-s", "the pause after each turn timed, s (0-30), in place of --dwell-s")
+	f.entry("breaths-per-min", "breaths counted in one minute (4-60), with the turn: in place of --dwell-s")
 	f.entry("peep", "the PEEP valve, cmH2O (default 5)")
 	f.entry("o2-lpm", "oxygen bled into the intake, L/min (default 0)")
 	f.entry("peak", "manometer peak during delivery, cmH2O, 0-150 (with --end-pressure)")
@@ -55,6 +65,8 @@ func checkFlagSet() (*flags, checkOptions) {
 	f.entry("resistance", "assumed resistance when no readings are given (not used when the readings give the lung)")
 	f.entry("cylinder-l", "oxygen cylinder water capacity, L (with --cylinder-bar)")
 	f.entry("cylinder-bar", "oxygen cylinder pressure, bar (with --cylinder-l)")
+	f.entry("cylinder-reserve-bar", "change the cylinder at this pressure, bar (1-150; default 40: about a fifth of a full cylinder, common practice)")
+	f.entryBool("breathing-against", "the patient is breathing against the unit (a stop: this unit cannot follow the patient's breaths)")
 	f.entry("room-c", "room temperature in C for the BTPS factor (0-45; default 22, common practice)")
 	f.entry("room-rh", "room relative humidity in % (0-100; default 50, common practice)")
 	f.entry("barometric-mmhg", "barometric pressure in mmHg (450-800; default 760, sea level: enter the local barometer)")
