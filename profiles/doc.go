@@ -1,5 +1,5 @@
 // Package profiles owns the machine profile file: the JSON format (version
-// 2, "crankside-profile/2", which also reads version 1 files), its strict
+// 3, "crankside-profile/3", which also reads version 1 and 2 files), its strict
 // parsing and validation, guarded saving, the demo profiles embedded in the
 // binary, and where profiles are looked for.
 //
@@ -14,9 +14,11 @@
 // field's path in Profile.Defaults, so that a summary can say a default was
 // used. A file that says "crankside-profile/1" and has either field is
 // refused (the field belongs to version 2; change the format line), rather
-// than read as version 1 with the field dropped. Marshal and Save always
-// write version 2 with every field written out. Every version 1 key keeps
-// its meaning.
+// than read as version 1 with the field dropped. Version 3 adds the
+// optional oxygen.max_flow_l_min (default DefaultMaxO2FlowLMin, 15 L/min:
+// ordinary flowmeters, common practice), refused the same way in a version
+// 1 or 2 file. Marshal and Save always write version 3 with every field
+// written out. Every earlier key keeps its meaning.
 //
 // # What is refused
 //

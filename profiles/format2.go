@@ -11,34 +11,62 @@ const (
 	// DefaultLeakLMinAt20CmH2O: no leak, which a bench calibration can
 	// revise.
 	DefaultLeakLMinAt20CmH2O = 0.0
+	// DefaultMaxO2FlowLMin: ordinary wall and cylinder oxygen flowmeters
+	// top out at 15 L/min (common practice).
+	DefaultMaxO2FlowLMin = 15.0
 )
 
 type optionalField struct {
 	path  string
 	value float64
+	since string // the first format that has the field
 }
 
-// v2Fields are the fields that version 2 added, all optional, with their
-// defaults, in the order they are reported.
+// v2Fields are the fields that versions 2 and 3 added, all optional, with
+// their defaults and the format that brought them, in the order they are
+// reported.
 func v2Fields() []optionalField {
 	return []optionalField{
-		{"cylinder.clearance_cm", DefaultClearanceCm},
-		{"circuit.leak_l_min_at_20_cmh2o", DefaultLeakLMinAt20CmH2O},
+		{"cylinder.clearance_cm", DefaultClearanceCm, FormatV2},
+		{"circuit.leak_l_min_at_20_cmh2o", DefaultLeakLMinAt20CmH2O, FormatV2},
+		{"oxygen.max_flow_l_min", DefaultMaxO2FlowLMin, FormatV3},
 	}
 }
 
-// versionFields refuses a version 2 field in a file that says it is version
-// 1: such a file was written by hand or by a newer tool, and reading it as
-// version 1 would silently drop what it says.
+// formatRank orders the formats this version reads; 0 for another.
+func formatRank(format string) int {
+	switch format {
+	case FormatV1:
+		return 1
+	case FormatV2:
+		return 2
+	case FormatV3:
+		return 3
+	}
+	return 0
+}
+
+// versionFields refuses a field of a later version in a file that says it
+// is an earlier one: such a file was written by hand or by a newer tool,
+// and reading it as the older version would silently drop what it says.
+// The object "oxygen" itself belongs to version 3.
 func versionFields(present map[string]bool, format string) []FieldError {
-	if format != FormatV1 {
-		return nil
+	rank := formatRank(format)
+	if rank == 0 {
+		return nil // validate says the format is not known
 	}
 	var out []FieldError
 	for _, f := range v2Fields() {
-		if present[f.path] {
-			out = append(out, FieldError{Path: f.path, Problem: fmt.Sprintf(
-				"is a field of %s, but this file says %q; change format to %q to use it", FormatV2, FormatV1, FormatV2)})
+		if formatRank(f.since) <= rank {
+			continue
+		}
+		path := f.path
+		if f.since == FormatV3 && present["oxygen"] && !present[path] {
+			path = "oxygen"
+		}
+		if present[path] {
+			out = append(out, FieldError{Path: path, Problem: fmt.Sprintf(
+				"is a field of %s, but this file says %q; change format to %q to use it", f.since, format, f.since)})
 		}
 	}
 	return out
@@ -56,6 +84,8 @@ func applyDefaults(present map[string]bool, p *Profile) {
 			p.Cylinder.ClearanceCm = f.value
 		case "circuit.leak_l_min_at_20_cmh2o":
 			p.Circuit.LeakLMinAt20CmH2O = f.value
+		case "oxygen.max_flow_l_min":
+			p.Oxygen.MaxFlowLMin = f.value
 		}
 		p.Defaults = append(p.Defaults, f.path)
 	}

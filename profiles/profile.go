@@ -7,11 +7,14 @@ const FormatV1 = "crankside-profile/1"
 
 // FormatV2 is the format string of version 2 files: version 1 plus the
 // optional fields cylinder.clearance_cm and circuit.leak_l_min_at_20_cmh2o.
-// Marshal and Save write it.
 const FormatV2 = "crankside-profile/2"
 
+// FormatV3 is the format string of version 3 files: version 2 plus the
+// optional field oxygen.max_flow_l_min. Marshal and Save write it.
+const FormatV3 = "crankside-profile/3"
+
 // FormatCurrent is the format that Marshal and Save write.
-const FormatCurrent = FormatV2
+const FormatCurrent = FormatV3
 
 // Profile is one built machine.
 type Profile struct {
@@ -23,6 +26,7 @@ type Profile struct {
 	Motor       Motor        `json:"motor"`
 	Controller  Controller   `json:"controller"`
 	Circuit     Circuit      `json:"circuit"`
+	Oxygen      Oxygen       `json:"oxygen"`
 	Calibration *Calibration `json:"calibration,omitempty"`
 
 	// Defaults lists the paths of the optional fields that the file did not
@@ -86,6 +90,13 @@ type Circuit struct {
 	// LeakLMinAt20CmH2O is the leak flow of machine and circuit at 20 cmH2O,
 	// linear in pressure (format /2; DefaultLeakLMinAt20CmH2O when absent).
 	LeakLMinAt20CmH2O float64 `json:"leak_l_min_at_20_cmh2o"`
+}
+
+// Oxygen is what the oxygen supply beside the machine can give (format /3).
+type Oxygen struct {
+	// MaxFlowLMin is the highest flow the flowmeter feeding the intake can
+	// be set to (DefaultMaxO2FlowLMin, 15 L/min, when absent).
+	MaxFlowLMin float64 `json:"max_flow_l_min"`
 }
 
 // Calibration is the bench calibration: its date and the points measured.

@@ -43,7 +43,8 @@ func TestDemoAGeometry(t *testing.T) {
 	require.True(t, p.Calibration == nil || len(p.Calibration.Points) == 0)
 	// Version 2 fields (DESIGN.md demo data): clearance 1.0 cm, leak 0.
 	require.Equal(t, 1.0, p.Cylinder.ClearanceCm)
-	require.Equal(t, FormatV2, p.Format)
+	require.Equal(t, FormatV3, p.Format)
+	require.Equal(t, 15.0, p.Oxygen.MaxFlowLMin, "the demo's flowmeter (invented; 15 L/min is common practice)")
 	require.Empty(t, p.Defaults)
 }
 
@@ -64,7 +65,8 @@ func TestDemoBGeometry(t *testing.T) {
 		require.InDelta(t, 2.0+0.5*float64(i), h.RadiusCm, 1e-12)
 	}
 	require.Equal(t, 1.5, p.Cylinder.ClearanceCm)
-	require.Equal(t, FormatV2, p.Format)
+	require.Equal(t, FormatV3, p.Format)
+	require.Equal(t, 15.0, p.Oxygen.MaxFlowLMin, "the demo's flowmeter (invented; 15 L/min is common practice)")
 	require.Empty(t, p.Defaults, "the demo writes every field out")
 	require.Equal(t, Motor{Kind: MotorFixed, RPM: 20, RatedTorqueNm: 8}, p.Motor)
 	require.Equal(t, Controller{DwellStepS: 0.1, MaxDwellS: 10}, p.Controller)

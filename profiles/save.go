@@ -10,9 +10,9 @@ import (
 	"crankside/profiles/safetext"
 )
 
-// Marshal writes a profile in the current format (FormatCurrent, version 2),
-// indented, ending in a newline; a version 1 profile is written as version
-// 2 with its defaults written out.
+// Marshal writes a profile in the current format (FormatCurrent, version 3),
+// indented, ending in a newline; an older profile is written as version
+// 3 with its defaults written out.
 func Marshal(p Profile) ([]byte, error) {
 	p.Format = FormatCurrent
 	var b bytes.Buffer

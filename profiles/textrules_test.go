@@ -175,6 +175,11 @@ func TestImplausibleGeometryIsRefusedWithTheRange(t *testing.T) {
 		{"relief too low", set("circuit", "relief_cmh2o", 2), "circuit.relief_cmh2o", "10 to 80 cmH2O"},
 		{"leak negative", set("circuit", "leak_l_min_at_20_cmh2o", -1), "circuit.leak_l_min_at_20_cmh2o", "0 to 30 L/min"},
 		{"leak huge", set("circuit", "leak_l_min_at_20_cmh2o", 300), "circuit.leak_l_min_at_20_cmh2o", "0 to 30 L/min"},
+		// 1-70 L/min: a bleed is set in whole litres and more; 70 is a
+		// high-flow meter (engineering judgement, validate.go).
+		{"flowmeter zero", set("oxygen", "max_flow_l_min", 0), "oxygen.max_flow_l_min", "1 to 70 L/min"},
+		{"flowmeter just under 1", set("oxygen", "max_flow_l_min", 0.99), "oxygen.max_flow_l_min", "1 to 70 L/min"},
+		{"flowmeter just over 70", set("oxygen", "max_flow_l_min", 70.01), "oxygen.max_flow_l_min", "1 to 70 L/min"},
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
@@ -196,35 +201,70 @@ func TestFormatVersions(t *testing.T) {
 	m["format"] = FormatV1
 	delete(obj(m, "cylinder"), "clearance_cm")
 	delete(obj(m, "circuit"), "leak_l_min_at_20_cmh2o")
+	delete(m, "oxygen")
 	p, err := Parse(mustJSON(t, m), "v1.json")
 	require.NoError(t, err)
 	require.Equal(t, 1.0, p.Cylinder.ClearanceCm)
 	require.Equal(t, 0.0, p.Circuit.LeakLMinAt20CmH2O)
-	require.Equal(t, []string{"cylinder.clearance_cm", "circuit.leak_l_min_at_20_cmh2o"}, p.Defaults)
+	require.Equal(t, 15.0, p.Oxygen.MaxFlowLMin, "common practice: flowmeters top out at 15 L/min")
+	require.Equal(t, []string{"cylinder.clearance_cm", "circuit.leak_l_min_at_20_cmh2o", "oxygen.max_flow_l_min"}, p.Defaults)
 	require.True(t, p.Defaulted("cylinder.clearance_cm"))
-	// Written again it is version 2 with both fields, and no default is left.
+	// Written again it is version 3 with every field, and no default is left.
 	out, err := Marshal(p)
 	require.NoError(t, err)
-	require.Contains(t, string(out), `"format": "crankside-profile/2"`)
+	require.Contains(t, string(out), `"format": "crankside-profile/3"`)
+	require.Contains(t, string(out), `"max_flow_l_min": 15`)
 	require.Contains(t, string(out), `"clearance_cm": 1`)
 	require.Contains(t, string(out), `"leak_l_min_at_20_cmh2o": 0`)
 	again, err := Parse(out, "v2.json")
 	require.NoError(t, err)
 	require.Empty(t, again.Defaults)
-	// A /2 file may leave either field out too.
+	// A /3 file may leave any optional field out too.
 	m = demoJSON(t)
 	delete(obj(m, "cylinder"), "clearance_cm")
-	p, err = Parse(mustJSON(t, m), "v2.json")
+	p, err = Parse(mustJSON(t, m), "v3.json")
 	require.NoError(t, err)
 	require.Equal(t, []string{"cylinder.clearance_cm"}, p.Defaults)
+	// A /2 file reads, without the oxygen section, which is then defaulted.
+	m = demoJSON(t)
+	m["format"] = FormatV2
+	delete(m, "oxygen")
+	p, err = Parse(mustJSON(t, m), "v2.json")
+	require.NoError(t, err)
+	require.Equal(t, []string{"oxygen.max_flow_l_min"}, p.Defaults)
 	// A /1 file with a /2 field is refused, saying which format has it.
 	fields := []struct{ section, key string }{{"cylinder", "clearance_cm"}, {"circuit", "leak_l_min_at_20_cmh2o"}}
 	for i, f := range fields {
 		m = demoJSON(t)
 		m["format"] = FormatV1
+		delete(m, "oxygen")
 		other := fields[1-i]
 		delete(obj(m, other.section), other.key)
 		_, err = Parse(mustJSON(t, m), "mixed.json")
 		require.ErrorContains(t, err, fmt.Sprintf("%s.%s: is a field of crankside-profile/2", f.section, f.key))
+	}
+	// A /1 or /2 file with the /3 oxygen section is refused the same way,
+	// whether the section holds its field or is empty.
+	for _, format := range []string{FormatV1, FormatV2} {
+		m = demoJSON(t)
+		m["format"] = format
+		delete(obj(m, "cylinder"), "clearance_cm")
+		delete(obj(m, "circuit"), "leak_l_min_at_20_cmh2o")
+		_, err = Parse(mustJSON(t, m), "old.json")
+		require.ErrorContains(t, err, "oxygen.max_flow_l_min: is a field of crankside-profile/3, but this file says \""+format)
+		m["oxygen"] = map[string]any{}
+		_, err = Parse(mustJSON(t, m), "old.json")
+		require.ErrorContains(t, err, "oxygen: is a field of crankside-profile/3")
+	}
+}
+
+func TestFlowmeterLimitsAreAccepted(t *testing.T) {
+	// The ends of the accepted range 1-70 L/min (validate.go) read.
+	for _, v := range []float64{1, 70} {
+		m := demoJSON(t)
+		obj(m, "oxygen")["max_flow_l_min"] = v
+		p, err := Parse(mustJSON(t, m), "t.json")
+		require.NoError(t, err)
+		require.Equal(t, v, p.Oxygen.MaxFlowLMin)
 	}
 }

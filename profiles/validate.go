@@ -107,6 +107,9 @@ const (
 	maxExpiratoryResistance                  = 50.0      // cmH2O/(L/s), the expiratory and PEEP valves
 	minReliefCmH2O, maxReliefCmH2O           = 10.0, 80.0
 	maxLeakLMin                              = 30.0 // L/min at 20 cmH2O
+	// An oxygen flowmeter: 1 L/min is the least a bleed is set with; 70
+	// L/min is a high-flow meter, far beyond a 15 L/min wall meter.
+	minMaxO2FlowLMin, maxMaxO2FlowLMin = 1.0, 70.0
 )
 
 // plausible checks lo <= v <= hi for a physical size and gives the accepted
@@ -121,14 +124,15 @@ func (c *checker) plausible(path string, v, lo, hi float64, unit string) bool {
 
 func validate(p Profile) []FieldError {
 	c := &checker{}
-	if p.Format != FormatV1 && p.Format != FormatV2 {
-		c.add("format", "%s is not known; this version reads %q and %q", quote(p.Format), FormatV1, FormatV2)
+	if formatRank(p.Format) == 0 {
+		c.add("format", "%s is not known; this version reads %q, %q and %q", quote(p.Format), FormatV1, FormatV2, FormatV3)
 	}
 	validText(c, "id", p.ID, maxIDLen, true)
 	validText(c, "label", p.Label, maxLabelLen*2, false)
 	c.plausible("cylinder.bore_cm", p.Cylinder.BoreCm, minBoreCm, maxBoreCm, "cm")
 	c.plausible("cylinder.ring_friction_n", p.Cylinder.RingFrictionN, 0, maxRingFrictionN, "N")
 	c.plausible("cylinder.clearance_cm", p.Cylinder.ClearanceCm, minClearanceCm, maxClearanceCm, "cm")
+	c.plausible("oxygen.max_flow_l_min", p.Oxygen.MaxFlowLMin, minMaxO2FlowLMin, maxMaxO2FlowLMin, "L/min")
 	rodOK := c.plausible("crank.rod_cm", p.Crank.RodCm, minRodCm, maxRodCm, "cm")
 	offsetOK := c.plausible("crank.offset_cm", p.Crank.OffsetCm, -maxOffsetCm, maxOffsetCm, "cm")
 

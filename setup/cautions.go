@@ -148,6 +148,9 @@ type assessment struct {
 	// clearanceNote is set when the profile's cylinder clearance was a
 	// default (GasModel.ClearanceNote).
 	clearanceNote string
+	// hz is what the hazards of an improvised unit need
+	// (cautions_hazards.go).
+	hz hazards
 }
 
 // assess computes every caution for a setting, most serious first.
@@ -156,22 +159,19 @@ func assess(a assessment) []Caution {
 	add := func(c Caution) { out = append(out, c) }
 	f := a.f
 
-	if a.heightCm < physiology.DevineBaseCm {
-		add(Caution{ID: "height-below-formula", Level: Warn, Value: a.heightCm, Limit: physiology.DevineBaseCm, Unit: "cm",
-			Message: fmt.Sprintf("height %.1f cm is below %.1f cm (60 in), where the PBW formula is extrapolated", a.heightCm, physiology.DevineBaseCm),
-			Advice:  "check PBW against local tables for short stature", Source: "Devine 1974, ARDS Network 2000"})
-	}
+	out = append(out, patientTriggeringCaution(a)...)
+	out = append(out, heightCaution(a)...)
 
 	mlkg := f.Hole.MLPerKg
 	switch {
 	case mlkg >= VtStopMLPerKg:
 		add(Caution{ID: "tidal-volume-high", Level: Stop, Value: mlkg, Limit: VtStopMLPerKg, Unit: "mL/kg PBW",
 			Message: fmt.Sprintf("tidal volume %.1f mL/kg PBW is at or above %.0f", mlkg, VtStopMLPerKg),
-			Advice:  "use a smaller hole", Source: srcARDSNet})
+			Advice:  smallerHoleAdvice(a, true), Source: srcARDSNet})
 	case mlkg > VtWarnMLPerKg:
 		add(Caution{ID: "tidal-volume-high", Level: Warn, Value: mlkg, Limit: VtWarnMLPerKg, Unit: "mL/kg PBW",
 			Message: fmt.Sprintf("tidal volume %.1f mL/kg PBW is above %.0f", mlkg, VtWarnMLPerKg),
-			Advice:  "lung-protective range is 4-8 mL/kg; consider a smaller hole", Source: srcARDSNet})
+			Advice:  smallerHoleAdvice(a, false), Source: srcARDSNet})
 	case mlkg < VtStopLowMLPerKg:
 		add(Caution{ID: "tidal-volume-low", Level: Stop, Value: mlkg, Limit: VtStopLowMLPerKg, Unit: "mL/kg PBW",
 			Message: fmt.Sprintf("tidal volume %.1f mL/kg PBW is below %.0f: little or no gas passes the dead space", mlkg, VtStopLowMLPerKg),
@@ -194,22 +194,15 @@ func assess(a assessment) []Caution {
 	out = append(out, timingCautions(a)...)
 	out = append(out, ventilationCautions(a)...)
 	out = append(out, reliefCautions(a.reliefCmH2O)...)
-	if a.targetMLPerK > 0 && math.Abs(a.offTargetPct) > HoleOffTargetPct {
-		add(Caution{ID: "hole-off-target", Level: Warn, Value: a.offTargetPct, Limit: HoleOffTargetPct, Unit: "%",
-			Message: fmt.Sprintf("the nearest hole delivers %+.0f%% off the target volume (more than %.0f%%)", a.offTargetPct, HoleOffTargetPct),
-			Advice:  "no hole on this machine is closer; review the target", Source: srcCommon})
-	}
+	out = append(out, holeCautions(a)...)
 	out = append(out, calibrationCautions(a.cal)...)
 	if a.clearanceNote != "" {
 		add(Caution{ID: "clearance-default", Level: Note, Value: 0, Limit: 0, Unit: "cm",
 			Message: a.clearanceNote, Advice: "measure the gap between the piston at its top and the cylinder head; put it in the profile",
 			Source: srcProfile + " (format /2 default)"})
 	}
-	if f.CylinderGiven && f.CylinderMinutes < CylinderMinMinutes {
-		add(Caution{ID: "o2-cylinder-low", Level: Warn, Value: f.CylinderMinutes, Limit: CylinderMinMinutes, Unit: "min",
-			Message: fmt.Sprintf("oxygen cylinder lasts %.0f min at %.1f L/min (under 2 hours)", f.CylinderMinutes, f.O2FlowLPerMin),
-			Advice:  "arrange a full cylinder now", Source: srcCommon})
-	}
+	out = append(out, o2FlowCautions(a)...)
+	out = append(out, cylinderCautions(a)...)
 	if a.ratedTorque > 0 {
 		share := f.TorqueShareOfRating
 		switch {
@@ -460,7 +453,7 @@ func ventilationCautions(a assessment) []Caution {
 	if ve < MinuteVentLowMLPerKgMin {
 		out = append(out, Caution{ID: "minute-ventilation-low", Level: Warn, Value: ve, Limit: MinuteVentLowMLPerKgMin, Unit: "mL/kg PBW/min",
 			Message: fmt.Sprintf("minute ventilation %.0f mL/kg PBW/min (%.1f L/min) is below %.0f mL/kg/min", ve, ve*a.pbwKg/1000, MinuteVentLowMLPerKgMin),
-			Advice:  "expect CO2 to rise: raise the rate or the volume; check blood gas", Source: srcCommon + " (about 100 mL/kg/min is usual)"})
+			Advice:  lowVentilationAdvice(a), Source: srcCommon + " (about 100 mL/kg/min is usual)"})
 	}
 	switch {
 	case va <= 0:

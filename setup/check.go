@@ -75,6 +75,12 @@ type CheckRequest struct {
 	Proposal             Proposal
 	CylinderWaterL       float64
 	CylinderBar          float64
+	// CylinderReserveBar is where the cylinder's time runs to; 0:
+	// DefaultCylinderReserveBar.
+	CylinderReserveBar float64
+	// BreathingAgainst: the patient is breathing against the unit (the
+	// patient-triggering stop).
+	BreathingAgainst bool
 	// Gas is the blood gas and oximeter; with any reading the check also
 	// computes the protocol's next step (see RunCheck).
 	Gas GasReadings
@@ -197,7 +203,8 @@ func runCheck(req CheckRequest, p profiles.Profile) (Check, error) {
 		return Check{}, err
 	}
 	r, err := resolveTargets(Targets{Lung: req.Lung, ComplianceMLPerCmH2O: req.ComplianceMLPerCmH2O,
-		ResistanceCmH2OPerLS: req.ResistanceCmH2OPerLS, CylinderWaterL: req.CylinderWaterL, CylinderBar: req.CylinderBar})
+		ResistanceCmH2OPerLS: req.ResistanceCmH2OPerLS, CylinderWaterL: req.CylinderWaterL, CylinderBar: req.CylinderBar,
+		CylinderReserveBar: req.CylinderReserveBar})
 	if err != nil {
 		return Check{}, err
 	}
@@ -210,6 +217,7 @@ func runCheck(req CheckRequest, p profiles.Profile) (Check, error) {
 		return Check{}, err
 	}
 	u.gas = withRoom(u.gas, room, req.v1Gas)
+	u.cylinderReserveBar = r.reserve.Value
 	if err := canonicalHoles(&req, p); err != nil {
 		return Check{}, err
 	}
@@ -333,7 +341,7 @@ func evaluateSetting(u unit, s Setting, lung machine.Lung, pbw float64, req Chec
 		return Evaluation{}, &InputError{Field: "setting", Reason: err.Error()}
 	}
 	cs := assess(assessment{heightCm: req.Patient.HeightCm, pbwKg: pbw, f: f, reliefCmH2O: u.p.Circuit.ReliefCmH2O, clearanceNote: u.gas.ClearanceNote(),
-		cal: u.cal, ratedTorque: u.p.Motor.RatedTorqueNm, fixedMotor: u.p.Motor.Fixed()})
+		cal: u.cal, ratedTorque: u.p.Motor.RatedTorqueNm, fixedMotor: u.p.Motor.Fixed(), hz: checkHazards(u, s, req)})
 	return Evaluation{Setting: s, Figures: f, Cautions: cs}, nil
 }
 

@@ -171,9 +171,11 @@ func TestCheckCylinderAndFiO2(t *testing.T) {
 	// FiO2 = 0.21 + 0.79 x 2 / (what the piston draws) (DESIGN version 2,
 	// derived): hole 8 sweeps 439.823 mL (no calibration on demo-a) at
 	// 2100/149 = 14.094/min, 6.1988 L/min: 0.21 + 1.58 / 6.1988 = 0.46489;
-	// 2 L x 30 bar = 60 L -> 30 min (common practice).
+	// 2 L x 30 bar = 60 L -> 30 min to empty (common practice); 30 bar is
+	// already below the default reserve of 40 bar, so 0 min to it.
 	require.InDelta(t, 0.46489, f.FiO2, 0.0001, "FiO2 at the piston's intake (derived)")
-	require.InDelta(t, 30, f.CylinderMinutes, 1e-9)
+	require.InDelta(t, 30, f.CylinderEmptyMinutes, 1e-9)
+	require.InDelta(t, 0, f.CylinderMinutes, 1e-9)
 	require.True(t, hasCaution(ck.Current.Cautions, "o2-cylinder-low"))
 }
 

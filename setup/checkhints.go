@@ -29,6 +29,8 @@ func CheckHint(name string) string {
 		return "the manometer when the piston stops (end of delivery); with the peak, or neither"
 	case "cylinder-l", "cylinder-bar":
 		return "optional: the cylinder's capacity and pressure together"
+	case "cylinder-reserve-bar", "breathing-against":
+		return Hint(name, physiology.Normal)
 	case "propose-hole", "propose-rpm", "propose-dwell-s", "propose-peep", "propose-o2-lpm":
 		return "a change to evaluate beside the setting; blank: as now"
 	}

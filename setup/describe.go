@@ -7,6 +7,7 @@ import (
 	"time"
 
 	"crankside/machine"
+	"crankside/physiology"
 	"crankside/profiles"
 )
 
@@ -25,6 +26,9 @@ type ProfileSummary struct {
 	Holes       []HoleGeometry
 	Calibration CalibrationStatus
 	InLine      bool
+	// MaxO2FlowLPerMin is the flowmeter's maximum, with where it comes
+	// from (the profile, or the default of common practice).
+	MaxO2FlowLPerMin physiology.Value
 	// Cautions are the profile's own (ProfileCautions): a relief valve
 	// above 40 cmH2O, and the calibration's: missing, old, dated ahead,
 	// points outside tolerance, too few holes, an implausible k, an
@@ -40,6 +44,8 @@ func DescribeProfile(p profiles.Profile, now time.Time) (ProfileSummary, error) 
 		return ProfileSummary{}, err
 	}
 	s := ProfileSummary{Profile: p, Calibration: u.cal, InLine: p.Crank.OffsetCm == 0, Cautions: profileCautions(p, u.cal)}
+	hz := hazardsOf(p, "", 0)
+	s.MaxO2FlowLPerMin = physiology.Value{Value: hz.maxO2FlowLPerMin, Source: hz.maxO2FlowSource}
 	for _, h := range p.Crank.Holes {
 		c := u.crank(h)
 		swept := machine.SweptVolumeML(p.Cylinder.BoreCm, c)
@@ -68,6 +74,7 @@ func (s ProfileSummary) WriteText(w io.Writer) error {
 	fmt.Fprintf(&b, "Controller  dwell in %.2f s steps up to %.1f s\n", p.Controller.DwellStepS, p.Controller.MaxDwellS)
 	fmt.Fprintf(&b, "Circuit     compliance %.2f mL/cmH2O, expiratory valve %.1f cmH2O/(L/s), relief %.0f cmH2O, leak %.2f L/min at 20 cmH2O\n",
 		p.Circuit.ComplianceMLPerCmH2O, p.Circuit.ExpiratoryResistanceCmH2OPerLS, p.Circuit.ReliefCmH2O, p.Circuit.LeakLMinAt20CmH2O)
+	fmt.Fprintf(&b, "Oxygen      flowmeter up to %.1f L/min (%s)\n", s.MaxO2FlowLPerMin.Value, s.MaxO2FlowLPerMin.Source)
 	c := s.Calibration
 	switch {
 	case c.Fit == nil && c.Date == "":

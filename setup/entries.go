@@ -78,6 +78,7 @@ var planSpecs = []EntrySpec{
 	{Name: "resistance", Label: "Resistance", Unit: "cmH2O/(L/s)", ZeroIsDefault: true},
 	{Name: "cylinder-l", Label: "Cylinder", Unit: "L", ZeroIsDefault: true},
 	{Name: "cylinder-bar", Label: "Cylinder", Unit: "bar"},
+	{Name: "cylinder-reserve-bar", Label: "Cylinder reserve", Unit: "bar", ZeroIsDefault: true},
 	{Name: "room-c", Label: "Room temperature", Unit: "C"},
 	{Name: "room-rh", Label: "Room humidity", Unit: "%"},
 	{Name: "barometric-mmhg", Label: "Barometer", Unit: "mmHg"},
@@ -102,8 +103,10 @@ var checkSpecs = []EntrySpec{
 	{Name: "o2-lpm", Label: "O2 flow", Unit: "L/min"},
 	{Name: "peak", Label: "Peak reading", Unit: "cmH2O"},
 	{Name: "end-pressure", Label: "End reading", Unit: "cmH2O"},
+	{Name: "breathing-against", Label: "Breathing against the unit", Kind: kindChoice},
 	{Name: "cylinder-l", Label: "Cylinder", Unit: "L", ZeroIsDefault: true},
 	{Name: "cylinder-bar", Label: "Cylinder", Unit: "bar"},
+	{Name: "cylinder-reserve-bar", Label: "Cylinder reserve", Unit: "bar", ZeroIsDefault: true},
 	{Name: "spo2", Label: "SpO2", Unit: "%"},
 	{Name: "pao2", Label: "PaO2", Unit: "mmHg"},
 	{Name: "ph", Label: "pH"},
@@ -261,6 +264,7 @@ func BuildRequest(e Entries, now time.Time) (Request, Problems) {
 		t.IE = ie
 	}
 	t.CylinderWaterL, t.CylinderBar = r.cylinder()
+	t.CylinderReserveBar = r.cylinderReserve()
 	req.Targets = t
 	req.Room = r.room()
 	r.rangeProblems(req.Targets)
@@ -360,6 +364,8 @@ func BuildCheckRequest(e Entries, now time.Time) (CheckRequest, Problems) {
 		r.fail("peak", "peak and end-pressure go together: give both manometer readings or neither")
 	}
 	req.CylinderWaterL, req.CylinderBar = r.cylinder()
+	req.CylinderReserveBar = r.cylinderReserve()
+	req.BreathingAgainst = r.yesNo("breathing-against", false)
 	req.Room = r.room()
 	if v, ok := r.number("manometer-step"); ok {
 		if err := checkRange("manometer-step", "manometer step", v, ManometerStepMinCmH2O, ManometerStepMaxCmH2O, "cmH2O"); err != nil {
@@ -436,6 +442,10 @@ func Hint(name string, lung physiology.Lung) string {
 		return def(v, "%g")
 	case "manometer-step":
 		return def(physiology.Value{Value: DefaultManometerStepCmH2O, Source: srcManometerStep}, "%g cmH2O")
+	case "cylinder-reserve-bar":
+		return def(physiology.Value{Value: DefaultCylinderReserveBar, Source: srcDefaultReserve}, "%g bar")
+	case "breathing-against":
+		return BreathingAgainstQuestion + " y or n; blank: no"
 	}
 	if strings.HasPrefix(name, "propose-") {
 		return "blank: as now"

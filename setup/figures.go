@@ -42,10 +42,15 @@ type Figures struct {
 	PeakTorqueNm        float64
 	TorqueShareOfRating float64 // peak torque / the motor's rating
 
-	FiO2            float64 // estimate from the oxygen bled in, at the piston's intake (effective swept x rate)
-	O2FlowLPerMin   float64
-	CylinderMinutes float64 // +Inf when no cylinder was entered or no oxygen flows
-	CylinderGiven   bool
+	FiO2          float64 // estimate from the oxygen bled in, at the piston's intake (effective swept x rate)
+	O2FlowLPerMin float64
+	// CylinderMinutes is the time to the cylinder's reserve
+	// (CylinderReserveBar), CylinderEmptyMinutes to empty; +Inf when no
+	// cylinder was entered or no oxygen flows.
+	CylinderMinutes      float64
+	CylinderEmptyMinutes float64
+	CylinderReserveBar   float64
+	CylinderGiven        bool
 
 	// Version 2: the delivered volume, mL/kg, trapped volume and plateau
 	// are at body conditions (BTPS); DeliveredRoomML is the room air that
@@ -176,6 +181,7 @@ func fillFigures(f *Figures, u unit, r machine.StrokeResult, ls lungState, o2LPe
 		f.CylinderGiven = true
 		f.CylinderMinutes = physiology.CylinderMinutesLeft(cylL, cylBar, o2LPerMin)
 	}
+	applyCylinderReserve(f, cylL, cylBar, u.cylinderReserveBar)
 	f.BTPSFactor, f.DeliveredRoomML = r.Gas.BTPSFactor, r.Gas.DeliveredRoomML
 	if f.BTPSFactor == 0 { // a zero gas path: the version 1 model, room at body conditions
 		f.BTPSFactor, f.DeliveredRoomML = 1, r.DeliveredML

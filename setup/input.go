@@ -29,6 +29,9 @@ type Targets struct {
 	// Oxygen cylinder, optional: both zero means none entered.
 	CylinderWaterL float64
 	CylinderBar    float64
+	// CylinderReserveBar is where the cylinder's time runs to; 0:
+	// DefaultCylinderReserveBar.
+	CylinderReserveBar float64
 }
 
 // Request is one plan to make.
@@ -98,6 +101,7 @@ type resolved struct {
 	compliance physiology.Value
 	resistance physiology.Value
 	table      physiology.TablePEEP
+	reserve    physiology.Value // the cylinder's reserve, bar
 }
 
 const entered = "entered"
@@ -154,6 +158,9 @@ func resolveTargets(t Targets) (resolved, error) {
 			Source: fmt.Sprintf("ARDSNet 2000 lower-PEEP/FiO2 table at FiO2 %.1f", r.table.FiO2Step)}
 	default:
 		r.peep = d.PEEPCmH2O
+	}
+	if r.reserve, err = resolveReserve(t.CylinderReserveBar); err != nil {
+		return r, err
 	}
 	if t.CylinderWaterL != 0 || t.CylinderBar != 0 {
 		if err := checkRange("cylinder-l", "cylinder water capacity", t.CylinderWaterL, CylinderWaterMinL, CylinderWaterMaxL, "L"); err != nil {

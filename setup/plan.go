@@ -35,6 +35,8 @@ type Plan struct {
 	Compliance physiology.Value
 	Resistance physiology.Value
 	PEEPTable  physiology.TablePEEP
+	// CylinderReserve is where the cylinder's time runs to, bar.
+	CylinderReserve physiology.Value
 
 	PBWKg      float64
 	TargetVtML float64
@@ -92,6 +94,7 @@ func MakePlan(req Request, p profiles.Profile) (Plan, error) {
 		return Plan{}, err
 	}
 	u.gas = withRoom(u.gas, room, req.v1Gas)
+	u.cylinderReserveBar = r.reserve.Value
 	targetML, err := physiology.TidalVolumeML(r.mlPerKg.Value, pbw)
 	if err != nil {
 		return Plan{}, inputErr("ml-per-kg", err)
@@ -99,7 +102,7 @@ func MakePlan(req Request, p profiles.Profile) (Plan, error) {
 	pl := Plan{Gas: u.gas,
 		Patient: req.Patient, ProfileID: p.ID, ProfileLabel: p.Label, Calibration: u.cal,
 		Lung: r.lung, MLPerKg: r.mlPerKg, Rate: r.rate, IE: r.ie, PEEP: r.peep, FiO2: r.fio2,
-		Compliance: r.compliance, Resistance: r.resistance, PEEPTable: r.table,
+		Compliance: r.compliance, Resistance: r.resistance, PEEPTable: r.table, CylinderReserve: r.reserve,
 		PBWKg: pbw, TargetVtML: targetML, Converted: req.Converted,
 	}
 	ls := lungState{
@@ -130,6 +133,7 @@ func MakePlan(req Request, p profiles.Profile) (Plan, error) {
 		heightCm: req.Patient.HeightCm, pbwKg: pbw, f: pl.Figures, reliefCmH2O: p.Circuit.ReliefCmH2O, clearanceNote: u.gas.ClearanceNote(),
 		timing: &pl.Timing, targetMLPerK: r.mlPerKg.Value, offTargetPct: pl.OffTargetPct,
 		cal: u.cal, ratedTorque: p.Motor.RatedTorqueNm, fixedMotor: p.Motor.Fixed(),
+		hz: planHazards(p, pl, r),
 	})
 	pl.Watch = watchOf(pl.Figures, p.Circuit.ReliefCmH2O, physiology.Value{Value: DefaultManometerStepCmH2O, Source: srcManometerStep}, false)
 	pl.TimingCheck = timingCheckOf(pl.Figures)

@@ -94,6 +94,7 @@ func ProtocolProposal(req CheckRequest, readings GasReadings, p profiles.Profile
 		return ProtocolStepResult{}, err
 	}
 	u.gas = ck.Gas // the check's room, cylinder, leak and relief valve
+	u.cylinderReserveBar = ck.Current.Figures.CylinderReserveBar
 	cur := ck.Current
 	plateauSrc := "predicted; compliance " + ck.Mechanics.Source
 	if ck.Fitted != nil {
@@ -354,7 +355,7 @@ func (res *ProtocolStepResult) evaluateProposed(u unit, ls lungState, req CheckR
 		return Evaluation{}, &InputError{Field: "readings", Reason: "the protocol's step: " + err.Error()}
 	}
 	a := assessment{heightCm: req.Patient.HeightCm, pbwKg: ls.pbwKg, f: f, reliefCmH2O: u.p.Circuit.ReliefCmH2O,
-		cal: u.cal, ratedTorque: u.p.Motor.RatedTorqueNm, fixedMotor: u.p.Motor.Fixed()}
+		cal: u.cal, ratedTorque: u.p.Motor.RatedTorqueNm, fixedMotor: u.p.Motor.Fixed(), hz: checkHazards(u, s, req)}
 	if res.Timing != nil {
 		tp := *res.Timing
 		tp.Timing = t

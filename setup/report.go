@@ -23,22 +23,26 @@ type DefaultJSON struct {
 
 // FiguresJSON are one setting's figures, as every JSON object prints them.
 type FiguresJSON struct {
-	Hole                        string   `json:"hole"`
-	SweptML                     float64  `json:"swept_ml"`
-	EffectiveSweptML            float64  `json:"effective_swept_ml"`
-	DeliveredVtML               float64  `json:"delivered_vt_ml"`
-	MLPerKg                     float64  `json:"ml_per_kg"`
-	RateBPM                     float64  `json:"rate_bpm"`
-	MotorRPM                    float64  `json:"motor_rpm"`
-	DwellS                      float64  `json:"dwell_s"`
-	TiS                         float64  `json:"ti_s"`
-	TeS                         float64  `json:"te_s"`
-	IERatio                     float64  `json:"ie_ratio"`
-	PEEPCmH2O                   float64  `json:"peep_cmh2o"`
-	FiO2                        float64  `json:"fio2"`
-	O2FlowLMin                  float64  `json:"o2_flow_l_min"`
-	CylinderMinutes             *float64 `json:"cylinder_minutes"` // null with no cylinder or no oxygen flowing
-	CylinderEntered             bool     `json:"cylinder_entered,omitempty"`
+	Hole             string   `json:"hole"`
+	SweptML          float64  `json:"swept_ml"`
+	EffectiveSweptML float64  `json:"effective_swept_ml"`
+	DeliveredVtML    float64  `json:"delivered_vt_ml"`
+	MLPerKg          float64  `json:"ml_per_kg"`
+	RateBPM          float64  `json:"rate_bpm"`
+	MotorRPM         float64  `json:"motor_rpm"`
+	DwellS           float64  `json:"dwell_s"`
+	TiS              float64  `json:"ti_s"`
+	TeS              float64  `json:"te_s"`
+	IERatio          float64  `json:"ie_ratio"`
+	PEEPCmH2O        float64  `json:"peep_cmh2o"`
+	FiO2             float64  `json:"fio2"`
+	O2FlowLMin       float64  `json:"o2_flow_l_min"`
+	CylinderMinutes  *float64 `json:"cylinder_minutes"` // null with no cylinder or no oxygen flowing
+	CylinderEntered  bool     `json:"cylinder_entered,omitempty"`
+	// cylinder_minutes runs to the reserve (cylinder_reserve_bar);
+	// cylinder_minutes_to_empty to 0 bar, after which FiO2 falls to 0.21.
+	CylinderMinutesToEmpty      *float64 `json:"cylinder_minutes_to_empty,omitempty"`
+	CylinderReserveBar          float64  `json:"cylinder_reserve_bar,omitempty"`
 	ComplianceMLPerCmH2O        float64  `json:"compliance_ml_per_cmh2o"`
 	ResistanceCmH2OPerLS        float64  `json:"resistance_cmh2o_per_l_s"`
 	MinuteVentilationLMin       float64  `json:"minute_ventilation_l_min"`
@@ -82,8 +86,9 @@ func figuresJSON(f Figures) FiguresJSON {
 	}
 	j.CylinderEntered = f.CylinderGiven
 	if f.CylinderGiven && !math.IsInf(f.CylinderMinutes, 0) {
-		m := r4(f.CylinderMinutes)
-		j.CylinderMinutes = &m
+		m, e := r4(f.CylinderMinutes), r4(f.CylinderEmptyMinutes)
+		j.CylinderMinutes, j.CylinderMinutesToEmpty = &m, &e
+		j.CylinderReserveBar = r4(f.CylinderReserveBar)
 	}
 	return j
 }
@@ -169,6 +174,7 @@ func (pl Plan) JSON() PlanJSON {
 			"fio2":                     {r4(pl.FiO2.Value), pl.FiO2.Source},
 			"compliance_ml_per_cmh2o":  {r4(pl.Compliance.Value), pl.Compliance.Source},
 			"resistance_cmh2o_per_l_s": {r4(pl.Resistance.Value), pl.Resistance.Source},
+			"cylinder_reserve_bar":     {r4(pl.CylinderReserve.Value), pl.CylinderReserve.Source},
 		},
 		Changes: roundChanges(pl.Changes), Cautions: roundCautions(pl.Cautions), ClinicalCaution: ClinicalCaution,
 		GasJSON: gasJSON(pl.Gas), EntriesConverted: pl.Converted,

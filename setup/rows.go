@@ -49,7 +49,7 @@ var figureRows = []rowSpec{
 	{id: "end_inspiratory_pressure_cmh2o", label: "End-insp.", unit: "cmH2O", format: "%.1f", get: func(f FiguresJSON) float64 { return f.EndInspiratoryPressureCmH2O }},
 	{id: "trapped_ml", label: "Trapped gas", unit: "mL", format: "%.0f", get: func(f FiguresJSON) float64 { return f.TrappedVolumeML }},
 	{id: "fio2", label: "FiO2 (est.)", format: "%.2f", get: func(f FiguresJSON) float64 { return f.FiO2 }},
-	{id: "cylinder_minutes", label: "O2 cylinder", unit: "min", format: "%.0f", get: func(f FiguresJSON) float64 {
+	{id: "cylinder_minutes", label: "O2 to reserve", unit: "min", format: "%.0f", get: func(f FiguresJSON) float64 {
 		if f.CylinderMinutes == nil {
 			return 0
 		}

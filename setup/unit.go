@@ -23,6 +23,9 @@ type unit struct {
 	// stepS is the time step of every stroke evaluate runs (0: the model's
 	// 1 ms); the fit ranges' corners use ScanStepS.
 	stepS float64
+	// cylinderReserveBar is where an oxygen cylinder's time runs to
+	// (cautions_hazards.go); set with the request's cylinder.
+	cylinderReserveBar float64
 }
 
 // CalibrationStatus is what the profile's bench calibration says.

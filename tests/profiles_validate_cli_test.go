@@ -30,7 +30,7 @@ func TestProfilesValidatePrintsTheProfilesWarnings(t *testing.T) {
 	r = crankside(t, "profiles", "validate", path)
 	require.Equal(t, 0, r.status, r.stderr)
 	lines := strings.Split(strings.TrimSpace(r.stdout), "\n")
-	require.Contains(t, lines[0], "valid crankside-profile/2 profile")
+	require.Contains(t, lines[0], "valid crankside-profile/3 profile")
 	require.Contains(t, r.stdout, path+": WARN relief-above-40:")
 	require.Contains(t, r.stdout, path+": WARN crank.holes[1].label:")
 	require.Contains(t, r.stdout, path+": WARN calibration-missing:")

@@ -78,6 +78,11 @@ func newHandoverPanel(s *Styles) *handoverPanel {
 			numberField("pause-s", "Pause s", "s", "in place of dwell"),
 			numberField("breaths-per-min", "Count/min", "/min", "counted, in place of dwell"),
 		}},
+		// Asked at every check: this unit cannot follow a patient's
+		// breath (setup's patient-triggering stop).
+		section{title: "BREATHING AGAINST THE UNIT?", fields: []*field{
+			choiceField("breathing-against", "Fights unit", "", -1, choice{"y", "yes", "yes"}, choice{"n", "no", "no"}),
+		}},
 	)
 	f.compact = true
 	p := &handoverPanel{keys: newHandoverKeys(), bed: newBedsideKeys()}

@@ -163,6 +163,7 @@ func (p *machinePanel) View() string {
 	add(s.kv("Dwell timer", fmt.Sprintf("%.2g", pr.Controller.DwellStepS), "s steps") + s.Unit.Render(fmt.Sprintf(", up to %.1f s", pr.Controller.MaxDwellS)))
 	add(s.kv("Circuit", f2(pr.Circuit.ComplianceMLPerCmH2O), "mL/cmH2O") +
 		s.Unit.Render(fmt.Sprintf(", exp. valve %.1f cmH2O/(L/s), relief %.0f cmH2O, leak %.2g L/min at 20 cmH2O", pr.Circuit.ExpiratoryResistanceCmH2OPerLS, pr.Circuit.ReliefCmH2O, pr.Circuit.LeakLMinAt20CmH2O)))
+	add(s.kv("Oxygen", "up to "+f1(sum.MaxO2FlowLPerMin.Value), "L/min") + s.Unit.Render(" ("+sum.MaxO2FlowLPerMin.Source+")"))
 	c := sum.Calibration
 	if c.Fit == nil {
 		add(s.kv("Calibration", "none", "") + s.Unit.Render(" (k 1, b 0 mL: geometric volumes)"))

@@ -67,6 +67,8 @@ func checkFlagSet() (*flags, checkOptions) {
 	f.entry("resistance", "assumed resistance when no readings are given (not used when the readings give the lung)")
 	f.entry("cylinder-l", "oxygen cylinder water capacity, L (with --cylinder-bar)")
 	f.entry("cylinder-bar", "oxygen cylinder pressure, bar (with --cylinder-l)")
+	f.entry("cylinder-reserve-bar", "change the cylinder at this pressure, bar (1-150; default 40: about a fifth of a full cylinder, common practice)")
+	f.entryBool("breathing-against", "the patient is breathing against the unit (a stop: this unit cannot follow the patient's breaths)")
 	f.entry("room-c", "room temperature in C for the BTPS factor (0-45; default 22, common practice)")
 	f.entry("room-rh", "room relative humidity in % (0-100; default 50, common practice)")
 	f.entry("barometric-mmhg", "barometric pressure in mmHg (450-800; default 760, sea level: enter the local barometer)")

@@ -206,6 +206,14 @@ func (f *flags) entry(name, usage string) {
 	f.order = append(f.order, name)
 }
 
+// entryBool declares a yes/no flag (--name, or --name=false) whose "true"
+// or "false" goes to the entry builder.
+func (f *flags) entryBool(name, usage string) {
+	f.fs.Var(&onceBool{once{name: name, dst: f.entries}}, name, usage)
+	f.fs.Lookup(name).DefValue = "false"
+	f.order = append(f.order, name)
+}
+
 // text declares a flag read by the command itself, with a default shown in
 // the help.
 func (f *flags) text(name, def, usage string) func() string {

@@ -41,6 +41,7 @@ func planFlagSet(name, usage string) (f *flags, profile, dir func() string) {
 	f.entry("resistance", "airway resistance with tube in cmH2O/(L/s) (default by lung)")
 	f.entry("cylinder-l", "oxygen cylinder water capacity in L (optional, with --cylinder-bar)")
 	f.entry("cylinder-bar", "oxygen cylinder pressure in bar (with --cylinder-l)")
+	f.entry("cylinder-reserve-bar", "change the cylinder at this pressure, bar (1-150; default 40: about a fifth of a full cylinder, common practice)")
 	f.entry("room-c", "room temperature in C for the BTPS factor (0-45; default 22, common practice)")
 	f.entry("room-rh", "room relative humidity in % (0-100; default 50, common practice)")
 	f.entry("barometric-mmhg", "barometric pressure in mmHg (450-800; default 760, sea level: enter the local barometer)")
