@@ -192,6 +192,9 @@ func runCheck(env Env) int {
 
 // outputProblem says which of --json, --card and --sheet clash, or "".
 func (o checkOptions) outputProblem() string {
+	if o.card() && o.asJSON() {
+		return "--card and --json do not go together: the card is plain text; give one of them"
+	}
 	n := 0
 	for _, on := range []bool{o.asJSON(), o.card(), o.sheet()} {
 		if on {
