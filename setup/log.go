@@ -129,6 +129,10 @@ type HistoryEntry struct {
 	Record  Record   `json:"record"`
 	Changes []string `json:"changes"`
 	Log     string   `json:"log,omitempty"` // the log (terminal) it came from, when read by ReadHistories
+	// Conflict notes checks of the bed from other logs within
+	// ConflictWindow of this one: "conflict: two checks at 14:05 UTC from
+	// a.jsonl and b.jsonl".
+	Conflict string `json:"conflict,omitempty"`
 }
 
 func recordChanges(a, b Record) []string {

@@ -14,16 +14,20 @@ type histItem struct {
 	log    string
 	logIdx int
 	line   int
+	key    [sha256.Size]byte
 }
 
-// itemBefore orders records by time; at equal times a record from a log
-// listed earlier counts as the later one (so a record copied into several
-// logs is shown as from the first log listed), then by line.
+// itemBefore orders records by time; at equal times by log path (see
+// orderBefore), then by line.
 func itemBefore(a, b histItem) bool {
-	return orderBefore(a.rec.Time, a.logIdx, a.line, b.rec.Time, b.logIdx, b.line)
+	return orderBefore(a.rec.Time, a.log, a.line, b.rec.Time, b.log, b.line)
 }
 
-func orderBefore(atA time.Time, logA, lineA int, atB time.Time, logB, lineB int) bool {
+// orderBefore orders records by time; at equal times a record from a log
+// whose path sorts first counts as the later one, whatever the order the
+// logs were named in (so that the order of --log flags never changes
+// what a bed shows), then by line.
+func orderBefore(atA time.Time, logA string, lineA int, atB time.Time, logB string, lineB int) bool {
 	if !atA.Equal(atB) {
 		return atA.Before(atB)
 	}
@@ -35,9 +39,14 @@ func orderBefore(atA time.Time, logA, lineA int, atB time.Time, logB, lineB int)
 
 type historyReader struct {
 	bed    string
-	needle []byte // the bed label, for a pre-check before decoding
-	keep   int    // records kept per bed (0: all)
-	keys   map[[sha256.Size]byte]struct{}
+	needle []byte                       // the bed label, for a pre-check before decoding
+	keep   int                          // records kept per bed (0: all)
+	keys   map[[sha256.Size]byte]string // a record's key: the log its kept copy came from
+	// ahead, when not zero, is the time after which a record is from the
+	// future (see FutureSkew): such records are kept apart, in future
+	// (the newest of each bed), and never stand as a bed's newest.
+	ahead  time.Time
+	future map[string]histItem
 	byBed  map[string][]histItem
 	total  map[string]int
 	sum    *LogSummary
@@ -65,18 +74,45 @@ func (h *historyReader) take(log string, logIdx int, d decodedLine) {
 	if h.bed != "" && bed != h.bed {
 		return
 	}
-	if _, dup := h.keys[d.key]; dup {
+	if kept, dup := h.keys[d.key]; dup {
 		h.sum.Duplicates++
+		if log < kept {
+			h.keys[d.key] = log
+			h.moveCopy(bed, d.key, log, logIdx, d.n)
+		}
 		return
 	}
-	h.keys[d.key] = struct{}{}
+	h.keys[d.key] = log
 	h.sum.Records++
 	h.total[bed]++
-	items := append(h.byBed[bed], histItem{rec: rec, log: log, logIdx: logIdx, line: d.n})
+	it := histItem{rec: rec, log: log, logIdx: logIdx, line: d.n, key: d.key}
+	if !h.ahead.IsZero() && rec.Time.After(h.ahead) {
+		if old, ok := h.future[bed]; !ok || itemBefore(old, it) {
+			h.future[bed] = it
+		}
+		return
+	}
+	items := append(h.byBed[bed], it)
 	if h.keep > 0 && len(items) > 2*h.keep+16 {
 		items = newest(items, h.keep)
 	}
 	h.byBed[bed] = items
+}
+
+// moveCopy says that a record found again is kept as from log: a record
+// copied into several logs is shown as from the one whose path sorts
+// first, whatever the order they were read in.
+func (h *historyReader) moveCopy(bed string, key [sha256.Size]byte, log string, logIdx, line int) {
+	items := h.byBed[bed]
+	for i := range items {
+		if items[i].key == key {
+			items[i].log, items[i].logIdx, items[i].line = log, logIdx, line
+		}
+	}
+	if f, ok := h.future[bed]; ok && f.key == key {
+		f.log, f.logIdx, f.line = log, logIdx, line
+		h.future[bed] = f
+	}
 }
 
 // newest sorts items by time and returns (a copy of) the newest keep.
@@ -248,7 +284,7 @@ func ReadHistories(paths []string, bed string, limit int) ([]BedHistory, LogSumm
 
 func newHistoryReader(bed string, limit int, sum *LogSummary) *historyReader {
 	bed = BedKey(bed)
-	h := &historyReader{bed: bed, keys: map[[sha256.Size]byte]struct{}{}, byBed: map[string][]histItem{}, total: map[string]int{}, sum: sum}
+	h := &historyReader{bed: bed, keys: map[[sha256.Size]byte]string{}, byBed: map[string][]histItem{}, total: map[string]int{}, sum: sum, future: map[string]histItem{}}
 	if bed != "" {
 		h.needle = []byte(bed)
 	}
@@ -276,6 +312,7 @@ func (h *historyReader) histories(limit int) []BedHistory {
 // first, dropping the one kept only for its changes.
 func bedHistory(bed string, items []histItem, limit, total int) BedHistory {
 	hist := BedHistory{Bed: bed, Total: total}
+	var keys [][sha256.Size]byte
 	for i := len(items) - 1; i >= 0; i-- {
 		if limit > 0 && len(hist.Entries) == limit {
 			break
@@ -285,7 +322,9 @@ func bedHistory(bed string, items []histItem, limit, total int) BedHistory {
 			e.Changes = recordChanges(items[i-1].rec, items[i].rec)
 		}
 		hist.Entries = append(hist.Entries, e)
+		keys = append(keys, items[i].key)
 	}
+	historyConflicts(hist.Entries, keys)
 	return hist
 }
 

@@ -59,6 +59,9 @@ func moreDamaged(n int) string {
 	return fmt.Sprintf("and %d more damaged lines", n)
 }
 
+// utf8BOM is the byte order mark an editor may put at a file's start.
+const utf8BOM = "\ufeff"
+
 const (
 	reasonTooLong = "longer than %d bytes; skipped"
 	reasonTorn    = "torn last line (the program stopped while writing it); skipped"
@@ -84,6 +87,11 @@ func scanLog(r io.Reader, log string, sum *LogSummary, visit func(line int, text
 		}
 		if len(text) == 0 && !tooLong && err != nil {
 			return nil
+		}
+		if n == 1 {
+			// A UTF-8 byte order mark, as some editors save, is not part of
+			// the first record.
+			text = bytes.TrimPrefix(text, []byte(utf8BOM))
 		}
 		trimmed := bytes.TrimSpace(text)
 		switch {

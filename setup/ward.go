@@ -37,6 +37,15 @@ type WardRow struct {
 	Overdue      bool   // age strictly greater than the interval
 	Source       string // the log the record came from
 	Record       Record // the whole record, to start the next check from
+	// Conflict is set when other logs hold a check of the bed within
+	// ConflictWindow of this one (see wardRowOf): "conflict: two checks at
+	// 14:05 UTC from a.jsonl and b.jsonl".
+	Conflict string
+	// FutureAt is the time of the bed's newest record dated more than
+	// FutureSkew after now, from FutureLog; zero when there is none. It
+	// never stands in place of the bed's newest real check.
+	FutureAt  time.Time
+	FutureLog string
 }
 
 type wardRowJSON struct {
@@ -53,6 +62,17 @@ type wardRowJSON struct {
 	Overdue      bool    `json:"overdue"`
 	ProposalMade bool    `json:"proposal_made"`
 	Log          string  `json:"log"`
+	Conflict     string  `json:"conflict,omitempty"`
+	FutureAt     string  `json:"future_record_at,omitempty"`
+	FutureLog    string  `json:"future_record_log,omitempty"`
+	// The patient's own numbers at that check: the gas and oximeter
+	// readings, their cautions, and the oxygenation indices (null, and
+	// an empty list, when none was entered).
+	GasReadings  *GasReadingsJSON `json:"gas_readings"`
+	GasCautions  []Caution        `json:"gas_cautions"`
+	PFRatio      *float64         `json:"pf_ratio"`
+	SFRatio      *float64         `json:"sf_ratio"`
+	ARDSSeverity *string          `json:"ards_severity"`
 }
 
 // MarshalJSON writes the row with snake_case keys; checked_at is RFC 3339
@@ -62,11 +82,17 @@ func (r WardRow) MarshalJSON() ([]byte, error) {
 	if r.HighestLevel != 0 {
 		level = r.HighestLevel.String()
 	}
-	return json.Marshal(wardRowJSON{
+	future := ""
+	if !r.FutureAt.IsZero() {
+		future = r.FutureAt.UTC().Format(time.RFC3339)
+	}
+	j := wardRowJSON{Conflict: r.Conflict, FutureAt: future, FutureLog: r.FutureLog,
 		Bed: r.Bed, CheckedAt: r.CheckedAt.UTC().Format(time.RFC3339), AgeMinutes: r.AgeMinutes,
 		ProfileID: r.ProfileID, Hole: r.Hole, MotorRPM: r.MotorRPM, DwellS: r.DwellS, PEEPCmH2O: r.PEEPCmH2O,
 		MLPerKg: r.MLPerKg, HighestLevel: level, Overdue: r.Overdue, ProposalMade: r.Proposed, Log: r.Source,
-	})
+	}
+	r.gasJSON(&j)
+	return json.Marshal(j)
 }
 
 // urgency ranks a row for the ward view: stop, then overdue, then warn,
@@ -98,11 +124,16 @@ func NewWardRow(rec Record, source string, now time.Time, every time.Duration) W
 }
 
 // SortWardRows puts the most urgent first (stop, overdue, warn, the
-// rest), and beds of equal urgency in ward order (B2 before B10).
+// rest); among beds of equal urgency, those whose blood gas or oximeter
+// raised the more serious caution first (a WARN for a low SpO2 before a
+// WARN every uncalibrated unit shows), then ward order (B2 before B10).
 func SortWardRows(rows []WardRow) {
 	sort.SliceStable(rows, func(i, j int) bool {
 		if ui, uj := rows[i].urgency(), rows[j].urgency(); ui != uj {
 			return ui < uj
+		}
+		if gi, gj := rows[i].gasLevel(), rows[j].gasLevel(); gi != gj {
+			return gi > gj
 		}
 		return bedLess(rows[i].Bed, rows[j].Bed)
 	})
@@ -133,7 +164,7 @@ func WardRows(paths []string, now time.Time, every time.Duration) ([]WardRow, Lo
 		return nil, LogSummary{}, err
 	}
 	var sum LogSummary
-	w := &wardReader{beds: map[string][]wardCandidate{}, sum: &sum}
+	w := newWardReader(now.Add(FutureSkew), &sum)
 	for i, path := range files {
 		if err := readOneLog(path, &sum, w.visit(path, i)); err != nil {
 			return nil, sum, err
@@ -149,15 +180,31 @@ func WardRows(paths []string, now time.Time, every time.Duration) ([]WardRow, Lo
 
 // wardRowsDecodingAll is the slow, exact way: every line decoded.
 func wardRowsDecodingAll(files []string, now time.Time, every time.Duration) ([]WardRow, LogSummary, error) {
-	hs, sum, err := ReadHistories(files, "", 1)
-	if err != nil {
+	var sum LogSummary
+	h := newHistoryReader("", wardKeep, &sum)
+	h.ahead = now.Add(FutureSkew)
+	if err := h.readFiles(files); err != nil {
 		return nil, sum, err
 	}
-	rows := make([]WardRow, 0, len(hs))
-	for _, h := range hs {
-		if len(h.Entries) > 0 {
-			rows = append(rows, NewWardRow(h.Entries[0].Record, h.Entries[0].Log, now, every))
+	beds := map[string]bool{}
+	for b := range h.byBed {
+		beds[b] = true
+	}
+	for b := range h.future {
+		beds[b] = true
+	}
+	rows := make([]WardRow, 0, len(beds))
+	for b := range beds {
+		items := newest(h.byBed[b], h.keep)
+		var good []wardItem
+		for i := len(items) - 1; i >= 0; i-- {
+			good = append(good, wardItem{rec: items[i].rec, log: items[i].log, line: items[i].line, key: items[i].key})
 		}
+		var fut *wardItem
+		if f, ok := h.future[b]; ok {
+			fut = &wardItem{rec: f.rec, log: f.log, line: f.line, key: f.key}
+		}
+		rows = append(rows, wardRowOf(good, fut, now, every))
 	}
 	SortWardRows(rows)
 	return rows, sum, nil
@@ -176,12 +223,19 @@ type wardCandidate struct {
 }
 
 func (a wardCandidate) before(b wardCandidate) bool {
-	return orderBefore(a.at, a.logIdx, a.line, b.at, b.logIdx, b.line)
+	return orderBefore(a.at, a.log, a.line, b.at, b.log, b.line)
+}
+
+// newWardReader reads records dated up to ahead as checks of now.
+func newWardReader(ahead time.Time, sum *LogSummary) *wardReader {
+	return &wardReader{beds: map[string][]wardCandidate{}, future: map[string]wardCandidate{}, ahead: ahead, sum: sum}
 }
 
 type wardReader struct {
-	beds map[string][]wardCandidate
-	sum  *LogSummary
+	beds   map[string][]wardCandidate
+	future map[string]wardCandidate // each bed's newest line dated after ahead
+	ahead  time.Time                // now + FutureSkew
+	sum    *LogSummary
 }
 
 func (w *wardReader) visit(log string, logIdx int) func(int, []byte) {
@@ -196,6 +250,13 @@ func (w *wardReader) visit(log string, logIdx int) func(int, []byte) {
 		w.sum.Records++
 		bed = BedKey(bed)
 		c := wardCandidate{at: at, log: log, logIdx: logIdx, line: n}
+		if at.After(w.ahead) {
+			if old, ok := w.future[bed]; !ok || old.before(c) {
+				c.text = append(old.text[:0], text...)
+				w.future[bed] = c
+			}
+			return
+		}
 		cs := w.beds[bed]
 		if len(cs) < wardKeep {
 			c.text = append([]byte(nil), text...)
@@ -215,30 +276,64 @@ func (w *wardReader) visit(log string, logIdx int) func(int, []byte) {
 	}
 }
 
-// rows decodes each bed's newest good line; exact is false when a line's
-// decoded bed or time is not what the quick look found, or when every
-// line held for a bed was damaged.
+// rows decodes each bed's newest good line, and those of other logs
+// within ConflictWindow of it; exact is false when a line's decoded bed
+// or time is not what the quick look found, or when every line held for
+// a bed was damaged (an older good line may lie further back).
 func (w *wardReader) rows(now time.Time, every time.Duration) (rows []WardRow, exact bool) {
-	for bed, cs := range w.beds {
+	beds := map[string]bool{}
+	for b := range w.beds {
+		beds[b] = true
+	}
+	for b := range w.future {
+		beds[b] = true
+	}
+	for bed := range beds {
+		cs := w.beds[bed]
 		sort.Slice(cs, func(i, j int) bool { return cs[j].before(cs[i]) })
-		found := false
+		var good []wardItem
 		for _, c := range cs {
-			rec, problem := decodeRecord(c.text)
-			if problem != "" {
-				w.sum.damaged(c.log, c.line, problem)
-				continue
+			if len(good) > 0 && good[0].rec.Time.Sub(c.at) > ConflictWindow {
+				break
 			}
-			if BedKey(rec.Bed) != bed || !rec.Time.Equal(c.at) {
+			it, ok, same := w.decode(bed, c)
+			if !same {
 				return nil, false
 			}
-			rows, found = append(rows, NewWardRow(rec, c.log, now, every)), true
-			break
+			if ok {
+				good = append(good, it)
+			}
 		}
-		if !found {
+		var fut *wardItem
+		if c, has := w.future[bed]; has {
+			it, ok, same := w.decode(bed, c)
+			if !same {
+				return nil, false
+			}
+			if ok {
+				fut = &it
+			}
+		}
+		if len(good) == 0 && (len(cs) > 0 || fut == nil) {
 			return nil, false
 		}
+		rows = append(rows, wardRowOf(good, fut, now, every))
 	}
 	return rows, true
+}
+
+// decode decodes a held line: ok when it is a good record (a damaged one
+// is counted), same when it says what the quick look found.
+func (w *wardReader) decode(bed string, c wardCandidate) (it wardItem, ok, same bool) {
+	rec, problem := decodeRecord(c.text)
+	if problem != "" {
+		w.sum.damaged(c.log, c.line, problem)
+		return wardItem{}, false, true
+	}
+	if BedKey(rec.Bed) != bed || !rec.Time.Equal(c.at) {
+		return wardItem{}, false, false
+	}
+	return wardItem{rec: rec, log: c.log, line: c.line, key: recordKey(&rec, c.text)}, true, true
 }
 
 const (
@@ -315,7 +410,11 @@ func WardLine(r WardRow) string {
 	case r.AgeMinutes >= 120:
 		age = fmt.Sprintf("%.1f h ago", r.AgeMinutes/60)
 	}
-	line := fmt.Sprintf("%-8s %s (%s)  %s %s", r.Bed, LocalShort(r.CheckedAt), age, r.ProfileID,
+	when := LocalShort(r.CheckedAt)
+	if r.AgeMinutes < -FutureSkew.Minutes() {
+		when = LocalDateTime(r.CheckedAt) // its year: 2099 must not read as this year
+	}
+	line := fmt.Sprintf("%-8s %s (%s)  %s %s", r.Bed, when, age, r.ProfileID,
 		settingText(Setting{Hole: r.Hole, RPM: r.MotorRPM, DwellS: r.DwellS, PEEPCmH2O: r.PEEPCmH2O}))
 	switch {
 	case r.Record.Unexplained() && r.HighestLevel == Stop:
@@ -336,8 +435,17 @@ func WardLine(r WardRow) string {
 			line += ": STOP"
 		}
 	}
+	if g := GasRecordText(r.Record); g != "" {
+		line += "; " + g
+	}
 	if r.Overdue {
 		line += "  OVERDUE"
+	}
+	if r.Conflict != "" {
+		line += "  " + r.Conflict
+	}
+	if !r.FutureAt.IsZero() && !r.FutureAt.Equal(r.CheckedAt) {
+		line += fmt.Sprintf("  (a record dated %s, in the future, from %s: check that terminal's clock)", LocalDateTime(r.FutureAt), r.FutureLog)
 	}
 	return line
 }

@@ -27,15 +27,19 @@ type outcome struct {
 	check        *setup.Check
 	checkJSON    setup.CheckJSON // check's report body, built once per recompute
 	checkWaiting []string
-	// readingStops are the manometer readings' own cautions, judged
-	// while the check still waits for other entries.
+	// readingStops are the manometer readings' own cautions, then the
+	// blood gas's, judged while the check still waits for other entries.
 	readingStops []setup.Caution
 	checkLung    string // the lung condition the check's assumed mechanics are for
 	// started says which record the check was started from, and
 	// changedFromRecord what the entries now hold otherwise.
 	started           string
 	changedFromRecord []string
-	saveNote          string // the last record's outcome, shown on the handover panel
+	// toConfirm are the setting's entries filled from a record that
+	// nobody has yet confirmed or changed at the machine (their labels).
+	toConfirm []string
+	fromAt    string // "from the record at 14:05 UTC"
+	saveNote  string // the last record's outcome, shown on the handover panel
 	// logNote says where the screen records checks and whether it can.
 	logNote string
 }

@@ -168,6 +168,9 @@ func writeHistory(w io.Writer, hist []setup.BedHistory, bed string, manyLogs boo
 			if manyLogs && e.Log != "" {
 				fmt.Fprintf(&b, "      from %s\n", e.Log)
 			}
+			if e.Conflict != "" {
+				fmt.Fprintf(&b, "      %s\n", e.Conflict)
+			}
 		}
 	}
 	_, err := io.WriteString(w, b.String())
