@@ -15,9 +15,8 @@ import (
 // row names them (derived: S/F = 87 / 0.21 = 414, above Rice et al.'s 315).
 func TestTheBloodGasOnEveryView(t *testing.T) {
 	m, _ := handoverModel(t)
-	press(m, runes("B4"), enter, runes("ab"), enter, runes("8"), enter, runes("21"), enter, runes("1.4"), enter,
-		enter, enter, enter, enter, // PEEP, O2, peak, end: blank
-		runes("87"), enter, enter, runes("7.24"), enter, runes("61"))
+	setEntries(m, map[string]string{"bed": "B4", "initials": "ab", "hole": "8", "rpm": "21", "dwell-s": "1.4",
+		"spo2": "87", "ph": "7.24", "paco2": "61"})
 	require.NotNil(t, m.out.check, "%v", m.out.checkWaiting)
 	require.Contains(t, screen(m), "Patient's gas: WARN low O2 (SpO2 87 %),")
 
@@ -39,9 +38,18 @@ func TestTheBloodGasOnEveryView(t *testing.T) {
 // panel and the status line, not "waiting".
 func TestASeverelyAcidoticGasIsAStopWhileTheCheckWaits(t *testing.T) {
 	m := newTestModel(t, nil)
-	press(m, fkey(6), runes("B4"), enter, enter, runes("8"), enter, runes("21"), enter, runes("1.4"), enter,
-		enter, enter, enter, enter, enter, enter, runes("7.10"), enter, runes("61"))
+	press(m, fkey(6))
+	setEntries(m, map[string]string{"bed": "B4", "hole": "8", "rpm": "21", "dwell-s": "1.4", "ph": "7.10", "paco2": "61"})
 	require.Nil(t, m.out.check)
 	v := screen(m)
 	require.Contains(t, v, "STOP pH 7.10 is below 7.15: severe")
+}
+
+// setEntries fills handover fields by name, as typing would, and
+// recomputes (the fields' own typing is tested in keys_test.go).
+func setEntries(m *Model, e map[string]string) {
+	for name, v := range e {
+		m.checkField(name).SetValue(v)
+	}
+	m.entryChanged()
 }
