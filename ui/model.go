@@ -785,7 +785,7 @@ func (m *Model) summary() string {
 		if len(m.out.toConfirm) > 0 {
 			lead = "Recorded, not yet confirmed: "
 		}
-		parts := m.strip(lead, ck.Current.Figures, ck.Current.Cautions)
+		parts := m.strip(lead, ck.Current.Figures, ck.Current.Cautions, ck.VolumeBoundNote() != "")
 		if due := m.dueText(); due != "" {
 			// The bed's next check is safety-relevant: right after the level.
 			parts = append([]string{parts[0], due}, parts[1:]...)
@@ -800,12 +800,18 @@ func (m *Model) summary() string {
 		}
 		return m.waitingLine(s.Waiting.Render("SETTING WAITING for "+reason), s.Waiting.Render("SETTING WAITING for entries: see beside them"))
 	}
-	return m.withLead(m.strip("Plan: ", pl.Figures, pl.Cautions)...)
+	return m.withLead(m.strip("Plan: ", pl.Figures, pl.Cautions, false)...)
 }
 
 // strip is one line: the highest caution first, so a narrow window never
 // cuts it off, then the hole, speed, dwell, volume and the caution count.
-func (m *Model) strip(lead string, f setup.Figures, cs []setup.Caution) []string {
+// upperBound marks a volume that is at most what the patient gets (setup's
+// Check.VolumeBoundNote).
+func (m *Model) strip(lead string, f setup.Figures, cs []setup.Caution, upperBound bool) []string {
+	vol := ""
+	if upperBound {
+		vol = m.styles.Caution.Render("at most ")
+	}
 	s := m.styles
 	level := s.Label.Render("no cautions")
 	if len(cs) > 0 {
@@ -816,7 +822,7 @@ func (m *Model) strip(lead string, f setup.Figures, cs []setup.Caution) []string
 		s.Label.Render("Hole ") + s.Big.Render(f.Hole.Label),
 		s.Big.Render(f1(f.Timing.RPM)) + s.Unit.Render(" rpm"),
 		s.Label.Render("dwell ") + s.Big.Render(f1(f.Timing.DwellS)) + s.Unit.Render(" s"),
-		s.Value.Render(f0(f.Hole.DeliveredML)) + s.Unit.Render(" mL ") + s.Value.Render(f1(f.Hole.MLPerKg)) + s.Unit.Render(" mL/kg"),
+		vol + s.Value.Render(f0(f.Hole.DeliveredML)) + s.Unit.Render(" mL ") + s.Value.Render(f1(f.Hole.MLPerKg)) + s.Unit.Render(" mL/kg"),
 	}
 	if n := len(cs); n > 0 {
 		parts = append(parts, s.Label.Render(fmt.Sprintf("%d caution%s", n, plural(n))))
