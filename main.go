@@ -18,8 +18,6 @@ import (
 	"crankside/ui/cli"
 )
 
-const version = "0.2.0"
-
 func main() {
 	os.Exit(run(os.Args[1:], os.Stdout, os.Stderr))
 }
@@ -45,7 +43,7 @@ func run(args []string, stdout, stderr io.Writer) (status int) {
 	}
 	switch name {
 	case "--version", "-version", "version":
-		fmt.Fprintf(stdout, "crankside %s\n", version)
+		fmt.Fprintf(stdout, "crankside %s\n", cli.Release)
 		return cli.ExitOK
 	case "--help", "-help", "-h", "help":
 		fmt.Fprint(stdout, cli.TopUsage())

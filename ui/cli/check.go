@@ -27,6 +27,7 @@ timed) in place of --rpm, and --pause-s (the pause timed) or
 runs at the speed and dwell these imply, rounds nothing measured, and says
 what it inferred and the nearest dial steps.
 
+` + exitStatusHelp + `
 Flags:
 `
 
@@ -169,16 +170,22 @@ func runCheck(env Env) int {
 	status := ExitOK
 	switch {
 	case o.asJSON():
-		status = writeJSON(env, ck.JSON())
+		status = writeJSON(env, setup.FormatCheckJSON, ck.JSON())
 	case o.card():
 		status = writeText(env, "check", rec.WriteCard)
 	default:
 		status = writeText(env, "check", ck.WriteText)
 	}
-	if status != ExitOK || o.logPath() == "" {
+	if status != ExitOK {
 		return status
 	}
-	return appendRecord(env, rec, o)
+	if o.logPath() != "" {
+		status = appendRecord(env, rec, o)
+	}
+	if ck.HighestLevel() == setup.Stop {
+		return ExitStop // louder than a failed record, which stderr names
+	}
+	return status
 }
 
 func appendRecord(env Env, rec setup.Record, o checkOptions) int {

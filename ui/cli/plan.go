@@ -13,6 +13,8 @@ A new patient's setting on one machine: PBW, target volume, the hole to pin,
 the motor speed and dwell the controller can be set to, the predictions and
 the cautions. A decimal comma is read as a decimal point (0,9 is 0.9).
 
+` + exitStatusHelp + `
+
 Flags:
 `
 
@@ -69,8 +71,14 @@ func runPlan(env Env) int {
 	if err != nil {
 		return jobError(env.Stderr, "plan", err)
 	}
+	status := ExitOK
 	if asJSON() {
-		return writeJSON(env, pl.JSON())
+		status = writeJSON(env, setup.FormatPlanJSON, pl.JSON())
+	} else {
+		status = writeText(env, "plan", pl.WriteText)
 	}
-	return writeText(env, "plan", pl.WriteText)
+	if status == ExitOK && pl.HighestLevel() == setup.Stop {
+		return ExitStop
+	}
+	return status
 }
