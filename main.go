@@ -12,11 +12,16 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"runtime/debug"
 	"strings"
 
 	"crankside/physiology"
 	"crankside/ui/cli"
 )
+
+// version is the release, kept in setup (setup.ProgramRelease) so that
+// every --json output names the same one.
+const version = cli.Release
 
 func main() {
 	os.Exit(run(os.Args[1:], os.Stdout, os.Stderr))
@@ -43,7 +48,8 @@ func run(args []string, stdout, stderr io.Writer) (status int) {
 	}
 	switch name {
 	case "--version", "-version", "version":
-		fmt.Fprintf(stdout, "crankside %s\n", cli.Release)
+		info, _ := debug.ReadBuildInfo()
+		fmt.Fprintln(stdout, versionLine(info))
 		return cli.ExitOK
 	case "--help", "-help", "-h", "help":
 		fmt.Fprint(stdout, cli.TopUsage())
@@ -53,4 +59,37 @@ func run(args []string, stdout, stderr io.Writer) (status int) {
 		return cli.RunScreen(env)
 	}
 	return cli.UsageError(stderr, "", fmt.Sprintf("unknown command %s", physiology.Quote(name)))
+}
+
+// versionLine is the version and the source it was built from: the VCS
+// revision the go command stamps into a build made in a checkout, with
+// its commit time and whether the tree had uncommitted changes. go run,
+// go test and a build outside a checkout (or with -buildvcs=false) stamp
+// none: then it says the revision is unknown rather than guess.
+func versionLine(info *debug.BuildInfo) string {
+	var rev, when string
+	modified := false
+	if info != nil {
+		for _, s := range info.Settings {
+			switch s.Key {
+			case "vcs.revision":
+				rev = s.Value
+			case "vcs.time":
+				when = s.Value
+			case "vcs.modified":
+				modified = s.Value == "true"
+			}
+		}
+	}
+	if rev == "" {
+		return fmt.Sprintf("crankside %s (revision unknown: this build carries no VCS stamp)", version)
+	}
+	detail := "revision " + rev
+	if when != "" {
+		detail += ", committed " + when
+	}
+	if modified {
+		detail += ", with uncommitted changes"
+	}
+	return fmt.Sprintf("crankside %s (%s)", version, detail)
 }

@@ -2,6 +2,7 @@ package main
 
 import (
 	"bytes"
+	"runtime/debug"
 	"strings"
 	"testing"
 
@@ -54,4 +55,28 @@ func TestEveryNumberFlagRefusesHostileValues(t *testing.T) {
 			require.Empty(t, stdout)
 		}
 	}
+}
+
+// The version line names the revision the go command stamped, its commit
+// time and uncommitted changes; with no stamp it says so instead of
+// guessing. (Field names as runtime/debug documents them: vcs.revision,
+// vcs.time, vcs.modified.)
+func TestVersionLineNamesTheRevision(t *testing.T) {
+	stamped := &debug.BuildInfo{Settings: []debug.BuildSetting{
+		{Key: "vcs", Value: "git"},
+		{Key: "vcs.revision", Value: "0123456789abcdef0123456789abcdef01234567"},
+		{Key: "vcs.time", Value: "2026-12-02T14:00:00Z"},
+		{Key: "vcs.modified", Value: "false"},
+	}}
+	require.Equal(t, "crankside "+version+" (revision 0123456789abcdef0123456789abcdef01234567, committed 2026-12-02T14:00:00Z)", versionLine(stamped))
+	stamped.Settings[3].Value = "true"
+	require.Equal(t, "crankside "+version+" (revision 0123456789abcdef0123456789abcdef01234567, committed 2026-12-02T14:00:00Z, with uncommitted changes)", versionLine(stamped))
+	unknown := "crankside " + version + " (revision unknown: this build carries no VCS stamp)"
+	require.Equal(t, unknown, versionLine(&debug.BuildInfo{}), "go run and go test stamp nothing")
+	require.Equal(t, unknown, versionLine(nil), "a binary without build information")
+
+	// This test binary is what go test built: never stamped.
+	stdout, stderr, status := runInProcess(t, "--version")
+	require.Equal(t, 0, status, stderr)
+	require.Equal(t, unknown+"\n", stdout)
 }

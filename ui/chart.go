@@ -8,6 +8,7 @@ import (
 	"github.com/NimbleMarkets/ntcharts/canvas"
 	"github.com/NimbleMarkets/ntcharts/canvas/graph"
 	"github.com/NimbleMarkets/ntcharts/linechart"
+	"github.com/charmbracelet/x/ansi"
 
 	"crankside/setup"
 )
@@ -19,7 +20,9 @@ func breathChart(tr *setup.Trace, w, h int, s *Styles) string {
 	if tr == nil || w < 24 || h < 7 || len(tr.TimeS) < 2 {
 		return ""
 	}
-	legendLines := 3
+	// The title and each chart's unit line take a line each; the legend
+	// up to three.
+	legendLines := 3 + 3
 	ph := (h - legendLines) * 3 / 5
 	fh := h - legendLines - ph
 	if ph < 4 || fh < 3 {
@@ -62,11 +65,26 @@ func breathChart(tr *setup.Trace, w, h int, s *Styles) string {
 		limit = fmt.Sprintf("relief %.0f off scale", tr.ReliefCmH2O)
 	}
 	legend := wrapWords(w, "cmH2O:", fmt.Sprintf("-PEEP %.0f", tr.PEEPCmH2O), fmt.Sprintf("~plateau %.1f", tr.PlateauCmH2O), limit,
-		"| L/min by s;", fmt.Sprintf("%.1f L/min still out at next breath", tr.EndExpiratoryLPerMin))
+		"|", fmt.Sprintf("%.1f L/min still out at next breath", tr.EndExpiratoryLPerMin))
 	for i := range legend {
 		legend[i] = s.Label.Render(legend[i])
 	}
-	return strings.Join([]string{pc.View(), fc.View(), strings.Join(legend, "\n")}, "\n")
+	title := s.Section.Render(ansi.Truncate("ONE BREATH against time", w, ""))
+	unit := func(u string) string { return s.Label.Render(u) }
+	return strings.Join([]string{title, unit("cmH2O circuit pressure"), pc.View(), unit("L/min patient flow"), withXUnit(fc.View(), w, s),
+		strings.Join(legend, "\n")}, "\n")
+}
+
+// withXUnit puts the time axis's unit after its last label ("3.1  s"),
+// or on a line of its own when the labels leave no room.
+func withXUnit(chart string, w int, s *Styles) string {
+	lines := strings.Split(chart, "\n")
+	last := strings.TrimRight(lines[len(lines)-1], " ")
+	if ansi.StringWidth(last)+3 <= w {
+		lines[len(lines)-1] = last + s.Label.Render("  s")
+		return strings.Join(lines, "\n")
+	}
+	return chart + "\n" + s.Label.Render("time, s")
 }
 
 // drawSeries draws a trace in braille on one grid for the whole series,

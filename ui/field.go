@@ -62,6 +62,9 @@ type field struct {
 	// from says where a value came from when it was not typed here
 	// ("from the record at 14:05").
 	from string
+	// unconfirmed is true while a value filled from a record has been
+	// neither confirmed (Enter) nor changed at the machine.
+	unconfirmed bool
 }
 
 const fieldWidth = 8
@@ -148,6 +151,7 @@ func (f *field) update(msg tea.KeyMsg, keys formKeys) (bool, tea.Cmd) {
 	changed, cmd := f.edit(msg, keys)
 	if changed {
 		f.from = ""
+		f.unconfirmed = false
 	}
 	return changed, cmd
 }

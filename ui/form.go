@@ -84,10 +84,14 @@ func (f *form) update(msg tea.KeyMsg) (formResult, tea.Cmd) {
 		}
 		return formResult{}, nil
 	case key.Matches(msg, f.keys.Advance):
+		// Enter on a value from a record confirms it as found at the
+		// machine (the check then stops asking for it).
+		confirmed := f.current().unconfirmed
+		f.current().unconfirmed = false
 		if f.cursor < len(f.fields)-1 {
-			return formResult{}, f.move(f.cursor + 1)
+			return formResult{changed: confirmed}, f.move(f.cursor + 1)
 		}
-		return formResult{leave: true}, nil
+		return formResult{changed: confirmed, leave: true}, nil
 	}
 	changed, cmd := f.current().update(msg, f.keys)
 	return formResult{changed: changed}, cmd
@@ -150,6 +154,8 @@ func (f *form) view() string {
 				line += s.Error.Render("!")
 			case fl.echo() != "":
 				line += s.Value.Render("=" + strings.TrimPrefix(fl.echo(), "read as "))
+			case fl.unconfirmed:
+				line += s.Error.Render("?") // from a record, not yet confirmed
 			}
 			lines = append(lines, line)
 			continue

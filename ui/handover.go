@@ -128,6 +128,8 @@ func (p *handoverPanel) View() string {
 		// The form beside the results is compact: a refused key's
 		// reason goes here, where it can be read.
 		head += "\n" + s.Error.Render("! "+f.note)
+	} else if p.form.focused && f.unconfirmed {
+		head += "\n" + s.Error.Render(f.label+" "+orNone(f.Value())+" is "+f.from+": Enter confirms it at the machine, typing changes it")
 	} else if p.form.focused && f.isText() && f.selected {
 		// Said in words, as the full-width forms say it beside the field:
 		// without colour the highlight of a selected value is not drawn.
@@ -180,18 +182,14 @@ func (p *handoverPanel) results() string {
 		return strings.Join(l, "\n")
 	}
 	ck := o.check
+	// The level of the setting and of the proposal, and what to dial,
+	// first: at 80x24 they are on the panel's first screen beside the
+	// entries, and the detail follows.
+	p.levelLine(add, ck)
 	for _, w := range o.checkWaiting {
 		add(s.Hint.Render(w))
 	}
-	if o.started != "" {
-		add(s.Hint.Render(o.started))
-		if len(o.changedFromRecord) == 0 {
-			add(s.Label.Render("Found as recorded."))
-		}
-		for _, c := range o.changedFromRecord {
-			add(s.Caution.Render("Found otherwise: " + c))
-		}
-	}
+	p.recordLines(add)
 	if ck.Unexplained() {
 		// A measured alarm is never replaced by a calm prediction: the
 		// reason comes first, in full, and no figure is shown as what
@@ -238,6 +236,48 @@ func (p *handoverPanel) results() string {
 		add(s.Hint.Render(o.logNote))
 	}
 	return strings.Join(l, "\n")
+}
+
+// recordLines say which record the check was started from and, until
+// each value of the setting is confirmed or changed at the machine, that
+// it is still the record's; only then whether it was found as recorded.
+func (p *handoverPanel) recordLines(add func(string)) {
+	s, o := p.styles, p.out
+	if o.started == "" {
+		return
+	}
+	add(s.Hint.Render(o.started))
+	switch {
+	case len(o.toConfirm) > 0:
+		// Nobody has looked at the machine yet: nothing here is called
+		// found until each value is confirmed or changed.
+		add(s.Error.Render(strings.ToUpper(o.fromAt[:1]) + o.fromAt[1:] + ": confirm each value at the machine (" +
+			strings.Join(o.toConfirm, ", ") + "): Enter confirms, typing changes"))
+	case len(o.changedFromRecord) == 0:
+		add(s.Label.Render("Found as recorded."))
+	}
+	for _, c := range o.changedFromRecord {
+		add(s.Caution.Render("Found otherwise: " + c))
+	}
+}
+
+// levelLine is the highest level now and proposed, and the dial line.
+func (p *handoverPanel) levelLine(add func(string), ck *setup.Check) {
+	s := p.styles
+	level := func(cs []setup.Caution) string {
+		if len(cs) == 0 {
+			return s.Label.Render("no cautions")
+		}
+		return s.levelWord(setup.Highest(cs))
+	}
+	line := s.Label.Render("Now ") + level(ck.Current.Cautions)
+	if ck.Proposed != nil {
+		line += s.Label.Render("  Proposed ") + level(ck.Proposed.Cautions)
+	}
+	add(line)
+	if d := dialText(ck); d != "" {
+		add(s.Label.Render("Dial: ") + s.Big.Render(d))
+	}
 }
 
 // lungLine says which lung the figures are for: fitted, or assumed.
@@ -347,4 +387,12 @@ func (p *handoverPanel) ShortHelp() []key.Binding {
 func (p *handoverPanel) FullHelp() [][]key.Binding {
 	k := p.form.keys
 	return [][]key.Binding{{k.Advance, k.Up, k.Down, k.Clear}, {p.keys.Save, p.keys.Card, p.keys.History, p.keys.Take}}
+}
+
+// orNone is a blank entry in words.
+func orNone(v string) string {
+	if v == "" {
+		return "(blank)"
+	}
+	return v
 }

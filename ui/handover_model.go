@@ -49,8 +49,9 @@ func (m *Model) recomputeCheck(plan setup.Entries, planProblems setup.Problems) 
 		e[f.name] = f.Value()
 	}
 	m.out.started, m.out.changedFromRecord = "", nil
+	m.out.toConfirm, m.out.fromAt = m.toConfirm(), ""
 	if m.fromRecord != nil {
-		m.out.started = m.fromRecord.label
+		m.out.started, m.out.fromAt = m.fromRecord.label, m.fromRecord.at
 		m.out.changedFromRecord = setup.ChangedEntries(m.fromRecord.entries, e)
 	}
 	req, problems := setup.BuildCheckRequest(e, m.now())
@@ -97,6 +98,9 @@ func (m *Model) record() (setup.Record, error) {
 			reason = m.out.checkWaiting[0]
 		}
 		return setup.Record{}, errors.New("nothing to record yet: " + reason)
+	}
+	if c := m.out.toConfirm; len(c) > 0 {
+		return setup.Record{}, errors.New("confirm at the machine first what the record gave: " + strings.Join(c, ", ") + " (Enter on each, or type what the machine shows)")
 	}
 	rec, err := setup.NewRecord(*m.out.check, m.checkField("bed").Value(), m.checkField("initials").Value(), m.now())
 	var ie *setup.InputError
@@ -212,9 +216,9 @@ func (m *Model) showHistory(msg historyMsg) {
 		n := len(msg.history.Entries)
 		l = append(l, s.Label.Render(fmt.Sprintf("%d check%s, newest first (up/down, PgUp/PgDn scroll)", n, plural(n))))
 		for _, e := range msg.history.Entries {
-			l = append(l, s.Value.Render(safetext.Escape(setup.HistoryLine(e.Record))))
+			l = append(l, s.withLevels(safetext.Escape(setup.HistoryLine(e.Record)), s.Value))
 			if p := setup.ProposalLine(e.Record); p != "" {
-				l = append(l, s.Label.Render("    proposed: "+safetext.Escape(p)))
+				l = append(l, s.withLevels("    proposed: "+safetext.Escape(p), s.Label))
 			}
 			if len(e.Changes) > 0 {
 				l = append(l, s.Label.Render("    changed since the one before: "+safetext.Escape(strings.Join(e.Changes, "; "))))
@@ -242,11 +246,13 @@ func logNote(path string) string {
 	if path == "" {
 		return "Not recording: start with --log FILE to keep a record of checks."
 	}
+	where := safetext.Escape(path)
 	if err := setup.CheckLogPath(path); err != nil {
 		// A new log is made in a folder the screen creates itself.
 		if !errors.Is(err, os.ErrNotExist) {
-			return "CANNOT RECORD: " + safetext.Escape(err.Error())
+			return "CANNOT RECORD to " + where + ": " + safetext.Escape(err.Error())
 		}
+		return "Records go to " + where + " (its folder is made at the first record); bed label only, no name is kept."
 	}
-	return "Bed label only; no name is kept. Records go to " + safetext.Escape(path)
+	return "Records go to " + where + " (it can write there); bed label only, no name is kept."
 }

@@ -147,7 +147,7 @@ func TestAProposalWithAStopIsSaidAboveTheComparison(t *testing.T) {
 	require.Contains(t, v, "tidal volume 12.7 mL/kg PBW is at")
 	table := strings.Index(v, "SETTING ")
 	require.True(t, stop >= 0 && table > stop, "the stop comes before the comparison:\n%s", v)
-	require.Contains(t, v, "Proposed: STOP | Set now: WARN")
+	require.Contains(t, v, "STOP F6 proposal | Set now: WARN")
 }
 
 // The Cautions panel lists the handover check's cautions too: with the
@@ -159,7 +159,11 @@ func TestTheCautionsPanelListsTheChecksCautions(t *testing.T) {
 		enter, enter, runes("120"), enter, runes("100"))
 	require.NotNil(t, m.out.check)
 	n := len(m.out.check.Current.Cautions)
-	require.Contains(t, m.titleBar(), fmt.Sprintf("Cautions(%d+%d)", len(m.out.plan.Cautions), n))
+	// The count says what it counts: in full where it fits, its total at 80 columns.
+	require.Contains(t, m.titleBar(), fmt.Sprintf("Cautions(%d in all)", len(m.out.plan.Cautions)+n))
+	m.Update(tea.WindowSizeMsg{Width: 120, Height: 40})
+	require.Contains(t, m.titleBar(), fmt.Sprintf("Cautions(plan %d, F6 %d)", len(m.out.plan.Cautions), n))
+	m.Update(tea.WindowSizeMsg{Width: 80, Height: 24})
 	press(m, fkey(5))
 	v := strings.Join(m.panels[panelCautions].(*cautionsPanel).lines(), "\n")
 	require.Contains(t, v, "HANDOVER CHECK (F6): what the machine is set to now")

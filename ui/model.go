@@ -14,6 +14,7 @@ import (
 	"github.com/charmbracelet/x/ansi"
 
 	"crankside/profiles"
+	"crankside/profiles/safetext"
 	"crankside/setup"
 )
 
@@ -29,6 +30,9 @@ type Options struct {
 	Now func() time.Time
 	// LogPath is where handover checks are recorded.
 	LogPath string
+	// NoColor leaves every colour out (NO_COLOR); bold, underline and the
+	// reverse video of the cursor stay.
+	NoColor bool
 }
 
 // The smallest window the layout is drawn for.
@@ -84,6 +88,8 @@ type Model struct {
 	ward *wardView
 	// fromRecord is the record the handover check was started from.
 	fromRecord *recordStart
+	// applied asks, once, whether the record's proposal was applied.
+	applied *appliedQuestion
 	// note is a passing remark on the status strip, such as a typing key
 	// refused where nothing can be typed.
 	note string
@@ -112,7 +118,7 @@ type historyMsg struct {
 
 // New builds the root model; Run starts it.
 func New(opts Options) *Model {
-	styles := NewStyles()
+	styles := NewStyles(opts.NoColor)
 	m := &Model{styles: &styles, keys: newGlobalKeys(), help: help.New(), dir: opts.ProfilesDir, now: opts.Now, logPath: opts.LogPath}
 	if m.now == nil {
 		m.now = time.Now
@@ -122,6 +128,10 @@ func New(opts Options) *Model {
 	m.help.Styles.ShortDesc = styles.Help
 	m.help.Styles.FullKey = styles.Value
 	m.help.Styles.FullDesc = styles.Help
+	// The separators too: from the palette, so that NO_COLOR leaves none.
+	m.help.Styles.ShortSeparator = styles.Help
+	m.help.Styles.FullSeparator = styles.Help
+	m.help.Styles.Ellipsis = styles.Help
 	m.patient = newPatientPanel(m.styles)
 	m.targets = newTargetsPanel(m.styles)
 	m.handover = newHandoverPanel(m.styles)
@@ -229,6 +239,12 @@ func (m *Model) handleKey(msg tea.KeyMsg) tea.Cmd {
 	if !key.Matches(msg, m.panels[panelHandover].(*handoverPanel).keys.Save) {
 		m.confirmRecord = false
 	}
+	switch {
+	case msg.Paste:
+		return m.paste(msg)
+	case msg.Alt && !m.boundAlt(msg):
+		return m.escThenKey(msg)
+	}
 	if m.w < MinWidth || m.h < MinHeight {
 		// Nothing on the screen can be seen: no key acts unseen but the
 		// quit, and its question is in the small view.
@@ -249,6 +265,8 @@ func (m *Model) handleKey(msg tea.KeyMsg) tea.Cmd {
 		return m.handlePicker(msg)
 	case m.ward != nil:
 		return m.wardKey(msg)
+	case m.applied != nil:
+		return m.appliedKey(msg)
 	}
 	if cmd, done := m.globalKey(msg); done {
 		return cmd
@@ -519,17 +537,17 @@ func (m *Model) View() string {
 	bodyH := m.h - fixedRows
 	switch {
 	case m.picker != nil:
-		body = m.box("Profiles", m.picker.view(m.w-4, bodyH-3), bodyH, true, 0)
+		body = m.box(m.withUnit("Profiles"), m.picker.view(m.w-4, bodyH-3), bodyH, true, 0)
 	case m.overlay != nil:
-		body = m.box(m.overlay.title, m.overlay.text, bodyH, true, m.overlay.offset)
+		body = m.box(m.withUnit(m.overlay.title), m.overlay.text, bodyH, true, m.overlay.offset)
 	case m.ward != nil:
 		w, _ := m.wardSize()
 		lines, _, _ := m.ward.lines(w)
-		body = m.box("Ward: every bed's last check", strings.Join(lines, "\n"), bodyH, true, m.ward.offset)
+		body = m.box(m.withUnit("Ward: every bed's last check"), strings.Join(lines, "\n"), bodyH, true, m.ward.offset)
 	default:
 		top, bottom := m.split(bodyH)
 		p := m.panels[m.focus]
-		body = m.box(p.Title(), p.View(), top, true, m.scroll[m.focus])
+		body = m.box(m.withUnit(p.Title()), p.View(), top, true, m.scroll[m.focus])
 		if bottom > 0 {
 			q := m.panels[m.secondPanel()]
 			body += "\n" + m.box(q.Title(), q.View(), bottom, false, 0)
@@ -537,6 +555,20 @@ func (m *Model) View() string {
 	}
 	lines := []string{m.titleBar(), body, m.summary(), m.helpLine(), m.clinicalLine()}
 	return strings.Join(lines, "\n")
+}
+
+// withUnit names the unit being used after a frame's title, at every
+// size: the id always, its label when the whole of it fits (a label cut
+// short could read as another unit's).
+func (m *Model) withUnit(title string) string {
+	p := m.out.profile
+	fw, _ := m.panelFrame()
+	short := title + "  ·  unit " + safetext.Escape(p.ID)
+	long := short + ": " + safetext.Escape(p.Label)
+	if p.Label != "" && lipgloss.Width(long) <= m.w-fw {
+		return long
+	}
+	return short
 }
 
 func (m *Model) clinicalLine() string {
@@ -556,7 +588,7 @@ func (m *Model) box(title, content string, h int, focused bool, offset int) stri
 	}
 	fw, fh := st.GetHorizontalFrameSize(), st.GetVerticalFrameSize()
 	w := m.w - fw
-	lines := append([]string{m.styles.PanelTitle.Render(title)}, window(wrapBlock(content, w), h-fh-1, offset)...)
+	lines := append([]string{ansi.Truncate(m.styles.PanelTitle.Render(title), w, "")}, window(wrapBlock(content, w), h-fh-1, offset)...)
 	// Pad to the full height so the strip below never moves, and every
 	// line to the full width, so the frame needs no wrapping of its own.
 	for len(lines) < h-fh {
@@ -589,23 +621,14 @@ func (m *Model) overlayMax() int {
 
 func (m *Model) titleBar() string {
 	s := m.styles
-	var tabs []string
-	for i, p := range m.panels {
-		name := fmt.Sprintf("F%d %s", i+1, p.Title())
-		if i == panelCautions {
-			name += m.cautionCount()
-		}
-		if i == m.focus && m.ward == nil { // over the ward, no panel is shown
-			tabs = append(tabs, s.TabActive.Render("["+name+"]"))
-		} else if m.w < 100 {
-			tabs = append(tabs, s.Tab.Render(" "+name))
-		} else {
-			tabs = append(tabs, s.Tab.Render(" "+name+" "))
-		}
-	}
-	bar := strings.Join(tabs, "")
+	bar := m.tabs(true)
 	if m.w < 100 {
-		// Narrow: the tabs first; the profile after them when it fits.
+		// Narrow: the tabs first, the Cautions count in its short form when
+		// the long one does not fit; the profile after them when it fits
+		// (every panel's frame names it too).
+		if lipgloss.Width(bar) > m.w {
+			bar = m.tabs(false)
+		}
 		if id := " | " + m.out.profile.ID; lipgloss.Width(bar)+len(id) <= m.w {
 			bar += s.Label.Render(id)
 		}
@@ -615,24 +638,70 @@ func (m *Model) titleBar() string {
 	return truncate(lead+" "+bar, m.w)
 }
 
-// cautionCount is the Cautions tab's count: the plan's, and with a
-// handover check its own (now and proposed) after a "+".
-func (m *Model) cautionCount() string {
-	n := ""
+// tabs are the panels' names by their keys; the Cautions tab carries its
+// count in the colour of the highest level counted.
+func (m *Model) tabs(long bool) string {
+	s := m.styles
+	var tabs []string
+	for i, p := range m.panels {
+		name := fmt.Sprintf("F%d %s", i+1, p.Title())
+		count := ""
+		if i == panelCautions {
+			count = m.cautionCount(long)
+		}
+		switch {
+		case i == m.focus && m.ward == nil: // over the ward, no panel is shown
+			tabs = append(tabs, s.TabActive.Render("["+name)+m.countStyle().Render(count)+s.TabActive.Render("]"))
+		case m.w < 100:
+			tabs = append(tabs, s.Tab.Render(" "+name)+m.countStyle().Render(count))
+		default:
+			tabs = append(tabs, s.Tab.Render(" "+name)+m.countStyle().Render(count)+s.Tab.Render(" "))
+		}
+	}
+	return strings.Join(tabs, "")
+}
+
+// countStyle is the Cautions count's colour: that of the highest level
+// of every caution it counts.
+func (m *Model) countStyle() lipgloss.Style {
+	top := setup.Level(0)
+	for _, a := range m.alerts() {
+		top = max(top, a.level)
+	}
+	if st, ok := m.styles.LevelText[top]; ok {
+		return st
+	}
+	return m.styles.Tab
+}
+
+// cautionCount is the Cautions tab's count, saying what it counts: the
+// plan's and the handover check's (now and proposed together), or in the
+// short form their total.
+func (m *Model) cautionCount(long bool) string {
+	plan, check := -1, -1
 	if m.out.plan != nil {
-		n = fmt.Sprint(len(m.out.plan.Cautions))
+		plan = len(m.out.plan.Cautions)
 	}
 	if ck := m.out.check; ck != nil {
-		c := len(ck.Current.Cautions)
+		check = len(ck.Current.Cautions)
 		if ck.Proposed != nil {
-			c += len(ck.Proposed.Cautions)
+			check += len(ck.Proposed.Cautions)
 		}
-		n += fmt.Sprintf("+%d", c)
 	}
-	if n == "" {
+	var parts []string
+	if plan >= 0 {
+		parts = append(parts, fmt.Sprintf("plan %d", plan))
+	}
+	if check >= 0 {
+		parts = append(parts, fmt.Sprintf("F6 %d", check))
+	}
+	switch {
+	case len(parts) == 0:
 		return ""
+	case long:
+		return "(" + strings.Join(parts, ", ") + ")"
 	}
-	return "(" + n + ")"
+	return fmt.Sprintf("(%d in all)", max(plan, 0)+max(check, 0))
 }
 
 // summary is the strip that stays on every panel.
@@ -644,29 +713,34 @@ func (m *Model) summary() string {
 	if m.note != "" {
 		return truncate(s.Error.Render("! "+m.note), m.w)
 	}
-	// On the handover panel the strip is what the machine is set to now;
-	// elsewhere it is the plan.
+	if m.applied != nil {
+		return truncate(s.Error.Render(m.applied.short()), m.w)
+	}
+	// Every panel's strip starts with the highest level of everything on
+	// the screen and where it is, then what to dial when a proposal can be
+	// made; then, on the handover panel, what the machine is set to now,
+	// and elsewhere the plan.
 	if m.focus == panelHandover {
 		ck := m.out.check
 		switch {
 		case ck == nil && len(m.out.readingStops) > 0:
 			c := m.out.readingStops[0]
-			return truncate(s.levelWord(c.Level)+s.Error.Render(" "+c.Message), m.w)
+			return m.withLead(s.Error.Render(c.Message))
 		case ck == nil:
 			// Never the plan's figures here: they would read as the bed's.
 			reason := "the machine's setting"
 			if len(m.out.checkWaiting) > 0 {
 				reason = strings.Join(m.out.checkWaiting, "; ")
 			}
-			return truncate(s.Waiting.Render("CHECK WAITING for "+reason), m.w)
+			return m.waitingLine(s.Waiting.Render("CHECK WAITING for "+reason), s.Waiting.Render("CHECK WAITING for entries: F6 says which"))
 		case ck.Unexplained():
-			return truncate(s.levelWord(setup.Stop)+s.Error.Render(" Set now: readings unexplained, what the patient gets is NOT KNOWN"), m.w)
+			return m.withLead(s.Error.Render("Set now: readings unexplained, patient gets NOT KNOWN"))
 		}
 		lead := "Set now: "
-		if ck.Proposed != nil && setup.FirstStop(ck.Proposed.Cautions) != nil {
-			lead = "Proposed: STOP | Set now: "
+		if len(m.out.toConfirm) > 0 {
+			lead = "Recorded, not yet confirmed: "
 		}
-		return m.strip(lead, ck.Current.Figures, ck.Current.Cautions)
+		return m.withLead(m.strip(lead, ck.Current.Figures, ck.Current.Cautions)...)
 	}
 	pl := m.out.plan
 	if pl == nil {
@@ -674,16 +748,15 @@ func (m *Model) summary() string {
 		if len(m.out.waiting) > 0 {
 			reason = strings.Join(m.out.waiting, "; ")
 		}
-		return truncate(s.Waiting.Render("SETTING WAITING for "+reason), m.w)
+		return m.waitingLine(s.Waiting.Render("SETTING WAITING for "+reason), s.Waiting.Render("SETTING WAITING for entries: see beside them"))
 	}
-	return m.strip("Plan: ", pl.Figures, pl.Cautions)
+	return m.withLead(m.strip("Plan: ", pl.Figures, pl.Cautions)...)
 }
 
 // strip is one line: the highest caution first, so a narrow window never
 // cuts it off, then the hole, speed, dwell, volume and the caution count.
-func (m *Model) strip(lead string, f setup.Figures, cs []setup.Caution) string {
+func (m *Model) strip(lead string, f setup.Figures, cs []setup.Caution) []string {
 	s := m.styles
-	sep := s.Label.Render(" | ")
 	level := s.Label.Render("no cautions")
 	if len(cs) > 0 {
 		level = s.levelWord(setup.Highest(cs))
@@ -698,7 +771,7 @@ func (m *Model) strip(lead string, f setup.Figures, cs []setup.Caution) string {
 	if n := len(cs); n > 0 {
 		parts = append(parts, s.Label.Render(fmt.Sprintf("%d caution%s", n, plural(n))))
 	}
-	return truncate(strings.Join(parts, sep), m.w)
+	return parts
 }
 
 func plural(n int) string {
@@ -716,6 +789,8 @@ func (m *Model) helpLine() string {
 		b = m.picker.ShortHelp()
 	case m.confirmQuit:
 		b = []key.Binding{m.keys.Confirm, m.keys.Stay}
+	case m.applied != nil:
+		b = []key.Binding{appliedYes, appliedNo, m.keys.Quit}
 	case m.overlay != nil:
 		b = []key.Binding{key.NewBinding(key.WithKeys("esc"), key.WithHelp("esc", "close")),
 			key.NewBinding(key.WithKeys("pgdown"), key.WithHelp("↑/↓ pgup/pgdn", "scroll"))}

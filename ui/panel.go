@@ -35,7 +35,11 @@ type outcome struct {
 	// changedFromRecord what the entries now hold otherwise.
 	started           string
 	changedFromRecord []string
-	saveNote          string // the last record's outcome, shown on the handover panel
+	// toConfirm are the setting's entries filled from a record that
+	// nobody has yet confirmed or changed at the machine (their labels).
+	toConfirm []string
+	fromAt    string // "from the record at 14:05 UTC"
+	saveNote  string // the last record's outcome, shown on the handover panel
 	// logNote says where the screen records checks and whether it can.
 	logNote string
 }

@@ -1,6 +1,8 @@
 package ui
 
 import (
+	"strings"
+
 	"github.com/charmbracelet/bubbles/key"
 	tea "github.com/charmbracelet/bubbletea"
 
@@ -57,6 +59,15 @@ func (p *patientPanel) View() string {
 		pl := p.out.plan
 		foot = s.Label.Render("PBW ") + s.Value.Render(f1(pl.PBWKg)) + s.Unit.Render(" kg") +
 			s.Label.Render("  (ARDS Network 2000 formula)") + "\n" + foot
+	}
+	if p.out != nil && p.out.logNote != "" {
+		// Where checks are recorded, and whether they can be, is said on
+		// the first screen, not first at Ctrl+S.
+		st := s.Hint
+		if strings.HasPrefix(p.out.logNote, "CANNOT") {
+			st = s.Error
+		}
+		foot += "\n" + st.Render(p.out.logNote)
 	}
 	return body + "\n\n" + foot
 }

@@ -1,6 +1,8 @@
 package ui
 
 import (
+	"strings"
+
 	"github.com/charmbracelet/lipgloss"
 
 	"crankside/setup"
@@ -42,13 +44,26 @@ type Styles struct {
 	Summary, Caution         lipgloss.Style
 	Help                     lipgloss.Style
 	Level                    map[setup.Level]lipgloss.Style
+	LevelText                map[setup.Level]lipgloss.Style // a count or mark in a level's colour
 	ChartTrace, ChartRef     lipgloss.Style
 	ChartAxis                lipgloss.Style
 }
 
-// NewStyles builds the styles once for the whole program.
-func NewStyles() Styles {
+// noColorPalette is every colour left out (NO_COLOR): the styles keep
+// their bold, underline and reverse video, so that the text cursor, the
+// selected value and the level words still show.
+func noColorPalette() palette {
+	none := lipgloss.AdaptiveColor{}
+	return palette{text: none, muted: none, accent: none, frame: none, focus: none, stop: none, warn: none, note: none, okay: none, onLevel: none}
+}
+
+// NewStyles builds the styles once for the whole program; noColor leaves
+// every colour out and keeps the rest.
+func NewStyles(noColor bool) Styles {
 	p := newPalette()
+	if noColor {
+		p = noColorPalette()
+	}
 	level := func(c lipgloss.AdaptiveColor) lipgloss.Style {
 		return lipgloss.NewStyle().Bold(true).Foreground(p.onLevel).Background(c)
 	}
@@ -77,6 +92,11 @@ func NewStyles() Styles {
 			setup.Warn: level(p.warn),
 			setup.Note: level(p.note),
 		},
+		LevelText: map[setup.Level]lipgloss.Style{
+			setup.Stop: lipgloss.NewStyle().Bold(true).Foreground(p.stop),
+			setup.Warn: lipgloss.NewStyle().Bold(true).Foreground(p.warn),
+			setup.Note: lipgloss.NewStyle().Foreground(p.note),
+		},
 		ChartTrace: lipgloss.NewStyle().Foreground(p.accent),
 		ChartRef:   lipgloss.NewStyle().Foreground(p.muted),
 		ChartAxis:  lipgloss.NewStyle().Foreground(p.frame),
@@ -91,4 +111,47 @@ func (s Styles) levelWord(l setup.Level) string {
 		return setup.LevelWord(l)
 	}
 	return st.Render(setup.LevelWord(l))
+}
+
+// withLevels draws a line of plain text in st, with every level word in it
+// (STOP, WARN, NOTE standing alone) in its own colours, as levelWord draws
+// it everywhere else: the ward's and the history's lines colour their
+// levels as the panels do.
+func (s Styles) withLevels(text string, st lipgloss.Style) string {
+	var b strings.Builder
+	start := 0
+	for i := 0; i+4 <= len(text); i++ {
+		l, ok := levelAt(text, i)
+		if !ok {
+			continue
+		}
+		if i > start {
+			b.WriteString(st.Render(text[start:i]))
+		}
+		b.WriteString(s.levelWord(l))
+		start = i + 4
+		i += 3
+	}
+	if start < len(text) {
+		b.WriteString(st.Render(text[start:]))
+	}
+	return b.String()
+}
+
+// levelAt reports whether a level word stands alone at text[i:].
+func levelAt(text string, i int) (setup.Level, bool) {
+	for _, l := range []setup.Level{setup.Stop, setup.Warn, setup.Note} {
+		w := setup.LevelWord(l)
+		if !strings.HasPrefix(text[i:], w) {
+			continue
+		}
+		if (i == 0 || !wordByte(text[i-1])) && (i+len(w) == len(text) || !wordByte(text[i+len(w)])) {
+			return l, true
+		}
+	}
+	return 0, false
+}
+
+func wordByte(c byte) bool {
+	return c >= 'a' && c <= 'z' || c >= 'A' && c <= 'Z' || c >= '0' && c <= '9' || strings.IndexByte("-_./", c) >= 0
 }

@@ -185,12 +185,21 @@ func (m *Model) startFromRecord(r setup.Record) tea.Cmd {
 			f.from = at
 		}
 	}
-	m.fromRecord = &recordStart{entries: e, label: "Started " + at + " (bed " + safetext.Escape(r.Bed) + "); the lung condition is not in the record: F1 says which is assumed"}
+	for _, name := range settingEntries {
+		m.checkField(name).unconfirmed = true
+	}
+	m.fromRecord = &recordStart{entries: e, at: at, label: "Bed " + safetext.Escape(r.Bed) + " started " + at + "; its lung condition is not recorded (F1 says which is assumed)"}
+	if r.Proposed != nil {
+		m.applied = &appliedQuestion{rec: r}
+	}
 	m.out.saveNote = ""
 	m.unsaved, m.recordedAt = false, ""
 	m.handover.form.current().blur()
 	m.handover.form.cursor = 0
 	m.scroll[panelHandover] = 0
+	if m.applied != nil {
+		m.applied.ask(m)
+	}
 	m.recompute()
 	return m.focusPanel(panelHandover)
 }
@@ -199,6 +208,7 @@ func (m *Model) startFromRecord(r setup.Record) tea.Cmd {
 type recordStart struct {
 	entries setup.Entries
 	label   string
+	at      string // "from the record at 14:05 UTC"
 }
 
 // lines is the ward wrapped to width, and the first and last line of the
@@ -223,7 +233,7 @@ func (w *wardView) lines(width int) (lines []string, top, bottom int) {
 			mark, st = "> ", s.FieldFocused
 			top = len(lines)
 		}
-		add(mark + st.Render(safetext.Escape(setup.WardLine(r))))
+		add(mark + s.withLevels(safetext.Escape(setup.WardLine(r)), st))
 		if i == w.cursor {
 			bottom = len(lines) - 1
 		}

@@ -64,6 +64,13 @@ func TestWardViewStartsTheNextCheckFromTheRecord(t *testing.T) {
 	require.Equal(t, "B2", m.checkField("bed").Value())
 	require.Contains(t, m.checkField("hole").from, "from the record at 03:00")
 	require.NotNil(t, m.out.check)
+	// Nobody has looked at the machine yet: the check is not called found.
+	require.NotContains(t, m.handover.View(), "Found as recorded")
+	require.Contains(t, oneLine(m.handover.results()), "From the record at 03:00 UTC: confirm each value at the machine")
+	// Enter on each of hole, speed, dwell, PEEP and O2 confirms it.
+	m.handover.form.move(2)
+	press(m, enter, enter, enter, enter, enter)
+	require.Empty(t, m.out.toConfirm)
 	require.Contains(t, m.handover.View(), "Found as recorded")
 	// The machine is found at another speed: the difference shows.
 	m.handover.form.move(3)
@@ -225,6 +232,12 @@ func TestStartingABedFromTheWardCarriesNothingFromTheBedBefore(t *testing.T) {
 	}
 	m.entryChanged()
 	press(m, ctrlS)
+	require.Contains(t, oneLine(m.handover.results()), "not recorded: confirm at the machine first", "a check as the record gave it is not recorded as found")
+	for _, name := range settingEntries {
+		m.checkField(name).unconfirmed = false
+	}
+	m.entryChanged()
+	press(m, ctrlS)
 	require.Contains(t, screen(m), "Recorded for bed B2")
 	press(m, tea.KeyMsg{Type: tea.KeyF7}, down, enter) // the next bed, B7
 	require.Nil(t, m.ward, "nothing unrecorded: no question")
@@ -267,4 +280,10 @@ func TestUnrecordedHandoverEntriesAreNotDroppedWithoutAsking(t *testing.T) {
 	require.Nil(t, m.ward, "asked, then Enter again starts the bed")
 	require.Equal(t, "B2", m.checkField("bed").Value())
 	require.NotNil(t, press(m, tea.KeyMsg{Type: tea.KeyCtrlC}), "nothing typed since the start from the record: Ctrl+C quits")
+}
+
+// oneLine is a view's words on one line: a phrase wrapped across lines
+// (and the frame's borders) is found whole.
+func oneLine(v string) string {
+	return strings.Join(strings.Fields(strings.NewReplacer("┃", " ", "│", " ").Replace(v)), " ")
 }

@@ -43,13 +43,27 @@ func RunScreen(env Env) int {
 	if err != nil {
 		return UsageError(env.Stderr, "", "--profile: "+err.Error())
 	}
-	if os.Getenv("NO_COLOR") != "" {
-		lipgloss.SetColorProfile(termenv.Ascii)
+	if os.Getenv("TERM") == "dumb" {
+		// A terminal that cannot move the cursor gets what a missing one
+		// gets: one plain line, and the commands that work there.
+		return screenRefused(env, "TERM=dumb: this terminal cannot draw it")
 	}
-	err = ui.Run(ui.Options{Profile: p, Source: src, ProfilesDir: dir(), Prefill: prefill, LogPath: logPath()})
+	noColor := os.Getenv("NO_COLOR") != ""
+	if noColor {
+		// NO_COLOR takes the colours away, not the terminal's other
+		// attributes: the text cursor is reverse video, the levels bold.
+		lipgloss.SetColorProfile(termenv.ANSI)
+	}
+	err = ui.Run(ui.Options{Profile: p, Source: src, ProfilesDir: dir(), Prefill: prefill, LogPath: logPath(), NoColor: noColor})
 	if err != nil {
-		fmt.Fprintf(env.Stderr, "crankside: the bedside screen could not start (%v); in scripts use 'crankside plan'\n", err)
-		return ExitFailure
+		return screenRefused(env, err.Error())
 	}
 	return ExitOK
+}
+
+// screenRefused says in one plain line why the screen did not start and
+// which sub-commands do the same work without it.
+func screenRefused(env Env, why string) int {
+	fmt.Fprintf(env.Stderr, "crankside: the bedside screen could not start (%s); use the sub-commands instead: 'crankside plan', 'crankside check', 'crankside log' ('crankside --help' lists them)\n", why)
+	return ExitFailure
 }
