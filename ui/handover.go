@@ -210,8 +210,9 @@ func (p *handoverPanel) results() string {
 	// under the alarms: the lung in one line, the protocol's offer, the
 	// setting and what the patient gets now and proposed, the cautions,
 	// and only then why the step, how sure the fit is, and the log.
-	p.lungLine(add, ck)
 	j := o.checkJSON
+	p.gasLine(add, j)
+	p.lungLine(add, ck)
 	p.protocolOffer(add, j)
 	p.settingTable(add, j)
 	if ck.Unexplained() {
@@ -230,12 +231,43 @@ func (p *handoverPanel) results() string {
 	if ck.Proposed != nil {
 		p.cautionLines(add, "Proposed", ck.Proposed.Cautions)
 	}
+	if o := setup.OxygenationText(j.OxygenationJSON); o != "" {
+		add(s.Section.Render("OXYGENATION (P/F, S/F)"))
+		add(s.Hint.Render(o))
+	}
 	p.protocolWhy(add, j)
 	p.fitLines(add, ck)
 	if o.saveNote == "" {
 		add(s.Hint.Render(o.logNote))
 	}
 	return strings.Join(l, "\n")
+}
+
+// gasLine is the patient's own numbers in a few words, above the
+// machine's figures: the gas cautions with their levels and the graded
+// P/F or S/F (the full list is under the figures and on F5).
+func (p *handoverPanel) gasLine(add func(string), j setup.CheckJSON) {
+	s := p.styles
+	g := setup.GasCheckText(j)
+	if g == "" {
+		return
+	}
+	st := s.Value
+	if h := setup.Highest(gasOnly(j.Cautions)); h >= setup.Warn {
+		st = s.Caution
+	}
+	add(s.Label.Render("Patient's ") + st.Render(g))
+}
+
+// gasOnly are the gas cautions among cs.
+func gasOnly(cs []setup.Caution) []setup.Caution {
+	var out []setup.Caution
+	for _, c := range cs {
+		if setup.IsGasCaution(c.ID) {
+			out = append(out, c)
+		}
+	}
+	return out
 }
 
 // recordLines say which record the check was started from and, until

@@ -27,8 +27,8 @@ type outcome struct {
 	check        *setup.Check
 	checkJSON    setup.CheckJSON // check's report body, built once per recompute
 	checkWaiting []string
-	// readingStops are the manometer readings' own cautions, judged
-	// while the check still waits for other entries.
+	// readingStops are the manometer readings' own cautions, then the
+	// blood gas's, judged while the check still waits for other entries.
 	readingStops []setup.Caution
 	checkLung    string // the lung condition the check's assumed mechanics are for
 	// started says which record the check was started from, and
