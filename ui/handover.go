@@ -55,6 +55,7 @@ func newHandoverPanel(s *Styles) *handoverPanel {
 			numberField("end-pressure", "End cmH2O", "cmH2O", ""),
 		}},
 		section{title: "BLOOD GAS / OXIMETER", fields: []*field{
+			choiceField("gas-unit", "Gas unit", "", 0, choice{"m", "mmHg", setup.GasUnitMmHg}, choice{"k", "kPa", setup.GasUnitKPa}),
 			numberField("spo2", "SpO2 %", "%", ""),
 			numberField("pao2", "PaO2 mmHg", "mmHg", ""),
 			numberField("ph", "pH", "", ""),
@@ -167,6 +168,9 @@ func (p *handoverPanel) results() string {
 	if o != nil && o.saveNote != "" {
 		add(o.saveNote)
 	}
+	if o != nil && o.unitNote != "" {
+		add(s.Error.Render("! " + o.unitNote))
+	}
 	if o == nil || o.check == nil {
 		if o != nil && o.saveNote == "" {
 			add(s.Hint.Render(o.logNote))
@@ -198,6 +202,9 @@ func (p *handoverPanel) results() string {
 	}
 	if st := setup.FirstStop(ck.Current.Cautions); st != nil {
 		add(s.levelWord(setup.Stop) + " " + s.Error.Render("DO NOT USE THIS SETTING AS IT IS: "+st.Message))
+	}
+	if line := setup.ConversionLine(ck.Converted); line != "" {
+		add(s.Label.Render("Entered ") + s.Value.Render(line))
 	}
 	if j := o.checkJSON; ck.Proposed != nil && (j.ProposalFrom == "" || j.ProposalFrom == setup.ProposalEntered) {
 		// A proposal typed by hand is judged as loudly as the setting (the

@@ -42,6 +42,9 @@ type outcome struct {
 	saveNote  string // the last record's outcome, shown on the handover panel
 	// logNote says where the screen records checks and whether it can.
 	logNote string
+	// unitNote says why the gas unit chosen is not kept between runs (a
+	// preferences file refused or not written); "" when all is well.
+	unitNote string
 }
 
 // panel is one child of the root model.
