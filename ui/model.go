@@ -194,6 +194,8 @@ func (m *Model) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 	case tea.KeyMsg:
 		return m, m.handleKey(msg)
 	case entryChanged:
+		// The gas entries' labels say the unit before problems name them.
+		m.handover.showGasUnit()
 		m.entryChanged()
 		return m, m.rememberGasUnit()
 	case prefsSavedMsg:

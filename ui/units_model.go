@@ -28,9 +28,8 @@ func (m *Model) startUnits(opts Options) {
 }
 
 // rememberGasUnit writes the gas unit when the choice changed from the one
-// kept, and shows the unit in the gas fields' labels.
+// kept.
 func (m *Model) rememberGasUnit() tea.Cmd {
-	m.handover.showGasUnit()
 	f := m.checkField("gas-unit")
 	if f == nil || m.prefsPath == "" || f.Value() == m.keptGasUnit {
 		return nil
