@@ -50,6 +50,13 @@ func (m *Model) prefsSaved(msg prefsSavedMsg) {
 	m.out.unitNote = ""
 }
 
+// enteredLine echoes the entries typed in the ward's units, in the tool's.
+func (p *handoverPanel) enteredLine(add func(string), ck *setup.Check) {
+	if line := setup.ConversionLine(ck.Converted); line != "" {
+		add(p.styles.Label.Render("Entered ") + p.styles.Value.Render(line))
+	}
+}
+
 // showGasUnit puts the chosen unit in the labels of the gas entries.
 func (p *handoverPanel) showGasUnit() {
 	unit := "mmHg"
