@@ -19,6 +19,7 @@ import (
 func RunScreen(env Env) int {
 	f, profile, dir := planFlagSet("", TopUsage()+"\nFlags of the screen:\n")
 	logPath := f.text("log", setup.DefaultLogPath(), "the handover log the screen records checks in")
+	every := f.text("every", "", "hours between checks, for the bed's next check due on the status line (default 4, common practice)")
 	asJSON := f.boolean("json", "(for sub-commands only)")
 	if status, done := f.parse(env, env.Args, "", false); done {
 		return status
@@ -26,15 +27,14 @@ func RunScreen(env Env) int {
 	if asJSON() {
 		return UsageError(env.Stderr, "", "--json goes with a sub-command, such as 'crankside plan --json'")
 	}
+	if _, ie := setup.CheckInterval(every()); ie != nil {
+		return UsageError(env.Stderr, "", "--every: "+ie.Reason)
+	}
 	prefill := map[string]string{}
 	for _, name := range f.order {
 		if v, ok := f.entries[name]; ok {
 			prefill[name] = v
 		}
-	}
-	if v, ok := prefill["height-in"]; ok {
-		// The screen's height field takes inches with their unit.
-		prefill["height-cm"] = v + "in"
 	}
 	if _, problems := setup.BuildRequest(prefill, time.Time{}); len(problems) > 0 {
 		for _, p := range problems {
@@ -42,6 +42,11 @@ func RunScreen(env Env) int {
 				return problemsError(env.Stderr, "", setup.Problems{p})
 			}
 		}
+	}
+	if v, ok := prefill["height-in"]; ok {
+		// The screen's height field takes inches with their unit.
+		prefill["height-cm"] = v + "in"
+		delete(prefill, "height-in")
 	}
 	p, src, err := profiles.Open(profile(), dir())
 	if err != nil {
@@ -58,7 +63,7 @@ func RunScreen(env Env) int {
 		// attributes: the text cursor is reverse video, the levels bold.
 		lipgloss.SetColorProfile(termenv.ANSI)
 	}
-	opts := ui.Options{Profile: p, Source: src, ProfilesDir: dir(), Prefill: prefill, LogPath: logPath(), NoColor: noColor}
+	opts := ui.Options{Profile: p, Source: src, ProfilesDir: dir(), Prefill: prefill, LogPath: logPath(), NoColor: noColor, Every: everyEntered(every())}
 	opts.PreferencesPath = setup.DefaultPreferencesPath()
 	if opts.PreferencesPath != "" {
 		prefs, err := setup.ReadPreferences(opts.PreferencesPath)
