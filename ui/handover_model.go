@@ -103,6 +103,9 @@ func (m *Model) record() (setup.Record, error) {
 		return setup.Record{}, errors.New("confirm at the machine first what the record gave: " + strings.Join(c, ", ") + " (Enter on each, or type what the machine shows)")
 	}
 	rec, err := setup.NewRecord(*m.out.check, m.checkField("bed").Value(), m.checkField("initials").Value(), m.now())
+	if err == nil {
+		rec, err = rec.WithSecondInitials(m.checkField("second-initials").Value())
+	}
 	var ie *setup.InputError
 	if errors.As(err, &ie) {
 		if f := m.checkField(ie.Field); f != nil {
