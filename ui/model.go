@@ -823,6 +823,8 @@ func (m *Model) fullHelp() string {
 		"0,9 means 0.9 in every number field; what was read is shown beside the field.",
 		"Choices take their letter (m or f; n, a or o) or Space for the next one; arrows never change a value.",
 		"Backspace, Delete and Ctrl+U edit the field with the cursor.",
+		"A paste goes only into the field with the cursor, as text: one holding a Tab, Enter or other control key is refused whole, and nothing in it acts.",
+		"A check started from the ward (F7, Enter) holds the record's setting until each value is confirmed at the machine (Enter) or changed; Ctrl+Y or Ctrl+N says whether the record's proposal was applied.",
 		"Blank optional entries use the default shown beside them, with its source.",
 		"Every figure comes from the computation the command line uses (crankside plan).",
 		"Levels: STOP do not use this setting; WARN needs a clinician's decision; NOTE.",
