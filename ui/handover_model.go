@@ -7,6 +7,7 @@ import (
 	"strings"
 
 	tea "github.com/charmbracelet/bubbletea"
+	"github.com/charmbracelet/lipgloss"
 
 	"crankside/profiles/safetext"
 	"crankside/setup"
@@ -184,7 +185,13 @@ func (m *Model) card() {
 	}
 	var b strings.Builder
 	setup.WriteCard(&b, rec)
-	m.overlay = &textOverlay{title: title, text: b.String()}
+	// The card is the printed text; on the screen its level words are
+	// coloured as everywhere else.
+	lines := strings.Split(b.String(), "\n")
+	for i, l := range lines {
+		lines[i] = m.styles.withLevels(l, lipgloss.NewStyle())
+	}
+	m.overlay = &textOverlay{title: title, text: strings.Join(lines, "\n")}
 }
 
 func (m *Model) history() tea.Cmd {
