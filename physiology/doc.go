@@ -11,7 +11,9 @@
 // resistance fitted to two manometer readings (FitMechanics, which takes the
 // pressure model as a function), the ARDS Network protocol's next step
 // (NextProtocolStep, Henderson-Hasselbalch, the alveolar ventilation
-// equation), and parsing of what people type (ParseNumber, ParseIE,
+// equation), the oxyhaemoglobin curve (Severinghaus 1979) and the Berlin
+// bands of ARDS by P/F or S/F (SaturationPctSeveringhaus, SpO2RangeForPaO2,
+// BandFromPF, BandFromSF), and parsing of what people type (ParseNumber, ParseIE,
 // ParseSex, ParseLung, Quote).
 //
 // Units at every exported boundary: height in cm, weight in kg, volume in mL,

@@ -129,6 +129,9 @@ type Check struct {
 	Protocol        *ProtocolStepResult
 	ProtocolProblem string
 	ProposalFrom    string
+	// Oxygenation are P/F, S/F and the Berlin band, with a gas or
+	// oximeter reading (see judgeGas).
+	Oxygenation *OxygenationJSON
 
 	// Gas is the version 2 breath's room (with the BTPS factor), cylinder
 	// head, leak and relief valve, as used in every stroke of the check.

@@ -31,6 +31,8 @@ func CheckHint(name string) string {
 		return "the manometer when the piston stops (end of delivery); with the peak, or neither"
 	case "cylinder-l", "cylinder-bar":
 		return "optional: the cylinder's capacity and pressure together"
+	case "gas-unit":
+		return "the unit of PaO2 and PaCO2: m mmHg or k kPa (1 kPa = 7.50062 mmHg, NIST SP 811); kept for the next start"
 	case "cylinder-reserve-bar", "breathing-against":
 		return Hint(name, physiology.Normal)
 	case "propose-hole", "propose-rpm", "propose-dwell-s", "propose-peep", "propose-o2-lpm":

@@ -78,14 +78,23 @@ func runCheckWithStep(req CheckRequest, p profiles.Profile) (Check, error) {
 	if err != nil {
 		return Check{}, err
 	}
+	ck.judgeGas(gas)
 	if ck.Unexplained() {
 		ck.ProtocolProblem = unexplainedNoStep
 		return ck, nil
 	}
-	res, err := ProtocolProposal(req, gas, p)
+	fed, refused := gasForStep(gas)
+	if fed.Empty() {
+		ck.ProtocolProblem = "no protocol step: " + refused + "; re-take the gas, then the step is computed"
+		return ck, nil
+	}
+	res, err := ProtocolProposal(req, fed, p)
 	if err != nil {
 		ck.ProtocolProblem = "no protocol step at this setting: " + err.Error()
 		return ck, nil
+	}
+	if refused != "" {
+		res.note(refused)
 	}
 	hand := req.Proposal
 	stepEv, stepDiff := res.Check.Proposed, res.Check.Differences
@@ -159,6 +168,7 @@ func (ck Check) protocolJSON(j *CheckJSON) {
 	if ck.BloodGas != nil {
 		j.GasReadings = gasReadingsJSON(*ck.BloodGas)
 	}
+	j.OxygenationJSON = ck.Oxygenation
 	j.ProtocolProblem, j.ProposalFrom = ck.ProtocolProblem, ck.ProposalFrom
 	st := ck.Protocol
 	if st == nil {

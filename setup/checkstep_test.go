@@ -167,6 +167,6 @@ func TestHistoryProposalLineShowsTheOxygenAndTheStep(t *testing.T) {
 	line := setup.ProposalLine(rec)
 	require.Contains(t, line, "(the protocol's step)")
 	require.Contains(t, line, "; O2 ")
-	require.NotContains(t, setup.HistoryLine(rec), "O2", "the setting has no O2 bleed")
+	require.NotContains(t, setup.HistoryLine(rec), "; O2 ", "the setting has no O2 bleed")
 	require.Greater(t, rec.Proposed.Setting.O2LPerMin, 0.0)
 }

@@ -20,6 +20,13 @@
 // the text and the card say so in their place; a proposal is still
 // evaluated, on the assumed lung, and labelled so.
 //
+// The blood gas and the oximeter are judged the same way (GasCautions:
+// oxygenation-low, oxygenation-high, ph-low, ph-high, and
+// gas-readings-disagree, a stop for readings that cannot all be true,
+// which the protocol step then does not read); they join the current
+// setting's cautions, and the check carries P/F, S/F and the Berlin band
+// with the FiO2 estimated from the oxygen bleed (OxygenationJSON).
+//
 // Units follow the names: cm, kg, mL, s, cmH2O, mL/cmH2O, cmH2O/(L/s), L/min
 // for flows shown to people, rpm, N m. The ranges a person may enter are in
 // package physiology (heights 130-230 cm, 4-10 mL/kg PBW, I:E 1:1 to 1:4,

@@ -400,7 +400,15 @@ func Hint(name string, lung physiology.Lung) string {
 	}
 	switch name {
 	case "height-cm":
-		return fmt.Sprintf("required, %g-%g cm", physiology.HeightMinCm, physiology.HeightMaxCm)
+		return fmt.Sprintf("required, %g-%g cm, or 70in, 5'10\"", physiology.HeightMinCm, physiology.HeightMaxCm)
+	case "height-in":
+		return "instead of height-cm; 1 in = 2.54 cm"
+	case "gas-unit":
+		return "blank: mmHg; kpa for PaO2 and PaCO2 in kPa (1 kPa = 7.50062 mmHg, NIST SP 811)"
+	case "pressure-unit":
+		return "blank: cmH2O; hpa or mbar (1 hPa = 1 mbar = 1.01972 cmH2O)"
+	case "barometric-hpa":
+		return "instead of barometric-mmhg; 1013.25 hPa = 760 mmHg"
 	case "sex":
 		return "required: m or f"
 	case "ml-per-kg":

@@ -277,6 +277,27 @@ func (r *entryReader) dropMissing(name string) {
 	r.problems = out
 }
 
+// HeightEcho is how a height entry that says its unit is read, for a form
+// to show beside the field ("read as 177.8 cm"), or "" for a plain number
+// or text that is not a height (the entry builder says why).
+func HeightEcho(text string) string {
+	t := strings.TrimSpace(text)
+	if _, err := physiology.ParseNumber(t); err == nil {
+		if v, ok := Understood(t); ok && strings.Contains(t, ",") {
+			return "read as " + v
+		}
+		return ""
+	}
+	if !heightWithUnit(t) {
+		return ""
+	}
+	h, err := physiology.ParseHeight(t)
+	if err != nil {
+		return ""
+	}
+	return "read as " + strconv.FormatFloat(h.Cm, 'f', 1, 64) + " cm"
+}
+
 // ConversionLine is every converted entry on one line, or "".
 func ConversionLine(cs []Conversion) string {
 	var parts []string

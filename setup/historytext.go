@@ -21,6 +21,9 @@ func HistoryLine(r Record) string {
 	if r.Setting.O2LPerMin > 0 {
 		line += fmt.Sprintf("; O2 %.1f L/min", r.Setting.O2LPerMin)
 	}
+	if g := GasRecordText(r); g != "" {
+		line += "; " + g
+	}
 	return line
 }
 

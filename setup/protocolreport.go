@@ -160,6 +160,9 @@ func (w *reportWriter) protocolSection(j CheckJSON) {
 		return
 	}
 	w.line("%s", GasLine(*j.GasReadings))
+	if o := OxygenationText(j.OxygenationJSON); o != "" {
+		w.line("OXYGENATION  %s", o)
+	}
 	if j.ProtocolProblem != "" {
 		w.line("PROTOCOL STEP: NONE  %s", j.ProtocolProblem)
 		return

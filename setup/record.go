@@ -52,7 +52,9 @@ type CheckJSON struct {
 	ProtocolNotes      []string          `json:"protocol_notes,omitempty"`
 	ProtocolProblem    string            `json:"protocol_problem,omitempty"`
 	ProposalFrom       string            `json:"proposal_from,omitempty"`
-	ClinicalCaution    string            `json:"clinical_caution"`
+	// P/F, S/F and the Berlin band; absent without a gas reading.
+	*OxygenationJSON
+	ClinicalCaution string `json:"clinical_caution"`
 	// Version 2: what the manometer's resolution allows of the fit, each
 	// [low, high] (null without a fit), and the room and gas path.
 	ManometerStepCmH2O    *float64    `json:"manometer_step_cmh2o,omitempty"`

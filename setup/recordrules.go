@@ -126,6 +126,9 @@ func figuresProblem(r *Record) string {
 			}
 		}
 	}
+	if p := gasRecordProblem(r); p != "" {
+		return p
+	}
 	if r.Unexplained() {
 		return "" // no predicted figure is kept (WithheldFigureKeys)
 	}
@@ -191,6 +194,7 @@ func figureCautions(r *Record) []Caution {
 			add(c.ID, c.Level)
 		}
 	}
+	out = append(out, recordGasCautions(r)...)
 	if r.Unexplained() {
 		add("readings-unexplained", Stop)
 		return out

@@ -65,6 +65,14 @@ type wardRowJSON struct {
 	Conflict     string  `json:"conflict,omitempty"`
 	FutureAt     string  `json:"future_record_at,omitempty"`
 	FutureLog    string  `json:"future_record_log,omitempty"`
+	// The patient's own numbers at that check: the gas and oximeter
+	// readings, their cautions, and the oxygenation indices (null, and
+	// an empty list, when none was entered).
+	GasReadings  *GasReadingsJSON `json:"gas_readings"`
+	GasCautions  []Caution        `json:"gas_cautions"`
+	PFRatio      *float64         `json:"pf_ratio"`
+	SFRatio      *float64         `json:"sf_ratio"`
+	ARDSSeverity *string          `json:"ards_severity"`
 }
 
 // MarshalJSON writes the row with snake_case keys; checked_at is RFC 3339
@@ -78,11 +86,13 @@ func (r WardRow) MarshalJSON() ([]byte, error) {
 	if !r.FutureAt.IsZero() {
 		future = r.FutureAt.UTC().Format(time.RFC3339)
 	}
-	return json.Marshal(wardRowJSON{Conflict: r.Conflict, FutureAt: future, FutureLog: r.FutureLog,
+	j := wardRowJSON{Conflict: r.Conflict, FutureAt: future, FutureLog: r.FutureLog,
 		Bed: r.Bed, CheckedAt: r.CheckedAt.UTC().Format(time.RFC3339), AgeMinutes: r.AgeMinutes,
 		ProfileID: r.ProfileID, Hole: r.Hole, MotorRPM: r.MotorRPM, DwellS: r.DwellS, PEEPCmH2O: r.PEEPCmH2O,
 		MLPerKg: r.MLPerKg, HighestLevel: level, Overdue: r.Overdue, ProposalMade: r.Proposed, Log: r.Source,
-	})
+	}
+	r.gasJSON(&j)
+	return json.Marshal(j)
 }
 
 // urgency ranks a row for the ward view: stop, then overdue, then warn,
@@ -114,11 +124,16 @@ func NewWardRow(rec Record, source string, now time.Time, every time.Duration) W
 }
 
 // SortWardRows puts the most urgent first (stop, overdue, warn, the
-// rest), and beds of equal urgency in ward order (B2 before B10).
+// rest); among beds of equal urgency, those whose blood gas or oximeter
+// raised the more serious caution first (a WARN for a low SpO2 before a
+// WARN every uncalibrated unit shows), then ward order (B2 before B10).
 func SortWardRows(rows []WardRow) {
 	sort.SliceStable(rows, func(i, j int) bool {
 		if ui, uj := rows[i].urgency(), rows[j].urgency(); ui != uj {
 			return ui < uj
+		}
+		if gi, gj := rows[i].gasLevel(), rows[j].gasLevel(); gi != gj {
+			return gi > gj
 		}
 		return bedLess(rows[i].Bed, rows[j].Bed)
 	})
@@ -419,6 +434,9 @@ func WardLine(r WardRow) string {
 		if p := r.Record.Proposed; p != nil && Highest(p.Cautions) == Stop {
 			line += ": STOP"
 		}
+	}
+	if g := GasRecordText(r.Record); g != "" {
+		line += "; " + g
 	}
 	if r.Overdue {
 		line += "  OVERDUE"

@@ -128,9 +128,13 @@ func TestWardRowJSONKeys(t *testing.T) {
 		keys = append(keys, k)
 	}
 	sort.Strings(keys)
-	// The keys issue 14 lists, plus proposal_made and log.
-	require.Equal(t, []string{"age_minutes", "bed", "checked_at", "dwell_s", "highest_level", "hole", "log", "ml_per_kg",
-		"motor_rpm", "overdue", "peep_cmh2o", "profile_id", "proposal_made"}, keys)
+	// The keys issue 14 lists, plus proposal_made and log, and issue 19's
+	// gas: the readings, their cautions, P/F, S/F and the Berlin band.
+	require.Equal(t, []string{"age_minutes", "ards_severity", "bed", "checked_at", "dwell_s", "gas_cautions", "gas_readings",
+		"highest_level", "hole", "log", "ml_per_kg", "motor_rpm", "overdue", "peep_cmh2o", "pf_ratio", "profile_id",
+		"proposal_made", "sf_ratio"}, keys)
+	require.Nil(t, objs[0]["gas_readings"], "no gas was entered")
+	require.Equal(t, []any{}, objs[0]["gas_cautions"])
 	require.Equal(t, "none", objs[0]["highest_level"])
 	require.Equal(t, "2026-12-01T08:00:00Z", objs[0]["checked_at"])
 	require.Equal(t, 60.0, objs[0]["age_minutes"], "derived: 09:00 - 08:00")

@@ -22,6 +22,7 @@ const (
 	kindLabel                     // a bed or hole label: letters, digits, - _ . /
 	kindInitials                  // letters
 	kindChoice                    // one of a few options, picked by letter or arrows
+	kindHeight                    // a height: cm, or with its unit (70in, 5'10")
 )
 
 // allowedRunes are the characters each kind of text field takes.
@@ -30,6 +31,7 @@ var allowedRunes = map[fieldKind]string{
 	kindRatio:    "0123456789.,:",
 	kindLabel:    "abcdefghijklmnopqrstuvwxyzABCDEFGHIJKLMNOPQRSTUVWXYZ0123456789-_./",
 	kindInitials: "abcdefghijklmnopqrstuvwxyzABCDEFGHIJKLMNOPQRSTUVWXYZ",
+	kindHeight:   "0123456789.,'\" cmintfeohsCMINTFEOHS", // the letters of cm, in, inch(es), ft, feet, foot
 }
 
 var kindWords = map[fieldKind]string{
@@ -37,6 +39,7 @@ var kindWords = map[fieldKind]string{
 	kindRatio:    "a ratio like 1:2",
 	kindLabel:    "letters, digits and - _ . /",
 	kindInitials: "letters",
+	kindHeight:   `a number of cm (178), or inches with their unit (70in, 5'10")`,
 }
 
 // choice is one option of a choice field; its key picks it when typed.
@@ -136,6 +139,10 @@ func (f *field) blur() {
 // text typed (a decimal comma): shown beside the field.
 func (f *field) echo() string {
 	text := f.Value()
+	if f.kind == kindHeight {
+		// A height in inches is echoed in cm; the conversion is setup's.
+		return setup.HeightEcho(text)
+	}
 	if f.kind != kindNumber || !strings.Contains(text, ",") {
 		return ""
 	}

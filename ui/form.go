@@ -211,7 +211,11 @@ func (f *form) choiceView(fl *field, active bool) string {
 	for i, c := range fl.choices {
 		word := c.label
 		if i == fl.chosen {
-			word = "(" + c.key + ") " + strings.ToUpper(c.label[:1]) + c.label[1:]
+			word = "(" + c.key + ") " + c.label
+			if strings.ToLower(c.label) == c.label {
+				// A word gets a capital; a unit (mmHg) or ARDS stays as written.
+				word = "(" + c.key + ") " + strings.ToUpper(c.label[:1]) + c.label[1:]
+			}
 			parts = append(parts, f.styles.Value.Render("["+word+"]"))
 			continue
 		}

@@ -55,6 +55,7 @@ func newHandoverPanel(s *Styles) *handoverPanel {
 			numberField("end-pressure", "End cmH2O", "cmH2O", ""),
 		}},
 		section{title: "BLOOD GAS / OXIMETER", fields: []*field{
+			choiceField("gas-unit", "Gas unit", "", 0, choice{"m", "mmHg", setup.GasUnitMmHg}, choice{"k", "kPa", setup.GasUnitKPa}),
 			numberField("spo2", "SpO2 %", "%", ""),
 			numberField("pao2", "PaO2 mmHg", "mmHg", ""),
 			numberField("ph", "pH", "", ""),
@@ -172,6 +173,9 @@ func (p *handoverPanel) results() string {
 	if o != nil && o.saveNote != "" {
 		add(o.saveNote)
 	}
+	if o != nil && o.unitNote != "" {
+		add(s.Error.Render("! " + o.unitNote))
+	}
 	if o == nil || o.check == nil {
 		if o != nil && o.saveNote == "" {
 			add(s.Hint.Render(o.logNote))
@@ -204,6 +208,9 @@ func (p *handoverPanel) results() string {
 	if st := setup.FirstStop(ck.Current.Cautions); st != nil {
 		add(s.levelWord(setup.Stop) + " " + s.Error.Render("DO NOT USE THIS SETTING AS IT IS: "+st.Message))
 	}
+	if line := setup.ConversionLine(ck.Converted); line != "" {
+		add(s.Label.Render("Entered ") + s.Value.Render(line))
+	}
 	if j := o.checkJSON; ck.Proposed != nil && (j.ProposalFrom == "" || j.ProposalFrom == setup.ProposalEntered) {
 		// A proposal typed by hand is judged as loudly as the setting (the
 		// step's own stop is said with its offer).
@@ -215,8 +222,9 @@ func (p *handoverPanel) results() string {
 	// under the alarms: the lung in one line, the protocol's offer, the
 	// setting and what the patient gets now and proposed, the cautions,
 	// and only then why the step, how sure the fit is, and the log.
-	p.lungLine(add, ck)
 	j := o.checkJSON
+	p.gasLine(add, j)
+	p.lungLine(add, ck)
 	p.protocolOffer(add, j)
 	p.settingTable(add, j)
 	if ck.Unexplained() {
@@ -235,12 +243,43 @@ func (p *handoverPanel) results() string {
 	if ck.Proposed != nil {
 		p.cautionLines(add, "Proposed", ck.Proposed.Cautions)
 	}
+	if o := setup.OxygenationText(j.OxygenationJSON); o != "" {
+		add(s.Section.Render("OXYGENATION (P/F, S/F)"))
+		add(s.Hint.Render(o))
+	}
 	p.protocolWhy(add, j)
 	p.fitLines(add, ck)
 	if o.saveNote == "" {
 		add(s.Hint.Render(o.logNote))
 	}
 	return strings.Join(l, "\n")
+}
+
+// gasLine is the patient's own numbers in a few words, above the
+// machine's figures: the gas cautions with their levels and the graded
+// P/F or S/F (the full list is under the figures and on F5).
+func (p *handoverPanel) gasLine(add func(string), j setup.CheckJSON) {
+	s := p.styles
+	g := setup.GasCheckText(j)
+	if g == "" {
+		return
+	}
+	st := s.Value
+	if h := setup.Highest(gasOnly(j.Cautions)); h >= setup.Warn {
+		st = s.Caution
+	}
+	add(s.Label.Render("Patient's ") + st.Render(g))
+}
+
+// gasOnly are the gas cautions among cs.
+func gasOnly(cs []setup.Caution) []setup.Caution {
+	var out []setup.Caution
+	for _, c := range cs {
+		if setup.IsGasCaution(c.ID) {
+			out = append(out, c)
+		}
+	}
+	return out
 }
 
 // recordLines say which record the check was started from and, until

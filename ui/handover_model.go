@@ -63,6 +63,11 @@ func (m *Model) recomputeCheck(plan setup.Entries, planProblems setup.Problems) 
 		// patient: an alarming reading is never only "waiting".
 		m.out.readingStops = setup.ReadingCautions(*req.Readings, req.Setting.PEEPCmH2O, m.out.profile.Circuit.ReliefCmH2O)
 	}
+	if gasUsable(req.Gas, problems) {
+		// So is the blood gas (setup.GasCautions, most serious first);
+		// without a setting the FiO2 is not known yet.
+		m.out.readingStops = append(m.out.readingStops, setup.GasCautions(req.Gas, setup.NewGasContext(0, 0, req.Setting.PEEPCmH2O))...)
+	}
 	for _, p := range problems {
 		if f := m.checkField(p.Field); f != nil {
 			if !p.Missing {
@@ -265,4 +270,15 @@ func logNote(path string) string {
 		return "Records go to " + where + " (its folder is made at the first record); bed label only, no name is kept."
 	}
 	return "Records go to " + where + " (it can write there); bed label only, no name is kept."
+}
+
+// gasUsable reports whether the gas entries can be judged: some typed,
+// none refused.
+func gasUsable(g setup.GasReadings, problems setup.Problems) bool {
+	for _, name := range []string{"spo2", "pao2", "ph", "paco2"} {
+		if problems.Field(name) != nil {
+			return false
+		}
+	}
+	return !g.Empty()
 }

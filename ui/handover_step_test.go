@@ -36,6 +36,7 @@ var ctrlT = tea.KeyMsg{Type: tea.KeyCtrlT}
 func typeAcidoticHandover(m *Model) {
 	press(m, runes("B4"), enter, runes("ab"), enter, runes("9"), enter, runes("21"), enter, runes("1.4"), enter,
 		enter, enter, enter, enter, // PEEP, O2, peak, end: blank
+		enter, // the gas unit: mmHg
 		runes("92"), enter, enter, runes("7.22"), enter, runes("58"))
 }
 
@@ -75,7 +76,7 @@ func TestHandoverTakesTheProtocolStep(t *testing.T) {
 	// The person may still change the step before recording: a dwell of
 	// 1.2 s gives 60 / (60/28.5 + 1.2) = 18.15 /min (derived), evaluated
 	// as the proposal entered, and the step is offered again.
-	m.handover.form.move(18)
+	m.handover.form.move(19)
 	require.Equal(t, "propose-dwell-s", m.handover.form.current().name)
 	press(m, runes("1.2"))
 	ck = m.out.check
@@ -88,7 +89,7 @@ func TestHandoverTakesTheProtocolStep(t *testing.T) {
 func TestHandoverGasReadingOutOfRangeIsMarked(t *testing.T) {
 	m, _ := handoverModel(t)
 	press(m, runes("B4"), enter, runes("ab"), enter, runes("8"), enter, runes("21"), enter, runes("1.4"), enter,
-		enter, enter, enter, enter, runes("45"))
+		enter, enter, enter, enter, enter, runes("45"))
 	// ARDS Network protocol card aside, an SpO2 of 45 % is outside the
 	// plausible 50-100 % (common practice): refused on its own field.
 	require.Nil(t, m.out.check)
@@ -111,7 +112,7 @@ func TestTakingTheStepInATerminal(t *testing.T) {
 		Prefill: map[string]string{"height-cm": "175", "sex": "male"}})
 	tm := teatest.NewTestModel(t, m, teatest.WithInitialTermSize(80, 24))
 	tm.Send(tea.KeyMsg{Type: tea.KeyF6})
-	for _, k := range []string{"B4", "\r", "ab", "\r", "9", "\r", "21", "\r", "1.4", "\r", "\r", "\r", "\r", "\r",
+	for _, k := range []string{"B4", "\r", "ab", "\r", "9", "\r", "21", "\r", "1.4", "\r", "\r", "\r", "\r", "\r", "\r",
 		"92", "\r", "\r", "7.22", "\r", "58"} {
 		if k == "\r" {
 			tm.Send(tea.KeyMsg{Type: tea.KeyEnter})

@@ -39,7 +39,7 @@ func TestHandoverCheckMatchesSetup(t *testing.T) {
 	m, _ := handoverModel(t)
 	press(m, runes("B4"), enter, runes("ab"), enter, runes("8"), enter, runes("21"), enter, runes("1.4"), enter,
 		enter, enter, runes("17"), enter, runes("14"), enter,
-		enter, enter, enter, enter, enter, // the blood gas, left blank
+		enter, enter, enter, enter, enter, enter, // the gas unit as it is, the blood gas left blank
 		enter, enter, runes("7"))
 	require.NotNil(t, m.out.check, "%v", m.out.checkWaiting)
 	p, _ := demoProfile(t, "demo-a")

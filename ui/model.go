@@ -30,6 +30,12 @@ type Options struct {
 	Now func() time.Time
 	// LogPath is where handover checks are recorded.
 	LogPath string
+	// Preferences are the choices kept between runs (the gas unit), read
+	// from PreferencesPath, where a changed choice is written; PreferencesPath
+	// "" keeps nothing. PreferencesNote says why the file was not used.
+	Preferences     setup.Preferences
+	PreferencesPath string
+	PreferencesNote string
 	// NoColor leaves every colour out (NO_COLOR); bold, underline and the
 	// reverse video of the cursor stay.
 	NoColor bool
@@ -81,9 +87,12 @@ type Model struct {
 	confirmQuit bool
 	// recordedAt is when the current check was recorded; recording it
 	// again asks first (confirmRecord).
-	recordedAt    string
-	recordedTime  time.Time // the record's own time, which its card carries
-	confirmRecord bool
+	recordedAt   string
+	recordedTime time.Time // the record's own time, which its card carries
+	// prefsPath is where the gas unit chosen is kept between runs, and
+	// keptGasUnit the unit that file holds (as far as this run knows).
+	prefsPath, keptGasUnit string
+	confirmRecord          bool
 	// ward is every bed's last check, shown over the panels (F7).
 	ward *wardView
 	// fromRecord is the record the handover check was started from.
@@ -144,6 +153,7 @@ func New(opts Options) *Model {
 		}
 	}
 	m.out.logNote = logNote(m.logPath)
+	m.startUnits(opts)
 	m.recompute()
 	if len(opts.Prefill) > 0 && m.out.plan != nil {
 		m.focus = panelSetting
@@ -185,6 +195,9 @@ func (m *Model) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 		return m, m.handleKey(msg)
 	case entryChanged:
 		m.entryChanged()
+		return m, m.rememberGasUnit()
+	case prefsSavedMsg:
+		m.prefsSaved(msg)
 	case advanceRequested:
 		return m, m.focusPanel(min(m.focus+1, len(m.panels)-1))
 	case pickRequested:

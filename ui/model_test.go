@@ -167,7 +167,8 @@ func TestNewPatientFlowReachesTheSetting(t *testing.T) {
 
 func TestALetterInAFieldNeverSwitchesOrQuits(t *testing.T) {
 	m := newTestModel(t, nil)
-	for _, k := range []string{"q", "x", "y", "n"} {
+	// (The height takes the letters of its units, cm, in, ft: not these.)
+	for _, k := range []string{"q", "x", "y", "z"} {
 		cmd := press(m, runes(k))
 		require.False(t, isQuit(cmd), "%q quit from a field", k)
 		require.Contains(t, m.field("height-cm").note, "nothing typed", "%q is refused visibly", k)

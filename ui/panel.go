@@ -27,8 +27,8 @@ type outcome struct {
 	check        *setup.Check
 	checkJSON    setup.CheckJSON // check's report body, built once per recompute
 	checkWaiting []string
-	// readingStops are the manometer readings' own cautions, judged
-	// while the check still waits for other entries.
+	// readingStops are the manometer readings' own cautions, then the
+	// blood gas's, judged while the check still waits for other entries.
 	readingStops []setup.Caution
 	checkLung    string // the lung condition the check's assumed mechanics are for
 	// started says which record the check was started from, and
@@ -42,6 +42,9 @@ type outcome struct {
 	saveNote  string // the last record's outcome, shown on the handover panel
 	// logNote says where the screen records checks and whether it can.
 	logNote string
+	// unitNote says why the gas unit chosen is not kept between runs (a
+	// preferences file refused or not written); "" when all is well.
+	unitNote string
 }
 
 // panel is one child of the root model.

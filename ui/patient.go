@@ -21,7 +21,7 @@ func newPatientPanel(s *Styles) *patientPanel {
 	p := &patientPanel{}
 	p.styles = s
 	p.form = newForm(s, section{fields: []*field{
-		numberField("height-cm", "Height", "cm", setup.Hint("height-cm", physiology.Normal)),
+		textField("height-cm", "Height", "cm", setup.Hint("height-cm", physiology.Normal), kindHeight),
 		choiceField("sex", "Sex", setup.Hint("sex", physiology.Normal), -1, choice{"m", "male", "male"}, choice{"f", "female", "female"}),
 		choiceField("lung", "Lung condition", "", 0,
 			choice{"n", "normal", "normal"}, choice{"a", "ARDS", "ards"}, choice{"o", "obstructive", "obstructive"}),

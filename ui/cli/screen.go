@@ -32,6 +32,10 @@ func RunScreen(env Env) int {
 			prefill[name] = v
 		}
 	}
+	if v, ok := prefill["height-in"]; ok {
+		// The screen's height field takes inches with their unit.
+		prefill["height-cm"] = v + "in"
+	}
 	if _, problems := setup.BuildRequest(prefill, time.Time{}); len(problems) > 0 {
 		for _, p := range problems {
 			if !p.Missing {
@@ -54,7 +58,16 @@ func RunScreen(env Env) int {
 		// attributes: the text cursor is reverse video, the levels bold.
 		lipgloss.SetColorProfile(termenv.ANSI)
 	}
-	err = ui.Run(ui.Options{Profile: p, Source: src, ProfilesDir: dir(), Prefill: prefill, LogPath: logPath(), NoColor: noColor})
+	opts := ui.Options{Profile: p, Source: src, ProfilesDir: dir(), Prefill: prefill, LogPath: logPath(), NoColor: noColor}
+	opts.PreferencesPath = setup.DefaultPreferencesPath()
+	if opts.PreferencesPath != "" {
+		prefs, err := setup.ReadPreferences(opts.PreferencesPath)
+		opts.Preferences = prefs
+		if err != nil {
+			opts.PreferencesNote = err.Error() + "; mmHg until a unit is chosen"
+		}
+	}
+	err = ui.Run(opts)
 	if err != nil {
 		return screenRefused(env, err.Error())
 	}
