@@ -51,3 +51,77 @@ func TestFitMechanicsSaysWhichReadingToRetake(t *testing.T) {
 		require.ErrorIs(t, err, ErrNoMechanics)
 	}
 }
+
+// limited is equationOfMotion with the peak held at a relief valve of 40
+// cmH2O (the excess vents): where the model's peak is flat, Newton's
+// steps on it stall, and the bracketing solve must still find the lung.
+func limited(peep float64) PressureModel {
+	return func(c, r float64) (float64, float64, error) {
+		p, e, _ := equationOfMotion(peep)(c, r)
+		return min(p, 40), min(e, 40), nil
+	}
+}
+
+func TestFitMechanicsBelowAFlattenedPeak(t *testing.T) {
+	// Derived by hand from the equation of motion (Chatburn 2014): C 20,
+	// R 16: peak 5 + 25 + 8 = 38, end 5 + 25 + 1.6 = 31.6 (below 40, so
+	// the relief does not touch them); C 12.5, R 2: peak 5 + 40 + 1 = 46
+	// would vent, so a reading of 39.5/37 needs C 500/(37 - 5 - 0.1 R),
+	// R from 39.5 - 37 = 0.4 R: R 6.25, C 500/31.375 = 15.936.
+	for _, k := range []struct{ peak, end, c, r float64 }{
+		{38, 31.6, 20, 16}, {39.5, 37, 500 / 31.375, 6.25},
+	} {
+		m, err := FitMechanics(Readings{k.peak, k.end}, 5, limited(5))
+		require.NoError(t, err, "%+v", k)
+		require.InEpsilon(t, k.c, m.ComplianceMLPerCmH2O, 1e-4, "peak %v end %v: C (derived)", k.peak, k.end)
+		require.InEpsilon(t, k.r, m.ResistanceCmH2OPerLS, 1e-4, "peak %v end %v: R (derived)", k.peak, k.end)
+		require.False(t, m.EndOnly)
+	}
+}
+
+func TestFitMechanicsNearGivesTheSameLung(t *testing.T) {
+	// Round trip (named as such): started from a lung far off, the fit
+	// reaches the hand-worked C 25, R 15 of TestFitMechanicsSolvesBothEquations.
+	for _, near := range []Mechanics{{ComplianceMLPerCmH2O: 150, ResistanceCmH2OPerLS: 2}, {ComplianceMLPerCmH2O: 6, ResistanceCmH2OPerLS: 90}} {
+		m, err := FitMechanicsNear(Readings{32.5, 26.5}, 5, near, equationOfMotion(5))
+		require.NoError(t, err)
+		require.InEpsilon(t, 25, m.ComplianceMLPerCmH2O, 1e-6)
+		require.InEpsilon(t, 15, m.ResistanceCmH2OPerLS, 1e-6)
+	}
+}
+
+func TestFitComplianceFromEndAlone(t *testing.T) {
+	// Derived: at R 10 the end reading is 5 + 500/C + 1, so an end of 16
+	// gives C 50 and an end of 26 gives C 25 (Chatburn 2014 equation of
+	// motion); the peak is not used.
+	for _, k := range []struct{ end, c float64 }{{16, 50}, {26, 25}} {
+		m, err := FitComplianceFromEnd(k.end, 5, 10, limited(5))
+		require.NoError(t, err)
+		require.InEpsilon(t, k.c, m.ComplianceMLPerCmH2O, 1e-6, "end %v (derived)", k.end)
+		require.Equal(t, 10.0, m.ResistanceCmH2OPerLS, "the resistance given, not fitted")
+		require.True(t, m.EndOnly)
+	}
+	// End 6.5 at R 10 needs 500/C = 0.5, C 1000: above FitCMax (200).
+	_, err := FitComplianceFromEnd(6.5, 5, 10, limited(5))
+	var re *ReadingError
+	require.True(t, errors.As(err, &re))
+	require.Equal(t, "end pressure", re.Retake)
+	require.Contains(t, re.Reason, "above 200")
+}
+
+func TestFitMechanicsOutsideTheRangesIsRefused(t *testing.T) {
+	// Derived from the equation of motion: a gap of 0.4 R = 48 needs R 120
+	// (above FitRMax 100): re-take the peak; an end of 5.5 with a gap of
+	// 0.5 needs C near 1000 (above 200): re-take the end pressure.
+	for _, k := range []struct {
+		peak, end float64
+		retake    string
+		says      string
+	}{{68, 20, "peak", "above 100"}, {6, 5.5, "end pressure", "above 200"}} {
+		_, err := FitMechanics(Readings{k.peak, k.end}, 5, equationOfMotion(5))
+		var re *ReadingError
+		require.True(t, errors.As(err, &re), "%+v: %v", k, err)
+		require.Equal(t, k.retake, re.Retake)
+		require.Contains(t, re.Reason, k.says)
+	}
+}

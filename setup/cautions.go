@@ -261,6 +261,7 @@ func pressureCautions(a assessment) []Caution {
 			Message: fmt.Sprintf("intrinsic PEEP %.1f cmH2O is above %.0f: exhalation does not finish (%.0f mL trapped)", f.IntrinsicPEEPCmH2O, IntrinsicPEEPMax, f.TrappedML),
 			Advice:  "lower the rate or lengthen expiration (longer dwell)", Source: srcCommon})
 	}
+	out = append(out, leakShareCautions(f)...)
 	if f.PEEPCmH2O < PEEPMinCmH2O {
 		add(Caution{ID: "peep-low", Level: Warn, Value: f.PEEPCmH2O, Limit: PEEPMinCmH2O, Unit: "cmH2O",
 			Message: fmt.Sprintf("PEEP %.1f cmH2O is below %.0f", f.PEEPCmH2O, PEEPMinCmH2O),

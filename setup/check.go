@@ -231,7 +231,7 @@ func runCheck(req CheckRequest, p profiles.Profile) (Check, error) {
 	ck := Check{Patient: req.Patient, PBWKg: pbw, ProfileID: p.ID, Calibration: u.cal, Readings: req.Readings,
 		Mechanics: r.compliance, Resistance: r.resistance, Gas: u.gas}
 	if req.Readings != nil {
-		m, err := fitReadings(u, cur, *req.Readings, pbw, req)
+		m, err := newReadingsFit(u, cur, pbw, req, r.resistance.Value).fit(*req.Readings, nil)
 		var re *physiology.ReadingError
 		switch {
 		case errors.As(err, &re):
@@ -240,8 +240,7 @@ func runCheck(req CheckRequest, p profiles.Profile) (Check, error) {
 			ck.FitProblem = err.Error()
 		default:
 			ck.Fitted = &m
-			ck.Mechanics = physiology.Value{Value: m.ComplianceMLPerCmH2O, Source: "fitted to the manometer readings"}
-			ck.Resistance = physiology.Value{Value: m.ResistanceCmH2OPerLS, Source: "fitted to the manometer readings"}
+			ck.Mechanics, ck.Resistance = fittedValues(m, r.resistance)
 		}
 	}
 	lung := machine.Lung{ComplianceMLPerCmH2O: ck.Mechanics.Value, ResistanceCmH2OPerLS: ck.Resistance.Value}
@@ -253,10 +252,11 @@ func runCheck(req CheckRequest, p profiles.Profile) (Check, error) {
 		ck.Current.Cautions = withoutAssumedLungFigures(ck.Current.Cautions)
 	}
 	if ck.Fitted != nil {
-		ck.Ranges = fitRanges(u, cur, *req.Readings, pbw, req)
+		ck.Ranges = fitRanges(newReadingsFit(u, cur, pbw, req, r.resistance.Value), *req.Readings, *ck.Fitted, req)
 		ck.Current.Cautions = append(ck.Current.Cautions, rangeCautions(ck.Ranges, ck.Current.Figures, pbw)...)
 	}
 	ck.Current.Cautions = checkCautions(req.Readings, cur.PEEPCmH2O, u.p.Circuit.ReliefCmH2O, ck.FitProblem, ck.Current.Cautions)
+	ck.Current.Cautions = withFitCautions(ck, req, u.p.Circuit.ReliefCmH2O)
 	if !req.Proposal.Empty() {
 		next := req.Proposal.Apply(cur)
 		if err := checkSetting(u, next, "propose-"); err != nil {
@@ -346,21 +346,6 @@ func evaluateSetting(u unit, s Setting, lung machine.Lung, pbw float64, req Chec
 	cs := assess(assessment{heightCm: req.Patient.HeightCm, pbwKg: pbw, f: f, reliefCmH2O: u.p.Circuit.ReliefCmH2O, clearanceNote: u.gas.ClearanceNote(),
 		cal: u.cal, ratedTorque: u.p.Motor.RatedTorqueNm, fixedMotor: u.p.Motor.Fixed(), hz: checkHazards(u, s, req)})
 	return Evaluation{Setting: s, Figures: f, Cautions: cs}, nil
-}
-
-// fitReadings solves for the lung that gives both readings at this setting
-// under the breath model, trapped gas included.
-func fitReadings(u unit, s Setting, rd physiology.Readings, pbw float64, req CheckRequest) (physiology.Mechanics, error) {
-	h, _ := u.p.HoleByLabel(s.Hole)
-	t := machine.TimingOf(s.RPM, s.DwellS, u.crank(h).DeliveryAngle())
-	model := func(c, r float64) (float64, float64, error) {
-		f, err := evaluate(u, h, t, lungState{lung: machine.Lung{ComplianceMLPerCmH2O: c, ResistanceCmH2OPerLS: r}, peep: s.PEEPCmH2O, pbwKg: pbw}, 0, 0, 0)
-		if err != nil {
-			return 0, 0, err
-		}
-		return f.PeakCmH2O, f.EndInspCmH2O, nil
-	}
-	return physiology.FitMechanics(rd, s.PEEPCmH2O, model)
 }
 
 func differences(a, b Figures) []Difference {

@@ -92,6 +92,14 @@ func (w *reportWriter) checkBody(j CheckJSON) {
 		w.line("MANOMETER  peak %.1f cmH2O, end of inspiration %.1f cmH2O", j.Readings.PeakCmH2O, j.Readings.EndCmH2O)
 	}
 	switch {
+	case j.FittedResistanceAtLeast != nil:
+		w.line("LUNG (fitted to the end pressure: the peak is at the relief valve)  C %s mL/cmH2O; R at least %s cmH2O/(L/s) (the peak cannot tell more)",
+			sig2(*j.FittedComplianceMLPerCmH2O), sig2(*j.FittedResistanceAtLeast))
+		w.fitRanges(j)
+	case j.FittedComplianceMLPerCmH2O != nil && j.FittedResistanceCmH2OPerLS == nil:
+		w.line("LUNG (fitted to the end pressure alone: the peak is at the relief valve and cannot tell R)  C %s mL/cmH2O; R %s cmH2O/(L/s) assumed (the peak cannot tell it)",
+			sig2(*j.FittedComplianceMLPerCmH2O), sig2(j.ResistanceCmH2OPerLS))
+		w.fitRanges(j)
 	case j.FittedComplianceMLPerCmH2O != nil:
 		w.line("LUNG (fitted)  C %s mL/cmH2O, R %s cmH2O/(L/s)", sig2(*j.FittedComplianceMLPerCmH2O), sig2(*j.FittedResistanceCmH2OPerLS))
 		w.fitRanges(j)
@@ -110,7 +118,7 @@ func (w *reportWriter) checkBody(j CheckJSON) {
 	if j.Unexplained() {
 		w.unexplainedFigures(j.FiguresJSON, propFigures)
 	} else {
-		w.figureTable("THE PATIENT GETS", FigureRows(j.FiguresJSON, propFigures))
+		w.figureTable(j.PatientGetsHeading(), FigureRows(j.FiguresJSON, propFigures))
 	}
 	if j.TimingCheck != nil {
 		w.watchSection(j.watchToSet(), *j.TimingCheck, WhyNoWatch(j.Unexplained()))
@@ -140,8 +148,8 @@ func (j CheckJSON) watchToSet() *WatchJSON {
 func (w *reportWriter) fitRanges(j CheckJSON) {
 	if j.FittedComplianceRange != nil && j.ManometerStepCmH2O != nil {
 		c, r, v := j.FittedComplianceRange, j.FittedResistanceRange, j.DeliveredVtRangeML
-		w.line("  readings +/- half the manometer's %s cmH2O step allow C %s-%s, R %s-%s, tidal volume %.0f-%.0f mL (BTPS)",
-			plain(*j.ManometerStepCmH2O), sig2(c[0]), sig2(c[1]), sig2(r[0]), sig2(r[1]), v[0], v[1])
+		w.line("  readings +/- half the manometer's %s cmH2O step allow C %s, R %s, tidal volume %s mL (BTPS), %s",
+			plain(*j.ManometerStepCmH2O), jsonRangeText(c, sig2), jsonRangeText(r, sig2), jsonRangeText(v, func(x float64) string { return fmt.Sprintf("%.0f", x) }), FitRangeLabel)
 	}
 	if j.FitRangeNote != "" {
 		w.line("  %s", j.FitRangeNote)
@@ -149,6 +157,37 @@ func (w *reportWriter) fitRanges(j CheckJSON) {
 	if j.PatientEffortNote != "" {
 		w.line("  %s", j.PatientEffortNote)
 	}
+}
+
+// PatientGetsHeading heads the current figures: what the patient gets, or,
+// when the volumes are upper bounds, that and why.
+func (j CheckJSON) PatientGetsHeading() string {
+	if j.VolumeUpperBound {
+		return "AT MOST (UPPER BOUNDS: " + j.VolumeNote + ")"
+	}
+	return "THE PATIENT GETS"
+}
+
+// PatientGetsShort is PatientGetsHeading for a screen's table column.
+func (j CheckJSON) PatientGetsShort() string {
+	if j.VolumeUpperBound {
+		return "AT MOST"
+	}
+	return "PATIENT GETS"
+}
+
+// jsonRangeText prints a JSON range, a null end as "open".
+func jsonRangeText(r *[2]*float64, format func(float64) string) string {
+	var v [2]float64
+	var open [2]bool
+	for i, x := range r {
+		if x == nil {
+			open[i] = true
+		} else {
+			v[i] = *x
+		}
+	}
+	return rangeText(v, open, format)
 }
 
 // lungFreeRows are the figures the machine's timing alone sets.
@@ -257,6 +296,9 @@ func WriteCard(w io.Writer, r Record) error {
 	}
 	if s := FirstStop(r.Cautions); s != nil {
 		rw.line("STOP: THIS SETTING IS NOT TO BE USED AS IT IS (%s)", s.ID)
+	}
+	if r.VolumeUpperBound {
+		rw.line("THE VOLUMES ON THIS CARD ARE UPPER BOUNDS, NOT WHAT THE PATIENT GETS")
 	}
 	rw.line("HANDOVER CARD  bed %s  %s  checked by %s", r.Bed, LocalDateTime(r.Time), by)
 	rw.line("Machine %s, calibration %s", r.ProfileID, orNone(r.CalibrationDate))

@@ -2,6 +2,7 @@ package setup
 
 import (
 	"crankside/machine"
+	"crankside/physiology"
 	"crankside/profiles"
 )
 
@@ -32,4 +33,24 @@ func V1CheckRequest(req CheckRequest) CheckRequest {
 // delivered-per-swept gain.
 func BenchGains(p profiles.Profile, points []profiles.BenchPoint) ([]machine.BenchPoint, error) {
 	return benchGains(unit{p: p, gas: gasModelOf(p), sim: &machine.Simulator{}}, points)
+}
+
+// FitCheckReadings is the check's fit alone (fitReadings on the unit that
+// RunCheck builds), for the round-trip grid: it skips the figures, the
+// ranges and the cautions that a whole check adds.
+func FitCheckReadings(req CheckRequest, p profiles.Profile, rd physiology.Readings) (physiology.Mechanics, error) {
+	pbw, err := pbwOf(req.Patient)
+	if err != nil {
+		return physiology.Mechanics{}, err
+	}
+	room, err := resolveRoom(req.Room)
+	if err != nil {
+		return physiology.Mechanics{}, err
+	}
+	u, err := newUnitV(p, orNow(req.Now), req.v1Gas)
+	if err != nil {
+		return physiology.Mechanics{}, err
+	}
+	u.gas = withRoom(u.gas, room, req.v1Gas)
+	return newReadingsFit(u, req.Setting, pbw, req, 10).fit(rd, nil)
 }

@@ -98,7 +98,7 @@ func ProtocolProposal(req CheckRequest, readings GasReadings, p profiles.Profile
 	cur := ck.Current
 	plateauSrc := "predicted; compliance " + ck.Mechanics.Source
 	if ck.Fitted != nil {
-		plateauSrc = "fitted to the manometer readings"
+		plateauSrc = ck.Mechanics.Source
 	}
 	st := physiology.ProtocolState{
 		PBWKg: ck.PBWKg, MLPerKg: cur.Figures.Hole.MLPerKg, RateBPM: cur.Figures.Timing.RateBPM,

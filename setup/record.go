@@ -40,7 +40,19 @@ type CheckJSON struct {
 	FittedComplianceMLPerCmH2O *float64 `json:"fitted_compliance_ml_per_cmh2o"`
 	FittedResistanceCmH2OPerLS *float64 `json:"fitted_resistance_cmh2o_per_l_s"`
 	FitProblem                 string   `json:"fit_problem,omitempty"`
-	MechanicsSource            string   `json:"mechanics_source"`
+	// FitEndOnly: the fit is to the end pressure alone (the peak sat at
+	// the relief valve), so there is no fitted resistance (null).
+	FitEndOnly bool `json:"fit_end_only,omitempty"`
+	// FittedResistanceAtLeast: with FitEndOnly, the least resistance that
+	// brings the model's peak to the relief valve (the real one may be
+	// higher); null when the resistance is assumed.
+	FittedResistanceAtLeast *float64 `json:"fitted_resistance_at_least_cmh2o_per_l_s,omitempty"`
+	// VolumeUpperBound: the readings suggest a leak (readings-suggest-leak)
+	// or the peak sat at the relief valve, so the volumes are upper bounds,
+	// never what the patient gets; VolumeNote says why in a sentence.
+	VolumeUpperBound bool   `json:"delivered_vt_is_upper_bound,omitempty"`
+	VolumeNote       string `json:"volume_note,omitempty"`
+	MechanicsSource  string `json:"mechanics_source"`
 	EvaluationJSON
 	Proposed *ProposedJSON `json:"proposed,omitempty"`
 	// The blood gas and oximeter, and the protocol's next step they led
@@ -56,14 +68,15 @@ type CheckJSON struct {
 	*OxygenationJSON
 	ClinicalCaution string `json:"clinical_caution"`
 	// Version 2: what the manometer's resolution allows of the fit, each
-	// [low, high] (null without a fit), and the room and gas path.
-	ManometerStepCmH2O    *float64    `json:"manometer_step_cmh2o,omitempty"`
-	FittedComplianceRange *[2]float64 `json:"fitted_compliance_range"`
-	FittedResistanceRange *[2]float64 `json:"fitted_resistance_range"`
-	DeliveredVtRangeML    *[2]float64 `json:"delivered_vt_range_ml"`
-	FitRangeNote          string      `json:"fit_range_note,omitempty"`
-	PatientEffortNote     string      `json:"patient_effort_note,omitempty"`
-	Gas                   *GasJSON    `json:"gas,omitempty"`
+	// [low, high] (null without a fit; an end null when the range is open
+	// on that side, said in FitRangeNote), and the room and gas path.
+	ManometerStepCmH2O    *float64     `json:"manometer_step_cmh2o,omitempty"`
+	FittedComplianceRange *[2]*float64 `json:"fitted_compliance_range"`
+	FittedResistanceRange *[2]*float64 `json:"fitted_resistance_range"`
+	DeliveredVtRangeML    *[2]*float64 `json:"delivered_vt_range_ml"`
+	FitRangeNote          string       `json:"fit_range_note,omitempty"`
+	PatientEffortNote     string       `json:"patient_effort_note,omitempty"`
+	Gas                   *GasJSON     `json:"gas,omitempty"`
 	// What to time to confirm the setting, and the watch band (absent when
 	// no lung explains the readings); older records have neither.
 	TimingCheck *TimingCheck `json:"timing_check,omitempty"`
@@ -189,15 +202,24 @@ func (ck Check) JSON() CheckJSON {
 	}
 	if ck.Fitted != nil {
 		c, r := r4(ck.Fitted.ComplianceMLPerCmH2O), r4(ck.Fitted.ResistanceCmH2OPerLS)
-		j.FittedComplianceMLPerCmH2O, j.FittedResistanceCmH2OPerLS = &c, &r
+		j.FittedComplianceMLPerCmH2O = &c
+		switch {
+		case ck.Fitted.RAtLeast:
+			j.FittedResistanceAtLeast = &r
+		case !ck.Fitted.EndOnly:
+			j.FittedResistanceCmH2OPerLS = &r
+		}
+		j.FitEndOnly = ck.Fitted.EndOnly
+		if n := ck.VolumeBoundNote(); n != "" {
+			j.VolumeUpperBound, j.VolumeNote = true, n
+		}
 		j.PatientEffortNote = PatientEffortNote
 	}
 	if fr := ck.Ranges; fr != nil {
 		step := r4(fr.StepCmH2O.Value)
-		round := func(v [2]float64) *[2]float64 { return &[2]float64{r4(v[0]), r4(v[1])} }
 		j.ManometerStepCmH2O = &step
-		j.FittedComplianceRange, j.FittedResistanceRange = round(fr.ComplianceMLPerCmH2O), round(fr.ResistanceCmH2OPerLS)
-		j.DeliveredVtRangeML, j.FitRangeNote = round(fr.DeliveredML), fr.Note()
+		j.FittedComplianceRange, j.FittedResistanceRange = rangeJSON(fr.ComplianceMLPerCmH2O, fr.OpenC), rangeJSON(fr.ResistanceCmH2OPerLS, fr.OpenR)
+		j.DeliveredVtRangeML, j.FitRangeNote = rangeJSON(fr.DeliveredML, fr.OpenVt), fr.Note()
 	}
 	if ck.Gas.Room.BTPSFactor > 0 {
 		g := gasJSON(ck.Gas)
@@ -218,6 +240,18 @@ func (ck Check) JSON() CheckJSON {
 	}
 	ck.protocolJSON(&j)
 	return j
+}
+
+// rangeJSON is a range with an open end as null.
+func rangeJSON(v [2]float64, open [2]bool) *[2]*float64 {
+	var out [2]*float64
+	for i := range v {
+		if !open[i] {
+			x := r4(v[i])
+			out[i] = &x
+		}
+	}
+	return &out
 }
 
 // Record is one handover check as kept in the log: a bed label and the

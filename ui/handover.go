@@ -329,6 +329,8 @@ func (p *handoverPanel) lungLine(add func(string), ck *setup.Check) {
 	s := p.styles
 	lung := fmt.Sprintf("C %.0f mL/cmH2O, R %.0f cmH2O/(L/s)", ck.Mechanics.Value, ck.Resistance.Value)
 	switch {
+	case ck.Fitted != nil && ck.Fitted.EndOnly:
+		add(s.Label.Render("Lung from the end pressure alone ") + s.Value.Render(lung) + s.Hint.Render(" (R "+ck.Resistance.Source+")"))
 	case ck.Fitted != nil:
 		add(s.Label.Render("Fitted lung ") + s.Value.Render(lung))
 	case ck.Unexplained():
@@ -347,9 +349,8 @@ func (p *handoverPanel) fitLines(add func(string), ck *setup.Check) {
 	}
 	add(s.Section.Render("HOW SURE THE FITTED LUNG IS"))
 	if r := ck.Ranges; r != nil {
-		add(s.Label.Render(fmt.Sprintf("readings +/- %g/2 cmH2O: ", r.StepCmH2O.Value)) + s.Value.Render(fmt.Sprintf(
-			"C %.0f-%.0f, R %.0f-%.0f, Vt %.0f-%.0f mL (%.1f-%.1f mL/kg)", r.ComplianceMLPerCmH2O[0], r.ComplianceMLPerCmH2O[1],
-			r.ResistanceCmH2OPerLS[0], r.ResistanceCmH2OPerLS[1], r.DeliveredML[0], r.DeliveredML[1], r.MLPerKg[0], r.MLPerKg[1])))
+		add(s.Label.Render(fmt.Sprintf("readings +/- %g/2 cmH2O: ", r.StepCmH2O.Value)) + s.Value.Render(r.Text()) +
+			s.Hint.Render(", "+setup.FitRangeLabel))
 		if n := r.Note(); n != "" {
 			add(s.Hint.Render(n))
 		}
@@ -395,7 +396,10 @@ func (p *handoverPanel) figureTable(add func(string), j setup.CheckJSON) {
 	for _, r := range rows {
 		lw = max(lw, len(r.Label))
 	}
-	head := fmt.Sprintf("%-*s %7s", lw, "PATIENT GETS", "now")
+	if j.VolumeUpperBound {
+		add(s.Error.Render(j.VolumeNote))
+	}
+	head := fmt.Sprintf("%-*s %7s", lw, j.PatientGetsShort(), "now")
 	if prop != nil {
 		head += fmt.Sprintf(" %8s %6s", "proposed", "change")
 	}

@@ -152,7 +152,7 @@ func runCheck(env Env) int {
 	// dropped silently.
 	if ck.Fitted != nil {
 		for _, name := range []string{"compliance", "resistance", "lung"} {
-			if v, ok := f.entries[name]; ok {
+			if v, ok := f.entries[name]; ok && (name == "compliance" || !ck.Fitted.EndOnly) {
 				fmt.Fprintf(env.Stderr, "crankside check: note: --%s %s is not used: the readings give the lung\n", name, safetext.Escape(v))
 			}
 		}
