@@ -273,8 +273,11 @@ func pressureCautions(a assessment) []Caution {
 // ReadingCautions judge what the manometer shows, before and without any
 // fit: a measured peak above 40 cmH2O or above the relief valve, an
 // end-inspiratory reading at or below PEEP, or a peak below the end
-// reading is a stop whatever a lung model makes of it. reliefCmH2O 0
-// means the profile states no relief valve.
+// reading is a stop whatever a lung model makes of it. reliefCmH2O is
+// the profile's relief valve: every profile has one (validation accepts
+// 10-80 cmH2O and refuses a profile without it), so 0 never means "no
+// valve". 0 only leaves the relief comparison out where the valve is not
+// known: a record read back from a log (recordrules.go) carries no profile.
 func ReadingCautions(r physiology.Readings, peepCmH2O, reliefCmH2O float64) []Caution {
 	const look = "check the patient now (tube, airway, chest), the circuit and its connections, and the manometer; "
 	var out []Caution

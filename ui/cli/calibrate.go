@@ -12,9 +12,9 @@ import (
 	"crankside/setup"
 )
 
-const calibrateLong = `Usage: crankside calibrate --profile ID|PATH --bench FILE.csv [--date YYYY-MM-DD] [--write] [--json]
+var calibrateUsage = []string{"calibrate --profile ID|PATH --bench FILE.csv [--date YYYY-MM-DD] [--write] [--json]"}
 
-Refits a machine's bench calibration. The bench file is CSV with the header
+const calibrateLong = `Refits a machine's bench calibration. The bench file is CSV with the header
   hole,test_lung_compliance_ml_per_cmh2o,test_lung_resistance_cmh2o_per_l_s,rpm,measured_ml
 and one row per bench breath into a test lung, delivered from rest. A
 decimal comma is a decimal mark ("480,5", quoted in a comma-separated
@@ -30,15 +30,14 @@ Flags:
 `
 
 var calibrateCommand = &Command{
-	Name:      "calibrate",
-	UsageLine: "calibrate --profile ID|PATH --bench FILE.csv [--write]",
-	Short:     "refit a machine's bench calibration",
-	Long:      calibrateLong,
-	Run:       runCalibrate,
+	Name:  "calibrate",
+	Usage: calibrateUsage,
+	Short: "refit a machine's bench calibration",
+	Run:   runCalibrate,
 }
 
 func runCalibrate(env Env) int {
-	f := newFlags("calibrate", calibrateLong)
+	f := newFlags("calibrate", help(calibrateUsage, calibrateLong))
 	ref := f.text("profile", "", "the machine profile: an id in the profiles directory, or a path")
 	dir := f.text("profiles", profiles.DefaultDir(), "directory of profile files")
 	bench := f.text("bench", "", "the bench measurements, CSV (required)")

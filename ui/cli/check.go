@@ -9,10 +9,12 @@ import (
 	"crankside/setup"
 )
 
-const checkLong = `Usage: crankside check --height-cm N --sex male|female --hole LABEL --rpm N --dwell-s N [flags]
-       crankside check --height-cm N --sex male|female --hole LABEL --turn-s N --pause-s N [flags]
+var checkUsage = []string{
+	"check --height-cm N --sex male|female --hole LABEL --rpm N --dwell-s N [flags]",
+	"check --height-cm N --sex male|female --hole LABEL --turn-s N --pause-s N [flags]",
+}
 
-Shift handover: what the machine is set to and what the manometer reads ->
+const checkLong = `Shift handover: what the machine is set to and what the manometer reads ->
 the readings judged, what the patient really gets, the lung mechanics the
 readings imply, a proposed change side by side, and a record appended to
 the log. With a blood gas or oximeter reading (--spo2, --pao2, --ph,
@@ -31,11 +33,10 @@ Flags:
 `
 
 var checkCommand = &Command{
-	Name:      "check",
-	UsageLine: "check --height-cm N --sex S --hole L --rpm N --dwell-s N [flags]",
-	Short:     "shift handover: what the patient gets now",
-	Long:      checkLong,
-	Run:       runCheck,
+	Name:  "check",
+	Usage: checkUsage,
+	Short: "shift handover: what the patient gets now",
+	Run:   runCheck,
 }
 
 // checkOptions are the flags a check reads itself: where to record, and
@@ -46,10 +47,8 @@ type checkOptions struct {
 }
 
 func checkFlagSet() (*flags, checkOptions) {
-	f := newFlags("check", checkLong)
-	f.entry("height-cm", "patient's height in cm, or with its unit: 70in, 5'10\" (required, or --height-in)")
-	f.entry("height-in", "patient's height in inches, instead of --height-cm")
-	f.entry("sex", "male or female (required)")
+	f := newFlags("check", help(checkUsage, checkLong))
+	f.sharedEntries()
 	f.entry("hole", "the hole the pin is in (required)")
 	f.entry("rpm", "the motor speed set (required, or --turn-s)")
 	f.entry("dwell-s", "the dwell set, in s: the motor's stop after each turn (required, or --pause-s or --breaths-per-min)")
@@ -63,14 +62,7 @@ func checkFlagSet() (*flags, checkOptions) {
 	f.entry("lung", "lung condition for the assumed mechanics: normal, ards or obstructive")
 	f.entry("compliance", "assumed compliance when no readings are given (not used when the readings give the lung)")
 	f.entry("resistance", "assumed resistance when no readings are given (not used when the readings give the lung)")
-	f.entry("cylinder-l", "oxygen cylinder water capacity, L (with --cylinder-bar)")
-	f.entry("cylinder-bar", "oxygen cylinder pressure, bar (with --cylinder-l)")
-	f.entry("cylinder-reserve-bar", "change the cylinder at this pressure, bar (1-150; default 40: about a fifth of a full cylinder, common practice)")
 	f.entryBool("breathing-against", "the patient is breathing against the unit (a stop: this unit cannot follow the patient's breaths)")
-	f.entry("room-c", "room temperature in C for the BTPS factor (0-45; default 22, common practice)")
-	f.entry("room-rh", "room relative humidity in % (0-100; default 50, common practice)")
-	f.entry("barometric-mmhg", "barometric pressure in mmHg (450-800; default 760, sea level: enter the local barometer)")
-	f.entry("barometric-hpa", "barometric pressure in hPa, instead of --barometric-mmhg (1 hPa = 0.750062 mmHg)")
 	f.entry("pressure-unit", "the manometer's unit for --peak, --end-pressure, --manometer-step, --peep, --propose-peep: cmh2o (default), hpa or mbar (1 hPa = 1 mbar = 1.01972 cmH2O)")
 	f.entry("gas-unit", "the unit of --pao2 and --paco2: mmhg (default) or kpa (1 kPa = 7.50062 mmHg)")
 	f.entry("manometer-step", "the manometer's resolution in cmH2O (0.1-5; default 1, common practice): readings are +/- half a step")

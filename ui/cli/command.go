@@ -1,6 +1,9 @@
 // Package cli holds crankside's sub-commands, one file each, behind a small
 // command table in the manner of the Go command's own source: each Command
-// has its usage line, its help, its flag set and its run function. The
+// has its usage lines, its help and its run function; the run function
+// declares the command's flags afresh on each run (a flags value, from
+// newFlags), and the help it prints is built from the same usage lines as
+// the top-level help, so the two cannot drift. The
 // commands only collect what was typed, as text keyed by the flag's name,
 // and hand it to setup's one entry builder (setup.BuildRequest,
 // setup.BuildCheckRequest); every number, default and rule comes from
@@ -40,11 +43,22 @@ type Env struct {
 
 // Command is one sub-command.
 type Command struct {
-	Name      string // as typed: "plan"
-	UsageLine string // "plan --height-cm N --sex male|female [flags]"
-	Short     string // one line for the top-level help
-	Long      string // the command's own help, before its flags
-	Run       func(env Env) int
+	Name  string            // as typed: "plan"
+	Usage []string          // each form, after "crankside": "plan --height-cm N --sex male|female [flags]"
+	Short string            // one line for the top-level help
+	Run   func(env Env) int // prints help(usage, its long text) for --help
+}
+
+// help is a command's help before its flags: its usage lines, the one
+// source of both this and the top-level help, then its long text.
+func help(usage []string, long string) string {
+	var b strings.Builder
+	b.WriteString("Usage:\n")
+	for _, u := range usage {
+		fmt.Fprintf(&b, "  crankside %s\n", u)
+	}
+	b.WriteString("\n" + long)
+	return b.String()
 }
 
 // Commands is the table main dispatches on, in the order of the help.
@@ -70,7 +84,10 @@ func TopUsage() string {
 	b.WriteString("                                    the bedside screen, on the demo profile unless\n")
 	b.WriteString("                                    --profile names another; plan flags prefill it\n")
 	for _, c := range Commands() {
-		fmt.Fprintf(&b, "  crankside %s\n%36s%s\n", c.UsageLine, "", c.Short)
+		for _, u := range c.Usage {
+			fmt.Fprintf(&b, "  crankside %s\n", u)
+		}
+		fmt.Fprintf(&b, "%36s%s\n", "", c.Short)
 	}
 	b.WriteString("  crankside --version\n\nRun 'crankside COMMAND --help' for a command's flags.\n\n")
 	b.WriteString(setup.ClinicalCaution + "\n")
@@ -309,4 +326,24 @@ func interspersed(args []string, fs *flag.FlagSet) []string {
 		pos = append(pos, a)
 	}
 	return append(fl, pos...)
+}
+
+// sharedEntries declares the entries plan and check (and the screen) take
+// with one meaning: the patient's height and sex, the oxygen cylinder and
+// the room. Their help is written here once, with the ranges the entry
+// builder holds them to; what differs between the commands (a PEEP wanted
+// or set, a lung planned for or assumed) each command writes itself.
+func (f *flags) sharedEntries() {
+	f.entry("height-cm", fmt.Sprintf("patient's height in cm (%g-%g), or with its unit: 70in, 5'10\" (required, or --height-in)",
+		physiology.HeightMinCm, physiology.HeightMaxCm))
+	f.entry("height-in", fmt.Sprintf("patient's height in inches (%.1f-%.1f), instead of --height-cm",
+		physiology.HeightMinCm/2.54, physiology.HeightMaxCm/2.54))
+	f.entry("sex", "male or female (required)")
+	f.entry("cylinder-l", "oxygen cylinder water capacity in L (optional, with --cylinder-bar)")
+	f.entry("cylinder-bar", "oxygen cylinder pressure in bar (with --cylinder-l)")
+	f.entry("cylinder-reserve-bar", "change the cylinder at this pressure, bar (1-150; default 40: about a fifth of a full cylinder, common practice)")
+	f.entry("room-c", "room temperature in C for the BTPS factor (0-45; default 22, common practice)")
+	f.entry("room-rh", "room relative humidity in % (0-100; default 50, common practice)")
+	f.entry("barometric-mmhg", "barometric pressure in mmHg (450-800; default 760, sea level: enter the local barometer)")
+	f.entry("barometric-hpa", "barometric pressure in hPa, instead of --barometric-mmhg (1 hPa = 0.750062 mmHg)")
 }

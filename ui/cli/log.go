@@ -11,11 +11,12 @@ import (
 	"crankside/setup"
 )
 
-const logLong = `Usage:
-  crankside log show --log FILE|DIR [--log ...] [--bed LABEL] [--json]
-  crankside log beds --log FILE|DIR [--log ...] [--every HOURS] [--json]
+var logUsage = []string{
+	"log show --log FILE|DIR [--log ...] [--bed LABEL] [--json]",
+	"log beds --log FILE|DIR [--log ...] [--every HOURS] [--json]",
+}
 
-show lists the handover checks, bed by bed, newest first, with what
+const logLong = `show lists the handover checks, bed by bed, newest first, with what
 changed since the check before and which log (terminal) each came from.
 beds shows one row per bed: its last check, how long ago, the setting found,
 mL/kg, the highest caution, whether a change was proposed, and OVERDUE when
@@ -32,11 +33,10 @@ a log named directly with --log is refused.
 `
 
 var logCommand = &Command{
-	Name:      "log",
-	UsageLine: "log show|beds --log FILE|DIR [--bed LABEL]",
-	Short:     "earlier checks, and every bed's last check",
-	Long:      logLong,
-	Run:       runLog,
+	Name:  "log",
+	Usage: logUsage,
+	Short: "earlier checks, and every bed's last check",
+	Run:   runLog,
 }
 
 func runLog(env Env) int {
@@ -46,7 +46,7 @@ func runLog(env Env) int {
 	}
 	switch args[0] {
 	case "--help", "-h", "help":
-		fmt.Fprint(env.Stdout, logLong)
+		fmt.Fprint(env.Stdout, help(logUsage, logLong))
 		fmt.Fprint(env.Stdout, "\nRun 'crankside log show --help' or 'crankside log beds --help' for their flags.\n")
 		return ExitOK
 	case "show":
@@ -88,7 +88,7 @@ func expandLogs(env Env, cmd string, logs []string) (files []string, skipped boo
 
 // logFlags are the flags both log sub-commands take: the logs, and JSON.
 func logFlags(cmd string) (f *flags, logs *[]string, asJSON func() bool) {
-	f = newFlags(cmd, logLong+"\nFlags:\n")
+	f = newFlags(cmd, help(logUsage, logLong)+"\nFlags:\n")
 	logs = f.repeated("log", "a log file or a folder of logs (may be repeated)")
 	asJSON = f.boolean("json", "print JSON")
 	return f, logs, asJSON

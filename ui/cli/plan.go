@@ -7,9 +7,9 @@ import (
 	"crankside/setup"
 )
 
-const planLong = `Usage: crankside plan --height-cm N --sex male|female [flags]
+var planUsage = []string{"plan --height-cm N --sex male|female [flags]"}
 
-A new patient's setting on one machine: PBW, target volume, the hole to pin,
+const planLong = `A new patient's setting on one machine: PBW, target volume, the hole to pin,
 the motor speed and dwell the controller can be set to, the predictions and
 the cautions. A decimal comma is read as a decimal point (0,9 is 0.9).
 
@@ -17,19 +17,16 @@ Flags:
 `
 
 var planCommand = &Command{
-	Name:      "plan",
-	UsageLine: "plan --height-cm N --sex male|female [flags]",
-	Short:     "a new patient's setting on one machine",
-	Long:      planLong,
-	Run:       runPlan,
+	Name:  "plan",
+	Usage: planUsage,
+	Short: "a new patient's setting on one machine",
+	Run:   runPlan,
 }
 
 // planFlagSet declares the plan's entries; the screen takes the same ones.
 func planFlagSet(name, usage string) (f *flags, profile, dir func() string) {
 	f = newFlags(name, usage)
-	f.entry("height-cm", "patient's height in cm (130-230), or with its unit: 70in, 5'10\" (required, or --height-in)")
-	f.entry("height-in", "patient's height in inches (51.2-90.6), instead of --height-cm")
-	f.entry("sex", "male or female (required)")
+	f.sharedEntries()
 	f.entry("ml-per-kg", "tidal volume in mL per kg PBW (4-10; default 6, ARDS Network 2000)")
 	f.entry("rate", "breaths per minute (default by lung: normal 14, ards 18, obstructive 10)")
 	f.entry("ie", "I:E as 1:N (1:1 to 1:4; default 1:2, obstructive 1:3)")
@@ -38,13 +35,6 @@ func planFlagSet(name, usage string) (f *flags, profile, dir func() string) {
 	f.entry("lung", "lung condition: normal, ards or obstructive (default normal)")
 	f.entry("compliance", "lung compliance in mL/cmH2O (default by lung)")
 	f.entry("resistance", "airway resistance with tube in cmH2O/(L/s) (default by lung)")
-	f.entry("cylinder-l", "oxygen cylinder water capacity in L (optional, with --cylinder-bar)")
-	f.entry("cylinder-bar", "oxygen cylinder pressure in bar (with --cylinder-l)")
-	f.entry("cylinder-reserve-bar", "change the cylinder at this pressure, bar (1-150; default 40: about a fifth of a full cylinder, common practice)")
-	f.entry("room-c", "room temperature in C for the BTPS factor (0-45; default 22, common practice)")
-	f.entry("room-rh", "room relative humidity in % (0-100; default 50, common practice)")
-	f.entry("barometric-mmhg", "barometric pressure in mmHg (450-800; default 760, sea level: enter the local barometer)")
-	f.entry("barometric-hpa", "barometric pressure in hPa, instead of --barometric-mmhg (1 hPa = 0.750062 mmHg)")
 	f.entry("pressure-unit", "the unit of --peep: cmh2o (default), hpa or mbar (1 hPa = 1 mbar = 1.01972 cmH2O)")
 	profile = f.text("profile", profiles.DefaultID, "machine profile: an id or a path to a .json file")
 	dir = f.text("profiles", profiles.DefaultDir(), "directory of profile files")
@@ -52,7 +42,7 @@ func planFlagSet(name, usage string) (f *flags, profile, dir func() string) {
 }
 
 func runPlan(env Env) int {
-	f, profile, dir := planFlagSet("plan", planLong)
+	f, profile, dir := planFlagSet("plan", help(planUsage, planLong))
 	asJSON := f.boolean("json", "print one JSON object")
 	if status, done := f.parse(env, env.Args, "plan", false); done {
 		return status

@@ -12,13 +12,14 @@ import (
 	"crankside/setup"
 )
 
-const profilesLong = `Usage:
-  crankside profiles list [--profiles DIR]
-  crankside profiles show ID|PATH [--profiles DIR] [--json]
-  crankside profiles validate FILE
-  crankside profiles new --from ID|PATH --id NEW [--label TEXT]
+var profilesUsage = []string{
+	"profiles list [--profiles DIR]",
+	"profiles show ID|PATH [--profiles DIR] [--json]",
+	"profiles validate FILE",
+	"profiles new --from ID|PATH --id NEW [--label TEXT]",
+}
 
-list shows the embedded demo profiles and every .json file in the profiles
+const profilesLong = `list shows the embedded demo profiles and every .json file in the profiles
 directory (a bad file is listed with its error). show --json prints the
 profile file itself, so it can be saved and edited. validate checks a file
 and names every problem with its field. new prints a profile to edit by
@@ -27,11 +28,10 @@ its calibration.
 `
 
 var profilesCommand = &Command{
-	Name:      "profiles",
-	UsageLine: "profiles list|show ID|validate FILE|new --from ID --id NEW",
-	Short:     "the machine profiles",
-	Long:      profilesLong,
-	Run:       runProfiles,
+	Name:  "profiles",
+	Usage: profilesUsage,
+	Short: "the machine profiles",
+	Run:   runProfiles,
 }
 
 func runProfiles(env Env) int {
@@ -41,7 +41,7 @@ func runProfiles(env Env) int {
 	sub, rest := env.Args[0], env.Args[1:]
 	switch sub {
 	case "--help", "-h", "help":
-		fmt.Fprint(env.Stdout, profilesLong)
+		fmt.Fprint(env.Stdout, help(profilesUsage, profilesLong))
 		return ExitOK
 	case "new":
 		return profilesNew(env, rest)
@@ -49,7 +49,7 @@ func runProfiles(env Env) int {
 	default:
 		return UsageError(env.Stderr, "profiles", fmt.Sprintf("unknown sub-command %s; use list, show, validate or new", physiology.Quote(sub)))
 	}
-	f := newFlags("profiles "+sub, profilesLong)
+	f := newFlags("profiles "+sub, help(profilesUsage, profilesLong))
 	dir := f.text("profiles", profiles.DefaultDir(), "directory of profile files")
 	asJSON := f.boolean("json", "print the profile file itself")
 	if status, done := f.parse(env, interspersed(rest, f.fs), "profiles "+sub, true); done {
@@ -161,7 +161,7 @@ func validProfile(env Env, path string, p profiles.Profile) int {
 }
 
 func profilesNew(env Env, args []string) int {
-	f := newFlags("profiles new", profilesLong)
+	f := newFlags("profiles new", help(profilesUsage, profilesLong))
 	from := f.text("from", profiles.DefaultID, "the profile to start from")
 	id := f.text("id", "", "the new profile's id (lower-case letters, digits, - and _)")
 	label := f.text("label", "", "the new profile's label")
