@@ -149,12 +149,18 @@ func bandHalfWidth(p, peep, complianceML, step float64, fitted bool) float64 {
 // the relief valve vents above its pressure, so the gauge cannot read
 // more.
 func band(p, half, step, ceiling float64) [2]float64 {
-	lo := math.Floor((p-half)/step+1e-9) * step
-	hi := math.Ceil((p+half)/step-1e-9) * step
+	lo := math.Floor((p-half)/step+bandSlackSteps) * step
+	hi := math.Ceil((p+half)/step-bandSlackSteps) * step
 	lo = math.Max(lo, 0)
 	hi = math.Min(hi, math.Max(ceiling, p))
 	return [2]float64{clean4(lo), clean4(hi)}
 }
+
+// bandSlackSteps is how near a mark of the dial, in steps, an end of the
+// band counts as on it: a fitted prediction reproduces a reading only to
+// the fit's tolerance (17.0000004 for a reading of 17), far below a
+// thousandth of any manometer's step.
+const bandSlackSteps = 1e-3
 
 // clean4 trims float noise from a multiple of a step (0.30000000000000004).
 func clean4(v float64) float64 { return math.Round(v*1e6) / 1e6 }

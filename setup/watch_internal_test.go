@@ -53,6 +53,12 @@ func TestBandOnFittedReadings(t *testing.T) {
 	require.InDeltaSlice(t, []float64{19, 21}, got[:], 1e-9)
 	got = band(20.2, bandHalfWidth(20.2, 5, 60, 0.5, true), 0.5, 40)
 	require.InDeltaSlice(t, []float64{19.5, 21}, got[:], 1e-9)
+	// A fit reproduces a reading of 17 only to its tolerance: 17.0000004 is
+	// on the mark (within a thousandth of a step), 17.01 is not.
+	got = band(17.0000004, bandHalfWidth(17.0000004, 5, 60, 1, true), 1, 40)
+	require.InDeltaSlice(t, []float64{16, 18}, got[:], 1e-9)
+	got = band(17.01, bandHalfWidth(17.01, 5, 60, 1, true), 1, 40)
+	require.InDeltaSlice(t, []float64{16, 19}, got[:], 1e-9)
 }
 
 func figuresAt(peak, end, peep float64) Figures {

@@ -37,6 +37,7 @@ func newHandoverKeys() handoverKeys {
 type handoverPanel struct {
 	formPanel
 	keys handoverKeys
+	bed  bedsideKeys
 }
 
 func newHandoverPanel(s *Styles) *handoverPanel {
@@ -90,7 +91,7 @@ func newHandoverPanel(s *Styles) *handoverPanel {
 		}},
 	)
 	f.compact = true
-	p := &handoverPanel{keys: newHandoverKeys()}
+	p := &handoverPanel{keys: newHandoverKeys(), bed: newBedsideKeys()}
 	p.styles, p.form = s, f
 	return p
 }
@@ -123,6 +124,9 @@ func (p *handoverPanel) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 		// Shown in the help only when there is a step; without one the
 		// key says why rather than nothing.
 		return p, ask(stepTakeRequested{})
+	}
+	if cmd := p.bed.request(km, true); cmd != nil {
+		return p, cmd
 	}
 	return p, p.updateForm(km)
 }
@@ -429,12 +433,12 @@ func (p *handoverPanel) cautionLines(add func(string), label string, cs []setup.
 
 func (p *handoverPanel) ShortHelp() []key.Binding {
 	k := p.form.keys
-	return []key.Binding{k.Advance, p.keys.Save, p.keys.Card, p.keys.History, p.keys.Take}
+	return []key.Binding{k.Advance, p.keys.Save, p.keys.Card, p.keys.History, p.keys.Take, p.bed.Sheet, p.bed.Pace}
 }
 
 func (p *handoverPanel) FullHelp() [][]key.Binding {
 	k := p.form.keys
-	return [][]key.Binding{{k.Advance, k.Up, k.Down, k.Clear}, {p.keys.Save, p.keys.Card, p.keys.History, p.keys.Take}}
+	return [][]key.Binding{{k.Advance, k.Up, k.Down, k.Clear}, {p.keys.Save, p.keys.Card, p.keys.History, p.keys.Take}, {p.bed.Sheet, p.bed.Pace}}
 }
 
 // orNone is a blank entry in words.

@@ -210,6 +210,9 @@ func (m *Model) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 	case cardRequested:
 		m.recompute()
 		m.card()
+	case sheetRequested:
+		m.recompute()
+		m.sheet(msg.check)
 	case historyRequested:
 		return m, m.history()
 	case stepTakeRequested:
@@ -302,11 +305,14 @@ func (m *Model) handleKey(msg tea.KeyMsg) tea.Cmd {
 // that act (record, card, history, the step; load a profile, refit, save
 // the refit) are looked for: editing keys stay the focused field's.
 func (m *Model) keyElsewhere(msg tea.KeyMsg) string {
-	hk, mk := m.handover.keys, m.machine.keys
+	hk, mk, bk := m.handover.keys, m.machine.keys, m.handover.bed
+	if m.bedsideHere() && (key.Matches(msg, bk.Sheet) || key.Matches(msg, bk.Pace)) {
+		return ""
+	}
 	for _, a := range []struct {
 		panel    int
 		bindings []key.Binding
-	}{{panelHandover, []key.Binding{hk.Save, hk.Card, hk.History, hk.Take}}, {panelMachine, []key.Binding{mk.Pick, mk.Bench, mk.Write}}} {
+	}{{panelHandover, []key.Binding{hk.Save, hk.Card, hk.History, hk.Take}}, {panelMachine, []key.Binding{mk.Pick, mk.Bench, mk.Write}}, {panelSetting, []key.Binding{bk.Sheet, bk.Pace}}} {
 		if a.panel == m.focus {
 			continue
 		}

@@ -14,6 +14,8 @@ type (
 	stepTakeRequested struct{}              // fill the proposal with the protocol's step
 	benchChosen       struct{ path string } // refit the calibration from this file
 	refitWriteRequest struct{}              // save the previewed refit
+	sheetRequested    struct{ check bool }  // show the bedside sheet (of the check, or the plan)
+	pacingRequested   struct{ check bool }  // open the pacing view (of the check, or the plan)
 )
 
 // ask wraps a message as a command.

@@ -17,6 +17,7 @@ import (
 type settingPanel struct {
 	panelBase
 	keys scrollKeys
+	bed  bedsideKeys
 	// chart is the breath drawn for the current trace at chartW x chartH:
 	// drawn once per plan and size, never per keystroke.
 	chart          string
@@ -25,7 +26,7 @@ type settingPanel struct {
 }
 
 func newSettingPanel(s *Styles) *settingPanel {
-	p := &settingPanel{keys: newScrollKeys()}
+	p := &settingPanel{keys: newScrollKeys(), bed: newBedsideKeys()}
 	p.styles = s
 	return p
 }
@@ -61,6 +62,8 @@ func (p *settingPanel) redraw() {
 func (p *settingPanel) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 	if km, ok := msg.(tea.KeyMsg); ok && key.Matches(km, p.keys.Advance) {
 		return p, ask(advanceRequested{})
+	} else if ok {
+		return p, p.bed.request(km, false)
 	}
 	return p, nil
 }
@@ -136,5 +139,9 @@ func (p *settingPanel) details(pl *setup.Plan) string {
 	return strings.Join(l, "\n")
 }
 
-func (p *settingPanel) ShortHelp() []key.Binding  { return []key.Binding{p.keys.Advance} }
-func (p *settingPanel) FullHelp() [][]key.Binding { return [][]key.Binding{{p.keys.Advance}} }
+func (p *settingPanel) ShortHelp() []key.Binding {
+	return []key.Binding{p.keys.Advance, p.bed.Sheet, p.bed.Pace}
+}
+func (p *settingPanel) FullHelp() [][]key.Binding {
+	return [][]key.Binding{{p.keys.Advance}, {p.bed.Sheet, p.bed.Pace}}
+}

@@ -2,6 +2,7 @@ package cli
 
 import (
 	"fmt"
+	"strings"
 	"time"
 
 	"crankside/profiles"
@@ -43,7 +44,8 @@ var checkCommand = &Command{
 // how to print.
 type checkOptions struct {
 	profile, dir, bed, initials, second, logPath func() string
-	asJSON, card                                 func() bool
+	asJSON, card, sheet                          func() bool
+	every                                        func() string
 }
 
 func checkFlagSet() (*flags, checkOptions) {
@@ -84,6 +86,8 @@ func checkFlagSet() (*flags, checkOptions) {
 	o.second = f.text("second-initials", "", "a second checker's initials, for a change checked by two (with --initials)")
 	o.logPath = f.text("log", "", "append the check to this log file (one JSON line; with --bed)")
 	o.card = f.boolean("card", "print a handover card (plain text, 80 columns; not with --json)")
+	o.sheet = f.boolean("sheet", "print the bedside sheet (one page, 80 columns): the setting, what to time, the watch band, the alarm limits, the power-cut rhythm, the checklist; with --bed and --log, the next check due")
+	o.every = f.text("every", "", "hours between checks, for the sheet's next check due (default 4, common practice)")
 	o.asJSON = f.boolean("json", "print one JSON object")
 	return f, o
 }
@@ -92,8 +96,10 @@ func checkFlagSet() (*flags, checkOptions) {
 func (o checkOptions) recordProblem() string {
 	bed, initials, logPath, card := o.bed(), o.initials(), o.logPath(), o.card()
 	switch {
-	case (bed != "" || initials != "" || o.second() != "") && logPath == "" && !card:
-		return "--bed, --initials and --second-initials are for the record: add --log FILE or --card"
+	case (initials != "" || o.second() != "") && logPath == "" && !card:
+		return "--initials and --second-initials are for the record: add --log FILE or --card"
+	case bed != "" && logPath == "" && !card && !o.sheet():
+		return "--bed is for the record or the sheet: add --log FILE, --card or --sheet"
 	case o.second() != "" && initials == "":
 		return "--second-initials goes with --initials (the first checker's)"
 	case logPath != "" && bed == "":
@@ -101,7 +107,7 @@ func (o checkOptions) recordProblem() string {
 	case card && bed == "":
 		return "--card needs --bed (a bed label such as B4; never a patient's name)"
 	}
-	if logPath == "" && !card {
+	if logPath == "" && !card && bed == "" {
 		return ""
 	}
 	if err := setup.CheckBedLabel(bed); err != nil {
@@ -125,8 +131,8 @@ func runCheck(env Env) int {
 	if len(problems) > 0 {
 		return problemsError(env.Stderr, "check", problems)
 	}
-	if o.card() && o.asJSON() {
-		return UsageError(env.Stderr, "check", "--card and --json do not go together: the card is plain text; give one of them")
+	if msg := o.outputProblem(); msg != "" {
+		return UsageError(env.Stderr, "check", msg)
 	}
 	// Refuse a bad bed label or initials before anything is computed or shown.
 	if msg := o.recordProblem(); msg != "" {
@@ -158,6 +164,9 @@ func runCheck(env Env) int {
 			return UsageError(env.Stderr, "check", err.Error())
 		}
 	}
+	if o.sheet() {
+		return checkSheet(env, ck, rec, p.Label, o)
+	}
 	status := ExitOK
 	switch {
 	case o.asJSON():
@@ -171,6 +180,54 @@ func runCheck(env Env) int {
 		return status
 	}
 	return appendRecord(env, rec, o)
+}
+
+// outputProblem says which of --json, --card and --sheet clash, or "".
+func (o checkOptions) outputProblem() string {
+	if o.card() && o.asJSON() {
+		return "--card and --json do not go together: the card is plain text; give one of them"
+	}
+	n := 0
+	for _, on := range []bool{o.asJSON(), o.card(), o.sheet()} {
+		if on {
+			n++
+		}
+	}
+	if n > 1 {
+		return "--json, --card and --sheet do not go together: give one of them"
+	}
+	if _, ie := setup.CheckInterval(o.every()); ie != nil {
+		return "--every: " + ie.Reason
+	}
+	if o.every() != "" && !o.sheet() {
+		return "--every is for the sheet's next check due: add --sheet"
+	}
+	return ""
+}
+
+// checkSheet prints the bedside sheet; with --log the record is appended
+// first, so that the sheet's last record is one that was written.
+func checkSheet(env Env, ck setup.Check, rec setup.Record, unit string, o checkOptions) int {
+	sheet := ck.Sheet(unit, setup.BedKey(o.bed()), time.Now())
+	if o.logPath() != "" {
+		if err := setup.AppendRecord(o.logPath(), rec); err != nil {
+			fmt.Fprintf(env.Stderr, "crankside check: the check was NOT recorded, so no sheet is printed: %s\n", safetext.Escape(err.Error()))
+			return ExitFailure
+		}
+		sheet.Schedule = setup.RecordedSchedule(o.logPath(), rec, everyEntered(o.every()))
+		fmt.Fprintf(env.Stderr, "Recorded for bed %s in %s.\n", safetext.Escape(rec.Bed), safetext.Escape(o.logPath()))
+	}
+	return writeText(env, "check", sheet.Write)
+}
+
+// everyEntered is the interval typed, or 0 for the default (already
+// checked by outputProblem).
+func everyEntered(text string) time.Duration {
+	if strings.TrimSpace(text) == "" {
+		return 0
+	}
+	every, _ := setup.CheckInterval(text)
+	return every
 }
 
 func appendRecord(env Env, rec setup.Record, o checkOptions) int {

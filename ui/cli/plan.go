@@ -4,6 +4,7 @@ import (
 	"time"
 
 	"crankside/profiles"
+	"crankside/profiles/safetext"
 	"crankside/setup"
 )
 
@@ -44,12 +45,19 @@ func planFlagSet(name, usage string) (f *flags, profile, dir func() string) {
 func runPlan(env Env) int {
 	f, profile, dir := planFlagSet("plan", help(planUsage, planLong))
 	asJSON := f.boolean("json", "print one JSON object")
+	sheet := f.boolean("sheet", "print the bedside sheet (one page, 80 columns): the setting, what to time, the watch band, the alarm limits, the power-cut rhythm, the checklist")
+	bed := f.text("bed", "", "with --sheet: the bed's label, like B4 (never a patient's name)")
+	logPath := f.text("log", "", "with --sheet and --bed: read the bed's last check from this log, for the next check due")
+	every := f.text("every", "", "with --sheet: hours between checks, for the next check due (default 4, common practice)")
 	if status, done := f.parse(env, env.Args, "plan", false); done {
 		return status
 	}
 	req, problems := setup.BuildRequest(f.entries, time.Now())
 	if len(problems) > 0 {
 		return problemsError(env.Stderr, "plan", problems)
+	}
+	if msg := planSheetProblem(asJSON(), sheet(), bed(), logPath(), every()); msg != "" {
+		return UsageError(env.Stderr, "plan", msg)
 	}
 	p, _, err := profiles.Open(profile(), dir())
 	if err != nil {
@@ -59,8 +67,47 @@ func runPlan(env Env) int {
 	if err != nil {
 		return jobError(env.Stderr, "plan", err)
 	}
-	if asJSON() {
+	switch {
+	case asJSON():
 		return writeJSON(env, pl.JSON())
+	case sheet():
+		return planSheet(env, pl, bed(), logPath(), every())
 	}
 	return writeText(env, "plan", pl.WriteText)
+}
+
+// planSheetProblem says what is wrong with the sheet's flags, or "".
+func planSheetProblem(asJSON, sheet bool, bed, logPath, every string) string {
+	switch {
+	case asJSON && sheet:
+		return "--json and --sheet do not go together: give one of them"
+	case !sheet && (bed != "" || logPath != "" || every != ""):
+		return "--bed, --log and --every are for the bedside sheet: add --sheet"
+	case logPath != "" && bed == "":
+		return "--log needs --bed (a bed label such as B4; never a patient's name)"
+	}
+	if bed != "" {
+		if err := setup.CheckBedLabel(bed); err != nil {
+			return "--bed: " + err.(*setup.InputError).Reason
+		}
+	}
+	if _, ie := setup.CheckInterval(every); ie != nil {
+		return "--every: " + ie.Reason
+	}
+	return ""
+}
+
+// planSheet prints the plan's bedside sheet; with --log, the bed's last
+// recorded check and the next due.
+func planSheet(env Env, pl setup.Plan, bed, logPath, every string) int {
+	sh := pl.Sheet(time.Now())
+	sh.Bed = setup.BedKey(bed)
+	if logPath != "" {
+		sc, err := setup.BedSchedule(logPath, bed, everyEntered(every))
+		if err != nil {
+			return UsageError(env.Stderr, "plan", "--log: "+safetext.Escape(err.Error()))
+		}
+		sh.Schedule = sc
+	}
+	return writeText(env, "plan", sh.Write)
 }

@@ -1,0 +1,218 @@
+package setup
+
+import (
+	"fmt"
+	"io"
+	"strings"
+	"time"
+)
+
+// Sheet is one page for the bed, at most CardWidth columns: the unit, the
+// setting to dial, what to time to confirm it, the watch band, the alarm
+// limits, what to do when a reading leaves the band, the power-cut
+// rhythm, the checklist and the clinical caution; with a log, the bed's
+// last record and when the next check is due. It is built from a plan or
+// a check and holds no figure of its own.
+type Sheet struct {
+	From     string // "plan" or "check"
+	Unit     string // the profile's id and label
+	Bed      string // "" when none was given
+	Patient  string
+	Setting  Setting
+	Cautions []Caution
+	Timing   TimingCheck
+	// Watch is nil when no band is given (a stop, or readings no lung
+	// explains); WhyNone then says why.
+	Watch    *WatchJSON
+	WhyNone  string
+	Inferred string // what a stopwatch check inferred
+	// Unexplained is the check's fit problem, "" when the readings (if
+	// any) are explained.
+	Unexplained string
+	// Schedule is the bed's last record and the next check due, when a
+	// log was read or written (nil: no log).
+	Schedule *Schedule
+	Printed  time.Time
+}
+
+// Schedule is when a bed was last checked and when the next check is due.
+type Schedule struct {
+	Log    string
+	Last   *time.Time // nil: no check of this bed in the log
+	Every  time.Duration
+	Source string // where the interval comes from
+}
+
+// Due is when the next check is due: the last record plus the interval;
+// ok is false when there is no record.
+func (s Schedule) Due() (time.Time, bool) {
+	if s.Last == nil {
+		return time.Time{}, false
+	}
+	return s.Last.Add(s.Every), true
+}
+
+// Sheet is the plan's bedside sheet, printed at now.
+func (pl Plan) Sheet(now time.Time) Sheet {
+	return Sheet{From: "plan", Unit: pl.ProfileID + " (" + pl.ProfileLabel + ")",
+		Patient:  fmt.Sprintf("%.0f cm %s, PBW %.1f kg (no name or identifier)", pl.Patient.HeightCm, pl.Patient.Sex, pl.PBWKg),
+		Setting:  Setting{Hole: pl.Hole.Label, RPM: pl.Timing.RPM, DwellS: pl.Timing.DwellS, PEEPCmH2O: pl.PEEPCmH2O, O2LPerMin: pl.O2FlowLPerMin},
+		Cautions: pl.Cautions, Timing: pl.TimingCheck.JSON(), Watch: pl.watchToSet(), WhyNone: WhyNoWatch(false), Printed: now}
+}
+
+// Sheet is the check's bedside sheet for its current setting, printed at
+// now; unit is the profile's label, bed the bed's label or "".
+func (ck Check) Sheet(unit, bed string, now time.Time) Sheet {
+	j := ck.JSON()
+	return Sheet{From: "check", Unit: ck.ProfileID + " (" + unit + ")", Bed: bed,
+		Patient: fmt.Sprintf("%.0f cm %s, PBW %.1f kg (no name or identifier)", ck.Patient.HeightCm, ck.Patient.Sex, ck.PBWKg),
+		Setting: ck.Current.Setting, Cautions: ck.Current.Cautions, Timing: ck.TimingCheck.JSON(),
+		Watch: j.watchToSet(), WhyNone: WhyNoWatch(ck.Unexplained()), Inferred: ck.Inferred, Unexplained: ck.FitProblem, Printed: now}
+}
+
+// Write prints the sheet.
+func (s Sheet) Write(w io.Writer) error {
+	rw := &reportWriter{width: CardWidth}
+	rule := strings.Repeat("=", CardWidth)
+	rw.line("%s", rule)
+	rw.line("BEDSIDE SHEET  unit %s", s.Unit)
+	bed := "bed not given"
+	if s.Bed != "" {
+		bed = "bed " + s.Bed
+	}
+	rw.line("%s; patient %s", bed, s.Patient)
+	rw.line("From a %s, printed %s", s.From, LocalDateTime(s.Printed))
+	rw.line("%s", rule)
+	s.settingPart(rw)
+	s.watchPart(rw)
+	rw.line("BEDSIDE CHECKLIST")
+	for _, l := range ChecklistLines(s.Watch) {
+		rw.line("  %s", l)
+	}
+	s.schedulePart(rw)
+	rw.line("%s", rule)
+	rw.line("%s", ClinicalCaution)
+	_, err := io.WriteString(w, rw.b.String())
+	return err
+}
+
+// settingPart is the setting under a heading that never tells a person to
+// set a setting with a stop, and what to time to confirm it.
+func (s Sheet) settingPart(rw *reportWriter) {
+	if s.Unexplained != "" {
+		rw.line("%s", UnexplainedLine(s.Unexplained))
+	}
+	if st := FirstStop(s.Cautions); st != nil {
+		rw.line("%s; %s", StopLine(s.Cautions), st.Advice)
+	}
+	rw.line("%s", SettingHeading(s.Cautions, "SET THE MACHINE TO"))
+	var parts []string
+	for _, r := range SettingRows(s.Setting, nil) {
+		text := strings.TrimSpace(r.Now + " " + r.Unit)
+		label := r.Label
+		m := s.Setting.Measured
+		switch {
+		case r.ID == "o2_flow_l_min" && s.Setting.O2LPerMin <= 0:
+			text = "none (room air)"
+		case r.ID == "motor_rpm" && m.speedTimed():
+			label, text = "One turn", plain(*m.TurnS)+" s (timed)"
+		case r.ID == "dwell_s" && m != nil && m.PauseS != nil:
+			label, text = "Pause", plain(*m.PauseS)+" s (timed)"
+		case r.ID == "dwell_s" && m != nil && m.BreathsPerMin != nil:
+			text = fmt.Sprintf("%.2f s (from %s breaths/min counted)", s.Setting.DwellS, plain(*m.BreathsPerMin))
+		}
+		parts = append(parts, label+" "+text)
+	}
+	rw.line("  %s", strings.Join(parts, "; "))
+	if s.Inferred != "" {
+		rw.line("  %s", s.Inferred)
+	}
+	if FirstStop(s.Cautions) != nil {
+		rw.line("WHAT THIS SETTING TIMES AT (for reference only: it is not to be used)")
+	} else {
+		rw.line("TO CONFIRM IT, TIME IT")
+	}
+	rw.line("  %s", s.Timing.TimingLine())
+}
+
+// watchPart is the band, the alarm limits, what to do out of the band,
+// and the power-cut rhythm; none of them for a setting not to be used.
+func (s Sheet) watchPart(rw *reportWriter) {
+	w := s.Watch
+	if w == nil {
+		rw.line("WATCH THE MANOMETER: no band and no alarm limits: %s", s.WhyNone)
+		rw.line("IF THE POWER FAILS: bag the patient at the rate the responsible clinician sets (no rhythm is given for a setting not to be used)")
+		return
+	}
+	basis := "on the assumed lung"
+	if w.LungFitted {
+		basis = "on the lung fitted to the readings"
+	}
+	rw.line("WATCH THE MANOMETER (%s)", basis)
+	rw.line("  Peak                %s-%s cmH2O (predicted %.1f)", plain(w.ExpectedPeakCmH2O[0]), plain(w.ExpectedPeakCmH2O[1]), w.PredictedPeakCmH2O)
+	rw.line("  End of inspiration  %s-%s cmH2O (predicted %.1f)", plain(w.ExpectedEndCmH2O[0]), plain(w.ExpectedEndCmH2O[1]), w.PredictedEndCmH2O)
+	rw.line("  band: %s", w.BandRule)
+	rw.line("SET THE EXTERNAL PRESSURE ALARM")
+	rw.line("  HIGH %s cmH2O: %s", plain(w.AlarmHighCmH2O), w.AlarmHighRule)
+	rw.line("  LOW / disconnection %s cmH2O: %s", plain(w.AlarmLowCmH2O), w.AlarmLowRule)
+	for _, n := range w.Notes {
+		rw.line("  NOTE  %s", n)
+	}
+	rw.line("IF A READING LEAVES THE BAND")
+	rw.line("  %s", OutOfBandAdvice)
+	rw.line("IF THE POWER FAILS")
+	rw.line("  Turn the wheel by hand: one turn in %.2f s, then pause %.2f s (%.1f breaths/min)", w.HandTurn.TurnS, w.HandTurn.PauseS, w.HandTurn.BreathsPerMin)
+	rw.line("  or bag at %.0f breaths/min (%s)", w.BagRateBPM, w.BagRateSource)
+}
+
+// schedulePart is the bed's last record and the next check due.
+func (s Sheet) schedulePart(rw *reportWriter) {
+	sc := s.Schedule
+	if sc == nil {
+		return
+	}
+	rw.line("CHECKS (every %g h: %s)", sc.Every.Hours(), sc.Source)
+	due, ok := sc.Due()
+	if !ok {
+		rw.line("  no check of bed %s is recorded in %s: check now", s.Bed, sc.Log)
+		return
+	}
+	rw.line("  last recorded %s; next check due %s", LocalDateTime(*sc.Last), LocalDateTime(due))
+	if !due.After(s.Printed) {
+		rw.line("  OVERDUE: the next check was due %s", LocalDateTime(due))
+	}
+}
+
+// BedSchedule reads the bed's last record from the log and gives the
+// schedule at the interval every (0: DefaultCheckEvery).
+func BedSchedule(logPath, bed string, every time.Duration) (*Schedule, error) {
+	if err := CheckBedLabel(bed); err != nil {
+		return nil, err
+	}
+	h, _, err := ReadBedHistory([]string{logPath}, bed, 1)
+	if err != nil {
+		return nil, err
+	}
+	sc := scheduleAt(logPath, every)
+	if len(h.Entries) > 0 {
+		t := h.Entries[0].Record.Time
+		sc.Last = &t
+	}
+	return sc, nil
+}
+
+// RecordedSchedule is the schedule after a record was just written.
+func RecordedSchedule(logPath string, rec Record, every time.Duration) *Schedule {
+	sc := scheduleAt(logPath, every)
+	t := rec.Time
+	sc.Last = &t
+	return sc
+}
+
+func scheduleAt(logPath string, every time.Duration) *Schedule {
+	sc := &Schedule{Log: logPath, Every: every, Source: "entered"}
+	if every <= 0 {
+		sc.Every, sc.Source = DefaultCheckEvery, CheckEverySource
+	}
+	return sc
+}
