@@ -11,12 +11,15 @@ type PEEPFiO2Pair struct {
 	PEEPCmH2O float64
 }
 
-// lowerPEEPTable is the ARDS Network (2000) lower-PEEP/FiO2 table, with the
-// last column's 18-24 range written as its two ends.
+// lowerPEEPTable is the ARDS Network (2000) lower-PEEP/FiO2 table. The
+// card's last column, "1.0 / 18-24", is walked in steps of 2 cmH2O (18, 20,
+// 22, 24): the step between the card's own columns at FiO2 0.7 and 0.9
+// (10-12-14, 14-16-18), so that the protocol never moves PEEP by 6 cmH2O
+// at once.
 var lowerPEEPTable = [...]PEEPFiO2Pair{
 	{0.3, 5}, {0.4, 5}, {0.4, 8}, {0.5, 8}, {0.5, 10}, {0.6, 10}, {0.7, 10},
 	{0.7, 12}, {0.7, 14}, {0.8, 14}, {0.9, 14}, {0.9, 16}, {0.9, 18},
-	{1.0, 18}, {1.0, 24},
+	{1.0, 18}, {1.0, 20}, {1.0, 22}, {1.0, 24},
 }
 
 // TablePEEP is what the table suggests for one FiO2.

@@ -85,7 +85,7 @@ const (
 const (
 	srcProtocolCard = "ARDS Network protocol card (NIH NHLBI ARDS Clinical Network)"
 	srcProtocolOx   = srcProtocolCard + ": PaO2 55-80 mmHg or SpO2 88-95 %, lower-PEEP/FiO2 table"
-	srcProtocolPlat = srcProtocolCard + ": plateau <= 30; Vt down 1 mL/kg to 4; up 1 mL/kg when plateau < 25 and Vt < 6"
+	srcProtocolPlat = srcProtocolCard + ": plateau <= 30; Vt down 1 mL/kg to 4; up 1 mL/kg when plateau < 25 and Vt < 6; above 6, 1 mL/kg steps to 6"
 	srcProtocolPH   = srcProtocolCard + ": pH 7.30-7.45; rate at most 35; Henderson-Hasselbalch; alveolar ventilation equation"
 	srcAlveolar     = "derived: alveolar ventilation equation, PaCO2 proportional to 1 / (rate x (Vt - Vd))"
 )
@@ -137,6 +137,15 @@ type ProtocolState struct {
 	// ApparatusDeadSpaceML is the tube, filter and connectors; nil when not
 	// entered (0 mL is then assumed and the step says so).
 	ApparatusDeadSpaceML *float64
+	// Lung is the lung condition: the protocol's table and rules are for
+	// ARDS. 0 (not stated) applies them and says so; Normal and Obstructive
+	// get the oxygenation goal only, with the lung's own strategy
+	// (protocolscope.go).
+	Lung Lung
+	// NoAlveolarHold switches off this tool's own rule that scales the
+	// rate to hold the alveolar ventilation when the tidal volume changes
+	// (it is not the card's).
+	NoAlveolarHold bool
 }
 
 // RuleStatus is what a rule did.
@@ -217,6 +226,9 @@ func NextProtocolStep(st ProtocolState, g GasReadings) (ProtocolStep, error) {
 	}
 	step := ProtocolStep{PEEPCmH2O: st.PEEPCmH2O, FiO2: st.FiO2, MLPerKg: st.MLPerKg, RateBPM: st.RateBPM}
 	step.DeadSpaceML, step.DeadSpaceSource = deadSpace(st)
+	if st.Lung == Normal || st.Lung == Obstructive {
+		return otherLungStep(st, g, step), nil
+	}
 
 	ox, pair := oxygenationRule(st, g)
 	if ox.Status == RuleFired {
@@ -225,13 +237,21 @@ func NextProtocolStep(st ProtocolState, g GasReadings) (ProtocolStep, error) {
 		step.PEEPChanged = math.Abs(pair.PEEPCmH2O-st.PEEPCmH2O) > 1e-9
 	}
 	plat, mlkg := plateauRule(st)
+	plat, mlkg = severeAcidKeepsVt(st, g, plat, mlkg)
 	if plat.Status == RuleFired {
 		step.MLPerKg, step.VtChanged = mlkg, true
 	}
-	ph, rate := phRule(st, g, step.MLPerKg, step.DeadSpaceML, plat.Status == RuleFired && mlkg < st.MLPerKg)
+	ph, rate := phRule(st, g, step.MLPerKg, step.DeadSpaceML, plat.Status == RuleFired && mlkg < st.MLPerKg && st.PlateauCmH2O > PlateauGoalMaxCmH2O+1e-9)
 	step.Rules = []RuleResult{ox, plat, ph}
+	if st.Lung == 0 {
+		step.Rules = append([]RuleResult{unstatedLungRule()}, step.Rules...)
+	}
 	if ph.Status == RuleFired {
 		step.RateBPM, step.RateChanged = rate, true
+	} else if step.VtChanged && st.NoAlveolarHold {
+		step.Rules = append(step.Rules, RuleResult{ID: "alveolar-ventilation", Reading: "tidal volume mL/kg PBW", Value: step.MLPerKg, HasValue: true,
+			Goal: alveolarHoldGoal, Status: RuleNoStep, Source: srcAlveolarChoice,
+			Action: fmt.Sprintf("switched off: the rate stays %.1f /min and PaCO2 will move with the Vt step; re-check the gas", st.RateBPM)})
 	} else if step.VtChanged {
 		hold, rate := holdVentilationRule(st, step.MLPerKg, step.DeadSpaceML, step.DeadSpaceSource)
 		step.Rules = append(step.Rules, hold)
@@ -288,7 +308,7 @@ func deadSpace(st ProtocolState) (float64, string) {
 // rates.
 func holdVentilationRule(st ProtocolState, newMLPerKg, vdML float64, vdSource string) (RuleResult, float64) {
 	r := RuleResult{ID: "alveolar-ventilation", Reading: "tidal volume mL/kg PBW", Value: newMLPerKg, HasValue: true,
-		Goal: "alveolar ventilation held while Vt changes", Source: srcAlveolar + "; dead space " + vdSource}
+		Goal: alveolarHoldGoal, Source: srcAlveolarChoice + "; " + srcAlveolar + "; dead space " + vdSource}
 	rate, err := RateForPaCO2(st.RateBPM, st.MLPerKg*st.PBWKg, newMLPerKg*st.PBWKg, vdML, 1, 1)
 	if err != nil {
 		r.Status, r.Action = RuleNoStep, "rate not scaled: "+err.Error()+"; the clinician decides"
@@ -447,6 +467,13 @@ func plateauRule(st ProtocolState) (RuleResult, float64) {
 		next := math.Min(VtUpToMLPerKg, st.MLPerKg+VtStepMLPerKg)
 		r.Status = RuleFired
 		r.Action = fmt.Sprintf("below 25 with Vt under 6: Vt %.1f -> %.1f mL/kg PBW (1 mL/kg up, to 6 at most)", st.MLPerKg, next)
+		return r, next
+	case vt > VtUpToMLPerKg:
+		// The card brings the tidal volume to 6 mL/kg PBW in 1 mL/kg
+		// steps; the plateau goal is met, so nothing holds it higher.
+		next := math.Max(VtUpToMLPerKg, st.MLPerKg-VtStepMLPerKg)
+		r.Status = RuleFired
+		r.Action = fmt.Sprintf("in goal with Vt %.1f mL/kg PBW above 6: Vt %.1f -> %.1f mL/kg PBW (1 mL/kg towards 6)", st.MLPerKg, st.MLPerKg, next)
 		return r, next
 	}
 	r.Status = RuleInGoal

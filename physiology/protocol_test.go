@@ -172,9 +172,17 @@ func TestOxygenationRuleAtTheEndsOfTheTable(t *testing.T) {
 		{"first pair below goal: the second", 0.3, 5, low, RuleFired, 0.4, 5},
 		{"first pair above goal: nothing lower", 0.3, 5, high, RuleNoStep, 0.3, 5},
 		{"second pair above goal: the first", 0.4, 5, high, RuleFired, 0.3, 5},
-		{"1.0/18 below goal: 1.0/24", 1.0, 18, low, RuleFired, 1.0, 24},
+		// ARDS Network card "1.0 / 18-24", walked in 2 cmH2O steps (the
+		// step between the card's own columns 14-16-18): up 18 -> 20 ->
+		// 22 -> 24 and down the same way.
+		{"1.0/18 below goal: 1.0/20", 1.0, 18, low, RuleFired, 1.0, 20},
+		{"1.0/20 below goal: 1.0/22", 1.0, 20, low, RuleFired, 1.0, 22},
+		{"1.0/22 below goal: 1.0/24", 1.0, 22, low, RuleFired, 1.0, 24},
 		{"last pair below goal: no further step", 1.0, 24, low, RuleNoStep, 1.0, 24},
-		{"last pair above goal: 1.0/18", 1.0, 24, high, RuleFired, 1.0, 18},
+		{"last pair above goal: 1.0/22", 1.0, 24, high, RuleFired, 1.0, 22},
+		{"1.0/22 above goal: 1.0/20", 1.0, 22, high, RuleFired, 1.0, 20},
+		{"1.0/20 above goal: 1.0/18", 1.0, 20, high, RuleFired, 1.0, 18},
+		{"1.0/18 above goal: 0.9/18", 1.0, 18, high, RuleFired, 0.9, 18},
 		// Off the table (FiO2 from a bleed flow): the nearest pair that
 		// lowers neither knob, or raises neither.
 		{"0.45/8 below goal", 0.45, 8, low, RuleFired, 0.5, 8},
@@ -307,7 +315,8 @@ func TestRulesCombine(t *testing.T) {
 	require.Contains(t, ruleOf(t, s, "ph").Action, "plateau rule (plateau above 30) took Vt down, and it wins")
 	require.Equal(t, 0.5, s.FiO2) // oxygenation: 0.5/8 -> 0.5/10, an independent knob
 	require.Equal(t, 10.0, s.PEEPCmH2O)
-	require.Len(t, s.Rules, 3)
+	require.Len(t, s.Rules, 4, "the lung not stated, the scope, then the three rules")
+	require.Equal(t, "protocol-scope", s.Rules[0].ID)
 
 	// pH in goal, Vt down 6 -> 5 mL/kg of 70 kg (420 -> 350 mL), dead space
 	// 2.2 x 70 + 50 = 204 mL: rate held at 20 x (420 - 204) / (350 - 204) =
@@ -329,7 +338,7 @@ func TestRulesCombine(t *testing.T) {
 	require.NoError(t, err)
 	require.InDelta(t, 34.2, s.RateBPM, 0.05)
 	require.Contains(t, s.DeadSpaceSource, "not entered")
-	require.Len(t, s.Rules, 3, "the pH rule set the rate: no separate hold")
+	require.Len(t, s.Rules, 4, "the pH rule set the rate: no separate hold")
 }
 
 func TestNextProtocolStepRefusesAState(t *testing.T) {

@@ -81,6 +81,9 @@ type CheckRequest struct {
 	// BreathingAgainst: the patient is breathing against the unit (the
 	// patient-triggering stop).
 	BreathingAgainst bool
+	// NoAlveolarHold switches off the protocol step's rate scaling when
+	// the tidal volume changes (--hold-alveolar-ventilation=false).
+	NoAlveolarHold bool
 	// Gas is the blood gas and oximeter; with any reading the check also
 	// computes the protocol's next step (see RunCheck).
 	Gas GasReadings

@@ -112,6 +112,7 @@ var checkSpecs = []EntrySpec{
 	{Name: "ph", Label: "pH"},
 	{Name: "paco2", Label: "PaCO2", Unit: "mmHg"},
 	{Name: "dead-space-ml", Label: "Apparatus dead space", Unit: "mL"},
+	{Name: "hold-alveolar-ventilation", Label: "Hold alveolar ventilation", Kind: kindChoice},
 	{Name: "propose-hole", Label: "Proposed hole", Kind: kindText},
 	{Name: "propose-rpm", Label: "Proposed speed", Unit: "rpm"},
 	{Name: "propose-dwell-s", Label: "Proposed dwell", Unit: "s"},
@@ -340,6 +341,12 @@ func BuildCheckRequest(e Entries, now time.Time) (CheckRequest, Problems) {
 	e, converted, unitProblems := convertUnits(e, checkSpecs)
 	r := &entryReader{e: e}
 	req := CheckRequest{Patient: r.patient(), Lung: r.lung(), Now: now, Converted: converted}
+	if !r.given("lung") {
+		// Not stated: the assumed mechanics are a normal lung's, and the
+		// protocol step says it applies the ARDS rules (physiology).
+		req.Lung = 0
+	}
+	req.NoAlveolarHold = !r.yesNo("hold-alveolar-ventilation", true)
 	req.ComplianceMLPerCmH2O, _ = r.number("compliance")
 	req.ResistanceCmH2OPerLS, _ = r.number("resistance")
 	req.Setting.Hole = r.text("hole")
@@ -454,6 +461,8 @@ func Hint(name string, lung physiology.Lung) string {
 		return def(physiology.Value{Value: DefaultCylinderReserveBar, Source: srcDefaultReserve}, "%g bar")
 	case "breathing-against":
 		return BreathingAgainstQuestion + " y or n; blank: no"
+	case "hold-alveolar-ventilation":
+		return "when the protocol moves Vt, scale the rate to hold rate x (Vt - dead space): this tool's choice, not the card's; y or n; blank: yes"
 	}
 	if strings.HasPrefix(name, "propose-") {
 		return "blank: as now"

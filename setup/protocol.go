@@ -105,6 +105,7 @@ func ProtocolProposal(req CheckRequest, readings GasReadings, p profiles.Profile
 		PEEPCmH2O: cur.Setting.PEEPCmH2O, FiO2: cur.Figures.FiO2,
 		PlateauCmH2O: cur.Figures.PlateauCmH2O, PlateauSource: plateauSrc,
 		ApparatusDeadSpaceML: readings.ApparatusDeadSpaceML,
+		Lung:                 req.Lung, NoAlveolarHold: req.NoAlveolarHold,
 	}
 	step, err := physiology.NextProtocolStep(st, readings.physiology())
 	if err != nil {
@@ -182,14 +183,11 @@ func (res *ProtocolStepResult) placeOnMachine(u unit, st physiology.ProtocolStat
 			return &InputError{Field: "rate", Reason: err.Error()}
 		}
 		res.Timing = &tp
-		if math.Abs(want-res.Step.RateBPM) > 0.05 {
-			res.Changes = append(res.Changes, Change{What: "rate for the hole's volume", Wanted: res.Step.RateBPM, Got: want, Unit: "/min"})
-		}
 	}
 	if res.Timing != nil {
 		res.keepRateInProtocol(u, hole)
 		rpm, dwell = res.Timing.RPM, res.Timing.DwellS
-		res.Changes = append(res.Changes, timingChanges(*res.Timing)...)
+		res.Changes = append(res.Changes, res.stepTimingChanges()...)
 		res.timingNotes(u)
 	}
 	hf, err := deliveredFromRest(u, hole, rpm, ls)
@@ -197,8 +195,8 @@ func (res *ProtocolStepResult) placeOnMachine(u unit, st physiology.ProtocolStat
 		return &InputError{Field: "profile " + u.p.ID, Reason: err.Error()}
 	}
 	if res.Timing != nil && res.rateScalesWithVt() && math.Abs(res.Timing.WantedRateBPM-res.Step.RateBPM) > 0.05 {
-		res.note(fmt.Sprintf("the hole delivers %.0f mL, not the step's %.0f mL: for the same alveolar ventilation (dead space %.0f mL) the rate is %.1f /min, not %.1f",
-			hf.DeliveredML, res.TargetVtML, res.Step.DeadSpaceML, res.Timing.WantedRateBPM, res.Step.RateBPM))
+		res.note(fmt.Sprintf("the hole delivers %.0f mL, not the step's %.0f mL: the rate this machine sets keeps the step's alveolar ventilation (dead space %.0f mL) with this hole",
+			hf.DeliveredML, res.TargetVtML, res.Step.DeadSpaceML))
 	}
 	if res.Step.VtChanged && math.Abs(hf.DeliveredML-res.TargetVtML) > 0.5 {
 		res.Changes = append(res.Changes, Change{What: "tidal volume", Wanted: res.TargetVtML, Got: hf.DeliveredML, Unit: "mL"})
@@ -253,7 +251,9 @@ func (res *ProtocolStepResult) holeForStep(u unit, st physiology.ProtocolState, 
 	chosen := nearestHole(holes, res.TargetVtML)
 	if chosen == curIdx {
 		below, _ := neighbours(holes, curIdx)
-		down := res.Step.MLPerKg < st.MLPerKg
+		// Only the plateau above its goal forces the next smaller hole; a
+		// step towards 6 mL/kg does not go below 6 for want of a hole.
+		down := res.Step.MLPerKg < st.MLPerKg && st.PlateauCmH2O > physiology.PlateauGoalMaxCmH2O+1e-9
 		if down && below != nil && below.MLPerKg >= physiology.VtFloorMLPerKg-0.05 {
 			for i := range holes {
 				if holes[i].Label == below.Label {
@@ -365,7 +365,7 @@ func (res *ProtocolStepResult) evaluateProposed(u unit, ls lungState, req CheckR
 		a.targetMLPerK = res.Step.MLPerKg
 		a.offTargetPct = 100 * (f.Hole.DeliveredML - res.TargetVtML) / res.TargetVtML
 	}
-	return Evaluation{Setting: s, Figures: f, Cautions: assess(a)}, nil
+	return Evaluation{Setting: s, Figures: f, Cautions: res.bestReachable(assess(a))}, nil
 }
 
 // ProtocolRuleJSON is one rule's finding; value is null when the reading

@@ -24,6 +24,16 @@ func protocolReq(hole string, rpm, dwell, peep, o2 float64) setup.CheckRequest {
 	}
 }
 
+// atHeight is req for a taller patient. Hole 8 of demo-a gives about 462 mL
+// at these settings; at 182 cm (PBW 50 + 0.91 x 29.6 = 76.9 kg, ARDS
+// Network 2000) that is 6.0 mL/kg PBW, so the card's step towards 6 does
+// not fire and a test of another rule sees that rule alone. demo-b's hole
+// E gives about 504 mL: at 190 cm (PBW 84.2 kg) 6.0 mL/kg.
+func atHeight(req setup.CheckRequest, cm float64) setup.CheckRequest {
+	req.Patient.HeightCm = cm
+	return req
+}
+
 func hasChange(cs []setup.Change, what string) (setup.Change, bool) {
 	for _, c := range cs {
 		if c.What == what {
@@ -45,7 +55,7 @@ func hasLeveledCaution(cs []setup.Caution, id string, level setup.Level) bool {
 func TestProtocolHypoxaemicOnRoomAir(t *testing.T) {
 	// ARDS Network protocol card: SpO2 85 is below 88-95; from room air the
 	// step is the table's first pair, FiO2 0.3 with PEEP 5.
-	res, err := setup.ProtocolProposal(protocolReq("8", 21, 1.4, 5, 0), setup.GasReadings{SpO2Pct: gas(85)}, profile(t, "demo-a"))
+	res, err := setup.ProtocolProposal(atHeight(protocolReq("8", 21, 1.4, 5, 0), 182), setup.GasReadings{SpO2Pct: gas(85)}, profile(t, "demo-a"))
 	require.NoError(t, err)
 	require.Equal(t, 5.0, res.Proposed.PEEPCmH2O)
 	require.Equal(t, "8", res.Proposed.Hole, "no Vt rule fired: the hole stays")
@@ -93,7 +103,7 @@ func TestProtocolRateCappedAtTheMotorsMaximum(t *testing.T) {
 	// 13.33 x 10^0.2 = 21.1 /min (derived), which the motor cannot reach.
 	p := profile(t, "demo-a")
 	p.Motor.MaxRPM = 20
-	res, err := setup.ProtocolProposal(protocolReq("8", 20, 1.5, 5, 0),
+	res, err := setup.ProtocolProposal(atHeight(protocolReq("8", 20, 1.5, 5, 0), 182),
 		setup.GasReadings{PH: gas(7.15), PaCO2MmHg: gas(60)}, p)
 	require.NoError(t, err)
 	require.InDelta(t, 21.1, res.Step.RateBPM, 0.05)
@@ -104,7 +114,16 @@ func TestProtocolRateCappedAtTheMotorsMaximum(t *testing.T) {
 	require.True(t, ok, "%+v", res.Changes)
 	require.InDelta(t, 21.1, c.Wanted, 0.05)
 	require.InDelta(t, 20.0, c.Got, 1e-9)
-	require.True(t, hasLeveledCaution(res.Check.Proposed.Cautions, "rate-unreachable", setup.Stop))
+	// The step is this machine's best reachable setting: a warn that names
+	// what it could not do and the card's next lever, not a stop.
+	require.False(t, hasLeveledCaution(res.Check.Proposed.Cautions, "rate-unreachable", setup.Stop))
+	require.True(t, hasLeveledCaution(res.Check.Proposed.Cautions, "protocol-rate-not-reached", setup.Warn))
+	for _, c := range res.Check.Proposed.Cautions {
+		if c.ID == "protocol-rate-not-reached" {
+			require.Contains(t, c.Message, "the protocol's rate 21.1 /min cannot be reached on this machine: its fastest, 20.0 /min, is set here")
+			require.Contains(t, c.Advice, "below pH 7.15 its next lever is Vt up in 1 mL/kg steps")
+		}
+	}
 	require.Contains(t, strings.Join(res.Notes, "\n"), "cannot reach 21.1 /min")
 }
 
@@ -114,7 +133,7 @@ func TestProtocolFixedSpeedMotorChangesOnlyTheDwell(t *testing.T) {
 	// 10^(7.35 - 7.25) = 18.9 /min (derived). The dwell is 60/18.9 - 3 =
 	// 0.17 s, 0.2 s on the 0.1 s step: 60 / 3.2 = 18.75 /min, Ti still 1.5 s,
 	// I:E (3.2 - 1.5) / 1.5 = 1:1.13 (derived).
-	res, err := setup.ProtocolProposal(protocolReq("E", 20, 1.0, 5, 0),
+	res, err := setup.ProtocolProposal(atHeight(protocolReq("E", 20, 1.0, 5, 0), 190),
 		setup.GasReadings{PH: gas(7.25), PaCO2MmHg: gas(50)}, profile(t, "demo-b"))
 	require.NoError(t, err)
 	require.False(t, res.Step.VtChanged, "Vt at or above 6 with the plateau under 30: no Vt step")
@@ -163,7 +182,7 @@ func TestProtocolOverOxygenatedOnAHighStep(t *testing.T) {
 	// FiO2 1.0 (the bleed formula caps at 1; REFERENCES, derived), so the
 	// patient is at the table's 1.0/18. PaO2 110 is above 55-80: the pair
 	// below is 0.9/18 (ARDS Network lower-PEEP/FiO2 table).
-	res, err := setup.ProtocolProposal(protocolReq("8", 21, 1.4, 18, 15), setup.GasReadings{PaO2MmHg: gas(110)}, profile(t, "demo-a"))
+	res, err := setup.ProtocolProposal(atHeight(protocolReq("8", 21, 1.4, 18, 15), 182), setup.GasReadings{PaO2MmHg: gas(110)}, profile(t, "demo-a"))
 	require.NoError(t, err)
 	require.InDelta(t, 1.0, res.Check.Current.Figures.FiO2, 1e-9)
 	require.Equal(t, 18.0, res.Proposed.PEEPCmH2O)
@@ -211,15 +230,16 @@ func TestProtocolStepJSONKeys(t *testing.T) {
 	require.Equal(t, []string{"proposed", "rules"}, keys(m))
 	require.Equal(t, []string{"dwell_s", "fio2", "hole", "motor_rpm", "o2_flow_l_min", "peep_cmh2o", "rate_bpm", "target_ml_per_kg"}, keys(m["proposed"]))
 	rules := m["rules"].([]any)
-	require.Len(t, rules, 3)
+	require.Len(t, rules, 4, "the lung not stated: the scope first")
 	for _, r := range rules {
 		require.Equal(t, []string{"action", "goal", "id", "reading", "source", "value"}, keys(r))
 	}
-	require.Equal(t, "oxygenation", rules[0].(map[string]any)["id"])
-	require.Equal(t, 85.0, rules[0].(map[string]any)["value"])
+	require.Equal(t, "protocol-scope", rules[0].(map[string]any)["id"])
+	require.Equal(t, "oxygenation", rules[1].(map[string]any)["id"])
+	require.Equal(t, 85.0, rules[1].(map[string]any)["value"])
 
 	// A rule without its reading has a null value.
-	res, err = setup.ProtocolProposal(protocolReq("8", 21, 1.4, 5, 0), setup.GasReadings{SpO2Pct: gas(90)}, profile(t, "demo-a"))
+	res, err = setup.ProtocolProposal(atHeight(protocolReq("8", 21, 1.4, 5, 0), 182), setup.GasReadings{SpO2Pct: gas(90)}, profile(t, "demo-a"))
 	require.NoError(t, err)
 	b, err = json.Marshal(res.JSON())
 	require.NoError(t, err)
@@ -244,8 +264,14 @@ func TestProtocolRateFollowsTheHolesVolume(t *testing.T) {
 	require.True(t, res.Step.VtChanged)
 	require.Equal(t, "D", res.Proposed.Hole)
 	require.Less(t, res.Step.RateBPM, 18.9, "the step's rate was for the larger volume")
-	c, ok := hasChange(res.Changes, "rate for the hole's volume")
+	// One rate wanted (the step's), one set: 18.9 /min on the 0.1 s dwell
+	// step is 60/18.9 - 3 = 0.17 -> 0.2 s, 60 / 3.2 = 18.75 /min (derived).
+	c, ok := hasChange(res.Changes, "rate")
 	require.True(t, ok, "%+v", res.Changes)
-	require.InDelta(t, 18.9, c.Got, 0.05)
+	require.InDelta(t, res.Step.RateBPM, c.Wanted, 1e-9)
+	require.InDelta(t, 18.75, c.Got, 1e-9)
+	_, ok = hasChange(res.Changes, "rate for the hole's volume")
+	require.False(t, ok, "no third rate")
+	require.Contains(t, strings.Join(res.Notes, "\n"), "keeps the step's alveolar ventilation")
 	require.Contains(t, strings.Join(res.Notes, "\n"), "the tidal volume does not change on this machine")
 }

@@ -67,8 +67,12 @@ func ProtocolRuleRows(j CheckJSON) []ProtocolRuleRow {
 		if r.Value != nil {
 			value = ruleValue(r.ID, *r.Value)
 		}
+		head := fmt.Sprintf("%s: %s = %s, goal %s", r.ID, r.Reading, value, r.Goal)
+		if r.Value == nil && r.ID == "protocol-scope" {
+			head = fmt.Sprintf("%s: %s, goal %s", r.ID, r.Reading, r.Goal) // a word, not a number
+		}
 		out = append(out, ProtocolRuleRow{ID: r.ID, Word: word, Fired: status == "fired",
-			Head:   fmt.Sprintf("%s: %s = %s, goal %s", r.ID, r.Reading, value, r.Goal),
+			Head:   head,
 			Action: r.Action, Source: r.Source})
 	}
 	return out

@@ -31,8 +31,11 @@ import (
 // The O2 bleed gives FiO2 = 0.21 + 0.79 x Q / MV (REFERENCES), and the step
 // sets Q on a flowmeter's 0.1 L/min, rounded up.
 
+// handover is a check of hole 9 at 188 cm: PBW 50 + 0.91 x 35.6 = 82.4 kg
+// (ARDS Network 2000), at which hole 9's breath is 6.0 mL/kg PBW, so the
+// card's step towards 6 does not fire and each test sees its own rule.
 func handover(more ...string) []string {
-	return append([]string{"check", "--height-cm", "175", "--sex", "male", "--hole", "9", "--rpm", "21", "--dwell-s", "1.4"}, more...)
+	return append([]string{"check", "--height-cm", "188", "--sex", "male", "--hole", "9", "--rpm", "21", "--dwell-s", "1.4"}, more...)
 }
 
 func checkJSON(t *testing.T, args ...string) map[string]any {
@@ -85,7 +88,7 @@ func TestHandoverHypoxaemicOnRoomAir(t *testing.T) {
 	// 0.30 is 0.09 / 0.79 x MV = 0.114 x 5.92-6.64 = 0.67-0.76 L/min, 0.7 or
 	// 0.8 rounded up (derived).
 	obj := checkJSON(t, handover("--spo2", "85")...)
-	require.Equal(t, map[string]string{"oxygenation": "fired", "plateau": "in-goal", "ph": "no-reading"}, ruleStatus(t, obj))
+	require.Equal(t, map[string]string{"protocol-scope": "in-goal", "oxygenation": "fired", "plateau": "in-goal", "ph": "no-reading"}, ruleStatus(t, obj))
 	require.Nil(t, ruleByID(t, obj, "ph")["value"], "a rule without its reading has a null value")
 	require.Equal(t, 85.0, ruleByID(t, obj, "oxygenation")["value"])
 	p := stepProposed(obj)
@@ -131,7 +134,7 @@ func TestHandoverAcidotic(t *testing.T) {
 	// 60 / 3.205 = 18.72 /min (derived). SpO2 92 is in goal: FiO2 stays
 	// 0.21, no O2.
 	obj := checkJSON(t, handover("--spo2", "92", "--ph", "7.22", "--paco2", "58")...)
-	require.Equal(t, map[string]string{"oxygenation": "in-goal", "plateau": "in-goal", "ph": "fired"}, ruleStatus(t, obj))
+	require.Equal(t, map[string]string{"protocol-scope": "in-goal", "oxygenation": "in-goal", "plateau": "in-goal", "ph": "fired"}, ruleStatus(t, obj))
 	ph := ruleByID(t, obj, "ph")
 	require.Contains(t, ph["action"], "HCO3 22.9 mmol/L held")
 	require.Contains(t, ph["action"], "rate 14.1 -> 19.0 /min aiming at pH 7.35 (PaCO2 43.0 mmHg")
@@ -172,7 +175,7 @@ func TestHandoverOverOxygenatedOnAHighStep(t *testing.T) {
 	// L/min at most (calibration none): 0.8734 x 5.92-6.642 = 5.17-5.801
 	// L/min, 5.2-5.9 rounded up to a tenth (derived).
 	obj := checkJSON(t, handover("--peep", "18", "--o2-lpm", "15", "--pao2", "110", "--ph", "7.40", "--paco2", "40")...)
-	require.Equal(t, map[string]string{"oxygenation": "fired", "plateau": "in-goal", "ph": "in-goal"}, ruleStatus(t, obj))
+	require.Equal(t, map[string]string{"protocol-scope": "in-goal", "oxygenation": "fired", "plateau": "in-goal", "ph": "in-goal"}, ruleStatus(t, obj))
 	require.Contains(t, ruleByID(t, obj, "oxygenation")["action"], "the pair below on the table, FiO2 0.9, PEEP 18 cmH2O (from FiO2 1.00, PEEP 18)")
 	p := stepProposed(obj)
 	require.Equal(t, "9", p["hole"])
@@ -209,7 +212,8 @@ func TestHandoverFixedSpeedMotorChangesOnlyTheDwell(t *testing.T) {
 	// The dwell for it is 60/18.9 - 3 = 0.17 s, 0.2 s on the 0.1 s step:
 	// 60 / 3.2 = 18.75 /min, Ti still 1.5 s, I:E (3.2 - 1.5) / 1.5 = 1:1.13
 	// (derived).
-	args := []string{"check", "--height-cm", "175", "--sex", "male", "--profile", "demo-b", "--hole", "E", "--rpm", "20",
+	// At 190 cm (PBW 84.2 kg) hole E's breath is 6.0 mL/kg: no Vt step.
+	args := []string{"check", "--height-cm", "190", "--sex", "male", "--profile", "demo-b", "--hole", "E", "--rpm", "20",
 		"--dwell-s", "1", "--ph", "7.25", "--paco2", "50"}
 	obj := checkJSON(t, args...)
 	require.Equal(t, "fired", ruleStatus(t, obj)["ph"])
@@ -241,7 +245,7 @@ func TestHandoverRateCappedAtTheMotorsMaximum(t *testing.T) {
 	b, _ := json.Marshal(prof)
 	path := filepath.Join(t.TempDir(), "demo-a-slow.json")
 	require.NoError(t, os.WriteFile(path, b, 0o600))
-	args := []string{"check", "--height-cm", "175", "--sex", "male", "--profile", path, "--hole", "9", "--rpm", "20",
+	args := []string{"check", "--height-cm", "188", "--sex", "male", "--profile", path, "--hole", "9", "--rpm", "20",
 		"--dwell-s", "1.5", "--ph", "7.15", "--paco2", "60"}
 	obj := checkJSON(t, args...)
 	require.Contains(t, ruleByID(t, obj, "ph")["action"], "rate 13.3 -> 21.1 /min")
@@ -249,14 +253,16 @@ func TestHandoverRateCappedAtTheMotorsMaximum(t *testing.T) {
 	require.Equal(t, 20.0, num(t, p, "motor_rpm"))
 	require.Equal(t, 0.0, num(t, p, "dwell_s"))
 	require.InDelta(t, 20.0, num(t, p, "rate_bpm"), 1e-9)
-	stop := false
+	warn := false
 	for _, c := range obj["proposed"].(map[string]any)["cautions"].([]any) {
 		c := c.(map[string]any)
-		stop = stop || (c["id"] == "rate-unreachable" && c["level"] == "stop")
+		require.NotEqual(t, "rate-unreachable", c["id"], "the step is the best this machine reaches, not a stop")
+		warn = warn || (c["id"] == "protocol-rate-not-reached" && c["level"] == "warn")
 	}
-	require.True(t, stop, "the step's setting cannot give its rate: a stop")
+	require.True(t, warn, "the step's setting cannot give its rate: a warn with the next lever")
 	r := crankside(t, args...)
-	require.Contains(t, r.stdout, "STOP: DO NOT USE THIS SETTING (rate-unreachable)  hole 9, 20.0 rpm, dwell 0.0 s")
+	require.Contains(t, r.stdout, "THE STEP ON THIS MACHINE  hole 9, 20.0 rpm, dwell 0.0 s")
+	require.Contains(t, r.stdout, "WARN protocol-rate-not-reached: the protocol's rate 21.1 /min cannot be reached on this machine: its fastest, 20.0 /min")
 	require.Contains(t, r.stdout, "MACHINE    rate: wanted 21.1 /min, this machine 20 /min")
 	require.Contains(t, r.stdout, "this motor cannot reach 21.1 /min")
 }

@@ -16,7 +16,10 @@ import (
 var ctrlT = tea.KeyMsg{Type: tea.KeyCtrlT}
 
 // The acidotic handover used below, derived by hand (demo-a: in-line crank,
-// 0.5 rpm and 0.1 s steps; the delivery is half a turn, Ti = 30 / rpm):
+// 0.5 rpm and 0.1 s steps; the delivery is half a turn, Ti = 30 / rpm), for
+// an ARDS patient of 185 cm (PBW 50 + 0.91 x 32.6 = 79.7 kg, ARDS Network
+// 2000): the protocol's rules are for ARDS, and at that PBW hole 9's breath
+// is 6.0 mL/kg PBW, so the card's Vt step does not fire:
 //   - now: hole 9, 21 rpm, dwell 1.4 s: breath 60/21 + 1.4 = 4.257 s,
 //     14.09 /min, Ti 1.429 s, I:E 1:1.98;
 //   - pH 7.22, PaCO2 58: HCO3 = 0.03 x 58 x 10^(7.22 - 6.1) = 22.94 mmol/L;
@@ -30,9 +33,22 @@ var ctrlT = tea.KeyMsg{Type: tea.KeyCtrlT}
 //     2.105 = 1.053 s is 1.1 s on the controller's step: breath 3.205 s,
 //     18.72 /min;
 //   - SpO2 92 is inside 88-95 and FiO2 stays 0.21: no O2 (0 L/min); hole 9
-//     sweeps pi x 5^2 x 6.0 = 471 mL, so the plateau is about 5 + 471 / 60
-//     (assumed compliance) = 13, under 30, and Vt about 6.5 mL/kg PBW is at
-//     least 6: no Vt step, the hole stays 9.
+//     sweeps pi x 5^2 x 6.0 = 471 mL, so the plateau is about 5 + 471 / 30
+//     (the ARDS lung's assumed compliance) = 21, under 25 and 30, and Vt
+//     about 6.0 mL/kg PBW is neither under nor above 6: no Vt step, the hole
+//     stays 9.
+
+// ardsHandoverModel is handoverModel for that patient.
+func ardsHandoverModel(t *testing.T) *Model {
+	p, src := demoProfile(t, "demo-a")
+	m := New(Options{Profile: p, Source: src, ProfilesDir: t.TempDir(), Now: testNow,
+		Prefill: map[string]string{"height-cm": "185", "sex": "male", "lung": "ards"}})
+	m.Update(tea.WindowSizeMsg{Width: 80, Height: 24})
+	press(m, fkey(6))
+	require.Equal(t, panelHandover, m.focus)
+	return m
+}
+
 func typeAcidoticHandover(m *Model) {
 	press(m, runes("B4"), enter, runes("ab"), enter, runes("9"), enter, runes("21"), enter, runes("1.4"), enter,
 		enter, enter, enter, enter, // PEEP, O2, peak, end: blank
@@ -41,7 +57,7 @@ func typeAcidoticHandover(m *Model) {
 }
 
 func TestHandoverTakesTheProtocolStep(t *testing.T) {
-	m, _ := handoverModel(t)
+	m := ardsHandoverModel(t)
 	require.False(t, m.handover.keys.Take.Enabled(), "no reading, no step to take")
 	typeAcidoticHandover(m)
 	ck := m.out.check
@@ -109,7 +125,7 @@ func TestHandoverCtrlTWithoutAStepSaysSo(t *testing.T) {
 func TestTakingTheStepInATerminal(t *testing.T) {
 	p, src := demoProfile(t, "demo-a")
 	m := New(Options{Profile: p, Source: src, ProfilesDir: t.TempDir(), Now: testNow,
-		Prefill: map[string]string{"height-cm": "175", "sex": "male"}})
+		Prefill: map[string]string{"height-cm": "185", "sex": "male", "lung": "ards"}})
 	tm := teatest.NewTestModel(t, m, teatest.WithInitialTermSize(80, 24))
 	tm.Send(tea.KeyMsg{Type: tea.KeyF6})
 	for _, k := range []string{"B4", "\r", "ab", "\r", "9", "\r", "21", "\r", "1.4", "\r", "\r", "\r", "\r", "\r", "\r",

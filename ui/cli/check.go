@@ -78,6 +78,7 @@ func checkFlagSet() (*flags, checkOptions) {
 	f.entry("ph", "arterial pH, for the pH goal 7.30-7.45 (with --paco2)")
 	f.entry("paco2", "PaCO2 in mmHg (or --gas-unit kpa), with --ph: the new rate holds the bicarbonate")
 	f.entry("dead-space-ml", "apparatus dead space (tube, filter, connectors), mL (default 0)")
+	f.entryBoolDefault("hold-alveolar-ventilation", "true", "when the protocol moves Vt, scale the rate to hold rate x (Vt - dead space): this tool's own rule, not the card's; =false switches it off")
 	var o checkOptions
 	o.profile = f.text("profile", profiles.DefaultID, "machine profile: an id or a path to a .json file")
 	o.dir = f.text("profiles", profiles.DefaultDir(), "directory of profile files")

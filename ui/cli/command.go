@@ -225,9 +225,13 @@ func (f *flags) entry(name, usage string) {
 
 // entryBool declares a yes/no flag (--name, or --name=false) whose "true"
 // or "false" goes to the entry builder.
-func (f *flags) entryBool(name, usage string) {
+func (f *flags) entryBool(name, usage string) { f.entryBoolDefault(name, "false", usage) }
+
+// entryBoolDefault is entryBool with the default the help shows; the entry
+// builder applies the same default to a blank entry.
+func (f *flags) entryBoolDefault(name, def, usage string) {
 	f.fs.Var(&onceBool{once{name: name, dst: f.entries}}, name, usage)
-	f.fs.Lookup(name).DefValue = "false"
+	f.fs.Lookup(name).DefValue = def
 	f.order = append(f.order, name)
 }
 
