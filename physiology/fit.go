@@ -81,12 +81,14 @@ func FitMechanics(rd Readings, peepCmH2O float64, model PressureModel) (Mechanic
 
 // FitMechanicsNear is FitMechanics started from near, a lung fitted to
 // nearby readings (the corners of the manometer's step start from the
-// central fit): the same solve, in fewer steps.
+// central fit): the same solve, in fewer steps, its Newton steps stopping
+// at a residual of 1e-6 cmH2O rather than 1e-9.
 func FitMechanicsNear(rd Readings, peepCmH2O float64, near Mechanics, model PressureModel) (Mechanics, error) {
 	if err := checkReadings(rd, peepCmH2O); err != nil {
 		return Mechanics{}, err
 	}
 	s := newFitter(rd, peepCmH2O, model)
+	s.target = 1e-6
 	lc, lr := math.Log(near.ComplianceMLPerCmH2O), math.Log(near.ResistanceCmH2OPerLS)
 	if math.IsNaN(lc+lr) || math.IsInf(lc+lr, 0) {
 		var err error
@@ -154,11 +156,15 @@ type fitter struct {
 	peep                               float64
 	model                              PressureModel
 	logCMin, logCMax, logRMin, logRMax float64
+	// target is the residual (cmH2O) at which Newton stops: 1e-9 for a
+	// fit, 1e-6 for one started near another (a corner of the manometer's
+	// step, whose figures are shown to 2 significant figures).
+	target float64
 }
 
 func newFitter(rd Readings, peepCmH2O float64, model PressureModel) fitter {
 	return fitter{rd: rd, peep: peepCmH2O, model: model,
-		logCMin: math.Log(FitCMin), logCMax: math.Log(FitCMax), logRMin: math.Log(FitRMin), logRMax: math.Log(FitRMax)}
+		logCMin: math.Log(FitCMin), logCMax: math.Log(FitCMax), logRMin: math.Log(FitRMin), logRMax: math.Log(FitRMax), target: 1e-9}
 }
 
 // residual is the model's readings minus the measured ones at log C, log R.
@@ -217,7 +223,7 @@ func (s fitter) newton(lc, lr float64) (Mechanics, bool, error) {
 	const h = 1e-4
 	for it := 1; it <= 30; it++ {
 		norm := math.Hypot(f1, f2)
-		if norm < 1e-9 {
+		if norm < s.target {
 			return Mechanics{ComplianceMLPerCmH2O: math.Exp(lc), ResistanceCmH2OPerLS: math.Exp(lr), Iterations: it}, true, nil
 		}
 		// Difference inward at the box's upper edges.

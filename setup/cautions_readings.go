@@ -93,6 +93,15 @@ func (ck Check) VolumeBoundNote() string {
 	return ""
 }
 
+// atMost is "at most " before a recorded volume that is an upper bound
+// (CheckJSON.VolumeUpperBound), or "".
+func atMost(j CheckJSON) string {
+	if j.VolumeUpperBound {
+		return "at most "
+	}
+	return ""
+}
+
 // leakShareCautions judge the share of the piston's stroke that the
 // modelled leak takes (the profile's leak at this setting's pressures).
 func leakShareCautions(f Figures) []Caution {

@@ -11,7 +11,7 @@ func HistoryLine(r Record) string {
 		who += "+" + r.SecondInitials
 	}
 	head := fmt.Sprintf("%s  %-4s  %s", LocalDateTime(r.Time), who, settingText(r.Setting))
-	line := fmt.Sprintf("%s: %.0f mL %.1f mL/kg, %d caution(s)", head, r.DeliveredVtML, r.MLPerKg, len(r.Cautions))
+	line := fmt.Sprintf("%s: %s%.0f mL %.1f mL/kg, %d caution(s)", head, atMost(r.CheckJSON), r.DeliveredVtML, r.MLPerKg, len(r.Cautions))
 	if r.Unexplained() {
 		line = fmt.Sprintf("%s: STOP readings unexplained, volume not known, %d caution(s)", head, len(r.Cautions))
 	}

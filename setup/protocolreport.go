@@ -164,6 +164,10 @@ func (w *reportWriter) protocolSection(j CheckJSON) {
 		return
 	}
 	w.line("%s", GasLine(*j.GasReadings))
+	if g := GasWardWords(j.Cautions); g != "" {
+		// Near the top: the full list is under the figures.
+		w.line("GAS CAUTIONS  %s (in full under CAUTIONS NOW)", g)
+	}
 	if o := OxygenationText(j.OxygenationJSON); o != "" {
 		w.line("OXYGENATION  %s", o)
 	}

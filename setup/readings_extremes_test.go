@@ -4,6 +4,7 @@ import (
 	"encoding/json"
 	"strings"
 	"testing"
+	"time"
 
 	"github.com/stretchr/testify/require"
 
@@ -56,6 +57,17 @@ func TestLowReadingsSuggestALeak(t *testing.T) {
 		}
 	}
 	require.Contains(t, card.String(), "THE VOLUMES ON THIS CARD ARE UPPER BOUNDS")
+	// The history and the ward say it too (473 mL, 6.1 mL/kg: the volume
+	// this check shows).
+	require.Contains(t, setup.HistoryLine(rec), ": at most 473 mL 6.1 mL/kg")
+	require.Contains(t, setup.WardLine(setup.NewWardRow(rec, "h.jsonl", today, time.Hour)), ": at most 6.1 mL/kg")
+	// A check whose volume is what the patient gets says no such thing.
+	plain := v2Check(t, profile(t, "demo-a"), func(r *setup.CheckRequest) {
+		r.Readings = &physiology.Readings{PeakCmH2O: 17, EndCmH2O: 14}
+	})
+	prec, err := setup.NewRecord(plain, "B4", "jk", today)
+	require.NoError(t, err)
+	require.NotContains(t, setup.HistoryLine(prec), "at most")
 }
 
 // A peak of 40.0 on demo-a's 40 cmH2O relief valve: the valve is venting.

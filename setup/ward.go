@@ -427,7 +427,7 @@ func WardLine(r WardRow) string {
 	case r.Record.Unexplained():
 		line += ": readings unexplained, " + level
 	default:
-		line += fmt.Sprintf(": %.1f mL/kg, %s", r.MLPerKg, level)
+		line += fmt.Sprintf(": %s%.1f mL/kg, %s", atMost(r.Record.CheckJSON), r.MLPerKg, level)
 	}
 	if r.Proposed {
 		line += ", change proposed"

@@ -16,13 +16,10 @@ type bedsideKeys struct {
 }
 
 func newBedsideKeys() bedsideKeys {
-	k := bedsideKeys{
+	return bedsideKeys{
 		Sheet: key.NewBinding(key.WithKeys("ctrl+e"), key.WithHelp("ctrl+e", "bedside sheet")),
 		Pace:  key.NewBinding(key.WithKeys("ctrl+k"), key.WithHelp("ctrl+k", "pace by hand")),
 	}
-	// The pacing view is not built yet: its key stays off.
-	k.Pace.SetEnabled(false)
-	return k
 }
 
 // request turns a bedside key into the root's request, or nil.

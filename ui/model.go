@@ -3,6 +3,8 @@ package ui
 import (
 	"errors"
 	"fmt"
+	"io"
+	"os"
 	"slices"
 	"strings"
 	"time"
@@ -99,6 +101,11 @@ type Model struct {
 	fromRecord *recordStart
 	// applied asks, once, whether the record's proposal was applied.
 	applied *appliedQuestion
+	// pacing beats the setting's rhythm over the panels (Ctrl+K); bellOut
+	// is where its bell is written (the terminal).
+	pacing     *pacingView
+	pacingKeys pacingKeys
+	bellOut    io.Writer
 	// note is a passing remark on the status strip, such as a typing key
 	// refused where nothing can be typed.
 	note string
@@ -132,6 +139,7 @@ func New(opts Options) *Model {
 	if m.now == nil {
 		m.now = time.Now
 	}
+	m.pacingKeys, m.bellOut = newPacingKeys(), os.Stdout
 	m.help.Ellipsis = ""
 	m.help.Styles.ShortKey = styles.Value
 	m.help.Styles.ShortDesc = styles.Help
@@ -213,6 +221,11 @@ func (m *Model) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 	case sheetRequested:
 		m.recompute()
 		m.sheet(msg.check)
+	case pacingRequested:
+		m.recompute()
+		return m, m.openPacing(msg.check)
+	case pacingTick:
+		return m, m.pacingTicked(msg)
 	case historyRequested:
 		return m, m.history()
 	case stepTakeRequested:
@@ -275,6 +288,8 @@ func (m *Model) handleKey(msg tea.KeyMsg) tea.Cmd {
 	switch {
 	case m.confirmQuit:
 		return m.confirmingQuit(msg)
+	case m.pacing != nil:
+		return m.pacingKey(msg)
 	case m.overlay != nil:
 		return m.overlayKey(msg)
 	case m.picker != nil:
@@ -555,6 +570,8 @@ func (m *Model) View() string {
 	var body string
 	bodyH := m.h - fixedRows
 	switch {
+	case m.pacing != nil:
+		body = m.box(m.withUnit("Pacing"), m.pacing.view(m.styles, m.w-4), bodyH, true, 0)
 	case m.picker != nil:
 		body = m.box(m.withUnit("Profiles"), m.picker.view(m.w-4, bodyH-3), bodyH, true, 0)
 	case m.overlay != nil:
@@ -759,7 +776,7 @@ func (m *Model) summary() string {
 		if len(m.out.toConfirm) > 0 {
 			lead = "Recorded, not yet confirmed: "
 		}
-		return m.withLead(m.strip(lead, ck.Current.Figures, ck.Current.Cautions)...)
+		return m.withLead(m.strip(lead, ck.Current.Figures, ck.Current.Cautions, ck.VolumeBoundNote() != "")...)
 	}
 	pl := m.out.plan
 	if pl == nil {
@@ -769,12 +786,18 @@ func (m *Model) summary() string {
 		}
 		return m.waitingLine(s.Waiting.Render("SETTING WAITING for "+reason), s.Waiting.Render("SETTING WAITING for entries: see beside them"))
 	}
-	return m.withLead(m.strip("Plan: ", pl.Figures, pl.Cautions)...)
+	return m.withLead(m.strip("Plan: ", pl.Figures, pl.Cautions, false)...)
 }
 
 // strip is one line: the highest caution first, so a narrow window never
 // cuts it off, then the hole, speed, dwell, volume and the caution count.
-func (m *Model) strip(lead string, f setup.Figures, cs []setup.Caution) []string {
+// upperBound marks a volume that is at most what the patient gets (setup's
+// Check.VolumeBoundNote).
+func (m *Model) strip(lead string, f setup.Figures, cs []setup.Caution, upperBound bool) []string {
+	vol := ""
+	if upperBound {
+		vol = m.styles.Caution.Render("at most ")
+	}
 	s := m.styles
 	level := s.Label.Render("no cautions")
 	if len(cs) > 0 {
@@ -785,7 +808,7 @@ func (m *Model) strip(lead string, f setup.Figures, cs []setup.Caution) []string
 		s.Label.Render("Hole ") + s.Big.Render(f.Hole.Label),
 		s.Big.Render(f1(f.Timing.RPM)) + s.Unit.Render(" rpm"),
 		s.Label.Render("dwell ") + s.Big.Render(f1(f.Timing.DwellS)) + s.Unit.Render(" s"),
-		s.Value.Render(f0(f.Hole.DeliveredML)) + s.Unit.Render(" mL ") + s.Value.Render(f1(f.Hole.MLPerKg)) + s.Unit.Render(" mL/kg"),
+		vol + s.Value.Render(f0(f.Hole.DeliveredML)) + s.Unit.Render(" mL ") + s.Value.Render(f1(f.Hole.MLPerKg)) + s.Unit.Render(" mL/kg"),
 	}
 	if n := len(cs); n > 0 {
 		parts = append(parts, s.Label.Render(fmt.Sprintf("%d caution%s", n, plural(n))))
@@ -808,6 +831,8 @@ func (m *Model) helpLine() string {
 		b = m.picker.ShortHelp()
 	case m.confirmQuit:
 		b = []key.Binding{m.keys.Confirm, m.keys.Stay}
+	case m.pacing != nil:
+		b = []key.Binding{m.pacingKeys.Close, m.pacingKeys.Bell, m.pacingKeys.Restart}
 	case m.applied != nil:
 		b = []key.Binding{appliedYes, appliedNo, m.keys.Quit}
 	case m.overlay != nil:

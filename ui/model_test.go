@@ -97,6 +97,11 @@ func drain(m *Model, cmd tea.Cmd) bool {
 		return false
 	case tea.QuitMsg:
 		return true
+	case pacingTick:
+		// The pacing view asks for a tick forever while it is open: one
+		// is handled, its next is not followed.
+		m.Update(msg)
+		return false
 	case tea.BatchMsg:
 		quit := false
 		for _, c := range msg {
