@@ -216,3 +216,34 @@ func scheduleAt(logPath string, every time.Duration) *Schedule {
 	}
 	return sc
 }
+
+// DueLine is the bed's time since its last record and when the next check
+// is due, for a status line: "B4 checked 1 h 20 min ago, next due 19:10
+// UTC", "B4 OVERDUE: checked 5 h 10 min ago (every 4 h)", or "B4: no check
+// in the log". last nil means no record; every 0 means DefaultCheckEvery.
+func DueLine(bed string, last *time.Time, every time.Duration, now time.Time) string {
+	if every <= 0 {
+		every = DefaultCheckEvery
+	}
+	if last == nil {
+		return bed + ": no check in the log"
+	}
+	ago := agoText(now.Sub(*last))
+	due := last.Add(every)
+	if !now.Before(due) {
+		return fmt.Sprintf("%s OVERDUE: checked %s ago (every %g h)", bed, ago, every.Hours())
+	}
+	return fmt.Sprintf("%s checked %s ago, next due %s", bed, ago, LocalClock(due))
+}
+
+// agoText is a duration as a person says it: "35 min", "1 h 20 min".
+func agoText(d time.Duration) string {
+	if d < 0 {
+		d = 0
+	}
+	m := int(d.Minutes())
+	if m < 60 {
+		return fmt.Sprintf("%d min", m)
+	}
+	return fmt.Sprintf("%d h %d min", m/60, m%60)
+}

@@ -98,3 +98,17 @@ func TestSheetOfATimedCheck(t *testing.T) {
 	require.Contains(t, text, "Peak                16-18 cmH2O")
 	require.Contains(t, text, "End of inspiration  13-15 cmH2O")
 }
+
+// TestDueLine: the status line's time since the bed's last record and the
+// next check due, just inside and just outside the interval (derived:
+// 4 h after the record is due; 3 h 59 min is not yet).
+func TestDueLine(t *testing.T) {
+	last := today
+	require.Equal(t, "B4 checked 3 h 59 min ago, next due "+setup.LocalClock(today.Add(4*time.Hour)),
+		setup.DueLine("B4", &last, 0, today.Add(239*time.Minute)))
+	require.Equal(t, "B4 OVERDUE: checked 4 h 0 min ago (every 4 h)", setup.DueLine("B4", &last, 0, today.Add(4*time.Hour)))
+	require.Equal(t, "B4 checked 35 min ago, next due "+setup.LocalClock(today.Add(2*time.Hour)),
+		setup.DueLine("B4", &last, 2*time.Hour, today.Add(35*time.Minute)))
+	require.Equal(t, "B4 OVERDUE: checked 2 h 1 min ago (every 2 h)", setup.DueLine("B4", &last, 2*time.Hour, today.Add(121*time.Minute)))
+	require.Equal(t, "B4: no check in the log", setup.DueLine("B4", nil, 0, today))
+}

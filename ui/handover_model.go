@@ -172,6 +172,8 @@ func (m *Model) saved(msg savedMsg) {
 	}
 	m.unsaved = false
 	m.recordedAt, m.recordedTime = setup.LocalClock(msg.at), msg.at
+	at := msg.at
+	m.due = bedDue{bed: setup.BedKey(msg.bed), known: true, last: &at}
 	m.handoverNote(m.styles.Value.Render(fmt.Sprintf("Recorded for bed %s at %s in %s", msg.bed, m.recordedAt, msg.path)))
 }
 

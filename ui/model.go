@@ -41,6 +41,9 @@ type Options struct {
 	// NoColor leaves every colour out (NO_COLOR); bold, underline and the
 	// reverse video of the cursor stay.
 	NoColor bool
+	// Every is the ward's interval between checks, for the next check due
+	// on the status line; 0 means setup.DefaultCheckEvery.
+	Every time.Duration
 }
 
 // The smallest window the layout is drawn for.
@@ -106,6 +109,10 @@ type Model struct {
 	pacing     *pacingView
 	pacingKeys pacingKeys
 	bellOut    io.Writer
+	// due is the handover bed's last record; every the ward's interval
+	// between checks (0: setup.DefaultCheckEvery).
+	due   bedDue
+	every time.Duration
 	// note is a passing remark on the status strip, such as a typing key
 	// refused where nothing can be typed.
 	note string
@@ -139,7 +146,7 @@ func New(opts Options) *Model {
 	if m.now == nil {
 		m.now = time.Now
 	}
-	m.pacingKeys, m.bellOut = newPacingKeys(), os.Stdout
+	m.pacingKeys, m.bellOut, m.every = newPacingKeys(), os.Stdout, opts.Every
 	m.help.Ellipsis = ""
 	m.help.Styles.ShortKey = styles.Value
 	m.help.Styles.ShortDesc = styles.Help
@@ -203,7 +210,9 @@ func (m *Model) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 		return m, m.handleKey(msg)
 	case entryChanged:
 		m.entryChanged()
-		return m, m.rememberGasUnit()
+		return m, tea.Batch(m.rememberGasUnit(), m.lookupBed())
+	case bedLastMsg:
+		m.bedLastRead(msg)
 	case prefsSavedMsg:
 		m.prefsSaved(msg)
 	case advanceRequested:
@@ -776,7 +785,12 @@ func (m *Model) summary() string {
 		if len(m.out.toConfirm) > 0 {
 			lead = "Recorded, not yet confirmed: "
 		}
-		return m.withLead(m.strip(lead, ck.Current.Figures, ck.Current.Cautions, ck.VolumeBoundNote() != "")...)
+		parts := m.strip(lead, ck.Current.Figures, ck.Current.Cautions, ck.VolumeBoundNote() != "")
+		if due := m.dueText(); due != "" {
+			// The bed's next check is safety-relevant: right after the level.
+			parts = append([]string{parts[0], due}, parts[1:]...)
+		}
+		return m.withLead(parts...)
 	}
 	pl := m.out.plan
 	if pl == nil {

@@ -19,12 +19,16 @@ import (
 func RunScreen(env Env) int {
 	f, profile, dir := planFlagSet("", TopUsage()+"\nFlags of the screen:\n")
 	logPath := f.text("log", setup.DefaultLogPath(), "the handover log the screen records checks in")
+	every := f.text("every", "", "hours between checks, for the bed's next check due on the status line (default 4, common practice)")
 	asJSON := f.boolean("json", "(for sub-commands only)")
 	if status, done := f.parse(env, env.Args, "", false); done {
 		return status
 	}
 	if asJSON() {
 		return UsageError(env.Stderr, "", "--json goes with a sub-command, such as 'crankside plan --json'")
+	}
+	if _, ie := setup.CheckInterval(every()); ie != nil {
+		return UsageError(env.Stderr, "", "--every: "+ie.Reason)
 	}
 	prefill := map[string]string{}
 	for _, name := range f.order {
@@ -58,7 +62,7 @@ func RunScreen(env Env) int {
 		// attributes: the text cursor is reverse video, the levels bold.
 		lipgloss.SetColorProfile(termenv.ANSI)
 	}
-	opts := ui.Options{Profile: p, Source: src, ProfilesDir: dir(), Prefill: prefill, LogPath: logPath(), NoColor: noColor}
+	opts := ui.Options{Profile: p, Source: src, ProfilesDir: dir(), Prefill: prefill, LogPath: logPath(), NoColor: noColor, Every: everyEntered(every())}
 	opts.PreferencesPath = setup.DefaultPreferencesPath()
 	if opts.PreferencesPath != "" {
 		prefs, err := setup.ReadPreferences(opts.PreferencesPath)
