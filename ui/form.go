@@ -160,7 +160,8 @@ func (f *form) view() string {
 			lines = append(lines, line)
 			continue
 		}
-		if fl.unit != "" {
+		if fl.unit != "" && !(fl.kind == kindHeight && fl.echo() != "" && !strings.Contains(fl.Value(), ",")) {
+			// A height typed with its own unit (70in) is not followed by "cm".
 			line += " " + s.Unit.Render(fl.unit)
 		}
 		after := ""
@@ -207,6 +208,9 @@ func scrollTo(lines []string, at, h int) []string {
 const compactLabelWidth = 11
 
 func (f *form) choiceView(fl *field, active bool) string {
+	if f.compact {
+		return f.compactChoiceView(fl, active)
+	}
 	var parts []string
 	for i, c := range fl.choices {
 		word := c.label
@@ -225,6 +229,24 @@ func (f *form) choiceView(fl *field, active bool) string {
 		parts = append(parts, f.styles.Label.Render(" "+word+" "))
 	}
 	return strings.Join(parts, "")
+}
+
+// compactChoiceView fits a narrow column: the option chosen, and while
+// the field is active the others with their keys ("[kPa]  m mmHg").
+func (f *form) compactChoiceView(fl *field, active bool) string {
+	out := f.styles.Value.Render("[none]")
+	if fl.chosen >= 0 {
+		out = f.styles.Value.Render("[" + fl.choices[fl.chosen].label + "]")
+	}
+	if !active {
+		return out
+	}
+	for i, c := range fl.choices {
+		if i != fl.chosen {
+			out += f.styles.Label.Render("  " + c.key + " " + c.label)
+		}
+	}
+	return out
 }
 
 func padRight(s string, w int) string {

@@ -212,9 +212,7 @@ func (p *handoverPanel) results() string {
 	if st := setup.FirstStop(ck.Current.Cautions); st != nil {
 		add(s.levelWord(setup.Stop) + " " + s.Error.Render("DO NOT USE THIS SETTING AS IT IS: "+st.Message))
 	}
-	if line := setup.ConversionLine(ck.Converted); line != "" {
-		add(s.Label.Render("Entered ") + s.Value.Render(line))
-	}
+	p.enteredLine(add, ck)
 	if j := o.checkJSON; ck.Proposed != nil && (j.ProposalFrom == "" || j.ProposalFrom == setup.ProposalEntered) {
 		// A proposal typed by hand is judged as loudly as the setting (the
 		// step's own stop is said with its offer).

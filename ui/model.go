@@ -209,6 +209,8 @@ func (m *Model) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 	case tea.KeyMsg:
 		return m, m.handleKey(msg)
 	case entryChanged:
+		// The gas entries' labels say the unit before problems name them.
+		m.handover.showGasUnit()
 		m.entryChanged()
 		return m, tea.Batch(m.rememberGasUnit(), m.lookupBed())
 	case bedLastMsg:

@@ -28,9 +28,8 @@ func (m *Model) startUnits(opts Options) {
 }
 
 // rememberGasUnit writes the gas unit when the choice changed from the one
-// kept, and shows the unit in the gas fields' labels.
+// kept.
 func (m *Model) rememberGasUnit() tea.Cmd {
-	m.handover.showGasUnit()
 	f := m.checkField("gas-unit")
 	if f == nil || m.prefsPath == "" || f.Value() == m.keptGasUnit {
 		return nil
@@ -49,6 +48,13 @@ func (m *Model) prefsSaved(msg prefsSavedMsg) {
 		return
 	}
 	m.out.unitNote = ""
+}
+
+// enteredLine echoes the entries typed in the ward's units, in the tool's.
+func (p *handoverPanel) enteredLine(add func(string), ck *setup.Check) {
+	if line := setup.ConversionLine(ck.Converted); line != "" {
+		add(p.styles.Label.Render("Entered ") + p.styles.Value.Render(line))
+	}
 }
 
 // showGasUnit puts the chosen unit in the labels of the gas entries.

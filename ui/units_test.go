@@ -15,11 +15,11 @@ import (
 // focusCheckField moves the handover form's cursor to a field by name.
 func focusCheckField(t *testing.T, m *Model, name string) {
 	t.Helper()
-	for range m.handover.form.fields {
-		if m.handover.form.current().name == name {
+	for i, f := range m.handover.form.fields {
+		if f.name == name {
+			m.handover.form.move(i)
 			return
 		}
-		press(m, enter)
 	}
 	t.Fatalf("no handover field %s", name)
 }
@@ -70,6 +70,13 @@ func TestGasInTheOtherUnitIsRefusedOnTheScreen(t *testing.T) {
 	press(m, runes("7.7"))
 	require.Nil(t, m.out.check)
 	require.Contains(t, m.checkField("pao2").err, "7.7 looks like kPa (= 57.8 mmHg): say the unit")
+	// Typed in kPa, then the unit put back to mmHg: refused, and the
+	// waiting line names the entry by its new label.
+	focusCheckField(t, m, "gas-unit")
+	press(m, runes("k"))
+	require.Empty(t, m.checkField("pao2").err)
+	press(m, runes("m"))
+	require.Contains(t, m.out.checkWaiting, "PaO2 mmHg: "+m.checkField("pao2").err)
 }
 
 // A preferences file the writer could not have written is not used, and

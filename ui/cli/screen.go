@@ -36,16 +36,17 @@ func RunScreen(env Env) int {
 			prefill[name] = v
 		}
 	}
-	if v, ok := prefill["height-in"]; ok {
-		// The screen's height field takes inches with their unit.
-		prefill["height-cm"] = v + "in"
-	}
 	if _, problems := setup.BuildRequest(prefill, time.Time{}); len(problems) > 0 {
 		for _, p := range problems {
 			if !p.Missing {
 				return problemsError(env.Stderr, "", setup.Problems{p})
 			}
 		}
+	}
+	if v, ok := prefill["height-in"]; ok {
+		// The screen's height field takes inches with their unit.
+		prefill["height-cm"] = v + "in"
+		delete(prefill, "height-in")
 	}
 	p, src, err := profiles.Open(profile(), dir())
 	if err != nil {
