@@ -19,7 +19,9 @@ import (
 	"crankside/ui/cli"
 )
 
-const version = "0.2.0"
+// version is the release, kept in setup (setup.ProgramRelease) so that
+// every --json output names the same one.
+const version = cli.Release
 
 func main() {
 	os.Exit(run(os.Args[1:], os.Stdout, os.Stderr))

@@ -47,5 +47,5 @@ func TestCheckRefusesReadingsOutsideTheManometer(t *testing.T) {
 	}
 	// The edges are readings.
 	r := crankside(t, append(checkBase, "--peak", "150", "--end-pressure", "0")...)
-	require.Equal(t, 0, r.status, r.stderr)
+	require.Equal(t, 3, r.status, "read, and a STOP (peak above 40 cmH2O, MHRA RMVS001 2020): %s", r.stderr)
 }

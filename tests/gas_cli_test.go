@@ -61,8 +61,13 @@ func TestABadGasReadsBackFromTheLog(t *testing.T) {
 
 	r = crankside(t, "log", "beds", "--log", logPath, "--json")
 	require.Equal(t, 0, r.status, r.stderr)
-	var beds []map[string]any
-	require.NoError(t, json.Unmarshal([]byte(r.stdout), &beds))
+	var ward struct {
+		Format string           `json:"format"`
+		Beds   []map[string]any `json:"beds"`
+	}
+	require.NoError(t, json.Unmarshal([]byte(r.stdout), &ward))
+	require.Equal(t, "crankside-ward/2", ward.Format)
+	beds := ward.Beds
 	require.Len(t, beds, 2)
 	require.Equal(t, "B4", beds[0]["bed"], "the stop first")
 	require.Equal(t, "stop", beds[0]["highest_level"])

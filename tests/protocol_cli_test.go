@@ -41,10 +41,29 @@ func handover(more ...string) []string {
 func checkJSON(t *testing.T, args ...string) map[string]any {
 	t.Helper()
 	r := crankside(t, append(args, "--json")...)
-	require.Equal(t, 0, r.status, r.stderr)
 	var obj map[string]any
 	require.NoError(t, json.Unmarshal([]byte(r.stdout), &obj), r.stdout)
+	require.Equal(t, stopStatus(obj), r.status, r.stderr)
 	return obj
+}
+
+// stopStatus is the exit status a check's JSON calls for: 3 when a caution
+// of the setting or of the proposal is a stop, else 0 (crankside check
+// --help).
+func stopStatus(obj map[string]any) int {
+	lists := []any{obj["cautions"]}
+	if p, ok := obj["proposed"].(map[string]any); ok {
+		lists = append(lists, p["cautions"])
+	}
+	for _, l := range lists {
+		cs, _ := l.([]any)
+		for _, c := range cs {
+			if m, _ := c.(map[string]any); m["level"] == "stop" {
+				return 3
+			}
+		}
+	}
+	return 0
 }
 
 func ruleStatus(t *testing.T, obj map[string]any) map[string]string {

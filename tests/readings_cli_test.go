@@ -58,7 +58,7 @@ func checkStopJSON(t *testing.T, obj map[string]any, id, source string) {
 func TestAlarmingReadingsTextShowsTheStop(t *testing.T) {
 	for _, c := range alarmingReadings {
 		r := crankside(t, readingArgs(c.peak, c.end)...)
-		require.Equal(t, 0, r.status, r.stderr)
+		require.Equal(t, 3, r.status, r.stderr) // a STOP: exit 3 (crankside check --help)
 		lines := strings.Split(r.stdout, "\n")
 		require.True(t, strings.HasPrefix(lines[1], "STOP"), "%s/%s: line 2 is a STOP: %q", c.peak, c.end, lines[1])
 		require.Contains(t, r.stdout, "STOP  "+c.id+": ", c.source)
@@ -80,7 +80,7 @@ func TestAlarmingReadingsTextShowsTheStop(t *testing.T) {
 func TestAlarmingReadingsJSONHasNullFigures(t *testing.T) {
 	for _, c := range alarmingReadings {
 		r := crankside(t, readingArgs(c.peak, c.end, "--json")...)
-		require.Equal(t, 0, r.status, r.stderr)
+		require.Equal(t, 3, r.status, r.stderr) // a STOP: exit 3 (crankside check --help)
 		var obj map[string]any
 		require.NoError(t, json.Unmarshal([]byte(r.stdout), &obj))
 		checkStopJSON(t, obj, c.id, c.source)
@@ -96,7 +96,7 @@ func TestAlarmingReadingsJSONHasNullFigures(t *testing.T) {
 func TestAlarmingReadingsCardSaysStopAtTheTop(t *testing.T) {
 	for _, c := range alarmingReadings {
 		r := crankside(t, readingArgs(c.peak, c.end, "--card", "--bed", "B4")...)
-		require.Equal(t, 0, r.status, r.stderr)
+		require.Equal(t, 3, r.status, r.stderr) // a STOP: exit 3 (crankside check --help)
 		lines := strings.Split(r.stdout, "\n")
 		require.True(t, strings.HasPrefix(lines[1], "STOP"), "%s/%s card: %q", c.peak, c.end, lines[1])
 		require.Contains(t, r.stdout, "STOP  "+c.id+": ")
@@ -113,7 +113,7 @@ func TestAlarmingReadingsRecordKeepsTheStop(t *testing.T) {
 	for _, c := range alarmingReadings {
 		path := filepath.Join(t.TempDir(), "handover.jsonl")
 		r := crankside(t, readingArgs(c.peak, c.end, "--log", path, "--bed", "B4")...)
-		require.Equal(t, 0, r.status, r.stderr)
+		require.Equal(t, 3, r.status, r.stderr) // a STOP: exit 3 (crankside check --help)
 		b, err := os.ReadFile(path)
 		require.NoError(t, err)
 		var obj map[string]any
@@ -138,7 +138,7 @@ func TestAlarmingReadingsRecordKeepsTheStop(t *testing.T) {
 func TestBarelyVentilatedIsAStop(t *testing.T) {
 	r := crankside(t, "check", "--height-cm", "190", "--sex", "male", "--hole", "1", "--rpm", "21", "--dwell-s", "1.4",
 		"--compliance", "10", "--json")
-	require.Equal(t, 0, r.status, r.stderr)
+	require.Equal(t, 3, r.status, r.stderr) // a STOP: exit 3 (crankside check --help)
 	var obj map[string]any
 	require.NoError(t, json.Unmarshal([]byte(r.stdout), &obj))
 	checkStopJSON(t, obj, "alveolar-ventilation-low", "common practice: below 20 mL/kg PBW/min is a stop")

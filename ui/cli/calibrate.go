@@ -85,7 +85,7 @@ func runCalibrate(env Env) int {
 		}
 	}
 	if asJSON() {
-		return writeJSON(env, res.JSON(write()))
+		return writeJSON(env, setup.FormatCalibrationJSON, res.JSON(write()))
 	}
 	if status := writeText(env, "calibrate", res.WriteText); status != ExitOK {
 		return status

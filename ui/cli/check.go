@@ -30,6 +30,7 @@ timed) in place of --rpm, and --pause-s (the pause timed) or
 runs at the speed and dwell these imply, rounds nothing measured, and says
 what it inferred and the nearest dial steps.
 
+` + exitStatusHelp + `
 Flags:
 `
 
@@ -165,22 +166,30 @@ func runCheck(env Env) int {
 			return UsageError(env.Stderr, "check", err.Error())
 		}
 	}
-	if o.sheet() {
-		return checkSheet(env, ck, rec, p.Label, o)
-	}
-	status := ExitOK
+	var status int
 	switch {
+	case o.sheet():
+		if status = checkSheet(env, ck, rec, p.Label, o); status == ExitOK && ck.HighestLevel() == setup.Stop {
+			return ExitStop
+		}
+		return status
 	case o.asJSON():
-		status = writeJSON(env, ck.JSON())
+		status = writeJSON(env, setup.FormatCheckJSON, ck.JSON())
 	case o.card():
 		status = writeText(env, "check", rec.WriteCard)
 	default:
 		status = writeText(env, "check", ck.WriteText)
 	}
-	if status != ExitOK || o.logPath() == "" {
+	if status != ExitOK {
 		return status
 	}
-	return appendRecord(env, rec, o)
+	if o.logPath() != "" {
+		status = appendRecord(env, rec, o)
+	}
+	if ck.HighestLevel() == setup.Stop {
+		return ExitStop // louder than a failed record, which stderr names
+	}
+	return status
 }
 
 // outputProblem says which of --json, --card and --sheet clash, or "".

@@ -15,7 +15,6 @@
 package cli
 
 import (
-	"encoding/json"
 	"errors"
 	"flag"
 	"fmt"
@@ -27,13 +26,26 @@ import (
 	"crankside/setup"
 )
 
-// Exit statuses.
+// Exit statuses. ExitStop is a plan or check that ran and whose highest
+// caution is a STOP (its setting's or its proposal's): a script learns of
+// it without reading the text.
 const (
 	ExitOK       = 0
 	ExitFailure  = 1
 	ExitUsage    = 2
+	ExitStop     = 3
 	ExitInternal = 70
 )
+
+// Release is the program's release, for --version.
+const Release = setup.ProgramRelease
+
+// exitStatusHelp is the paragraph plan's and check's help give.
+const exitStatusHelp = `Exit status: 0 done, no STOP; 3 done, and a caution is a STOP (the
+setting's, or the proposal's for a check; the output is complete, and for a
+check with --log it is 3 even if the record failed: stderr says so); 2 a
+bad flag or entry; 1 any other failure.
+`
 
 // Env is what a command runs with: its arguments and its two outputs.
 type Env struct {
@@ -134,10 +146,14 @@ func jobError(stderr io.Writer, cmd string, err error) int {
 	return ExitFailure
 }
 
-func writeJSON(env Env, v any) int {
-	enc := json.NewEncoder(env.Stdout)
-	enc.SetIndent("", "  ")
-	if err := enc.Encode(v); err != nil {
+// writeJSON prints v, a JSON object, with its format and the model and
+// program versions as its first keys (setup.VersionedJSON).
+func writeJSON(env Env, format string, v any) int {
+	b, err := setup.VersionedJSON(format, v)
+	if err == nil {
+		_, err = env.Stdout.Write(b)
+	}
+	if err != nil {
 		fmt.Fprintf(env.Stderr, "crankside: %v\n", err)
 		return ExitFailure
 	}

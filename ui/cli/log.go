@@ -30,6 +30,21 @@ lines are skipped, and summarised on stderr; earlier records stay. A log
 found in a folder that fails the log checks (readable by others, a link,
 another user's) is skipped and said on stderr, with exit 1 after the rest;
 a log named directly with --log is refused.
+
+A line the writer could not have written (a key twice or in another case, a
+bed label or initials it refuses, figures out of range or that disagree, a
+STOP its figures call for that is missing) is damaged, never a bed. A record
+dated more than 5 min ahead of this clock never stands for a bed's last
+check: it is named beside it, with its year. Checks of one bed from two logs
+within 5 min are shown with a conflict note; the ward row is the one with the
+louder caution, whatever the order of --log.
+
+--json prints one object: "format" (crankside-history/2 for show,
+crankside-ward/2 for beds), "model_version", "program_version", then
+"beds" and "problems" (the damaged lines, as on stderr).
+
+Exit status: 0 read; 1 a damaged line or a skipped log (stderr says which);
+2 a bad flag, or a log that cannot be opened.
 `
 
 var logCommand = &Command{
@@ -121,7 +136,7 @@ func runLogShow(env Env, args []string) int {
 	}
 	damaged := summarise(env, "log show", sum) || skipped
 	if asJSON() {
-		status = writeJSON(env, logJSON(hist, sum))
+		status = writeJSON(env, setup.FormatHistoryJSON, logJSON(hist, sum))
 	} else {
 		status = writeText(env, "log show", func(w io.Writer) error { return writeHistory(w, hist, bed(), len(sum.Logs) > 1) })
 	}
@@ -200,7 +215,10 @@ func runLogBeds(env Env, args []string) int {
 		if rows == nil {
 			rows = []setup.WardRow{}
 		}
-		status = writeJSON(env, rows)
+		status = writeJSON(env, setup.FormatWardJSON, struct {
+			Beds     []setup.WardRow `json:"beds"`
+			Problems []string        `json:"problems"`
+		}{rows, append([]string{}, sum.Lines()...)})
 	} else {
 		status = writeText(env, "log beds", func(w io.Writer) error { return writeBeds(w, rows, interval, len(sum.Logs) > 1) })
 	}

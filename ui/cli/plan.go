@@ -14,6 +14,8 @@ const planLong = `A new patient's setting on one machine: PBW, target volume, th
 the motor speed and dwell the controller can be set to, the predictions and
 the cautions. A decimal comma is read as a decimal point (0,9 is 0.9).
 
+` + exitStatusHelp + `
+
 Flags:
 `
 
@@ -67,13 +69,19 @@ func runPlan(env Env) int {
 	if err != nil {
 		return jobError(env.Stderr, "plan", err)
 	}
+	var status int
 	switch {
 	case asJSON():
-		return writeJSON(env, pl.JSON())
+		status = writeJSON(env, setup.FormatPlanJSON, pl.JSON())
 	case sheet():
-		return planSheet(env, pl, bed(), logPath(), every())
+		status = planSheet(env, pl, bed(), logPath(), every())
+	default:
+		status = writeText(env, "plan", pl.WriteText)
 	}
-	return writeText(env, "plan", pl.WriteText)
+	if status == ExitOK && pl.HighestLevel() == setup.Stop {
+		return ExitStop
+	}
+	return status
 }
 
 // planSheetProblem says what is wrong with the sheet's flags, or "".

@@ -13,9 +13,9 @@ import (
 )
 
 var profilesUsage = []string{
-	"profiles list [--profiles DIR]",
+	"profiles list [--profiles DIR] [--json]",
 	"profiles show ID|PATH [--profiles DIR] [--json]",
-	"profiles validate FILE",
+	"profiles validate FILE [--json]",
 	"profiles new --from ID|PATH --id NEW [--label TEXT]",
 }
 
@@ -25,6 +25,12 @@ profile file itself, so it can be saved and edited. validate checks a file
 and names every problem with its field. new prints a profile to edit by
 hand for a unit being measured: a copy of another with a new id, without
 its calibration.
+
+list --json and validate --json print one object whose first keys are
+"format" (crankside-profile-list/1, crankside-profile-validation/1),
+"model_version" and "program_version"; show --json is the profile file, whose
+"format" is the profile's. Exit status: list 1 when a file is bad;
+validate 2 when the file is not a valid profile.
 `
 
 var profilesCommand = &Command{
@@ -51,12 +57,12 @@ func runProfiles(env Env) int {
 	}
 	f := newFlags("profiles "+sub, help(profilesUsage, profilesLong))
 	dir := f.text("profiles", profiles.DefaultDir(), "directory of profile files")
-	asJSON := f.boolean("json", "print the profile file itself")
+	asJSON := f.boolean("json", "show: print the profile file itself; list, validate: print one JSON object")
 	if status, done := f.parse(env, interspersed(rest, f.fs), "profiles "+sub, true); done {
 		return status
 	}
 	if sub == "list" {
-		return profilesList(env, dir())
+		return profilesList(env, dir(), asJSON())
 	}
 	if f.fs.NArg() != 1 {
 		return UsageError(env.Stderr, "profiles "+sub, "name one profile")
@@ -64,14 +70,20 @@ func runProfiles(env Env) int {
 	if sub == "show" {
 		return profilesShow(env, f.fs.Arg(0), dir(), asJSON())
 	}
+	if asJSON() {
+		return profilesValidateJSON(env, f.fs.Arg(0))
+	}
 	return profilesValidate(env, f.fs.Arg(0))
 }
 
-func profilesList(env Env, dir string) int {
+func profilesList(env Env, dir string, asJSON bool) int {
 	entries, err := profiles.List(dir)
 	if err != nil {
 		fmt.Fprintf(env.Stderr, "crankside profiles list: %s\n", safetext.Escape(err.Error()))
 		return ExitFailure
+	}
+	if asJSON {
+		return profilesListJSON(env, dir, entries)
 	}
 	bad := 0
 	for _, e := range entries {
@@ -197,4 +209,84 @@ func profilesNew(env Env, args []string) int {
 	}
 	env.Stdout.Write(data)
 	return ExitOK
+}
+
+// profileListJSON is `profiles list --json`: every profile found, a bad
+// file with its problem in place of a label.
+type profileListJSON struct {
+	Profiles []profileEntryJSON `json:"profiles"`
+	Dir      string             `json:"profiles_dir"`
+}
+
+type profileEntryJSON struct {
+	ID      string `json:"id"`
+	Label   string `json:"label,omitempty"`
+	Source  string `json:"source"`
+	Problem string `json:"problem,omitempty"`
+}
+
+func profilesListJSON(env Env, dir string, entries []profiles.Entry) int {
+	out := profileListJSON{Profiles: []profileEntryJSON{}, Dir: dir}
+	bad := 0
+	for _, e := range entries {
+		j := profileEntryJSON{ID: e.ID, Label: e.Label, Source: e.Source.String()}
+		if e.Err != nil {
+			bad++
+			j.Label, j.Problem = "", e.Err.Error()
+		}
+		out.Profiles = append(out.Profiles, j)
+	}
+	if status := writeJSON(env, setup.FormatProfileListJSON, out); status != ExitOK || bad == 0 {
+		return status
+	}
+	return ExitFailure
+}
+
+// validationJSON is `profiles validate --json`: whether the file is a
+// valid profile, every problem with its field path, and for a valid one
+// the defaults used, the warnings and the machine's cautions.
+type validationJSON struct {
+	File          string          `json:"file"`
+	Valid         bool            `json:"valid"`
+	ProfileFormat string          `json:"profile_format,omitempty"`
+	Problems      []fieldJSON     `json:"problems"`
+	Defaults      []string        `json:"defaults"`
+	Warnings      []fieldJSON     `json:"warnings"`
+	Cautions      []setup.Caution `json:"cautions"`
+}
+
+type fieldJSON struct {
+	Path    string `json:"path"`
+	Problem string `json:"problem"`
+}
+
+func profilesValidateJSON(env Env, path string) int {
+	out := validationJSON{File: path, Problems: []fieldJSON{}, Defaults: []string{}, Warnings: []fieldJSON{}, Cautions: []setup.Caution{}}
+	p, err := profiles.ReadFile(path)
+	var pe *profiles.Error
+	switch {
+	case errors.As(err, &pe):
+		for _, fe := range pe.Problems {
+			out.Problems = append(out.Problems, fieldJSON{Path: fe.Path, Problem: fe.Problem})
+		}
+	case err != nil:
+		out.Problems = append(out.Problems, fieldJSON{Problem: err.Error()})
+	default:
+		s, derr := setup.DescribeProfile(p, time.Now())
+		if derr != nil {
+			out.Problems = append(out.Problems, fieldJSON{Problem: derr.Error()})
+			break
+		}
+		out.Valid, out.ProfileFormat = true, p.Format
+		out.Defaults = append(out.Defaults, p.Defaults...)
+		for _, w := range profiles.Warnings(p) {
+			out.Warnings = append(out.Warnings, fieldJSON{Path: w.Path, Problem: w.Problem})
+		}
+		out.Cautions = append(out.Cautions, s.Cautions...)
+	}
+	status := writeJSON(env, setup.FormatValidationJSON, out)
+	if status == ExitOK && !out.Valid {
+		return ExitUsage // as the text: a file that is not a valid profile
+	}
+	return status
 }
