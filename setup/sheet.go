@@ -85,6 +85,14 @@ func (s Sheet) Write(w io.Writer) error {
 	rw.line("%s", rule)
 	s.settingPart(rw)
 	s.watchPart(rw)
+	if len(s.Cautions) == 0 {
+		rw.line("CAUTIONS: none")
+	} else {
+		rw.line("CAUTIONS (%d, highest %s)", len(s.Cautions), LevelWord(Highest(s.Cautions)))
+		for _, c := range s.Cautions {
+			rw.line("  %-4s %s: %s", LevelWord(c.Level), c.ID, c.Message)
+		}
+	}
 	rw.line("BEDSIDE CHECKLIST")
 	for _, l := range ChecklistLines(s.Watch) {
 		rw.line("  %s", l)

@@ -50,6 +50,7 @@ func TestSheetCarriesEverySection(t *testing.T) {
 		"WATCH THE MANOMETER", "Peak                12-17 cmH2O",
 		"SET THE EXTERNAL PRESSURE ALARM", "HIGH 24 cmH2O", "LOW / disconnection 10 cmH2O",
 		"IF A READING LEAVES THE BAND", "IF THE POWER FAILS", "one turn in 2.86 s, then pause 1.40 s", "bag at 14 breaths/min",
+		"CAUTIONS (1, highest WARN)", "WARN calibration-missing:",
 		"BEDSIDE CHECKLIST", "self-inflating bag", "heat-and-moisture exchanger", "away from the motor", "passive",
 		"CHECKS (every 4 h: entered)",
 		setup.ClinicalCaution[:40],

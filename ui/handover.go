@@ -245,10 +245,7 @@ func (p *handoverPanel) results() string {
 	if ck.Proposed != nil {
 		p.cautionLines(add, "Proposed", ck.Proposed.Cautions)
 	}
-	if o := setup.OxygenationText(j.OxygenationJSON); o != "" {
-		add(s.Section.Render("OXYGENATION (P/F, S/F)"))
-		add(s.Hint.Render(o))
-	}
+	p.oxygenationLines(add, j)
 	p.protocolWhy(add, j)
 	p.fitLines(add, ck)
 	if o.saveNote == "" {
@@ -271,6 +268,14 @@ func (p *handoverPanel) gasLine(add func(string), j setup.CheckJSON) {
 		st = s.Caution
 	}
 	add(s.Label.Render("Patient's ") + st.Render(g))
+}
+
+// oxygenationLines are P/F and S/F with the Berlin band and its sources.
+func (p *handoverPanel) oxygenationLines(add func(string), j setup.CheckJSON) {
+	if o := setup.OxygenationText(j.OxygenationJSON); o != "" {
+		add(p.styles.Section.Render("OXYGENATION (P/F, S/F)"))
+		add(p.styles.Hint.Render(o))
+	}
 }
 
 // gasOnly are the gas cautions among cs.
