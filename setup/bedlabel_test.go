@@ -94,6 +94,10 @@ func TestMayHoldLabelIgnoresCase(t *testing.T) {
 		{`{"bed":"\u0062\u0034"}`, "B4", true}, // escaped b and 4: only decoding can tell
 		{`{"bed":"B5"}`, "B4", false},
 		{`{"bed":"c4"}`, "B4", false},
+		// Exact: --bed B2 does not decode the lines of B20-B29.
+		{`{"bed":"B20"}`, "B2", false},
+		{`{"bed":"b29","hole":"AB2"}`, "B2", false},
+		{`{"bed":"B20","x":"b2"}`, "B2", true},
 	}
 	for _, c := range cases {
 		require.Equal(t, c.want, mayHoldLabel([]byte(c.line), []byte(c.label)), "%s in %s", c.label, c.line)

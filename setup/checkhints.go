@@ -17,6 +17,8 @@ func CheckHint(name string) string {
 		return "the bed's label, like B4: never a patient's name"
 	case "initials":
 		return "who checks: 1 to 4 letters, or blank"
+	case "second-initials":
+		return "a second checker, for a change of hole or PEEP checked by two: 1 to 4 letters, or blank"
 	case "hole", "rpm", "dwell-s", "turn-s", "pause-s", "breaths-per-min":
 		return Hint(name, physiology.Normal)
 	case "peep":

@@ -125,13 +125,13 @@ func newest(items []histItem, keep int) []histItem {
 }
 
 // mayHoldLabel is the cheap test made before a line is decoded: the label
-// (upper case, see BedKey) appears in it as written in any case of its
-// letters, or the line escapes a character a label may hold (JSON allows
+// (upper case, see BedKey) appears in it as a whole string ("B2", never
+// the start of "B20") in any case of its letters, or the line escapes a character a label may hold (JSON allows
 // "\u0042" for "B"), in which case only decoding can tell. A label with a
 // character outside the label set is looked for in every line with an
 // escape. It allocates nothing.
 func mayHoldLabel(text, label []byte) bool {
-	if containsFoldASCII(text, label) {
+	if containsFoldASCII(text, label) && quotedFoldASCII(text, label) {
 		return true
 	}
 	if bytes.IndexByte(text, '\\') < 0 {
@@ -196,6 +196,23 @@ func containsFoldASCII(text, label []byte) bool {
 		}
 	}
 	return false
+}
+
+// quotedFoldASCII reports whether text holds label as a whole JSON string
+// ("B2", not "B20"), its ASCII letters in either case: --bed B2 decodes
+// no line of B20-B29.
+func quotedFoldASCII(text, label []byte) bool {
+	n := len(label)
+	for rest := text; ; {
+		i := bytes.IndexByte(rest, '"')
+		if i < 0 || len(rest)-i < n+2 {
+			return false
+		}
+		if rest[i+n+1] == '"' && equalFoldASCII(rest[i+1:i+1+n], label) {
+			return true
+		}
+		rest = rest[i+1:]
+	}
 }
 
 func equalFoldASCII(a, b []byte) bool {

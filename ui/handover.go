@@ -84,6 +84,11 @@ func newHandoverPanel(s *Styles) *handoverPanel {
 		section{title: "BREATHING AGAINST THE UNIT?", fields: []*field{
 			choiceField("breathing-against", "Fights unit", "", -1, choice{"y", "yes", "yes"}, choice{"n", "no", "no"}),
 		}},
+		// Optional: a ward that double-checks a change of hole or PEEP
+		// records the second checker too (the card leaves a line to sign).
+		section{title: "SECOND CHECKER", fields: []*field{
+			textField("second-initials", "Initials 2", "", "optional", kindInitials),
+		}},
 	)
 	f.compact = true
 	p := &handoverPanel{keys: newHandoverKeys(), bed: newBedsideKeys()}

@@ -7,6 +7,7 @@ import (
 	"strings"
 
 	tea "github.com/charmbracelet/bubbletea"
+	"github.com/charmbracelet/lipgloss"
 
 	"crankside/profiles/safetext"
 	"crankside/setup"
@@ -108,6 +109,9 @@ func (m *Model) record() (setup.Record, error) {
 		return setup.Record{}, errors.New("confirm at the machine first what the record gave: " + strings.Join(c, ", ") + " (Enter on each, or type what the machine shows)")
 	}
 	rec, err := setup.NewRecord(*m.out.check, m.checkField("bed").Value(), m.checkField("initials").Value(), m.now())
+	if err == nil {
+		rec, err = rec.WithSecondInitials(m.checkField("second-initials").Value())
+	}
 	var ie *setup.InputError
 	if errors.As(err, &ie) {
 		if f := m.checkField(ie.Field); f != nil {
@@ -188,7 +192,13 @@ func (m *Model) card() {
 	}
 	var b strings.Builder
 	setup.WriteCard(&b, rec)
-	m.overlay = &textOverlay{title: title, text: b.String()}
+	// The card is the printed text; on the screen its level words are
+	// coloured as everywhere else.
+	lines := strings.Split(b.String(), "\n")
+	for i, l := range lines {
+		lines[i] = m.styles.withLevels(l, lipgloss.NewStyle())
+	}
+	m.overlay = &textOverlay{title: title, text: strings.Join(lines, "\n")}
 }
 
 func (m *Model) history() tea.Cmd {

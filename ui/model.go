@@ -883,6 +883,8 @@ func (m *Model) fullHelp() string {
 		"0,9 means 0.9 in every number field; what was read is shown beside the field.",
 		"Choices take their letter (m or f; n, a or o) or Space for the next one; arrows never change a value.",
 		"Backspace, Delete and Ctrl+U edit the field with the cursor.",
+		"A paste goes as text into the field with the cursor, or is refused whole.",
+		"A record's values: Enter confirms each; Ctrl+Y/N: was its proposal applied?",
 		"Blank optional entries use the default shown beside them, with its source.",
 		"Every figure comes from the computation the command line uses (crankside plan).",
 		"Levels: STOP do not use this setting; WARN needs a clinician's decision; NOTE.",

@@ -29,7 +29,7 @@ var (
 
 // appliedText is the question, on the status line and the panel.
 func (q *appliedQuestion) text() string {
-	return "The record at " + q.rec.Time.UTC().Format("15:04") + " UTC proposed " + safetext.Escape(setup.ProposalLine(q.rec)) +
+	return "The record at " + setup.LocalClock(q.rec.Time) + " proposed " + safetext.Escape(setup.ProposalLine(q.rec)) +
 		". Was it applied? Ctrl+Y yes (fill it in), Ctrl+N no"
 }
 
@@ -69,7 +69,7 @@ func (m *Model) appliedKey(msg tea.KeyMsg) tea.Cmd {
 // found with it from now on.
 func (m *Model) fillProposal(r setup.Record) {
 	e := setup.ProposedEntries(r)
-	at := "from the proposal of the record at " + r.Time.UTC().Format("15:04") + " UTC"
+	at := "from the proposal of the record at " + setup.LocalClock(r.Time)
 	for _, name := range settingEntries {
 		f := m.checkField(name)
 		f.SetValue(e[name])

@@ -185,3 +185,28 @@ func TestARecordsProposalIsAskedAbout(t *testing.T) {
 		})
 	}
 }
+
+// A second checker's initials, entered on the handover panel, go on the
+// card (with a line to sign when the proposal changes the hole) and into
+// the record; without the first's they are refused beside the field.
+func TestASecondCheckerOnTheCardAndTheRecord(t *testing.T) {
+	m := filledModel(t) // proposes hole 7 in place of 8
+	m.checkField("second-initials").SetValue("cd")
+	m.entryChanged()
+	press(m, ctrlO)
+	require.NotNil(t, m.overlay)
+	require.Contains(t, m.overlay.text, "checked by AB, second check CD")
+	require.Contains(t, m.overlay.text, "Hole or PEEP changes: second check by CD")
+	press(m, esc, ctrlS)
+	require.Contains(t, oneLine(m.handover.results()), "Recorded for bed B4")
+	h, _, err := setup.ReadBedHistory([]string{m.logPath}, "B4", 0)
+	require.NoError(t, err)
+	require.Len(t, h.Entries, 1)
+	require.Equal(t, "CD", h.Entries[0].Record.SecondInitials)
+
+	m.checkField("initials").SetValue("")
+	m.entryChanged()
+	press(m, ctrlO)
+	require.Nil(t, m.overlay)
+	require.Contains(t, m.checkField("second-initials").err, "goes with the first's initials")
+}

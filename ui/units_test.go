@@ -4,6 +4,7 @@ import (
 	"os"
 	"path/filepath"
 	"testing"
+	"time"
 
 	tea "github.com/charmbracelet/bubbletea"
 	"github.com/charmbracelet/x/ansi"
@@ -108,4 +109,18 @@ func TestHeightInFeetAndInchesOnTheScreen(t *testing.T) {
 	press(m, runes(`5'13"`), enter, runes("m"))
 	require.Nil(t, m.out.plan)
 	require.Contains(t, m.field("height-cm").err, "under 12")
+}
+
+// The card of a recorded check carries the record's time, not the time the
+// card is opened (derived: recorded at 09:00 UTC, opened at 10:30).
+func TestTheCardCarriesTheRecordsTime(t *testing.T) {
+	m, _ := handoverModel(t)
+	press(m, runes("B4"), enter, runes("ab"), enter, runes("8"), enter, runes("21"), enter, runes("1.4"))
+	press(m, ctrlS)
+	require.Contains(t, screen(m), "Recorded for bed B4 at 09:00 UTC")
+	m.now = func() time.Time { return testNow().Add(90 * time.Minute) }
+	press(m, ctrlO)
+	require.NotNil(t, m.overlay)
+	require.Contains(t, m.overlay.text, "HANDOVER CARD  bed B4  2026-12-01 09:00 UTC")
+	require.Contains(t, m.overlay.title, "as recorded at 09:00 UTC")
 }
