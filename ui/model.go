@@ -39,7 +39,7 @@ type Options struct {
 	PreferencesPath string
 	PreferencesNote string
 	// NoColor leaves every colour out (NO_COLOR); bold, underline and the
-	// reverse video of the cursor stay.
+	// inverse (reversed) colours of the cursor stay.
 	NoColor bool
 	// Every is the ward's interval between checks, for the next check due
 	// on the status line; 0 means setup.DefaultCheckEvery.

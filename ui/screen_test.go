@@ -129,7 +129,7 @@ func TestEscFollowedByAKeyIsNotLost(t *testing.T) {
 	require.Equal(t, panelSetting, m.focus, "Alt+4 is a panel key")
 }
 
-// NO_COLOR takes the colours away and keeps the cursor (reverse video) and
+// NO_COLOR takes the colours away and keeps the cursor (inverse (reversed) colours) and
 // bold.
 func TestNoColorKeepsTheCursor(t *testing.T) {
 	lipgloss.SetColorProfile(termenv.ANSI256)
@@ -139,7 +139,7 @@ func TestNoColorKeepsTheCursor(t *testing.T) {
 		m := New(Options{Profile: p, Source: src, ProfilesDir: t.TempDir(), Now: testNow, NoColor: noColor})
 		m.Update(tea.WindowSizeMsg{Width: 80, Height: 24})
 		v := m.View()
-		require.Contains(t, v, "\x1b[7m", "NoColor %v: the cursor is drawn in reverse video", noColor)
+		require.Contains(t, v, "\x1b[7m", "NoColor %v: the cursor is drawn in inverse (reversed) colours", noColor)
 		require.Regexp(t, "\x1b\\[1[;m]", v, "NoColor %v: bold stays", noColor)
 		// ANSI256 colours are "38;5;N" (text) and "48;5;N" (background).
 		coloured := strings.Contains(v, "38;5;") || strings.Contains(v, "48;5;")

@@ -50,7 +50,7 @@ type Styles struct {
 }
 
 // noColorPalette is every colour left out (NO_COLOR): the styles keep
-// their bold, underline and reverse video, so that the text cursor, the
+// their bold, underline and inverse (reversed) colours, so that the text cursor, the
 // selected value and the level words still show.
 func noColorPalette() palette {
 	none := lipgloss.AdaptiveColor{}

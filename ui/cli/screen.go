@@ -60,7 +60,7 @@ func RunScreen(env Env) int {
 	noColor := os.Getenv("NO_COLOR") != ""
 	if noColor {
 		// NO_COLOR takes the colours away, not the terminal's other
-		// attributes: the text cursor is reverse video, the levels bold.
+		// attributes: the text cursor is inverse (reversed) colours, the levels bold.
 		lipgloss.SetColorProfile(termenv.ANSI)
 	}
 	opts := ui.Options{Profile: p, Source: src, ProfilesDir: dir(), Prefill: prefill, LogPath: logPath(), NoColor: noColor, Every: everyEntered(every())}
