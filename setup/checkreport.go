@@ -42,7 +42,7 @@ func FirstStop(cs []Caution) *Caution {
 // instruction when the setting has a stop.
 func SettingHeading(cs []Caution, instruction string) string {
 	if s := FirstStop(cs); s != nil {
-		return "STOP: DO NOT USE THIS SETTING (" + s.ID + ")"
+		return "STOP: DO NOT USE THIS SETTING (" + string(s.ID) + ")"
 	}
 	return instruction
 }
@@ -51,7 +51,7 @@ func SettingHeading(cs []Caution, instruction string) string {
 // must not be used; "" without a stop.
 func StopLine(cs []Caution) string {
 	if s := FirstStop(cs); s != nil {
-		return "STOP  " + s.ID + ": " + s.Message
+		return "STOP  " + string(s.ID) + ": " + s.Message
 	}
 	return ""
 }

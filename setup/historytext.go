@@ -82,7 +82,7 @@ func unexplainedReason(cs []Caution) string {
 		case "readings-not-numbers":
 			return "a reading is not a number"
 		}
-		return c.ID
+		return string(c.ID)
 	}
 	return ""
 }

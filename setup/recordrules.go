@@ -154,10 +154,10 @@ func cautionsProblem(r *Record) string {
 	}
 	for _, c := range all {
 		if c.Level < Note || c.Level > Stop {
-			return fmt.Sprintf("caution %s has no level", strconv.QuoteToASCII(c.ID))
+			return fmt.Sprintf("caution %s has no level", strconv.QuoteToASCII(string(c.ID)))
 		}
 		if math.Abs(c.Value) > recordMaxMagnitude || math.Abs(c.Limit) > recordMaxMagnitude {
-			return fmt.Sprintf("caution %s has a value or limit beyond %s", strconv.QuoteToASCII(c.ID), plain(recordMaxMagnitude))
+			return fmt.Sprintf("caution %s has a value or limit beyond %s", strconv.QuoteToASCII(string(c.ID)), plain(recordMaxMagnitude))
 		}
 	}
 	for _, want := range figureCautions(r) {
@@ -173,7 +173,7 @@ func cautionsProblem(r *Record) string {
 }
 
 // recordLevelOf is the highest level of the cautions with that id, or 0.
-func recordLevelOf(cs []Caution, id string) Level {
+func recordLevelOf(cs []Caution, id CautionID) Level {
 	var l Level
 	for _, c := range cs {
 		if c.ID == id && c.Level > l {
@@ -184,11 +184,12 @@ func recordLevelOf(cs []Caution, id string) Level {
 }
 
 // figureCautions are the ids and levels the record's figures call for, as
-// assess and ReadingCautions judge them, each figure taken
-// recordFigureTol towards the calm side of its limit.
+// assess and ReadingCautions judge them (by the limits of the table of
+// cautions), each figure taken recordFigureTol towards the calm side of
+// its limit.
 func figureCautions(r *Record) []Caution {
 	var out []Caution
-	add := func(id string, l Level) { out = append(out, Caution{ID: id, Level: l}) }
+	add := func(id CautionID, l Level) { out = append(out, Caution{ID: id, Level: l}) }
 	if rd := r.Readings; rd != nil {
 		for _, c := range ReadingCautions(physiology.Readings{PeakCmH2O: rd.PeakCmH2O, EndCmH2O: rd.EndCmH2O}, r.Setting.PEEPCmH2O, 0) {
 			add(c.ID, c.Level)
@@ -196,40 +197,20 @@ func figureCautions(r *Record) []Caution {
 	}
 	out = append(out, recordGasCautions(r)...)
 	if r.Unexplained() {
-		add("readings-unexplained", Stop)
+		add(CautionReadingsUnexplained, Stop)
 		return out
 	}
-	const tol = recordFigureTol
-	mlkg := r.MLPerKg
-	switch {
-	case mlkg-tol >= VtStopMLPerKg:
-		add("tidal-volume-high", Stop)
-	case mlkg-tol > VtWarnMLPerKg:
-		add("tidal-volume-high", Warn)
-	case mlkg+tol < VtStopLowMLPerKg:
-		add("tidal-volume-low", Stop)
-	case mlkg+tol < VtLowMLPerKg:
-		add("tidal-volume-low", Warn)
-	}
-	switch p := r.PlateauPressureCmH2O - tol; {
-	case p > PlateauStopCmH2O:
-		add("plateau-high", Stop)
-	case p > PlateauMaxCmH2O:
-		add("plateau-high", Warn)
-	}
-	if r.PeakPressureCmH2O-tol > PeakMaxCmH2O {
-		add("peak-high", Stop)
-	}
-	switch p := r.IntrinsicPEEPCmH2O - tol; {
-	case p > IntrinsicPEEPStop:
-		add("intrinsic-peep", Stop)
-	case p > IntrinsicPEEPMax:
-		add("intrinsic-peep", Warn)
-	}
-	if r.RateBPM-tol > RateMaxBPM {
-		add("rate-high", Warn)
-	} else if r.RateBPM+tol < RateMinBPM {
-		add("rate-low", Warn)
+	for _, fig := range []struct {
+		id CautionID
+		v  float64
+	}{
+		{CautionTidalVolumeHigh, r.MLPerKg}, {CautionTidalVolumeLow, r.MLPerKg},
+		{CautionPlateauHigh, r.PlateauPressureCmH2O}, {CautionPeakHigh, r.PeakPressureCmH2O},
+		{CautionIntrinsicPEEP, r.IntrinsicPEEPCmH2O}, {CautionRateHigh, r.RateBPM}, {CautionRateLow, r.RateBPM},
+	} {
+		if l, ok := cautionRule(fig.id).JudgeCalm(fig.v, recordFigureTol); ok {
+			add(fig.id, l.Level)
+		}
 	}
 	return out
 }
