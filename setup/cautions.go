@@ -52,13 +52,13 @@ func (l *Level) UnmarshalText(b []byte) error {
 // Caution is one finding about a setting.
 type Caution struct {
 	ID      CautionID `json:"id"`
-	Level   Level   `json:"level"`
-	Message string  `json:"message"` // one line with the number and the limit
-	Value   float64 `json:"value"`
-	Limit   float64 `json:"limit"`
-	Unit    string  `json:"unit"`
-	Advice  string  `json:"advice"`
-	Source  string  `json:"source"`
+	Level   Level     `json:"level"`
+	Message string    `json:"message"` // one line with the number and the limit
+	Value   float64   `json:"value"`
+	Limit   float64   `json:"limit"`
+	Unit    string    `json:"unit"`
+	Advice  string    `json:"advice"`
+	Source  string    `json:"source"`
 }
 
 // ClinicalCaution is carried by every screen and printout.

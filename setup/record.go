@@ -307,6 +307,25 @@ func NewRecord(ck Check, bed, initials string, at time.Time) (Record, error) {
 	return Record{Format: RecordFormat, Time: at.UTC().Truncate(time.Second), Bed: BedKey(bed), Initials: strings.ToUpper(initials), CheckJSON: ck.JSON()}, nil
 }
 
+// BedKey is the label a bed is recorded, grouped and looked up under: its
+// ASCII letters upper case, so that b4 and B4 are one bed (labels hold
+// only ASCII letters, digits and - _ . /; see CheckBedLabel). Other bytes
+// are kept as they are.
+func BedKey(label string) string {
+	for i := 0; i < len(label); i++ {
+		if c := label[i]; c >= 'a' && c <= 'z' {
+			b := []byte(label)
+			for j := i; j < len(b); j++ {
+				if b[j] >= 'a' && b[j] <= 'z' {
+					b[j] -= 'a' - 'A'
+				}
+			}
+			return string(b)
+		}
+	}
+	return label
+}
+
 // CheckBedLabel accepts short labels such as "B4" or "ward3-12". A label
 // must hold a digit: that keeps a patient's name from being typed as one.
 func CheckBedLabel(bed string) error {
