@@ -196,26 +196,6 @@ func atOrUnder(l Level, v float64, unit, src string) Limit {
 	return Limit{Level: l, Value: v, Unit: unit, Below: true, AtLimit: true, Source: src}
 }
 
-// cautionIDs are every caution's id, in the order of the table.
-func cautionIDs() []CautionID {
-	return []CautionID{
-		CautionPatientTriggering, CautionHeightBelowFormula, CautionTidalVolumeHigh, CautionTidalVolumeLow,
-		CautionPlateauHigh, CautionDrivingPressureHigh, CautionPeakAboveRelief, CautionPeakHigh, CautionIntrinsicPEEP,
-		CautionLeakShareOfStroke, CautionPEEPLow, CautionRateHigh, CautionRateLow, CautionRateOutside10To30,
-		CautionIEOutside, CautionRateUnreachable, CautionTiNotReachable, CautionMinuteVentilationLow,
-		CautionAlveolarVentilationLow, CautionReliefAbove40, CautionNoSuitableHole, CautionHoleOffTarget,
-		CautionCalibrationMissing, CautionCalibrationOld, CautionCalibrationFuture, CautionCalibrationResidual,
-		CautionCalibrationKImplausible, CautionCalibrationAboveSwept, CautionCalibrationThin, CautionClearanceDefault,
-		CautionO2FlowAboveFlowmeter, CautionO2CylinderLow, CautionTorqueHigh,
-		CautionReadingsNotNumbers, CautionMeasuredPeakHigh, CautionMeasuredPeakAboveRelief,
-		CautionMeasuredEndAtOrBelowPEEP, CautionMeasuredPeakBelowEnd, CautionReadingsUnexplained,
-		CautionProposalOnAssumedLung, CautionMeasuredPeakAtRelief, CautionReadingsSuggestLeak,
-		CautionRangeCrossesVt8, CautionRangeCrossesVt10, CautionRangeCrossesVt4, CautionRangeCrossesPlateau30,
-		CautionRangeCrossesPlateau35, CautionProtocolRateNotReached,
-		CautionGasReadingsDisagree, CautionOxygenationLow, CautionOxygenationHigh, CautionPHLow, CautionPHHigh,
-	}
-}
-
 // cautionRule is the table's entry of id. An id not in the table is a
 // programmer's mistake and panics (TestEveryCautionHasOneEntry walks every
 // id); an id read from a record goes through CautionRuleOf.

@@ -77,7 +77,7 @@ func (w *reportWriter) checkBody(j CheckJSON) {
 	if j.Unexplained() {
 		w.line("%s", UnexplainedLine(j.FitProblem))
 	}
-	if s := FirstStop(j.Cautions); s != nil && s.ID != "readings-unexplained" {
+	if s := FirstStop(j.Cautions); s != nil && s.ID != CautionReadingsUnexplained {
 		w.line("%s", StopLine(j.Cautions))
 	}
 	if line := ConversionLine(j.EntriesConverted); line != "" {

@@ -66,21 +66,13 @@ func ProposalLine(r Record) string {
 // "" when only the unexplained stop was raised.
 func UnexplainedReason(cs []Caution) string {
 	for _, c := range cs {
-		if c.Level != Stop || c.ID == "readings-unexplained" {
+		if c.Level != Stop || c.ID == CautionReadingsUnexplained {
 			continue
 		}
-		v, lim := plain(c.Value), plain(c.Limit)
 		switch c.ID {
-		case "measured-peak-high":
-			return "peak " + v + " cmH2O above " + lim
-		case "measured-peak-above-relief":
-			return "peak " + v + " cmH2O above relief " + lim
-		case "measured-end-at-or-below-peep":
-			return "end " + v + " cmH2O at or below PEEP"
-		case "measured-peak-below-end":
-			return "peak " + v + " below end " + lim + " cmH2O"
-		case "readings-not-numbers":
-			return "a reading is not a number"
+		case CautionMeasuredPeakHigh, CautionMeasuredPeakAboveRelief, CautionMeasuredEndAtOrBelowPEEP,
+			CautionMeasuredPeakBelowEnd, CautionReadingsNotNumbers:
+			return cautionRule(c.ID).Ward(c)
 		}
 		return string(c.ID)
 	}
