@@ -152,6 +152,7 @@ func decodeRecord(text []byte) (rec Record, problem string) {
 	if err := json.Unmarshal(text, &rec); err != nil {
 		return Record{}, reasonJunk
 	}
+	rec.withholdLung()
 	if p := recordProblem(&rec); p != "" {
 		return Record{}, fmt.Sprintf(reasonRules, p)
 	}
@@ -180,7 +181,7 @@ func missingFromRecord(r Record) string {
 		return "setting"
 	case r.ClinicalCaution == "":
 		return "clinical_caution"
-	case !r.Unexplained() && (!(r.DeliveredVtML > 0) || !(r.RateBPM > 0)):
+	case !r.Unexplained() && (r.LungFiguresJSON == nil || !(r.DeliveredVtML > 0) || !(r.RateBPM > 0)):
 		// Without readings no lung explains, a check has its figures.
 		return "figures"
 	}

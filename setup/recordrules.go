@@ -130,7 +130,7 @@ func figuresProblem(r *Record) string {
 		return p
 	}
 	if r.Unexplained() {
-		return "" // no predicted figure is kept (WithheldFigureKeys)
+		return "" // no lung figure is kept (LungFiguresJSON withheld)
 	}
 	if outside(r.DeliveredVtML, 0, RecordMaxVtML) {
 		return rangeProblem("delivered_vt_ml", r.DeliveredVtML, 0, RecordMaxVtML, "mL")
