@@ -98,11 +98,11 @@ type CheckJSON struct {
 // says why) and every report says so in their place.
 func (j CheckJSON) Unexplained() bool { return j.FitProblem != "" }
 
-// withholdLung drops the current setting's lung figures when no lung
+// WithholdLung drops the current setting's lung figures when no lung
 // explains the readings, and says why beside them. Check.JSON calls it,
 // and so does the log's reader on every record it decodes (a record
 // written with the figures as null decodes them as zeros otherwise).
-func (j *CheckJSON) withholdLung() {
+func (j *CheckJSON) WithholdLung() {
 	if !j.Unexplained() {
 		return
 	}
@@ -263,7 +263,7 @@ func (ck Check) JSON() CheckJSON {
 		j.Watch = &w
 	}
 	ck.protocolJSON(&j)
-	j.withholdLung()
+	j.WithholdLung()
 	return j
 }
 
@@ -330,6 +330,25 @@ func NewRecord(ck Check, bed, initials string, at time.Time) (Record, error) {
 		return Record{}, err
 	}
 	return Record{Format: RecordFormat, Time: at.UTC().Truncate(time.Second), Bed: BedKey(bed), Initials: strings.ToUpper(initials), CheckJSON: ck.JSON()}, nil
+}
+
+// BedKey is the label a bed is recorded, grouped and looked up under: its
+// ASCII letters upper case, so that b4 and B4 are one bed (labels hold
+// only ASCII letters, digits and - _ . /; see CheckBedLabel). Other bytes
+// are kept as they are.
+func BedKey(label string) string {
+	for i := 0; i < len(label); i++ {
+		if c := label[i]; c >= 'a' && c <= 'z' {
+			b := []byte(label)
+			for j := i; j < len(b); j++ {
+				if b[j] >= 'a' && b[j] <= 'z' {
+					b[j] -= 'a' - 'A'
+				}
+			}
+			return string(b)
+		}
+	}
+	return label
 }
 
 // CheckBedLabel accepts short labels such as "B4" or "ward3-12". A label

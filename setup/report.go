@@ -88,7 +88,7 @@ type LungFiguresJSON struct {
 }
 
 // figuresJSON rounds a setting's figures for printing, the lung's part
-// included (a check withholds it with withholdLung).
+// included (a check withholds it with WithholdLung).
 func figuresJSON(f Figures) FiguresJSON {
 	j := FiguresJSON{MachineFiguresJSON: MachineFiguresJSON{
 		Hole: f.Hole.Label, SweptML: r4(f.Hole.SweptML), EffectiveSweptML: r4(f.Hole.EffectiveSweptML),

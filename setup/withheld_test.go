@@ -11,6 +11,7 @@ import (
 
 	"github.com/stretchr/testify/require"
 
+	"crankside/logbook"
 	"crankside/physiology"
 	"crankside/setup"
 )
@@ -224,15 +225,15 @@ func TestNoLungFigureEscapesTheWithheldStruct(t *testing.T) {
 	checkWalk(t, obj, recordOwnKeys)
 
 	path := filepath.Join(t.TempDir(), "log.jsonl")
-	require.NoError(t, setup.AppendRecord(path, rec))
-	recs, problems, err := setup.ReadLog(path)
+	require.NoError(t, logbook.AppendRecord(path, rec))
+	recs, problems, err := readLog(path)
 	require.NoError(t, err)
 	require.Empty(t, problems)
 	require.Len(t, recs, 1)
 	require.Nil(t, recs[0].LungFiguresJSON, "a record read back has no lung figures (its nulls are not zeros)")
-	row := setup.NewWardRow(recs[0], path, today.Add(time.Hour), 4*time.Hour)
+	row := logbook.NewWardRow(recs[0], path, today.Add(time.Hour), 4*time.Hour)
 	require.Nil(t, row.MLPerKg, "the ward gives no mL/kg for a bed whose readings no lung explains")
-	require.Contains(t, setup.WardLine(row), "readings unexplained")
+	require.Contains(t, logbook.WardLine(row), "readings unexplained")
 	wb, err := json.Marshal(row)
 	require.NoError(t, err)
 	require.Contains(t, string(wb), `"ml_per_kg":null`)

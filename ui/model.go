@@ -15,6 +15,7 @@ import (
 	"github.com/charmbracelet/lipgloss"
 	"github.com/charmbracelet/x/ansi"
 
+	"crankside/logbook"
 	"crankside/profiles"
 	"crankside/profiles/safetext"
 	"crankside/setup"
@@ -134,8 +135,8 @@ type savedMsg struct {
 // historyMsg is a bed's earlier checks read from the log.
 type historyMsg struct {
 	bed     string
-	history setup.BedHistory
-	summary setup.LogSummary
+	history logbook.BedHistory
+	summary logbook.LogSummary
 	err     error
 }
 
