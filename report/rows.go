@@ -1,6 +1,7 @@
-package setup
+package report
 
 import (
+	"crankside/setup"
 	"fmt"
 	"strings"
 )
@@ -29,42 +30,42 @@ type Row struct {
 // when it is withheld there is no number to print.
 type rowSpec struct {
 	id, label, unit, format string
-	get                     func(f FiguresJSON) float64
-	lung                    func(l *LungFiguresJSON) float64
+	get                     func(f setup.FiguresJSON) float64
+	lung                    func(l *setup.LungFiguresJSON) float64
 	// text, when set, replaces the formatted number (for figures that can
 	// have no number, like a cylinder with no oxygen flowing).
-	text func(f FiguresJSON) (string, bool)
+	text func(f setup.FiguresJSON) (string, bool)
 }
 
 var figureRows = []rowSpec{
-	{id: "delivered_vt_ml", label: "Tidal vol. BTPS", unit: "mL", format: "%.0f", lung: func(l *LungFiguresJSON) float64 { return l.DeliveredVtML }},
-	{id: "ml_per_kg", label: "  per kg PBW", unit: "mL/kg", format: "%.1f", lung: func(l *LungFiguresJSON) float64 { return l.MLPerKg }},
-	{id: "peak_pressure_cmh2o", label: "Peak", unit: "cmH2O", format: "%.1f", lung: func(l *LungFiguresJSON) float64 { return l.PeakPressureCmH2O }},
-	{id: "plateau_pressure_cmh2o", label: "Plateau", unit: "cmH2O", format: "%.1f", lung: func(l *LungFiguresJSON) float64 { return l.PlateauPressureCmH2O }},
-	{id: "driving_pressure_cmh2o", label: "Driving*", unit: "cmH2O", format: "%.1f", lung: func(l *LungFiguresJSON) float64 { return l.DrivingPressureCmH2O }},
-	{id: "intrinsic_peep_cmh2o", label: "Intrinsic PEEP", unit: "cmH2O", format: "%.1f", lung: func(l *LungFiguresJSON) float64 { return l.IntrinsicPEEPCmH2O }},
-	{id: "rate_bpm", label: "Rate", unit: "/min", format: "%.1f", get: func(f FiguresJSON) float64 { return f.RateBPM }},
-	{id: "ti_s", label: "Ti", unit: "s", format: "%.2f", get: func(f FiguresJSON) float64 { return f.TiS }},
-	{id: "te_s", label: "Te", unit: "s", format: "%.2f", get: func(f FiguresJSON) float64 { return f.TeS }},
-	{id: "ie_ratio", label: "I:E", format: "1:%.1f", get: func(f FiguresJSON) float64 { return f.IERatio }},
-	{id: "minute_ventilation_l_min", label: "Minute vent.", unit: "L/min", format: "%.1f", lung: func(l *LungFiguresJSON) float64 { return l.MinuteVentilationLMin }},
-	{id: "peak_flow_l_min", label: "Peak flow", unit: "L/min", format: "%.0f", lung: func(l *LungFiguresJSON) float64 { return l.PeakFlowLMin }},
-	{id: "end_inspiratory_pressure_cmh2o", label: "End-insp.", unit: "cmH2O", format: "%.1f", lung: func(l *LungFiguresJSON) float64 { return l.EndInspiratoryPressureCmH2O }},
-	{id: "trapped_ml", label: "Trapped gas", unit: "mL", format: "%.0f", lung: func(l *LungFiguresJSON) float64 { return l.TrappedVolumeML }},
-	{id: "fio2", label: "FiO2 (est.)", format: "%.2f", lung: func(l *LungFiguresJSON) float64 { return l.FiO2 }},
-	{id: "cylinder_minutes", label: "O2 to reserve", unit: "min", format: "%.0f", get: func(f FiguresJSON) float64 {
+	{id: "delivered_vt_ml", label: "Tidal vol. BTPS", unit: "mL", format: "%.0f", lung: func(l *setup.LungFiguresJSON) float64 { return l.DeliveredVtML }},
+	{id: "ml_per_kg", label: "  per kg PBW", unit: "mL/kg", format: "%.1f", lung: func(l *setup.LungFiguresJSON) float64 { return l.MLPerKg }},
+	{id: "peak_pressure_cmh2o", label: "Peak", unit: "cmH2O", format: "%.1f", lung: func(l *setup.LungFiguresJSON) float64 { return l.PeakPressureCmH2O }},
+	{id: "plateau_pressure_cmh2o", label: "Plateau", unit: "cmH2O", format: "%.1f", lung: func(l *setup.LungFiguresJSON) float64 { return l.PlateauPressureCmH2O }},
+	{id: "driving_pressure_cmh2o", label: "Driving*", unit: "cmH2O", format: "%.1f", lung: func(l *setup.LungFiguresJSON) float64 { return l.DrivingPressureCmH2O }},
+	{id: "intrinsic_peep_cmh2o", label: "Intrinsic PEEP", unit: "cmH2O", format: "%.1f", lung: func(l *setup.LungFiguresJSON) float64 { return l.IntrinsicPEEPCmH2O }},
+	{id: "rate_bpm", label: "Rate", unit: "/min", format: "%.1f", get: func(f setup.FiguresJSON) float64 { return f.RateBPM }},
+	{id: "ti_s", label: "Ti", unit: "s", format: "%.2f", get: func(f setup.FiguresJSON) float64 { return f.TiS }},
+	{id: "te_s", label: "Te", unit: "s", format: "%.2f", get: func(f setup.FiguresJSON) float64 { return f.TeS }},
+	{id: "ie_ratio", label: "I:E", format: "1:%.1f", get: func(f setup.FiguresJSON) float64 { return f.IERatio }},
+	{id: "minute_ventilation_l_min", label: "Minute vent.", unit: "L/min", format: "%.1f", lung: func(l *setup.LungFiguresJSON) float64 { return l.MinuteVentilationLMin }},
+	{id: "peak_flow_l_min", label: "Peak flow", unit: "L/min", format: "%.0f", lung: func(l *setup.LungFiguresJSON) float64 { return l.PeakFlowLMin }},
+	{id: "end_inspiratory_pressure_cmh2o", label: "End-insp.", unit: "cmH2O", format: "%.1f", lung: func(l *setup.LungFiguresJSON) float64 { return l.EndInspiratoryPressureCmH2O }},
+	{id: "trapped_ml", label: "Trapped gas", unit: "mL", format: "%.0f", lung: func(l *setup.LungFiguresJSON) float64 { return l.TrappedVolumeML }},
+	{id: "fio2", label: "FiO2 (est.)", format: "%.2f", lung: func(l *setup.LungFiguresJSON) float64 { return l.FiO2 }},
+	{id: "cylinder_minutes", label: "O2 to reserve", unit: "min", format: "%.0f", get: func(f setup.FiguresJSON) float64 {
 		if f.CylinderMinutes == nil {
 			return 0
 		}
 		return *f.CylinderMinutes
 	},
-		text: func(f FiguresJSON) (string, bool) {
+		text: func(f setup.FiguresJSON) (string, bool) {
 			if f.CylinderMinutes == nil {
 				return "not in use (no O2 flow)", true
 			}
 			return "", false
 		}},
-	{id: "peak_torque_nm", label: "Crank torque", unit: "N m", format: "%.2f", lung: func(l *LungFiguresJSON) float64 { return l.PeakTorqueNm }},
+	{id: "peak_torque_nm", label: "Crank torque", unit: "N m", format: "%.2f", lung: func(l *setup.LungFiguresJSON) float64 { return l.PeakTorqueNm }},
 }
 
 // DrivingNote explains the asterisk on the driving pressure's label.
@@ -75,7 +76,7 @@ const DrivingNote = "*driving pressure: plateau minus total PEEP (PEEP valve + i
 // was entered, and the lung's rows when the current setting's lung
 // figures are withheld (no lung explains the readings): what is left is
 // what the machine sets whatever the lung.
-func FigureRows(cur FiguresJSON, prop *FiguresJSON) []Row {
+func FigureRows(cur setup.FiguresJSON, prop *setup.FiguresJSON) []Row {
 	var rows []Row
 	for _, s := range figureRows {
 		if s.id == "cylinder_minutes" && !cur.CylinderEntered {
@@ -109,7 +110,7 @@ func FigureRows(cur FiguresJSON, prop *FiguresJSON) []Row {
 
 // value is the row's figure, false when it is the lung's and the lung's
 // figures are withheld.
-func (s rowSpec) value(f FiguresJSON) (float64, bool) {
+func (s rowSpec) value(f setup.FiguresJSON) (float64, bool) {
 	if s.lung == nil {
 		return s.get(f), true
 	}
@@ -119,14 +120,14 @@ func (s rowSpec) value(f FiguresJSON) (float64, bool) {
 	return s.lung(f.LungFiguresJSON), true
 }
 
-func (s rowSpec) noNumber(f FiguresJSON) (string, bool) {
+func (s rowSpec) noNumber(f setup.FiguresJSON) (string, bool) {
 	if s.text == nil {
 		return "", false
 	}
 	return s.text(f)
 }
 
-func (s rowSpec) format1(f FiguresJSON, v float64) string {
+func (s rowSpec) format1(f setup.FiguresJSON, v float64) string {
 	if t, ok := s.noNumber(f); ok {
 		return t
 	}
@@ -163,8 +164,8 @@ type SettingRow struct {
 
 // SettingRows are what the machine is set to, beside a proposal when one
 // is made: every proposed quantity has its row.
-func SettingRows(cur Setting, prop *Setting) []SettingRow {
-	row := func(id, label, unit, format string, get func(s Setting) any) SettingRow {
+func SettingRows(cur setup.Setting, prop *setup.Setting) []SettingRow {
+	row := func(id, label, unit, format string, get func(s setup.Setting) any) SettingRow {
 		r := SettingRow{ID: id, Label: label, Unit: unit, Now: fmt.Sprintf(format, get(cur))}
 		if prop != nil {
 			r.Proposed = fmt.Sprintf(format, get(*prop))
@@ -173,17 +174,13 @@ func SettingRows(cur Setting, prop *Setting) []SettingRow {
 		return r
 	}
 	return []SettingRow{
-		row("hole", "Hole", "", "%s", func(s Setting) any { return s.Hole }),
-		row("motor_rpm", "Motor speed", "rpm", "%.1f", func(s Setting) any { return s.RPM }),
-		row("dwell_s", "Dwell", "s", "%.1f", func(s Setting) any { return s.DwellS }),
-		row("peep_cmh2o", "PEEP valve", "cmH2O", "%.0f", func(s Setting) any { return s.PEEPCmH2O }),
-		row("o2_flow_l_min", "O2 bleed", "L/min", "%.1f", func(s Setting) any { return s.O2LPerMin }),
+		row("hole", "Hole", "", "%s", func(s setup.Setting) any { return s.Hole }),
+		row("motor_rpm", "Motor speed", "rpm", "%.1f", func(s setup.Setting) any { return s.RPM }),
+		row("dwell_s", "Dwell", "s", "%.1f", func(s setup.Setting) any { return s.DwellS }),
+		row("peep_cmh2o", "PEEP valve", "cmH2O", "%.0f", func(s setup.Setting) any { return s.PEEPCmH2O }),
+		row("o2_flow_l_min", "O2 bleed", "L/min", "%.1f", func(s setup.Setting) any { return s.O2LPerMin }),
 	}
 }
 
-// FigureRows are the plan's figures as rows.
-func (pl Plan) FigureRows() []Row { return FigureRows(pl.FiguresJSON(), nil) }
-
-// FiguresJSON are the plan's figures as its JSON prints them (a plan
-// always has its lung's: the lung is the one it assumes).
-func (pl Plan) FiguresJSON() FiguresJSON { return figuresJSON(pl.Figures) }
+// PlanFigureRows are the plan's figures as rows.
+func PlanFigureRows(pl setup.Plan) []Row { return FigureRows(pl.FiguresJSON(), nil) }
