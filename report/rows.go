@@ -145,16 +145,6 @@ func signed(format string, v float64) string {
 	return t
 }
 
-// RowByID finds one row.
-func RowByID(rows []Row, id string) (Row, bool) {
-	for _, r := range rows {
-		if r.ID == id {
-			return r, true
-		}
-	}
-	return Row{}, false
-}
-
 // SettingRow is one quantity of a setting, now and proposed.
 type SettingRow struct {
 	ID, Label, Unit string
