@@ -21,6 +21,7 @@ type readingsFit struct {
 }
 
 func newReadingsFit(u unit, s Setting, pbw float64, req CheckRequest, assumedR float64) readingsFit {
+	u.pressuresOnly = true // the fit and its ranges read no torque
 	return readingsFit{u: u, s: s, pbw: pbw, halfStep: manometerStep(req).Value / 2, assumedR: assumedR}
 }
 
