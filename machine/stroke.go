@@ -124,7 +124,7 @@ func SimulateStroke(in StrokeInput) (StrokeResult, error) {
 // Simulator runs strokes one after another and keeps what they share: the
 // exact one-step map of the last lung, circuit and step (a matrix
 // exponential, recomputed only when one of them changes) and the piston's
-// motion on the last stroke's grid (its position, dx/dtheta and flow at
+// motion on the last strokes' grids (its position, dx/dtheta and flow at
 // every step, which depend on the crank, the speed and the step but not on
 // the lung), so that a fit running one stroke for many trial lungs
 // computes the crank's motion once, and a stroke allocates nothing once
