@@ -348,7 +348,7 @@ func GasRecordText(r Record) string { return GasCheckText(r.CheckJSON) }
 // GasCheckText is GasRecordText for a check's JSON body, as the screen
 // holds it.
 func GasCheckText(j CheckJSON) string {
-	if j.GasReadings == nil || j.GasReadings.empty() {
+	if j.GasReadings == nil || j.GasReadings.Empty() {
 		return ""
 	}
 	words := GasWardWords(j.Cautions)
@@ -362,50 +362,24 @@ func GasCheckText(j CheckJSON) string {
 	return out
 }
 
-func (g GasReadingsJSON) empty() bool {
+// Empty says the record holds no gas or oximeter reading.
+func (g GasReadingsJSON) Empty() bool {
 	return g.SpO2Pct == nil && g.PaO2MmHg == nil && g.PH == nil && g.PaCO2MmHg == nil
-}
-
-// gasJSON fills a ward row's gas keys from its record.
-func (r WardRow) gasJSON(j *wardRowJSON) {
-	j.GasCautions = []Caution{}
-	for _, c := range r.Record.Cautions {
-		if IsGasCaution(c.ID) {
-			j.GasCautions = append(j.GasCautions, c)
-		}
-	}
-	if g := r.Record.GasReadings; g != nil && !g.empty() {
-		j.GasReadings = g
-	}
-	if o := r.Record.OxygenationJSON; o != nil {
-		j.PFRatio, j.SFRatio, j.ARDSSeverity = o.PFRatio, o.SFRatio, o.ARDSSeverity
-	}
-}
-
-// gasLevel is the highest level of the row's gas cautions, 0 with none.
-func (r WardRow) gasLevel() Level {
-	var l Level
-	for _, c := range r.Record.Cautions {
-		if IsGasCaution(c.ID) && c.Level > l {
-			l = c.Level
-		}
-	}
-	return l
 }
 
 // recordGasReadings are a record's gas readings as a check's, or false
 // when it has none.
 func recordGasReadings(r *Record) (GasReadings, bool) {
 	j := r.GasReadings
-	if j == nil || j.empty() {
+	if j == nil || j.Empty() {
 		return GasReadings{}, false
 	}
 	return GasReadings{SpO2Pct: j.SpO2Pct, PaO2MmHg: j.PaO2MmHg, PH: j.PH, PaCO2MmHg: j.PaCO2MmHg, ApparatusDeadSpaceML: j.ApparatusDeadSpaceML}, true
 }
 
-// gasRecordProblem holds a record's gas readings to the entries' ranges,
+// GasRecordProblem holds a record's gas readings to the entries' ranges,
 // as the log's reader keeps the writer's rules; "" when they are in them.
-func gasRecordProblem(r *Record) string {
+func GasRecordProblem(r *Record) string {
 	g, ok := recordGasReadings(r)
 	if !ok {
 		return ""
@@ -416,12 +390,12 @@ func gasRecordProblem(r *Record) string {
 	return ""
 }
 
-// recordGasCautions are the gas cautions a record's readings call for,
+// RecordGasCautions are the gas cautions a record's readings call for,
 // for the log's reader: a record whose gas STOP was edited out must not
 // read calm in the ward. oxygenation-high (a note that rests on the FiO2
 // estimate) is left out; a disagreement is called for only when it holds
 // with a margin of 0.01 (see disagreementBeyond).
-func recordGasCautions(r *Record) []Caution {
+func RecordGasCautions(r *Record) []Caution {
 	g, ok := recordGasReadings(r)
 	if !ok {
 		return nil

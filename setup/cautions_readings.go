@@ -93,9 +93,9 @@ func (ck Check) VolumeBoundNote() string {
 	return ""
 }
 
-// atMost is "at most " before a recorded volume that is an upper bound
+// AtMost is "at most " before a recorded volume that is an upper bound
 // (CheckJSON.VolumeUpperBound), or "".
-func atMost(j CheckJSON) string {
+func AtMost(j CheckJSON) string {
 	if j.VolumeUpperBound {
 		return "at most "
 	}

@@ -86,7 +86,7 @@ func TestOldRecordsStillRead(t *testing.T) {
 	}
 	path := filepath.Join(t.TempDir(), "log.jsonl")
 	require.NoError(t, os.WriteFile(path, append(b, '\n'), 0o600))
-	recs, bad, err := setup.ReadLog(path)
+	recs, bad, err := readLog(path)
 	require.NoError(t, err)
 	require.Empty(t, bad)
 	require.Len(t, recs, 1)
@@ -109,7 +109,7 @@ func TestRecordCarriesTheStep(t *testing.T) {
 	require.NoError(t, err)
 	path := filepath.Join(t.TempDir(), "log.jsonl")
 	require.NoError(t, os.WriteFile(path, append(b, '\n'), 0o600))
-	recs, _, err := setup.ReadLog(path)
+	recs, _, err := readLog(path)
 	require.NoError(t, err)
 	got := recs[0]
 	require.Equal(t, 7.22, *got.GasReadings.PH)

@@ -10,9 +10,11 @@ func HistoryLine(r Record) string {
 	if r.SecondInitials != "" {
 		who += "+" + r.SecondInitials
 	}
-	head := fmt.Sprintf("%s  %-4s  %s", LocalDateTime(r.Time), who, settingText(r.Setting))
-	line := fmt.Sprintf("%s: %s%.0f mL %.1f mL/kg, %d caution(s)", head, atMost(r.CheckJSON), r.DeliveredVtML, r.MLPerKg, len(r.Cautions))
-	if r.Unexplained() {
+	head := fmt.Sprintf("%s  %-4s  %s", LocalDateTime(r.Time), who, SettingText(r.Setting))
+	var line string
+	if lung := r.LungFiguresJSON; lung != nil {
+		line = fmt.Sprintf("%s: %s%.0f mL %.1f mL/kg, %d caution(s)", head, AtMost(r.CheckJSON), lung.DeliveredVtML, lung.MLPerKg, len(r.Cautions))
+	} else {
 		line = fmt.Sprintf("%s: STOP readings unexplained, volume not known, %d caution(s)", head, len(r.Cautions))
 	}
 	if len(r.Cautions) > 0 {
@@ -27,9 +29,9 @@ func HistoryLine(r Record) string {
 	return line
 }
 
-// settingText is a setting's hole, speed, dwell and PEEP valve, each
+// SettingText is a setting's hole, speed, dwell and PEEP valve, each
 // number with its unit.
-func settingText(s Setting) string {
+func SettingText(s Setting) string {
 	return fmt.Sprintf("hole %s, %.1f rpm, dwell %.1f s, PEEP %.0f cmH2O", s.Hole, s.RPM, s.DwellS, s.PEEPCmH2O)
 }
 
@@ -41,7 +43,10 @@ func ProposalLine(r Record) string {
 		return ""
 	}
 	s := r.Proposed.Setting
-	line := fmt.Sprintf("%s: %.0f mL %.1f mL/kg", settingText(s), r.Proposed.DeliveredVtML, r.Proposed.MLPerKg)
+	line := SettingText(s) + ": figures not known"
+	if lung := r.Proposed.LungFiguresJSON; lung != nil {
+		line = fmt.Sprintf("%s: %.0f mL %.1f mL/kg", SettingText(s), lung.DeliveredVtML, lung.MLPerKg)
+	}
 	if len(r.Proposed.Cautions) > 0 {
 		line += ", highest " + LevelWord(Highest(r.Proposed.Cautions))
 	}
@@ -60,11 +65,11 @@ func ProposalLine(r Record) string {
 	return line
 }
 
-// unexplainedReason is the short reason a record's readings are
+// UnexplainedReason is the short reason a record's readings are
 // unexplained, for a ward line: the first stop the readings themselves
 // raised, in a few words with its reading ("peak 120 cmH2O above 40"), or
 // "" when only the unexplained stop was raised.
-func unexplainedReason(cs []Caution) string {
+func UnexplainedReason(cs []Caution) string {
 	for _, c := range cs {
 		if c.Level != Stop || c.ID == "readings-unexplained" {
 			continue

@@ -354,17 +354,17 @@ func (res *ProtocolStepResult) evaluateProposed(u unit, ls lungState, req CheckR
 	if err != nil {
 		return Evaluation{}, &InputError{Field: "readings", Reason: "the protocol's step: " + err.Error()}
 	}
-	a := assessment{heightCm: req.Patient.HeightCm, pbwKg: ls.pbwKg, f: f, reliefCmH2O: u.p.Circuit.ReliefCmH2O,
-		cal: u.cal, ratedTorque: u.p.Motor.RatedTorqueNm, fixedMotor: u.p.Motor.Fixed(), hz: checkHazards(u, s, req)}
+	var tp *machine.TimingPlan
 	if res.Timing != nil {
-		tp := *res.Timing
-		tp.Timing = t
-		a.timing = &tp
+		c := *res.Timing
+		c.Timing = t
+		tp = &c
 	}
+	var target *holeTarget
 	if res.Step.VtChanged {
-		a.targetMLPerK = res.Step.MLPerKg
-		a.offTargetPct = 100 * (f.Hole.DeliveredML - res.TargetVtML) / res.TargetVtML
+		target = targetOf(res.Step.MLPerKg, res.TargetVtML, f.Hole.DeliveredML)
 	}
+	a := newAssessment(u, req.Patient, ls.pbwKg, f, tp, target, checkHazards(u, s, req))
 	return Evaluation{Setting: s, Figures: f, Cautions: res.bestReachable(assess(a))}, nil
 }
 

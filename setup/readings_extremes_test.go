@@ -8,6 +8,7 @@ import (
 
 	"github.com/stretchr/testify/require"
 
+	"crankside/logbook"
 	"crankside/physiology"
 	"crankside/setup"
 )
@@ -60,7 +61,7 @@ func TestLowReadingsSuggestALeak(t *testing.T) {
 	// The history and the ward say it too (473 mL, 6.1 mL/kg: the volume
 	// this check shows).
 	require.Contains(t, setup.HistoryLine(rec), ": at most 473 mL 6.1 mL/kg")
-	require.Contains(t, setup.WardLine(setup.NewWardRow(rec, "h.jsonl", today, time.Hour)), ": at most 6.1 mL/kg")
+	require.Contains(t, logbook.WardLine(logbook.NewWardRow(rec, "h.jsonl", today, time.Hour)), ": at most 6.1 mL/kg")
 	// A check whose volume is what the patient gets says no such thing.
 	plain := v2Check(t, profile(t, "demo-a"), func(r *setup.CheckRequest) {
 		r.Readings = &physiology.Readings{PeakCmH2O: 17, EndCmH2O: 14}

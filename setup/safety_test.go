@@ -8,6 +8,7 @@ import (
 
 	"github.com/stretchr/testify/require"
 
+	"crankside/logbook"
 	"crankside/physiology"
 	"crankside/setup"
 )
@@ -154,8 +155,8 @@ func TestHistoryAndProposalLinesCarryUnitsAndTheProposalsLevel(t *testing.T) {
 // over-pressure and a disconnection do not read the same, and a proposal
 // with a stop says so.
 func TestWardLineNamesTheStopAndTheProposalsStop(t *testing.T) {
-	over := setup.WardLine(setup.NewWardRow(unexplainedRecord(t, 120, 100), "w.jsonl", today.Add(30*time.Minute), setup.DefaultCheckEvery))
-	disc := setup.WardLine(setup.NewWardRow(unexplainedRecord(t, 15, 3), "w.jsonl", today.Add(30*time.Minute), setup.DefaultCheckEvery))
+	over := logbook.WardLine(logbook.NewWardRow(unexplainedRecord(t, 120, 100), "w.jsonl", today.Add(30*time.Minute), setup.DefaultCheckEvery))
+	disc := logbook.WardLine(logbook.NewWardRow(unexplainedRecord(t, 15, 3), "w.jsonl", today.Add(30*time.Minute), setup.DefaultCheckEvery))
 	// The first stop of each (MHRA RMVS001 2020: high pressure above 40;
 	// pressure not reached, disconnection), in a few words with the reading.
 	require.Contains(t, over, "(peak 120 cmH2O above 40)", over)

@@ -10,6 +10,7 @@ import (
 
 	"github.com/stretchr/testify/require"
 
+	"crankside/logbook"
 	"crankside/setup"
 )
 
@@ -64,8 +65,8 @@ func TestSecondInitialsOnCardHistoryAndLog(t *testing.T) {
 
 	// Round trip through the log: the reader gives back what was written.
 	path := filepath.Join(t.TempDir(), "log.jsonl")
-	require.NoError(t, setup.AppendRecord(path, rec))
-	h, sum, err := setup.ReadBedHistory([]string{path}, "B4", 0)
+	require.NoError(t, logbook.AppendRecord(path, rec))
+	h, sum, err := logbook.ReadBedHistory([]string{path}, "B4", 0)
 	require.NoError(t, err)
 	require.Empty(t, sum.Lines())
 	require.Len(t, h.Entries, 1)
@@ -109,7 +110,7 @@ func TestReaderRefusesSecondInitialsTheWriterRefuses(t *testing.T) {
 			require.NotEqual(t, string(good), bad)
 			path := filepath.Join(t.TempDir(), "log.jsonl")
 			require.NoError(t, os.WriteFile(path, []byte(bad+"\n"), 0o600))
-			h, sum, err := setup.ReadBedHistory([]string{path}, "B4", 0)
+			h, sum, err := logbook.ReadBedHistory([]string{path}, "B4", 0)
 			require.NoError(t, err)
 			require.Empty(t, h.Entries)
 			require.NotEmpty(t, sum.Lines())

@@ -191,33 +191,17 @@ func (s Sheet) schedulePart(rw *reportWriter) {
 	}
 }
 
-// BedSchedule reads the bed's last record from the log and gives the
-// schedule at the interval every (0: DefaultCheckEvery).
-func BedSchedule(logPath, bed string, every time.Duration) (*Schedule, error) {
-	if err := CheckBedLabel(bed); err != nil {
-		return nil, err
-	}
-	h, _, err := ReadBedHistory([]string{logPath}, bed, 1)
-	if err != nil {
-		return nil, err
-	}
-	sc := scheduleAt(logPath, every)
-	if len(h.Entries) > 0 {
-		t := h.Entries[0].Record.Time
-		sc.Last = &t
-	}
-	return sc, nil
-}
-
 // RecordedSchedule is the schedule after a record was just written.
 func RecordedSchedule(logPath string, rec Record, every time.Duration) *Schedule {
-	sc := scheduleAt(logPath, every)
+	sc := ScheduleAt(logPath, every)
 	t := rec.Time
 	sc.Last = &t
 	return sc
 }
 
-func scheduleAt(logPath string, every time.Duration) *Schedule {
+// ScheduleAt is the schedule of a log at the interval every (0:
+// DefaultCheckEvery), with no last check.
+func ScheduleAt(logPath string, every time.Duration) *Schedule {
 	sc := &Schedule{Log: logPath, Every: every, Source: "entered"}
 	if every <= 0 {
 		sc.Every, sc.Source = DefaultCheckEvery, CheckEverySource

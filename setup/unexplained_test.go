@@ -10,6 +10,7 @@ import (
 
 	"github.com/stretchr/testify/require"
 
+	"crankside/logbook"
 	"crankside/physiology"
 	"crankside/setup"
 )
@@ -150,8 +151,8 @@ func TestUnexplainedRecordRoundTripCard(t *testing.T) {
 	require.Nil(t, m["delivered_vt_ml"])
 
 	path := filepath.Join(t.TempDir(), "log.jsonl")
-	require.NoError(t, setup.AppendRecord(path, rec))
-	recs, problems, err := setup.ReadLog(path)
+	require.NoError(t, logbook.AppendRecord(path, rec))
+	recs, problems, err := readLog(path)
 	require.NoError(t, err)
 	require.Empty(t, problems)
 	require.Len(t, recs, 1)

@@ -5,6 +5,7 @@ import (
 
 	tea "github.com/charmbracelet/bubbletea"
 
+	"crankside/logbook"
 	"crankside/setup"
 )
 
@@ -37,7 +38,7 @@ func (m *Model) lookupBed() tea.Cmd {
 	m.due = bedDue{bed: key}
 	path := m.logPath
 	return func() tea.Msg {
-		h, _, err := setup.ReadBedHistory([]string{path}, key, 1)
+		h, _, err := logbook.ReadBedHistory([]string{path}, key, 1)
 		if err != nil || len(h.Entries) == 0 {
 			return bedLastMsg{bed: key}
 		}

@@ -9,6 +9,7 @@ import (
 	tea "github.com/charmbracelet/bubbletea"
 	"github.com/charmbracelet/lipgloss"
 
+	"crankside/logbook"
 	"crankside/profiles/safetext"
 	"crankside/setup"
 )
@@ -148,9 +149,9 @@ func (m *Model) save() tea.Cmd {
 	}
 	path, at := m.logPath, rec.Time
 	return func() tea.Msg {
-		err := setup.EnsureLogDir(path)
+		err := logbook.EnsureLogDir(path)
 		if err == nil {
-			err = setup.AppendRecord(path, rec)
+			err = logbook.AppendRecord(path, rec)
 		}
 		return savedMsg{bed: rec.Bed, path: path, at: at, err: err}
 	}
@@ -213,7 +214,7 @@ func (m *Model) history() tea.Cmd {
 	}
 	path := m.logPath
 	return func() tea.Msg {
-		h, sum, err := setup.ReadBedHistory([]string{path}, bed, 0)
+		h, sum, err := logbook.ReadBedHistory([]string{path}, bed, 0)
 		return historyMsg{bed: bed, history: h, summary: sum, err: err}
 	}
 }
@@ -264,7 +265,7 @@ func logNote(path string) string {
 		return "Not recording: start with --log FILE to keep a record of checks."
 	}
 	where := safetext.Escape(path)
-	if err := setup.CheckLogPath(path); err != nil {
+	if err := logbook.CheckLogPath(path); err != nil {
 		// A new log is made in a folder the screen creates itself.
 		if !errors.Is(err, os.ErrNotExist) {
 			return "CANNOT RECORD to " + where + ": " + safetext.Escape(err.Error())

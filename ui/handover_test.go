@@ -10,6 +10,7 @@ import (
 	tea "github.com/charmbracelet/bubbletea"
 	"github.com/stretchr/testify/require"
 
+	"crankside/logbook"
 	"crankside/physiology"
 	"crankside/setup"
 )
@@ -83,7 +84,7 @@ func TestHandoverRecordQuitAndHistory(t *testing.T) {
 	// Record it: one line in the log, and quitting no longer asks.
 	runCmd(m, press(m, tea.KeyMsg{Type: tea.KeyCtrlS}))
 	require.Contains(t, screen(m), "Recorded for bed B4")
-	h, sum, err := setup.ReadBedHistory([]string{logPath}, "B4", 0)
+	h, sum, err := logbook.ReadBedHistory([]string{logPath}, "B4", 0)
 	require.NoError(t, err)
 	require.Zero(t, sum.Damaged)
 	require.Len(t, h.Entries, 1)

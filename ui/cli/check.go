@@ -5,6 +5,7 @@ import (
 	"strings"
 	"time"
 
+	"crankside/logbook"
 	"crankside/profiles"
 	"crankside/profiles/safetext"
 	"crankside/setup"
@@ -220,7 +221,7 @@ func (o checkOptions) outputProblem() string {
 func checkSheet(env Env, ck setup.Check, rec setup.Record, unit string, o checkOptions) int {
 	sheet := ck.Sheet(unit, setup.BedKey(o.bed()), time.Now())
 	if o.logPath() != "" {
-		if err := setup.AppendRecord(o.logPath(), rec); err != nil {
+		if err := logbook.AppendRecord(o.logPath(), rec); err != nil {
 			fmt.Fprintf(env.Stderr, "crankside check: the check was NOT recorded, so no sheet is printed: %s\n", safetext.Escape(err.Error()))
 			return ExitFailure
 		}
@@ -242,7 +243,7 @@ func everyEntered(text string) time.Duration {
 
 func appendRecord(env Env, rec setup.Record, o checkOptions) int {
 	path := o.logPath()
-	if err := setup.AppendRecord(path, rec); err != nil {
+	if err := logbook.AppendRecord(path, rec); err != nil {
 		fmt.Fprintf(env.Stderr, "crankside check: the check above was NOT recorded: %s\n", safetext.Escape(err.Error()))
 		return ExitFailure
 	}

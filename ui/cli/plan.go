@@ -3,6 +3,7 @@ package cli
 import (
 	"time"
 
+	"crankside/logbook"
 	"crankside/profiles"
 	"crankside/profiles/safetext"
 	"crankside/setup"
@@ -111,7 +112,7 @@ func planSheet(env Env, pl setup.Plan, bed, logPath, every string) int {
 	sh := pl.Sheet(time.Now())
 	sh.Bed = setup.BedKey(bed)
 	if logPath != "" {
-		sc, err := setup.BedSchedule(logPath, bed, everyEntered(every))
+		sc, err := logbook.BedSchedule(logPath, bed, everyEntered(every))
 		if err != nil {
 			return UsageError(env.Stderr, "plan", "--log: "+safetext.Escape(err.Error()))
 		}
