@@ -354,11 +354,6 @@ func GasCheckText(j CheckJSON) string {
 	return out
 }
 
-// Empty says the record holds no gas or oximeter reading.
-func (g GasReadingsJSON) Empty() bool {
-	return g.SpO2Pct == nil && g.PaO2MmHg == nil && g.PH == nil && g.PaCO2MmHg == nil
-}
-
 // recordGasReadings are a record's gas readings as a check's, or false
 // when it has none.
 func recordGasReadings(r *Record) (GasReadings, bool) {
@@ -366,7 +361,7 @@ func recordGasReadings(r *Record) (GasReadings, bool) {
 	if j == nil || j.Empty() {
 		return GasReadings{}, false
 	}
-	return GasReadings{SpO2Pct: j.SpO2Pct, PaO2MmHg: j.PaO2MmHg, PH: j.PH, PaCO2MmHg: j.PaCO2MmHg, ApparatusDeadSpaceML: j.ApparatusDeadSpaceML}, true
+	return *j, true
 }
 
 // GasRecordProblem holds a record's gas readings to the entries' ranges,
