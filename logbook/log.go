@@ -155,7 +155,7 @@ func recordChanges(a, b setup.Record) []string {
 	num("dwell", a.Setting.DwellS, b.Setting.DwellS, "s", 1e-9)
 	num("PEEP", a.Setting.PEEPCmH2O, b.Setting.PEEPCmH2O, "cmH2O", 1e-9)
 	num("O2", a.Setting.O2LPerMin, b.Setting.O2LPerMin, "L/min", 1e-9)
-	if a.Unexplained() || b.Unexplained() {
+	if a.LungFiguresJSON == nil || b.LungFiguresJSON == nil {
 		// No volume is known for a check whose readings no lung explains.
 		str("readings", explainedWord(a), explainedWord(b))
 	} else {

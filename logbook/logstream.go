@@ -154,6 +154,7 @@ func decodeRecord(text []byte) (rec setup.Record, problem string) {
 	if err := json.Unmarshal(text, &rec); err != nil {
 		return setup.Record{}, reasonJunk
 	}
+	rec.WithholdLung()
 	if p := recordProblem(&rec); p != "" {
 		return setup.Record{}, fmt.Sprintf(reasonRules, p)
 	}
@@ -182,7 +183,7 @@ func missingFromRecord(r setup.Record) string {
 		return "setting"
 	case r.ClinicalCaution == "":
 		return "clinical_caution"
-	case !r.Unexplained() && (!(r.DeliveredVtML > 0) || !(r.RateBPM > 0)):
+	case !r.Unexplained() && (r.LungFiguresJSON == nil || !(r.DeliveredVtML > 0) || !(r.RateBPM > 0)):
 		// Without readings no lung explains, a check has its figures.
 		return "figures"
 	}

@@ -134,7 +134,7 @@ func figuresProblem(r *setup.Record) string {
 		return p
 	}
 	if r.Unexplained() {
-		return "" // no predicted figure is kept (WithheldFigureKeys)
+		return "" // no lung figure is kept (LungFiguresJSON withheld)
 	}
 	if outside(r.DeliveredVtML, 0, RecordMaxVtML) {
 		return rangeProblem("delivered_vt_ml", r.DeliveredVtML, 0, RecordMaxVtML, "mL")

@@ -20,7 +20,10 @@ type WardRow struct {
 	MotorRPM   float64 // rpm
 	DwellS     float64 // s
 	PEEPCmH2O  float64 // cmH2O, the PEEP valve
-	MLPerKg    float64 // delivered mL per kg PBW at that setting
+
+	// MLPerKg is the delivered mL per kg PBW at that setting; nil when the
+	// lung's figures are withheld (no lung explains the readings).
+	MLPerKg *float64
 	// HighestLevel is the highest caution level of the setting found (0
 	// when it had none).
 	HighestLevel setup.Level
@@ -48,7 +51,6 @@ type wardRowJSON struct {
 	MotorRPM     float64 `json:"motor_rpm"`
 	DwellS       float64 `json:"dwell_s"`
 	PEEPCmH2O    float64 `json:"peep_cmh2o"`
-	MLPerKg      float64 `json:"ml_per_kg"`
 	HighestLevel string  `json:"highest_level"`
 	Overdue      bool    `json:"overdue"`
 	ProposalMade bool    `json:"proposal_made"`
@@ -56,6 +58,9 @@ type wardRowJSON struct {
 	Conflict     string  `json:"conflict,omitempty"`
 	FutureAt     string  `json:"future_record_at,omitempty"`
 	FutureLog    string  `json:"future_record_log,omitempty"`
+
+	MLPerKg *float64 `json:"ml_per_kg"` // null when the lung's figures are withheld
+
 	// The patient's own numbers at that check: the gas and oximeter
 	// readings, their cautions, and the oxygenation indices (null, and
 	// an empty list, when none was entered).
@@ -109,9 +114,19 @@ func NewWardRow(rec setup.Record, source string, now time.Time, every time.Durat
 	return WardRow{
 		Bed: setup.BedKey(rec.Bed), CheckedAt: rec.Time.UTC(), AgeMinutes: math.Round(age.Minutes()*10) / 10,
 		ProfileID: rec.ProfileID, Hole: rec.Setting.Hole, MotorRPM: rec.Setting.RPM, DwellS: rec.Setting.DwellS,
-		PEEPCmH2O: rec.Setting.PEEPCmH2O, MLPerKg: rec.MLPerKg, HighestLevel: setup.Highest(rec.Cautions),
+		PEEPCmH2O: rec.Setting.PEEPCmH2O, MLPerKg: wardMLPerKg(rec), HighestLevel: setup.Highest(rec.Cautions),
 		Proposed: rec.Proposed != nil, Overdue: age > every, Source: source, Record: rec,
 	}
+}
+
+// wardMLPerKg is the record's mL/kg PBW, nil when its lung figures are
+// withheld.
+func wardMLPerKg(rec setup.Record) *float64 {
+	if rec.LungFiguresJSON == nil {
+		return nil
+	}
+	v := rec.MLPerKg
+	return &v
 }
 
 // SortWardRows puts the most urgent first (stop, overdue, warn, the
@@ -260,10 +275,10 @@ func WardLine(r WardRow) string {
 		if why := setup.UnexplainedReason(r.Record.Cautions); why != "" {
 			line += " (" + why + ")"
 		}
-	case r.Record.Unexplained():
+	case r.Record.Unexplained() || r.MLPerKg == nil:
 		line += ": readings unexplained, " + level
 	default:
-		line += fmt.Sprintf(": %s%.1f mL/kg, %s", setup.AtMost(r.Record.CheckJSON), r.MLPerKg, level)
+		line += fmt.Sprintf(": %s%.1f mL/kg, %s", setup.AtMost(r.Record.CheckJSON), *r.MLPerKg, level)
 	}
 	if r.Proposed {
 		line += ", change proposed"

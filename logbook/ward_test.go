@@ -102,7 +102,8 @@ func TestWardRowsFromSeveralBedsWithATornAndADamagedLine(t *testing.T) {
 	require.False(t, byBed["B1"].Proposed)
 	require.Equal(t, "8", byBed["B2"].Hole)
 	require.Equal(t, path, byBed["B2"].Source)
-	require.Equal(t, b2.MLPerKg, byBed["B2"].MLPerKg)
+	require.NotNil(t, byBed["B2"].MLPerKg, "B2's readings are explained: its mL/kg is given")
+	require.Equal(t, b2.MLPerKg, *byBed["B2"].MLPerKg)
 	require.Equal(t, 5.0, byBed["B2"].PEEPCmH2O, "the check was made at PEEP 5")
 	require.Equal(t, 1.4, byBed["B2"].DwellS)
 

@@ -115,7 +115,7 @@ func (w *reportWriter) checkBody(j CheckJSON) {
 			w.line("NOTE  %s", j.Gas.ClearanceNote)
 		}
 	}
-	if j.Unexplained() {
+	if j.LungFiguresJSON == nil {
 		w.unexplainedFigures(j.FiguresJSON, propFigures)
 	} else {
 		w.figureTable(j.PatientGetsHeading(), FigureRows(j.FiguresJSON, propFigures))
@@ -190,20 +190,15 @@ func jsonRangeText(r *[2]*float64, format func(float64) string) string {
 	return rangeText(v, open, format)
 }
 
-// lungFreeRows are the figures the machine's timing alone sets.
-var lungFreeRows = []string{"rate_bpm", "ti_s", "te_s", "ie_ratio"}
-
-// unexplainedFigures replaces THE PATIENT GETS when no lung explains the
-// readings: the machine's own timing, and a proposal's figures labelled as
-// resting on the assumed lung.
+// unexplainedFigures replaces THE PATIENT GETS when the lung's figures
+// are withheld: the machine's own figures (the rows FigureRows gives
+// without the lung's part), and a proposal's figures labelled as resting
+// on the assumed lung.
 func (w *reportWriter) unexplainedFigures(cur FiguresJSON, prop *FiguresJSON) {
 	w.line("THE PATIENT GETS: NOT KNOWN (the readings cannot be explained; no predicted figure is shown for this setting)")
 	w.line("THE MACHINE'S TIMING NOW (does not depend on the lung)")
-	rows := FigureRows(cur, nil)
-	for _, id := range lungFreeRows {
-		if r, ok := RowByID(rows, id); ok {
-			w.line("%-28s %10s", "  "+r.Label+unitSuffix(r.Unit), r.Text)
-		}
+	for _, r := range FigureRows(cur, nil) {
+		w.line("%-28s %10s", "  "+r.Label+unitSuffix(r.Unit), r.Text)
 	}
 	if prop != nil {
 		w.figureTable("PROPOSED, "+AssumedLungLabel, FigureRows(*prop, nil))

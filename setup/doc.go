@@ -17,7 +17,7 @@
 // end reading at or below PEEP, a peak below the end reading are stops,
 // whatever a lung model makes of them). When no lung explains the readings
 // the check carries a readings-unexplained stop, its JSON and record print
-// the current setting's predicted figures as null (WithheldFigureKeys), and
+// the current setting's lung figures as null (LungFiguresJSON withheld), and
 // the text and the card say so in their place; a proposal is still
 // evaluated, on the assumed lung, and labelled so.
 //

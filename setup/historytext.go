@@ -11,8 +11,10 @@ func HistoryLine(r Record) string {
 		who += "+" + r.SecondInitials
 	}
 	head := fmt.Sprintf("%s  %-4s  %s", LocalDateTime(r.Time), who, SettingText(r.Setting))
-	line := fmt.Sprintf("%s: %s%.0f mL %.1f mL/kg, %d caution(s)", head, AtMost(r.CheckJSON), r.DeliveredVtML, r.MLPerKg, len(r.Cautions))
-	if r.Unexplained() {
+	var line string
+	if lung := r.LungFiguresJSON; lung != nil {
+		line = fmt.Sprintf("%s: %s%.0f mL %.1f mL/kg, %d caution(s)", head, AtMost(r.CheckJSON), lung.DeliveredVtML, lung.MLPerKg, len(r.Cautions))
+	} else {
 		line = fmt.Sprintf("%s: STOP readings unexplained, volume not known, %d caution(s)", head, len(r.Cautions))
 	}
 	if len(r.Cautions) > 0 {
@@ -41,7 +43,10 @@ func ProposalLine(r Record) string {
 		return ""
 	}
 	s := r.Proposed.Setting
-	line := fmt.Sprintf("%s: %.0f mL %.1f mL/kg", SettingText(s), r.Proposed.DeliveredVtML, r.Proposed.MLPerKg)
+	line := SettingText(s) + ": figures not known"
+	if lung := r.Proposed.LungFiguresJSON; lung != nil {
+		line = fmt.Sprintf("%s: %.0f mL %.1f mL/kg", SettingText(s), lung.DeliveredVtML, lung.MLPerKg)
+	}
 	if len(r.Proposed.Cautions) > 0 {
 		line += ", highest " + LevelWord(Highest(r.Proposed.Cautions))
 	}

@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"encoding/json"
 	"fmt"
+	"reflect"
 	"strings"
 	"time"
 	"unicode"
@@ -54,7 +55,10 @@ type CheckJSON struct {
 	VolumeNote       string `json:"volume_note,omitempty"`
 	MechanicsSource  string `json:"mechanics_source"`
 	EvaluationJSON
-	Proposed *ProposedJSON `json:"proposed,omitempty"`
+	// FiguresWithheld says why the lung's figures are withheld (nil in
+	// EvaluationJSON, null in the JSON); "" when they are given.
+	FiguresWithheld string        `json:"figures_withheld,omitempty"`
+	Proposed        *ProposedJSON `json:"proposed,omitempty"`
 	// The blood gas and oximeter, and the protocol's next step they led
 	// to (see Check.Protocol); absent from checks without a reading.
 	GasReadings        *GasReadingsJSON  `json:"gas_readings,omitempty"`
@@ -90,34 +94,54 @@ type CheckJSON struct {
 
 // Unexplained reports whether no lung explains the readings: then no
 // predicted figure of the current setting is what the patient gets, the
-// JSON prints each of them as null (WithheldFigureKeys) and every report
-// says so in their place.
+// lung's figures are withheld (LungFiguresJSON is nil, FiguresWithheld
+// says why) and every report says so in their place.
 func (j CheckJSON) Unexplained() bool { return j.FitProblem != "" }
 
-// WithheldFigureKeys are the current setting's predicted figures, which
-// depend on the lung: null in the JSON when the readings are unexplained.
-// The setting's own values (hole, swept volumes, speed, dwell, rate, Ti,
-// Te, I:E, PEEP valve, oxygen flow and cylinder time) do not depend on the
-// lung and stay.
-var WithheldFigureKeys = []string{
-	"delivered_vt_ml", "ml_per_kg", "fio2", "minute_ventilation_l_min", "peak_flow_l_min",
-	"peak_pressure_cmh2o", "end_inspiratory_pressure_cmh2o", "plateau_pressure_cmh2o",
-	"driving_pressure_cmh2o", "intrinsic_peep_cmh2o", "trapped_volume_ml", "exhalation_tau_s",
-	"peak_torque_nm", "rated_torque_share",
-	"delivered_vt_room_ml", "compression_loss_ml", "leaked_ml", "relief_vented_ml", "pressure_limited",
+// WithholdLung drops the current setting's lung figures when no lung
+// explains the readings, and says why beside them. Check.JSON calls it,
+// and so does the log's reader on every record it decodes (a record
+// written with the figures as null decodes them as zeros otherwise).
+func (j *CheckJSON) WithholdLung() {
+	if !j.Unexplained() {
+		return
+	}
+	j.LungFiguresJSON = nil
+	j.FiguresWithheld = WithheldReason
+}
+
+// WithheldReason is what stands beside the withheld lung figures.
+const WithheldReason = "no lung explains the readings: no figure that depends on the lung is known for this setting"
+
+// lungFigureKeys are the JSON keys of LungFiguresJSON, read off its type:
+// a figure added there is withheld with the others, with no list to keep.
+func lungFigureKeys() []string {
+	t := reflect.TypeOf(LungFiguresJSON{})
+	keys := make([]string, 0, t.NumField())
+	for i := 0; i < t.NumField(); i++ {
+		name, _, _ := strings.Cut(t.Field(i).Tag.Get("json"), ",")
+		keys = append(keys, name)
+	}
+	return keys
 }
 
 // checkJSONFields has CheckJSON's fields without its methods.
 type checkJSONFields CheckJSON
 
-// MarshalJSON writes the check with every key in order; when the readings
-// are unexplained the current setting's predicted figures are null.
+// MarshalJSON writes the check with every key in order. Without the
+// lung's figures (withheld) each of their keys is written as null, where
+// the figure would stand, so that a script reading "delivered_vt_ml"
+// finds null, never a number, and the log's records keep one shape.
 func (j CheckJSON) MarshalJSON() ([]byte, error) {
-	b, err := json.Marshal(checkJSONFields(j))
-	if err != nil || !j.Unexplained() {
-		return b, err
+	if j.LungFiguresJSON != nil {
+		return json.Marshal(checkJSONFields(j))
 	}
-	return nullTopLevel(b, WithheldFigureKeys)
+	j.LungFiguresJSON = &LungFiguresJSON{}
+	b, err := json.Marshal(checkJSONFields(j))
+	if err != nil {
+		return nil, err
+	}
+	return nullTopLevel(b, lungFigureKeys())
 }
 
 // nullTopLevel rewrites the values of the named keys of a JSON object (its
@@ -239,6 +263,7 @@ func (ck Check) JSON() CheckJSON {
 		j.Watch = &w
 	}
 	ck.protocolJSON(&j)
+	j.WithholdLung()
 	return j
 }
 

@@ -21,13 +21,25 @@ type DefaultJSON struct {
 	Source string  `json:"source"`
 }
 
-// FiguresJSON are one setting's figures, as every JSON object prints them.
+// FiguresJSON are one setting's figures, as every JSON object prints them:
+// the machine's own (the setting and what it sets whatever the lung) and,
+// in LungFiguresJSON, those the lung decides. The lung's part is nil when
+// no lung explains a check's readings: nothing then is what the patient
+// gets, and a report has no lung figure to print (see CheckJSON.MarshalJSON
+// for how its keys are written then).
 type FiguresJSON struct {
+	MachineFiguresJSON
+	*LungFiguresJSON
+}
+
+// MachineFiguresJSON are a setting's figures that do not depend on the
+// lung: the hole and its swept volumes, the timing, the PEEP valve, the
+// oxygen flow and the cylinder's time, the lung the figures were computed
+// with (fitted or assumed, said beside it) and the room's BTPS factor.
+type MachineFiguresJSON struct {
 	Hole             string   `json:"hole"`
 	SweptML          float64  `json:"swept_ml"`
 	EffectiveSweptML float64  `json:"effective_swept_ml"`
-	DeliveredVtML    float64  `json:"delivered_vt_ml"`
-	MLPerKg          float64  `json:"ml_per_kg"`
 	RateBPM          float64  `json:"rate_bpm"`
 	MotorRPM         float64  `json:"motor_rpm"`
 	DwellS           float64  `json:"dwell_s"`
@@ -35,55 +47,66 @@ type FiguresJSON struct {
 	TeS              float64  `json:"te_s"`
 	IERatio          float64  `json:"ie_ratio"`
 	PEEPCmH2O        float64  `json:"peep_cmh2o"`
-	FiO2             float64  `json:"fio2"`
 	O2FlowLMin       float64  `json:"o2_flow_l_min"`
 	CylinderMinutes  *float64 `json:"cylinder_minutes"` // null with no cylinder or no oxygen flowing
 	CylinderEntered  bool     `json:"cylinder_entered,omitempty"`
 	// cylinder_minutes runs to the reserve (cylinder_reserve_bar);
 	// cylinder_minutes_to_empty to 0 bar, after which FiO2 falls to 0.21.
-	CylinderMinutesToEmpty      *float64 `json:"cylinder_minutes_to_empty,omitempty"`
-	CylinderReserveBar          float64  `json:"cylinder_reserve_bar,omitempty"`
-	ComplianceMLPerCmH2O        float64  `json:"compliance_ml_per_cmh2o"`
-	ResistanceCmH2OPerLS        float64  `json:"resistance_cmh2o_per_l_s"`
-	MinuteVentilationLMin       float64  `json:"minute_ventilation_l_min"`
-	PeakFlowLMin                float64  `json:"peak_flow_l_min"`
-	PeakPressureCmH2O           float64  `json:"peak_pressure_cmh2o"`
-	EndInspiratoryPressureCmH2O float64  `json:"end_inspiratory_pressure_cmh2o"`
-	PlateauPressureCmH2O        float64  `json:"plateau_pressure_cmh2o"`
-	DrivingPressureCmH2O        float64  `json:"driving_pressure_cmh2o"`
-	IntrinsicPEEPCmH2O          float64  `json:"intrinsic_peep_cmh2o"`
-	TrappedVolumeML             float64  `json:"trapped_volume_ml"`
-	ExhalationTauS              float64  `json:"exhalation_tau_s"`
-	PeakTorqueNm                float64  `json:"peak_torque_nm"`
-	RatedTorqueShare            float64  `json:"rated_torque_share"`
-	// Version 2: delivered_vt_ml, ml_per_kg, trapped volume and plateau are
-	// at body conditions (BTPS); delivered_vt_room_ml is the room air that
-	// entered the lung, delivered_vt_ml / btps_factor.
-	BTPSFactor        float64 `json:"btps_factor"`
-	DeliveredVtRoomML float64 `json:"delivered_vt_room_ml"`
-	CompressionLossML float64 `json:"compression_loss_ml"`
-	LeakedML          float64 `json:"leaked_ml"`
-	ReliefVentedML    float64 `json:"relief_vented_ml"`
-	PressureLimited   bool    `json:"pressure_limited"`
+	CylinderMinutesToEmpty *float64 `json:"cylinder_minutes_to_empty,omitempty"`
+	CylinderReserveBar     float64  `json:"cylinder_reserve_bar,omitempty"`
+	ComplianceMLPerCmH2O   float64  `json:"compliance_ml_per_cmh2o"`
+	ResistanceCmH2OPerLS   float64  `json:"resistance_cmh2o_per_l_s"`
+	BTPSFactor             float64  `json:"btps_factor"`
 }
 
-// figuresJSON rounds a setting's figures for printing.
+// LungFiguresJSON are a setting's figures that the lung decides: what the
+// patient gets (volume, pressures, flows, trapped gas, the FiO2 estimate),
+// the load on the crank, and where the stroke's gas went. Version 2:
+// delivered_vt_ml, ml_per_kg, trapped volume and plateau are at body
+// conditions (BTPS); delivered_vt_room_ml is the room air that entered
+// the lung, delivered_vt_ml / btps_factor.
+type LungFiguresJSON struct {
+	DeliveredVtML               float64 `json:"delivered_vt_ml"`
+	MLPerKg                     float64 `json:"ml_per_kg"`
+	FiO2                        float64 `json:"fio2"`
+	MinuteVentilationLMin       float64 `json:"minute_ventilation_l_min"`
+	PeakFlowLMin                float64 `json:"peak_flow_l_min"`
+	PeakPressureCmH2O           float64 `json:"peak_pressure_cmh2o"`
+	EndInspiratoryPressureCmH2O float64 `json:"end_inspiratory_pressure_cmh2o"`
+	PlateauPressureCmH2O        float64 `json:"plateau_pressure_cmh2o"`
+	DrivingPressureCmH2O        float64 `json:"driving_pressure_cmh2o"`
+	IntrinsicPEEPCmH2O          float64 `json:"intrinsic_peep_cmh2o"`
+	TrappedVolumeML             float64 `json:"trapped_volume_ml"`
+	ExhalationTauS              float64 `json:"exhalation_tau_s"`
+	PeakTorqueNm                float64 `json:"peak_torque_nm"`
+	RatedTorqueShare            float64 `json:"rated_torque_share"`
+	DeliveredVtRoomML           float64 `json:"delivered_vt_room_ml"`
+	CompressionLossML           float64 `json:"compression_loss_ml"`
+	LeakedML                    float64 `json:"leaked_ml"`
+	ReliefVentedML              float64 `json:"relief_vented_ml"`
+	PressureLimited             bool    `json:"pressure_limited"`
+}
+
+// figuresJSON rounds a setting's figures for printing, the lung's part
+// included (a check withholds it with WithholdLung).
 func figuresJSON(f Figures) FiguresJSON {
-	j := FiguresJSON{
+	j := FiguresJSON{MachineFiguresJSON: MachineFiguresJSON{
 		Hole: f.Hole.Label, SweptML: r4(f.Hole.SweptML), EffectiveSweptML: r4(f.Hole.EffectiveSweptML),
-		DeliveredVtML: r4(f.Hole.DeliveredML), MLPerKg: r4(f.Hole.MLPerKg),
 		RateBPM: r4(f.Timing.RateBPM), MotorRPM: r4(f.Timing.RPM), DwellS: r4(f.Timing.DwellS),
 		TiS: r4(f.Timing.TiS), TeS: r4(f.Timing.TeS), IERatio: r4(f.Timing.IE),
-		PEEPCmH2O: r4(f.PEEPCmH2O), FiO2: r4(f.FiO2), O2FlowLMin: r4(f.O2FlowLPerMin),
+		PEEPCmH2O: r4(f.PEEPCmH2O), O2FlowLMin: r4(f.O2FlowLPerMin),
 		ComplianceMLPerCmH2O: r4(f.ComplianceMLPerCmH2O), ResistanceCmH2OPerLS: r4(f.ResistanceCmH2OPerLS),
+		BTPSFactor: r4(f.BTPSFactor),
+	}, LungFiguresJSON: &LungFiguresJSON{
+		DeliveredVtML: r4(f.Hole.DeliveredML), MLPerKg: r4(f.Hole.MLPerKg), FiO2: r4(f.FiO2),
 		MinuteVentilationLMin: r4(f.MinuteVentLPerMin), PeakFlowLMin: r4(f.PeakFlowLPerMin),
 		PeakPressureCmH2O: r4(f.PeakCmH2O), EndInspiratoryPressureCmH2O: r4(f.EndInspCmH2O),
 		PlateauPressureCmH2O: r4(f.PlateauCmH2O), DrivingPressureCmH2O: r4(f.DrivingCmH2O),
 		IntrinsicPEEPCmH2O: r4(f.IntrinsicPEEPCmH2O), TrappedVolumeML: r4(f.TrappedML), ExhalationTauS: r4(f.TauS),
 		PeakTorqueNm: r4(f.PeakTorqueNm), RatedTorqueShare: r4(f.TorqueShareOfRating),
-		BTPSFactor: r4(f.BTPSFactor), DeliveredVtRoomML: r4(f.DeliveredRoomML), CompressionLossML: r4(f.CompressionLossML),
+		DeliveredVtRoomML: r4(f.DeliveredRoomML), CompressionLossML: r4(f.CompressionLossML),
 		LeakedML: r4(f.LeakedML), ReliefVentedML: r4(f.ReliefVentedML), PressureLimited: f.PressureLimited,
-	}
+	}}
 	j.CylinderEntered = f.CylinderGiven
 	if f.CylinderGiven && !math.IsInf(f.CylinderMinutes, 0) {
 		m, e := r4(f.CylinderMinutes), r4(f.CylinderEmptyMinutes)

@@ -24,31 +24,34 @@ type Row struct {
 	ChangeText   string
 }
 
-// rowSpec is how one figure is read from Figures and printed.
+// rowSpec is how one figure is read from Figures and printed. A figure
+// the lung decides is read from the lung's part alone (lung), so that
+// when it is withheld there is no number to print.
 type rowSpec struct {
 	id, label, unit, format string
 	get                     func(f FiguresJSON) float64
+	lung                    func(l *LungFiguresJSON) float64
 	// text, when set, replaces the formatted number (for figures that can
 	// have no number, like a cylinder with no oxygen flowing).
 	text func(f FiguresJSON) (string, bool)
 }
 
 var figureRows = []rowSpec{
-	{id: "delivered_vt_ml", label: "Tidal vol. BTPS", unit: "mL", format: "%.0f", get: func(f FiguresJSON) float64 { return f.DeliveredVtML }},
-	{id: "ml_per_kg", label: "  per kg PBW", unit: "mL/kg", format: "%.1f", get: func(f FiguresJSON) float64 { return f.MLPerKg }},
-	{id: "peak_pressure_cmh2o", label: "Peak", unit: "cmH2O", format: "%.1f", get: func(f FiguresJSON) float64 { return f.PeakPressureCmH2O }},
-	{id: "plateau_pressure_cmh2o", label: "Plateau", unit: "cmH2O", format: "%.1f", get: func(f FiguresJSON) float64 { return f.PlateauPressureCmH2O }},
-	{id: "driving_pressure_cmh2o", label: "Driving*", unit: "cmH2O", format: "%.1f", get: func(f FiguresJSON) float64 { return f.DrivingPressureCmH2O }},
-	{id: "intrinsic_peep_cmh2o", label: "Intrinsic PEEP", unit: "cmH2O", format: "%.1f", get: func(f FiguresJSON) float64 { return f.IntrinsicPEEPCmH2O }},
+	{id: "delivered_vt_ml", label: "Tidal vol. BTPS", unit: "mL", format: "%.0f", lung: func(l *LungFiguresJSON) float64 { return l.DeliveredVtML }},
+	{id: "ml_per_kg", label: "  per kg PBW", unit: "mL/kg", format: "%.1f", lung: func(l *LungFiguresJSON) float64 { return l.MLPerKg }},
+	{id: "peak_pressure_cmh2o", label: "Peak", unit: "cmH2O", format: "%.1f", lung: func(l *LungFiguresJSON) float64 { return l.PeakPressureCmH2O }},
+	{id: "plateau_pressure_cmh2o", label: "Plateau", unit: "cmH2O", format: "%.1f", lung: func(l *LungFiguresJSON) float64 { return l.PlateauPressureCmH2O }},
+	{id: "driving_pressure_cmh2o", label: "Driving*", unit: "cmH2O", format: "%.1f", lung: func(l *LungFiguresJSON) float64 { return l.DrivingPressureCmH2O }},
+	{id: "intrinsic_peep_cmh2o", label: "Intrinsic PEEP", unit: "cmH2O", format: "%.1f", lung: func(l *LungFiguresJSON) float64 { return l.IntrinsicPEEPCmH2O }},
 	{id: "rate_bpm", label: "Rate", unit: "/min", format: "%.1f", get: func(f FiguresJSON) float64 { return f.RateBPM }},
 	{id: "ti_s", label: "Ti", unit: "s", format: "%.2f", get: func(f FiguresJSON) float64 { return f.TiS }},
 	{id: "te_s", label: "Te", unit: "s", format: "%.2f", get: func(f FiguresJSON) float64 { return f.TeS }},
 	{id: "ie_ratio", label: "I:E", format: "1:%.1f", get: func(f FiguresJSON) float64 { return f.IERatio }},
-	{id: "minute_ventilation_l_min", label: "Minute vent.", unit: "L/min", format: "%.1f", get: func(f FiguresJSON) float64 { return f.MinuteVentilationLMin }},
-	{id: "peak_flow_l_min", label: "Peak flow", unit: "L/min", format: "%.0f", get: func(f FiguresJSON) float64 { return f.PeakFlowLMin }},
-	{id: "end_inspiratory_pressure_cmh2o", label: "End-insp.", unit: "cmH2O", format: "%.1f", get: func(f FiguresJSON) float64 { return f.EndInspiratoryPressureCmH2O }},
-	{id: "trapped_ml", label: "Trapped gas", unit: "mL", format: "%.0f", get: func(f FiguresJSON) float64 { return f.TrappedVolumeML }},
-	{id: "fio2", label: "FiO2 (est.)", format: "%.2f", get: func(f FiguresJSON) float64 { return f.FiO2 }},
+	{id: "minute_ventilation_l_min", label: "Minute vent.", unit: "L/min", format: "%.1f", lung: func(l *LungFiguresJSON) float64 { return l.MinuteVentilationLMin }},
+	{id: "peak_flow_l_min", label: "Peak flow", unit: "L/min", format: "%.0f", lung: func(l *LungFiguresJSON) float64 { return l.PeakFlowLMin }},
+	{id: "end_inspiratory_pressure_cmh2o", label: "End-insp.", unit: "cmH2O", format: "%.1f", lung: func(l *LungFiguresJSON) float64 { return l.EndInspiratoryPressureCmH2O }},
+	{id: "trapped_ml", label: "Trapped gas", unit: "mL", format: "%.0f", lung: func(l *LungFiguresJSON) float64 { return l.TrappedVolumeML }},
+	{id: "fio2", label: "FiO2 (est.)", format: "%.2f", lung: func(l *LungFiguresJSON) float64 { return l.FiO2 }},
 	{id: "cylinder_minutes", label: "O2 to reserve", unit: "min", format: "%.0f", get: func(f FiguresJSON) float64 {
 		if f.CylinderMinutes == nil {
 			return 0
@@ -61,7 +64,7 @@ var figureRows = []rowSpec{
 			}
 			return "", false
 		}},
-	{id: "peak_torque_nm", label: "Crank torque", unit: "N m", format: "%.2f", get: func(f FiguresJSON) float64 { return f.PeakTorqueNm }},
+	{id: "peak_torque_nm", label: "Crank torque", unit: "N m", format: "%.2f", lung: func(l *LungFiguresJSON) float64 { return l.PeakTorqueNm }},
 }
 
 // DrivingNote explains the asterisk on the driving pressure's label.
@@ -69,17 +72,27 @@ const DrivingNote = "*driving pressure: plateau minus total PEEP (PEEP valve + i
 
 // FigureRows are the figures of one setting, and of a proposal beside it
 // when prop is not nil. The cylinder's row is left out when no cylinder
-// was entered.
+// was entered, and the lung's rows when the current setting's lung
+// figures are withheld (no lung explains the readings): what is left is
+// what the machine sets whatever the lung.
 func FigureRows(cur FiguresJSON, prop *FiguresJSON) []Row {
 	var rows []Row
 	for _, s := range figureRows {
 		if s.id == "cylinder_minutes" && !cur.CylinderEntered {
 			continue
 		}
-		r := Row{ID: s.id, Label: s.label, Unit: s.unit, Value: s.get(cur), Text: s.format1(cur)}
+		v, ok := s.value(cur)
+		if !ok {
+			continue
+		}
+		r := Row{ID: s.id, Label: s.label, Unit: s.unit, Value: v, Text: s.format1(cur, v)}
 		if prop != nil {
+			pv, pok := s.value(*prop)
+			if !pok {
+				continue
+			}
 			r.HasProposal = true
-			r.Proposed, r.ProposedText = s.get(*prop), s.format1(*prop)
+			r.Proposed, r.ProposedText = pv, s.format1(*prop, pv)
 			_, noNumber := s.noNumber(cur)
 			_, noNumberProp := s.noNumber(*prop)
 			if noNumber || noNumberProp {
@@ -94,6 +107,18 @@ func FigureRows(cur FiguresJSON, prop *FiguresJSON) []Row {
 	return rows
 }
 
+// value is the row's figure, false when it is the lung's and the lung's
+// figures are withheld.
+func (s rowSpec) value(f FiguresJSON) (float64, bool) {
+	if s.lung == nil {
+		return s.get(f), true
+	}
+	if f.LungFiguresJSON == nil {
+		return 0, false
+	}
+	return s.lung(f.LungFiguresJSON), true
+}
+
 func (s rowSpec) noNumber(f FiguresJSON) (string, bool) {
 	if s.text == nil {
 		return "", false
@@ -101,11 +126,11 @@ func (s rowSpec) noNumber(f FiguresJSON) (string, bool) {
 	return s.text(f)
 }
 
-func (s rowSpec) format1(f FiguresJSON) string {
+func (s rowSpec) format1(f FiguresJSON, v float64) string {
 	if t, ok := s.noNumber(f); ok {
 		return t
 	}
-	return fmt.Sprintf(s.format, s.get(f))
+	return fmt.Sprintf(s.format, v)
 }
 
 // signed prints a change with its sign at the row's precision; a change
@@ -157,4 +182,8 @@ func SettingRows(cur Setting, prop *Setting) []SettingRow {
 }
 
 // FigureRows are the plan's figures as rows.
-func (pl Plan) FigureRows() []Row { return FigureRows(figuresJSON(pl.Figures), nil) }
+func (pl Plan) FigureRows() []Row { return FigureRows(pl.FiguresJSON(), nil) }
+
+// FiguresJSON are the plan's figures as its JSON prints them (a plan
+// always has its lung's: the lung is the one it assumes).
+func (pl Plan) FiguresJSON() FiguresJSON { return figuresJSON(pl.Figures) }

@@ -229,7 +229,8 @@ func (p *handoverPanel) results() string {
 	p.lungLine(add, ck)
 	p.protocolOffer(add, j)
 	p.settingTable(add, j)
-	if ck.Unexplained() {
+	if j.LungFiguresJSON == nil {
+		// The lung's figures are withheld: there is none to show.
 		add(s.Error.Render("THE PATIENT GETS: NOT KNOWN (the readings cannot be explained)"))
 		if ck.Proposed != nil {
 			add(s.Section.Render("PROPOSED " + setup.AssumedLungLabel))

@@ -43,7 +43,7 @@ within 5 min are shown with a conflict note; the ward row is the one with the
 louder caution, whatever the order of --log.
 
 --json prints one object: "format" (crankside-history/3 for show,
-crankside-ward/2 for beds), "model_version", "program_version", then
+crankside-ward/3 for beds), "model_version", "program_version", then
 "beds" and "problems" (the damaged lines, as on stderr); each bed of show
 has "checks" (the newest shown), "checks_total" and "checks_not_shown".
 
