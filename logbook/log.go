@@ -24,8 +24,9 @@ const MaxRecordBytes = 256 << 10
 // full disk, a file-size limit) is cut back, under the lock, to the file's
 // length before it: no part of the record stays. A record that breaks the
 // rules the reader holds records to (recordProblem) is refused before the
-// file is opened. On error nothing earlier in the file is touched.
+// file is opened. The record is written as RecordVersion's writer writes it. On error nothing earlier in the file is touched.
 func AppendRecord(path string, rec setup.Record) error {
+	rec.WriterVersion = RecordVersion
 	if p := recordProblem(&rec); p != "" {
 		return fmt.Errorf("log %s: record NOT written (nothing was written): %s", path, p)
 	}

@@ -161,6 +161,8 @@ func decodeRecord(text []byte) (rec setup.Record, problem string) {
 	if p := keysProblem(text); p != "" {
 		return setup.Record{}, fmt.Sprintf(reasonRules, p)
 	}
+	version, _ := writerOf(&rec)
+	withRecomputed(&rec, version)
 	return rec, ""
 }
 

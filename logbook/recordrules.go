@@ -48,7 +48,14 @@ func recordProblem(r *setup.Record) string {
 	if r.Format != setup.RecordFormat {
 		return fmt.Sprintf("format %s is not %s", strconv.QuoteToASCII(r.Format), setup.RecordFormat)
 	}
+	version, p := writerOf(r)
+	if p != "" {
+		return p
+	}
 	if m := missingFromRecord(*r); m != "" {
+		return "lacks " + m
+	}
+	if m := writerLacks(r, version); m != "" {
 		return "lacks " + m
 	}
 	if setup.CheckBedLabel(r.Bed) != nil {
@@ -74,7 +81,7 @@ func recordProblem(r *setup.Record) string {
 	if p := figuresProblem(r); p != "" {
 		return p
 	}
-	return cautionsProblem(r)
+	return cautionsProblem(r, version)
 }
 
 func outside(v, lo, hi float64) bool { return math.IsNaN(v) || v < lo || v > hi }
@@ -150,8 +157,10 @@ func figuresProblem(r *setup.Record) string {
 // (tidal volume, predicted pressures, intrinsic PEEP, rate, the manometer
 // readings, unexplained readings) and refuses the record when it lacks
 // one of them at its level or above: its level is then not its figures'.
-// Each recorded caution's level, value and limit must be sound too.
-func cautionsProblem(r *setup.Record) string {
+// Only what the record's writer version always wrote is required
+// (writerCautions). Each recorded caution's level, value and limit must be
+// sound too.
+func cautionsProblem(r *setup.Record, version int) string {
 	all := r.Cautions
 	if r.Proposed != nil {
 		all = append(append([]setup.Caution(nil), all...), r.Proposed.Cautions...)
@@ -164,7 +173,7 @@ func cautionsProblem(r *setup.Record) string {
 			return fmt.Sprintf("caution %s has a value or limit beyond %s", strconv.QuoteToASCII(c.ID), physiology.PlainNumber(recordMaxMagnitude))
 		}
 	}
-	for _, want := range figureCautions(r) {
+	for _, want := range writerCautions(version, figureCautions(r)) {
 		if got := recordLevelOf(r.Cautions, want.ID); got < want.Level {
 			have := "none"
 			if got != 0 {

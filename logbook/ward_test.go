@@ -42,7 +42,9 @@ func restamp(rec setup.Record, bed string, when time.Time, rpm float64, level se
 	return rec
 }
 
+// recordLine is rec as this program's writer writes it (its version).
 func recordLine(t testing.TB, rec setup.Record) string {
+	rec.WriterVersion = logbook.RecordVersion
 	b, err := json.Marshal(rec)
 	require.NoError(t, err)
 	return string(b)

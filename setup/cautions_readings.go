@@ -42,9 +42,9 @@ func fitCautions(rd *physiology.Readings, m *physiology.Mechanics, reliefCmH2O, 
 		switch {
 		case m != nil && m.RAtLeast:
 			told = fmt.Sprintf("what the readings still tell: compliance %s mL/cmH2O from the end pressure, and a resistance of at least %s cmH2O/(L/s) (the peak cannot tell more)",
-				sig2(m.ComplianceMLPerCmH2O), sig2(m.ResistanceCmH2OPerLS))
+				Sig2(m.ComplianceMLPerCmH2O), Sig2(m.ResistanceCmH2OPerLS))
 		case m != nil:
-			told = fmt.Sprintf("what the readings still tell: compliance %s mL/cmH2O from the end pressure alone (the resistance is assumed; the peak cannot tell it)", sig2(m.ComplianceMLPerCmH2O))
+			told = fmt.Sprintf("what the readings still tell: compliance %s mL/cmH2O from the end pressure alone (the resistance is assumed; the peak cannot tell it)", Sig2(m.ComplianceMLPerCmH2O))
 		}
 		out = append(out, Caution{ID: "measured-peak-at-relief", Level: Stop, Value: rd.PeakCmH2O, Limit: reliefCmH2O, Unit: "cmH2O",
 			Message: fmt.Sprintf("the manometer reads a peak of %.1f cmH2O, within half a %s cmH2O step of this machine's relief valve at %s: the relief valve is venting: the breath is pressure-limited; the patient gets less than the hole delivers; %s",

@@ -106,7 +106,7 @@ func runCheckWithStep(req CheckRequest, p profiles.Profile) (Check, error) {
 		if stepEv != nil {
 			ck.ProposalFrom = ProposalFromStep
 		}
-	case sameSetting(hand.Apply(req.Setting), res.Proposed) && stepEv != nil:
+	case SameSetting(hand.Apply(req.Setting), res.Proposed) && stepEv != nil:
 		// The same setting: the step's evaluation also carries what the
 		// machine's reach did to the step (a rate it cannot reach).
 		ck.Proposed, ck.Differences = stepEv, stepDiff
@@ -117,8 +117,8 @@ func runCheckWithStep(req CheckRequest, p profiles.Profile) (Check, error) {
 	return ck, nil
 }
 
-// sameSetting compares two settings to well below any step of a dial.
-func sameSetting(a, b Setting) bool {
+// SameSetting compares two settings to well below any step of a dial.
+func SameSetting(a, b Setting) bool {
 	near := func(x, y float64) bool { return math.Abs(x-y) < 1e-6 }
 	return a.Hole == b.Hole && near(a.RPM, b.RPM) && near(a.DwellS, b.DwellS) &&
 		near(a.PEEPCmH2O, b.PEEPCmH2O) && near(a.O2LPerMin, b.O2LPerMin)
@@ -130,7 +130,7 @@ func sameSetting(a, b Setting) bool {
 // ok is false when the check has no step or the step changes nothing.
 func StepEntries(ck Check) (e Entries, ok bool) {
 	st := ck.Protocol
-	if st == nil || sameSetting(st.Proposed, ck.Current.Setting) {
+	if st == nil || SameSetting(st.Proposed, ck.Current.Setting) {
 		return nil, false
 	}
 	num := func(v float64) string { return strconv.FormatFloat(r4(v), 'f', -1, 64) }

@@ -9,6 +9,7 @@ import (
 
 	"crankside/physiology"
 	"crankside/profiles"
+	"crankside/report"
 	"crankside/setup"
 )
 
@@ -99,7 +100,7 @@ func TestClearanceDefaultIsSaid(t *testing.T) {
 	require.True(t, has(pl, "clearance-default", setup.Note))
 	require.True(t, pl.JSON().ClearanceDefaulted)
 	var b strings.Builder
-	require.NoError(t, pl.WriteText(&b))
+	require.NoError(t, report.PlanText(&b, pl))
 	require.Contains(t, b.String(), "DEFAULT: not in the profile")
 }
 
@@ -172,7 +173,7 @@ func TestFitRangesFromTheManometerStep(t *testing.T) {
 	require.NotNil(t, j.DeliveredVtRangeML)
 	require.Equal(t, setup.PatientEffortNote, j.PatientEffortNote)
 	var b strings.Builder
-	require.NoError(t, ck.WriteText(&b))
+	require.NoError(t, report.CheckText(&b, ck))
 	require.Contains(t, b.String(), "patient passive")
 	require.NotContains(t, b.String(), "C 50.", "the fitted lung is not shown to decimals")
 }

@@ -8,6 +8,7 @@ import (
 	"github.com/stretchr/testify/require"
 
 	"crankside/physiology"
+	"crankside/report"
 	"crankside/setup"
 )
 
@@ -38,7 +39,7 @@ func TestPlanOxygenAboveTheFlowmeter(t *testing.T) {
 	require.InDelta(t, 15, c.Limit, 1e-9)
 	require.Contains(t, c.Message, "at 15 L/min the FiO2 reaches only 0.76")
 	require.Contains(t, c.Source, "this machine's profile", "demo-a gives its flowmeter")
-	require.Equal(t, "STOP: DO NOT USE THIS SETTING (o2-flow-above-flowmeter)", setup.SettingHeading(pl.Cautions, "SET THE MACHINE"))
+	require.Equal(t, "STOP: DO NOT USE THIS SETTING (o2-flow-above-flowmeter)", report.SettingHeading(pl.Cautions, "SET THE MACHINE"))
 	// The same plan at FiO2 0.7 needs 0.49 / 0.79 x 21.68 = 13.45 L/min:
 	// inside the flowmeter (derived).
 	pl, err = setup.MakePlan(setup.Request{Patient: setup.Patient{HeightCm: 200, Sex: physiology.Male},
@@ -82,7 +83,7 @@ func TestPlanForASmallPatientHasNoSuitableHole(t *testing.T) {
 	require.Equal(t, setup.Stop, c.Level)
 	require.Greater(t, c.Value, 8.0)
 	require.Contains(t, c.Message, "the smallest hole (1) gives")
-	require.True(t, strings.HasPrefix(setup.SettingHeading(pl.Cautions, "SET THE MACHINE"), "STOP"))
+	require.True(t, strings.HasPrefix(report.SettingHeading(pl.Cautions, "SET THE MACHINE"), "STOP"))
 	h := cautionOf(pl.Cautions, "height-below-formula")
 	require.NotNil(t, h)
 	require.Contains(t, h.Message, "for adults")

@@ -289,6 +289,10 @@ type Record struct {
 	// SecondInitials are a second checker's, when a ward double-checks a
 	// change (written only when given).
 	SecondInitials string `json:"second_initials,omitempty"`
+	// WriterVersion is the version of the record rules its writer kept
+	// (package logbook's RecordVersion, stamped when the record is
+	// appended); 0, no "record" key, is a writer from before the key.
+	WriterVersion int `json:"record,omitempty"`
 	CheckJSON
 }
 
@@ -300,13 +304,16 @@ type recordHead struct {
 	Initials string    `json:"initials"`
 	// SecondInitials: see Record.
 	SecondInitials string `json:"second_initials,omitempty"`
+	// WriterVersion: see Record; after the bed, so that a reader finds
+	// format, time and bed first, as the first writers wrote them.
+	WriterVersion int `json:"record,omitempty"`
 }
 
 // MarshalJSON writes the record's own keys, then the check's as
 // CheckJSON writes them (its MarshalJSON would otherwise stand for the
 // whole record, since the check is embedded).
 func (r Record) MarshalJSON() ([]byte, error) {
-	head, err := json.Marshal(recordHead{Format: r.Format, Time: r.Time, Bed: r.Bed, Initials: r.Initials, SecondInitials: r.SecondInitials})
+	head, err := json.Marshal(recordHead{Format: r.Format, Time: r.Time, Bed: r.Bed, Initials: r.Initials, SecondInitials: r.SecondInitials, WriterVersion: r.WriterVersion})
 	if err != nil {
 		return nil, err
 	}

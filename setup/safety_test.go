@@ -10,6 +10,7 @@ import (
 
 	"crankside/logbook"
 	"crankside/physiology"
+	"crankside/report"
 	"crankside/setup"
 )
 
@@ -30,7 +31,7 @@ func TestProposalOnUnexplainedReadingsIsAStop(t *testing.T) {
 	require.Contains(t, c.Advice, "before any change is made")
 
 	var text bytes.Buffer
-	require.NoError(t, ck.WriteText(&text))
+	require.NoError(t, report.CheckText(&text, ck))
 	require.Contains(t, text.String(), "STOP proposal-on-assumed-lung")
 	require.NotContains(t, text.String(), "highest WARN)\n  WARN proposal-on-assumed-lung")
 
@@ -38,7 +39,7 @@ func TestProposalOnUnexplainedReadingsIsAStop(t *testing.T) {
 	require.NoError(t, err)
 	require.Equal(t, setup.Stop, setup.Highest(rec.Proposed.Cautions), "the record carries it")
 	var card bytes.Buffer
-	require.NoError(t, setup.WriteCard(&card, rec))
+	require.NoError(t, report.WriteCard(&card, rec))
 	require.Contains(t, strings.Join(strings.Fields(card.String()), " "), "STOP proposal-on-assumed-lung")
 }
 
@@ -126,9 +127,9 @@ func unexplainedRecord(t *testing.T, peak, end float64) setup.Record {
 // line says its highest caution and that it rests on the assumed lung.
 func TestHistoryAndProposalLinesCarryUnitsAndTheProposalsLevel(t *testing.T) {
 	rec := unexplainedRecord(t, 120, 100)
-	h := setup.HistoryLine(rec)
+	h := report.HistoryLine(rec)
 	require.Contains(t, h, "PEEP 5 cmH2O:", h)
-	p := setup.ProposalLine(rec)
+	p := report.ProposalLine(rec)
 	require.Contains(t, p, "hole 7, 21.0 rpm, dwell 1.4 s, PEEP 5 cmH2O:", p)
 	require.Contains(t, p, "highest STOP", p)
 	require.Contains(t, p, "(ASSUMED lung: readings unexplained)", p)
@@ -142,21 +143,21 @@ func TestHistoryAndProposalLinesCarryUnitsAndTheProposalsLevel(t *testing.T) {
 	require.NoError(t, err)
 	ok, err := setup.NewRecord(ck, "B4", "jk", today)
 	require.NoError(t, err)
-	p = setup.ProposalLine(ok)
+	p = report.ProposalLine(ok)
 	require.NotContains(t, p, "ASSUMED", p)
 	require.Contains(t, p, "PEEP 5 cmH2O:", p)
 	if len(ok.Proposed.Cautions) > 0 {
 		require.Contains(t, p, "highest "+setup.LevelWord(setup.Highest(ok.Proposed.Cautions)), p)
 	}
-	require.Contains(t, setup.HistoryLine(ok), "PEEP 5 cmH2O:")
+	require.Contains(t, report.HistoryLine(ok), "PEEP 5 cmH2O:")
 }
 
 // A ward line says which stop made the readings unexplained, so an
 // over-pressure and a disconnection do not read the same, and a proposal
 // with a stop says so.
 func TestWardLineNamesTheStopAndTheProposalsStop(t *testing.T) {
-	over := logbook.WardLine(logbook.NewWardRow(unexplainedRecord(t, 120, 100), "w.jsonl", today.Add(30*time.Minute), setup.DefaultCheckEvery))
-	disc := logbook.WardLine(logbook.NewWardRow(unexplainedRecord(t, 15, 3), "w.jsonl", today.Add(30*time.Minute), setup.DefaultCheckEvery))
+	over := report.WardLine(logbook.NewWardRow(unexplainedRecord(t, 120, 100), "w.jsonl", today.Add(30*time.Minute), setup.DefaultCheckEvery))
+	disc := report.WardLine(logbook.NewWardRow(unexplainedRecord(t, 15, 3), "w.jsonl", today.Add(30*time.Minute), setup.DefaultCheckEvery))
 	// The first stop of each (MHRA RMVS001 2020: high pressure above 40;
 	// pressure not reached, disconnection), in a few words with the reading.
 	require.Contains(t, over, "(peak 120 cmH2O above 40)", over)

@@ -12,6 +12,7 @@ import (
 
 	"crankside/logbook"
 	"crankside/physiology"
+	"crankside/report"
 	"crankside/setup"
 )
 
@@ -158,8 +159,8 @@ func TestUnexplainedRecordRoundTripCard(t *testing.T) {
 	require.Len(t, recs, 1)
 
 	var mem, back bytes.Buffer
-	require.NoError(t, setup.WriteCard(&mem, rec))
-	require.NoError(t, setup.WriteCard(&back, recs[0]))
+	require.NoError(t, report.WriteCard(&mem, rec))
+	require.NoError(t, report.WriteCard(&back, recs[0]))
 	require.Equal(t, mem.String(), back.String())
 	card := back.String()
 	lines := strings.Split(card, "\n")
@@ -174,16 +175,16 @@ func TestUnexplainedRecordRoundTripCard(t *testing.T) {
 	require.NotContains(t, card[:j], "Tidal vol.", "no volume is shown for the current setting")
 	require.Equal(t, 1, strings.Count(card, "Tidal vol."), "only the proposal's")
 	for _, l := range lines {
-		require.LessOrEqual(t, len(l), setup.CardWidth, l)
+		require.LessOrEqual(t, len(l), report.CardWidth, l)
 	}
-	require.Contains(t, setup.HistoryLine(recs[0]), "readings unexplained")
-	require.NotContains(t, setup.HistoryLine(recs[0]), " 0 mL")
+	require.Contains(t, report.HistoryLine(recs[0]), "readings unexplained")
+	require.NotContains(t, report.HistoryLine(recs[0]), " 0 mL")
 }
 
 func TestUnexplainedCheckText(t *testing.T) {
 	ck := unexplainedCheck(t, false)
 	var b bytes.Buffer
-	require.NoError(t, ck.WriteText(&b))
+	require.NoError(t, report.CheckText(&b, ck))
 	out := b.String()
 	lines := strings.Split(out, "\n")
 	require.True(t, strings.HasPrefix(lines[1], "STOP  THE READINGS CANNOT BE EXPLAINED: "+ck.FitProblem), lines[1])
@@ -200,7 +201,7 @@ func TestPlanTextNamesTheFirstStop(t *testing.T) {
 		Targets: setup.Targets{MLPerKg: 9.5, ComplianceMLPerCmH2O: 12}, Now: today}, profile(t, "demo-a"))
 	require.NoError(t, err)
 	var b bytes.Buffer
-	require.NoError(t, pl.WriteText(&b))
+	require.NoError(t, report.PlanText(&b, pl))
 	first := setup.FirstStop(pl.Cautions)
 	require.NotNil(t, first)
 	require.Contains(t, b.String(), "STOP  "+first.ID+": "+first.Message)
@@ -239,7 +240,7 @@ func TestUnexplainedCardGolden(t *testing.T) {
 	rec, err := setup.NewRecord(unexplainedCheck(t, true), "B4", "jk", today)
 	require.NoError(t, err)
 	var b bytes.Buffer
-	require.NoError(t, setup.WriteCard(&b, rec))
+	require.NoError(t, report.WriteCard(&b, rec))
 	path := filepath.Join("testdata", "card-unexplained.golden")
 	if *update {
 		require.NoError(t, os.WriteFile(path, b.Bytes(), 0o644))

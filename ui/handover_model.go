@@ -11,6 +11,7 @@ import (
 
 	"crankside/logbook"
 	"crankside/profiles/safetext"
+	"crankside/report"
 	"crankside/setup"
 )
 
@@ -192,7 +193,7 @@ func (m *Model) card() {
 		title = "Handover card, as recorded at " + m.recordedAt
 	}
 	var b strings.Builder
-	setup.WriteCard(&b, rec)
+	report.WriteCard(&b, rec)
 	// The card is the printed text; on the screen its level words are
 	// coloured as everywhere else.
 	lines := strings.Split(b.String(), "\n")
@@ -238,8 +239,8 @@ func (m *Model) showHistory(msg historyMsg) {
 			l = append(l, s.Label.Render(fmt.Sprintf("%d check%s, newest first (up/down, PgUp/PgDn scroll)", n, plural(n))))
 		}
 		for _, e := range msg.history.Entries {
-			l = append(l, s.withLevels(safetext.Escape(setup.HistoryLine(e.Record)), s.Value))
-			if p := setup.ProposalLine(e.Record); p != "" {
+			l = append(l, s.withLevels(safetext.Escape(report.HistoryLine(e.Record)), s.Value))
+			if p := report.ProposalLine(e.Record); p != "" {
 				l = append(l, s.withLevels("    proposed: "+safetext.Escape(p), s.Label))
 			}
 			if len(e.Changes) > 0 {

@@ -3,12 +3,14 @@ package cli
 import (
 	"errors"
 	"fmt"
+	"io"
 	"os"
 	"strings"
 	"time"
 
 	"crankside/profiles"
 	"crankside/profiles/safetext"
+	"crankside/report"
 	"crankside/setup"
 )
 
@@ -87,7 +89,7 @@ func runCalibrate(env Env) int {
 	if asJSON() {
 		return writeJSON(env, setup.FormatCalibrationJSON, res.JSON(write()))
 	}
-	if status := writeText(env, "calibrate", res.WriteText); status != ExitOK {
+	if status := writeText(env, "calibrate", func(w io.Writer) error { return report.CalibrationText(w, res) }); status != ExitOK {
 		return status
 	}
 	if write() {

@@ -9,6 +9,7 @@ import (
 	"crankside/logbook"
 	"crankside/physiology"
 	"crankside/profiles/safetext"
+	"crankside/report"
 	"crankside/setup"
 )
 
@@ -194,8 +195,8 @@ func writeHistory(w io.Writer, hist []logbook.BedHistory, bed string, manyLogs b
 			fmt.Fprintf(&b, "Bed %s: %d check(s), newest first\n", h.Bed, n)
 		}
 		for _, e := range h.Entries {
-			fmt.Fprintf(&b, "  %s\n", setup.HistoryLine(e.Record))
-			if p := setup.ProposalLine(e.Record); p != "" {
+			fmt.Fprintf(&b, "  %s\n", report.HistoryLine(e.Record))
+			if p := report.ProposalLine(e.Record); p != "" {
 				fmt.Fprintf(&b, "      proposed: %s\n", p)
 			}
 			if len(e.Changes) > 0 {
@@ -256,7 +257,7 @@ func writeBeds(w io.Writer, rows []logbook.WardRow, every time.Duration, manyLog
 	var b strings.Builder
 	fmt.Fprintf(&b, "%d bed(s), most urgent first; OVERDUE after %g h (%s)\n", len(rows), every.Hours(), setup.CheckEverySource)
 	for _, r := range rows {
-		b.WriteString(logbook.WardLine(r))
+		b.WriteString(report.WardLine(r))
 		if manyLogs {
 			b.WriteString("  [" + r.Source + "]")
 		}
