@@ -124,7 +124,8 @@ func genScanLogs(t *testing.T, rng *rand.Rand, dir string, base setup.Record) []
 func rowText(rows []WardRow) []string {
 	var out []string
 	for _, r := range rows {
-		out = append(out, fmt.Sprintf("%s [%s] checked %s future %s %s", WardLine(r), r.Source, r.CheckedAt, r.FutureAt, r.FutureLog))
+		out = append(out, fmt.Sprintf("%s at %s from %s: %s %g rpm level %v proposed %v overdue %v; %s; future %s %s",
+			r.Bed, r.CheckedAt, r.Source, r.Hole, r.MotorRPM, r.HighestLevel, r.Proposed, r.Overdue, r.Conflict, r.FutureAt, r.FutureLog))
 	}
 	sort.Strings(out)
 	return out
