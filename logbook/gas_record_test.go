@@ -29,7 +29,7 @@ func gasCheck(t *testing.T, gas setup.Entries) setup.Check {
 	return ck
 }
 
-func gasCautionOf(cs []setup.Caution, id string) *setup.Caution {
+func gasCautionOf(cs []setup.Caution, id setup.CautionID) *setup.Caution {
 	for i := range cs {
 		if cs[i].ID == id {
 			return &cs[i]

@@ -64,11 +64,11 @@ type wardRowJSON struct {
 	// The patient's own numbers at that check: the gas and oximeter
 	// readings, their cautions, and the oxygenation indices (null, and
 	// an empty list, when none was entered).
-	GasReadings  *setup.GasReadingsJSON `json:"gas_readings"`
-	GasCautions  []setup.Caution        `json:"gas_cautions"`
-	PFRatio      *float64               `json:"pf_ratio"`
-	SFRatio      *float64               `json:"sf_ratio"`
-	ARDSSeverity *string                `json:"ards_severity"`
+	GasReadings  *setup.GasReadings `json:"gas_readings"`
+	GasCautions  []setup.Caution    `json:"gas_cautions"`
+	PFRatio      *float64           `json:"pf_ratio"`
+	SFRatio      *float64           `json:"sf_ratio"`
+	ARDSSeverity *string            `json:"ards_severity"`
 }
 
 // MarshalJSON writes the row with snake_case keys; checked_at is RFC 3339

@@ -33,7 +33,7 @@ func (w *reportWriter) line(format string, args ...any) {
 // instruction when the setting has a stop.
 func SettingHeading(cs []setup.Caution, instruction string) string {
 	if s := setup.FirstStop(cs); s != nil {
-		return "STOP: DO NOT USE THIS SETTING (" + s.ID + ")"
+		return "STOP: DO NOT USE THIS SETTING (" + string(s.ID) + ")"
 	}
 	return instruction
 }
@@ -42,7 +42,7 @@ func SettingHeading(cs []setup.Caution, instruction string) string {
 // must not be used; "" without a stop.
 func StopLine(cs []setup.Caution) string {
 	if s := setup.FirstStop(cs); s != nil {
-		return "STOP  " + s.ID + ": " + s.Message
+		return "STOP  " + string(s.ID) + ": " + s.Message
 	}
 	return ""
 }
@@ -68,7 +68,7 @@ func (w *reportWriter) checkBody(j setup.CheckJSON) {
 	if j.Unexplained() {
 		w.line("%s", UnexplainedLine(j.FitProblem))
 	}
-	if s := setup.FirstStop(j.Cautions); s != nil && s.ID != "readings-unexplained" {
+	if s := setup.FirstStop(j.Cautions); s != nil && s.ID != setup.CautionReadingsUnexplained {
 		w.line("%s", StopLine(j.Cautions))
 	}
 	if line := setup.ConversionLine(j.EntriesConverted); line != "" {

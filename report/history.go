@@ -74,23 +74,16 @@ func ProposalLine(r setup.Record) string {
 // "" when only the unexplained stop was raised.
 func UnexplainedReason(cs []setup.Caution) string {
 	for _, c := range cs {
-		if c.Level != setup.Stop || c.ID == "readings-unexplained" {
+		if c.Level != setup.Stop || c.ID == setup.CautionReadingsUnexplained {
 			continue
 		}
-		v, lim := plain(c.Value), plain(c.Limit)
 		switch c.ID {
-		case "measured-peak-high":
-			return "peak " + v + " cmH2O above " + lim
-		case "measured-peak-above-relief":
-			return "peak " + v + " cmH2O above relief " + lim
-		case "measured-end-at-or-below-peep":
-			return "end " + v + " cmH2O at or below PEEP"
-		case "measured-peak-below-end":
-			return "peak " + v + " below end " + lim + " cmH2O"
-		case "readings-not-numbers":
-			return "a reading is not a number"
+		case setup.CautionMeasuredPeakHigh, setup.CautionMeasuredPeakAboveRelief, setup.CautionMeasuredEndAtOrBelowPEEP,
+			setup.CautionMeasuredPeakBelowEnd, setup.CautionReadingsNotNumbers:
+			r, _ := setup.CautionRuleOf(c.ID)
+			return r.Ward(c)
 		}
-		return c.ID
+		return string(c.ID)
 	}
 	return ""
 }

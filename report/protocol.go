@@ -18,7 +18,7 @@ const StepHeading = "THE STEP ON THIS MACHINE"
 
 // GasLine is the gas and oximeter entries on one line, each not taken said
 // so.
-func GasLine(g setup.GasReadingsJSON) string {
+func GasLine(g setup.GasReadings) string {
 	one := func(name string, v *float64, unit string, digits int) string {
 		if v == nil {
 			return name + " not taken"

@@ -29,10 +29,6 @@ const (
 	ProposalEntered = "entered"
 )
 
-// Empty reports whether no gas or oximeter reading was entered; the
-// apparatus dead space alone is not a reading.
-func (g GasReadings) Empty() bool { return g.physiology().Empty() }
-
 // unexplainedNoStep is why a check whose readings no lung explains has no
 // protocol step: the plateau rule would act on an assumed plateau while
 // the manometer says something else is going on.
@@ -141,32 +137,10 @@ func StepEntries(ck Check) (e Entries, ok bool) {
 	}, true
 }
 
-// GasReadingsJSON are the gas and oximeter entries of a check; null when
-// not entered.
-type GasReadingsJSON struct {
-	SpO2Pct              *float64 `json:"spo2_pct"`
-	PaO2MmHg             *float64 `json:"pao2_mmhg"`
-	PH                   *float64 `json:"ph"`
-	PaCO2MmHg            *float64 `json:"paco2_mmhg"`
-	ApparatusDeadSpaceML *float64 `json:"apparatus_dead_space_ml"`
-}
-
-func gasReadingsJSON(g GasReadings) *GasReadingsJSON {
-	cp := func(v *float64) *float64 {
-		if v == nil {
-			return nil
-		}
-		x := r4(*v)
-		return &x
-	}
-	return &GasReadingsJSON{SpO2Pct: cp(g.SpO2Pct), PaO2MmHg: cp(g.PaO2MmHg), PH: cp(g.PH), PaCO2MmHg: cp(g.PaCO2MmHg),
-		ApparatusDeadSpaceML: cp(g.ApparatusDeadSpaceML)}
-}
-
 // protocolJSON fills the check's JSON with the readings and the step.
 func (ck Check) protocolJSON(j *CheckJSON) {
 	if ck.BloodGas != nil {
-		j.GasReadings = gasReadingsJSON(*ck.BloodGas)
+		j.GasReadings = roundedGas(*ck.BloodGas)
 	}
 	j.OxygenationJSON = ck.Oxygenation
 	j.ProtocolProblem, j.ProposalFrom = ck.ProtocolProblem, ck.ProposalFrom

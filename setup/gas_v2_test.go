@@ -97,7 +97,7 @@ func TestClearanceDefaultIsSaid(t *testing.T) {
 	p.Defaults = append(p.Defaults, "cylinder.clearance_cm")
 	pl, err := setup.MakePlan(setup.Request{Patient: setup.Patient{HeightCm: 170, Sex: physiology.Female}, Now: today}, p)
 	require.NoError(t, err)
-	require.True(t, has(pl, "clearance-default", setup.Note))
+	require.True(t, has(pl, setup.CautionClearanceDefault, setup.Note))
 	require.True(t, pl.JSON().ClearanceDefaulted)
 	var b strings.Builder
 	require.NoError(t, report.PlanText(&b, pl))
@@ -134,7 +134,7 @@ func TestReliefLimitedBreathInAPlan(t *testing.T) {
 	require.Greater(t, f.ReliefVentedML, 0.0)
 	var c *setup.Caution
 	for i := range ck.Current.Cautions {
-		if ck.Current.Cautions[i].ID == "peak-above-relief" {
+		if ck.Current.Cautions[i].ID == setup.CautionPeakAboveRelief {
 			c = &ck.Current.Cautions[i]
 		}
 	}
@@ -188,7 +188,7 @@ func TestARangeAcrossALimitIsSaid(t *testing.T) {
 	pr := ck.Ranges.PlateauCmH2O
 	require.Less(t, pr[0], 30.0, "%v", pr)
 	require.Greater(t, pr[1], 30.0, "%v", pr)
-	require.True(t, hasCaution(ck.Current.Cautions, "range-crosses-plateau-30"))
+	require.True(t, hasCaution(ck.Current.Cautions, setup.CautionRangeCrossesPlateau30))
 }
 
 func TestCalibrateFitsTheLeakOnlyWhenTheBenchAllows(t *testing.T) {

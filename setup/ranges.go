@@ -208,20 +208,22 @@ func rangeCautions(fr *FitRanges, f Figures, pbw float64) []Caution {
 		return nil
 	}
 	var out []Caution
-	cross := func(id, what string, r [2]float64, open [2]bool, limit float64, unit, src string) {
-		if (r[0] < limit || open[0]) && (r[1] > limit || open[1]) {
-			out = append(out, Caution{ID: id, Level: Warn, Value: r[1], Limit: limit, Unit: unit,
+	cross := func(id CautionID, what string, r [2]float64, open [2]bool) {
+		rule := cautionRule(id)
+		l := rule.Limits[0]
+		if (r[0] < l.Value || open[0]) && (r[1] > l.Value || open[1]) {
+			out = append(out, Caution{ID: id, Level: l.Level, Value: r[1], Limit: l.Value, Unit: l.Unit,
 				Message: fmt.Sprintf("within the manometer's %s cmH2O step the %s may be %s %s, across the limit of %s",
-					plain(fr.StepCmH2O.Value), what, RangeText(r, open, Sig2), unit, plain(limit)),
+					plain(fr.StepCmH2O.Value), what, RangeText(r, open, Sig2), l.Unit, plain(l.Value)),
 				Advice: "re-read the manometer more finely or measure a plateau (hold at end of inspiration) before relying on the fit",
-				Source: src + "; range from the manometer's resolution"})
+				Source: rule.Source})
 		}
 	}
-	cross("range-crosses-vt-8", "tidal volume", fr.MLPerKg, fr.OpenVt, VtWarnMLPerKg, "mL/kg PBW", srcARDSNet)
-	cross("range-crosses-vt-10", "tidal volume", fr.MLPerKg, fr.OpenVt, VtStopMLPerKg, "mL/kg PBW", srcARDSNet)
-	cross("range-crosses-vt-4", "tidal volume", fr.MLPerKg, fr.OpenVt, VtLowMLPerKg, "mL/kg PBW", srcARDSNet)
-	cross("range-crosses-plateau-30", "plateau pressure", fr.PlateauCmH2O, fr.OpenPlateau, PlateauMaxCmH2O, "cmH2O", srcARDSNet)
-	cross("range-crosses-plateau-35", "plateau pressure", fr.PlateauCmH2O, fr.OpenPlateau, PlateauStopCmH2O, "cmH2O", srcMHRA)
+	cross(CautionRangeCrossesVt8, "tidal volume", fr.MLPerKg, fr.OpenVt)
+	cross(CautionRangeCrossesVt10, "tidal volume", fr.MLPerKg, fr.OpenVt)
+	cross(CautionRangeCrossesVt4, "tidal volume", fr.MLPerKg, fr.OpenVt)
+	cross(CautionRangeCrossesPlateau30, "plateau pressure", fr.PlateauCmH2O, fr.OpenPlateau)
+	cross(CautionRangeCrossesPlateau35, "plateau pressure", fr.PlateauCmH2O, fr.OpenPlateau)
 	return out
 }
 

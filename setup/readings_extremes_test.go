@@ -14,7 +14,7 @@ import (
 	"crankside/setup"
 )
 
-func cautionByID(cs []setup.Caution, id string) *setup.Caution {
+func cautionByID(cs []setup.Caution, id setup.CautionID) *setup.Caution {
 	for i := range cs {
 		if cs[i].ID == id {
 			return &cs[i]
@@ -33,7 +33,7 @@ func TestLowReadingsSuggestALeak(t *testing.T) {
 		r.Readings = &physiology.Readings{PeakCmH2O: 12, EndCmH2O: 9}
 	})
 	require.NotNil(t, ck.Fitted)
-	c := cautionByID(ck.Current.Cautions, "readings-suggest-leak")
+	c := cautionByID(ck.Current.Cautions, setup.CautionReadingsSuggestLeak)
 	require.NotNil(t, c)
 	require.Greater(t, ck.Fitted.ComplianceMLPerCmH2O, 150.0, "the issue saw C 160.8")
 	require.Equal(t, setup.Stop, c.Level)
@@ -83,7 +83,7 @@ func TestPeakAtTheReliefValve(t *testing.T) {
 	require.Empty(t, ck.FitProblem)
 	require.NotNil(t, ck.Fitted)
 	require.True(t, ck.Fitted.EndOnly)
-	c := cautionByID(ck.Current.Cautions, "measured-peak-at-relief")
+	c := cautionByID(ck.Current.Cautions, setup.CautionMeasuredPeakAtRelief)
 	require.NotNil(t, c)
 	require.Equal(t, setup.Stop, c.Level)
 	require.InDelta(t, 40, c.Limit, 0, "this machine's profile: relief 40 cmH2O")
@@ -122,7 +122,7 @@ func TestLeakyProfileIsAStop(t *testing.T) {
 	p.Circuit.LeakLMinAt20CmH2O = 30
 	pl, err := setup.MakePlan(setup.Request{Patient: setup.Patient{HeightCm: 175, Sex: physiology.Male}, Now: today}, p)
 	require.NoError(t, err)
-	c := cautionByID(pl.Cautions, "leak-share-of-stroke")
+	c := cautionByID(pl.Cautions, setup.CautionLeakShareOfStroke)
 	require.NotNil(t, c)
 	require.Equal(t, setup.Stop, c.Level)
 	require.InDelta(t, 30, c.Limit, 0)
@@ -132,5 +132,5 @@ func TestLeakyProfileIsAStop(t *testing.T) {
 	p.Circuit.LeakLMinAt20CmH2O = 0
 	pl, err = setup.MakePlan(setup.Request{Patient: setup.Patient{HeightCm: 175, Sex: physiology.Male}, Now: today}, p)
 	require.NoError(t, err)
-	require.Nil(t, cautionByID(pl.Cautions, "leak-share-of-stroke"))
+	require.Nil(t, cautionByID(pl.Cautions, setup.CautionLeakShareOfStroke))
 }

@@ -25,7 +25,7 @@ func TestProposalOnUnexplainedReadingsIsAStop(t *testing.T) {
 	require.Equal(t, setup.Stop, setup.Highest(ck.Proposed.Cautions))
 	c := setup.FirstStop(ck.Proposed.Cautions)
 	require.NotNil(t, c)
-	require.Equal(t, "proposal-on-assumed-lung", c.ID)
+	require.Equal(t, setup.CautionProposalOnAssumedLung, c.ID)
 	require.Contains(t, c.Message, "120/100 cmH2O", "the readings at the current setting")
 	require.Contains(t, c.Message, "ASSUMED lung")
 	require.Contains(t, c.Advice, "before any change is made")
@@ -52,7 +52,7 @@ func TestProposalOnExplainedReadingsHasNoAssumedLungStop(t *testing.T) {
 	ck, err := setup.RunCheck(req, profile(t, "demo-a"))
 	require.NoError(t, err)
 	require.Empty(t, ck.FitProblem)
-	_, ok := ids(ck.Proposed.Cautions)["proposal-on-assumed-lung"]
+	_, ok := ids(ck.Proposed.Cautions)[setup.CautionProposalOnAssumedLung]
 	require.False(t, ok)
 }
 
@@ -60,8 +60,8 @@ func TestProposalOnExplainedReadingsHasNoAssumedLungStop(t *testing.T) {
 // predicts for a setting (volume, pressures, trapped gas, ventilation,
 // torque): with unexplained readings they would judge the assumed lung,
 // not the patient (DESIGN.md: nothing is shown as what the patient gets).
-var lungFigureCautions = []string{"tidal-volume-high", "tidal-volume-low", "plateau-high", "driving-pressure-high",
-	"peak-above-relief", "peak-high", "intrinsic-peep", "minute-ventilation-low", "alveolar-ventilation-low", "torque-high"}
+var lungFigureCautions = []setup.CautionID{setup.CautionTidalVolumeHigh, setup.CautionTidalVolumeLow, setup.CautionPlateauHigh, setup.CautionDrivingPressureHigh,
+	setup.CautionPeakAboveRelief, setup.CautionPeakHigh, setup.CautionIntrinsicPEEP, setup.CautionMinuteVentilationLow, setup.CautionAlveolarVentilationLow, setup.CautionTorqueHigh}
 
 func TestUnexplainedCurrentCautionsDropTheAssumedLungsFigures(t *testing.T) {
 	// A 150 cm woman (PBW 42.7 kg) on hole 8: on the assumed lung the hole
@@ -73,7 +73,7 @@ func TestUnexplainedCurrentCautionsDropTheAssumedLungsFigures(t *testing.T) {
 	explained.ComplianceMLPerCmH2O = 60
 	ck, err := setup.RunCheck(explained, profile(t, "demo-a"))
 	require.NoError(t, err)
-	require.Contains(t, ids(ck.Current.Cautions), "tidal-volume-high", "control: the assumed lung's volume caution without readings")
+	require.Contains(t, ids(ck.Current.Cautions), setup.CautionTidalVolumeHigh, "control: the assumed lung's volume caution without readings")
 
 	req.Readings = &physiology.Readings{PeakCmH2O: 120, EndCmH2O: 100}
 	ck, err = setup.RunCheck(req, profile(t, "demo-a"))
@@ -85,10 +85,10 @@ func TestUnexplainedCurrentCautionsDropTheAssumedLungsFigures(t *testing.T) {
 	}
 	// Kept: the readings' own stops, the unexplained stop, and what does
 	// not depend on the lung (the patient's height, the calibration).
-	for _, id := range []string{"measured-peak-high", "measured-peak-above-relief", "readings-unexplained", "height-below-formula", "calibration-missing"} {
+	for _, id := range []setup.CautionID{setup.CautionMeasuredPeakHigh, setup.CautionMeasuredPeakAboveRelief, setup.CautionReadingsUnexplained, setup.CautionHeightBelowFormula, setup.CautionCalibrationMissing} {
 		require.Contains(t, got, id)
 	}
-	require.Equal(t, "measured-peak-high", setup.FirstStop(ck.Current.Cautions).ID)
+	require.Equal(t, setup.CautionMeasuredPeakHigh, setup.FirstStop(ck.Current.Cautions).ID)
 }
 
 // Lung-independent cautions stay with unexplained readings: a rate and
@@ -103,8 +103,8 @@ func TestUnexplainedKeepsTheSettingsOwnCautions(t *testing.T) {
 	require.NoError(t, err)
 	require.NotEmpty(t, ck.FitProblem)
 	got := ids(ck.Current.Cautions)
-	require.Contains(t, got, "peep-low")
-	require.Equal(t, setup.Warn, got["peep-low"])
+	require.Contains(t, got, setup.CautionPEEPLow)
+	require.Equal(t, setup.Warn, got[setup.CautionPEEPLow])
 }
 
 // unexplainedRecord is a record of demo-a hole 8 at 21 rpm, dwell 1.4 s,
