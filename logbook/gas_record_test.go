@@ -10,6 +10,7 @@ import (
 	"github.com/stretchr/testify/require"
 
 	"crankside/logbook"
+	"crankside/report"
 	"crankside/setup"
 )
 
@@ -28,7 +29,7 @@ func gasCheck(t *testing.T, gas setup.Entries) setup.Check {
 	return ck
 }
 
-func gasCautionOf(cs []setup.Caution, id string) *setup.Caution {
+func gasCautionOf(cs []setup.Caution, id setup.CautionID) *setup.Caution {
 	for i := range cs {
 		if cs[i].ID == id {
 			return &cs[i]
@@ -62,7 +63,7 @@ func TestABadGasIsAStopInTheRecordTheHistoryAndTheWard(t *testing.T) {
 	require.NoError(t, err)
 	require.Zero(t, sum.Damaged)
 	require.Len(t, hist, 1)
-	line := setup.HistoryLine(hist[0].Entries[0].Record)
+	line := report.HistoryLine(hist[0].Entries[0].Record)
 	require.Contains(t, line, "highest STOP")
 	require.Contains(t, line, "gas: STOP gas readings disagree, WARN pH 7.60 high")
 	// derived: SpO2 93 % / FiO2 0.21 (no bleed) = 442.9 -> 443, above 315.
@@ -74,7 +75,7 @@ func TestABadGasIsAStopInTheRecordTheHistoryAndTheWard(t *testing.T) {
 	require.Equal(t, setup.Stop, rows[0].HighestLevel)
 	// The plateau is in goal with Vt 6.6 above 6: the card's step towards
 	// 6 mL/kg PBW is proposed whatever the gas says (ARDS Network card).
-	require.Contains(t, logbook.WardLine(rows[0]), ": 6.6 mL/kg, STOP, change proposed; gas: STOP gas readings disagree")
+	require.Contains(t, report.WardLine(rows[0]), ": 6.6 mL/kg, STOP, change proposed; gas: STOP gas readings disagree")
 	b, err := json.Marshal(rows[0])
 	require.NoError(t, err)
 	var obj struct {
@@ -164,7 +165,7 @@ func TestTheWardRanksGasCautions(t *testing.T) {
 		order = append(order, r.Bed)
 	}
 	require.Equal(t, []string{"B9", "B2", "B3", "B1"}, order)
-	require.Contains(t, logbook.WardLine(rows[0]), "gas: STOP pH 7.10 low")
+	require.Contains(t, report.WardLine(rows[0]), "gas: STOP pH 7.10 low")
 }
 
 // The log's reader keeps the writer's gas rules: a record whose gas STOP

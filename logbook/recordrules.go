@@ -167,10 +167,10 @@ func cautionsProblem(r *setup.Record, version int) string {
 	}
 	for _, c := range all {
 		if c.Level < setup.Note || c.Level > setup.Stop {
-			return fmt.Sprintf("caution %s has no level", strconv.QuoteToASCII(c.ID))
+			return fmt.Sprintf("caution %s has no level", strconv.QuoteToASCII(string(c.ID)))
 		}
 		if math.Abs(c.Value) > recordMaxMagnitude || math.Abs(c.Limit) > recordMaxMagnitude {
-			return fmt.Sprintf("caution %s has a value or limit beyond %s", strconv.QuoteToASCII(c.ID), physiology.PlainNumber(recordMaxMagnitude))
+			return fmt.Sprintf("caution %s has a value or limit beyond %s", strconv.QuoteToASCII(string(c.ID)), physiology.PlainNumber(recordMaxMagnitude))
 		}
 	}
 	for _, want := range writerCautions(version, figureCautions(r)) {
@@ -186,7 +186,7 @@ func cautionsProblem(r *setup.Record, version int) string {
 }
 
 // recordLevelOf is the highest level of the cautions with that id, or 0.
-func recordLevelOf(cs []setup.Caution, id string) setup.Level {
+func recordLevelOf(cs []setup.Caution, id setup.CautionID) setup.Level {
 	var l setup.Level
 	for _, c := range cs {
 		if c.ID == id && c.Level > l {
@@ -197,11 +197,12 @@ func recordLevelOf(cs []setup.Caution, id string) setup.Level {
 }
 
 // figureCautions are the ids and levels the record's figures call for, as
-// assess and ReadingCautions judge them, each figure taken
-// recordFigureTol towards the calm side of its limit.
+// assess and ReadingCautions judge them (by the limits of setup's table of
+// cautions), each figure taken recordFigureTol towards the calm side of
+// its limit.
 func figureCautions(r *setup.Record) []setup.Caution {
 	var out []setup.Caution
-	add := func(id string, l setup.Level) { out = append(out, setup.Caution{ID: id, Level: l}) }
+	add := func(id setup.CautionID, l setup.Level) { out = append(out, setup.Caution{ID: id, Level: l}) }
 	if rd := r.Readings; rd != nil {
 		for _, c := range setup.ReadingCautions(physiology.Readings{PeakCmH2O: rd.PeakCmH2O, EndCmH2O: rd.EndCmH2O}, r.Setting.PEEPCmH2O, 0) {
 			add(c.ID, c.Level)
@@ -209,40 +210,21 @@ func figureCautions(r *setup.Record) []setup.Caution {
 	}
 	out = append(out, setup.RecordGasCautions(r)...)
 	if r.Unexplained() {
-		add("readings-unexplained", setup.Stop)
+		add(setup.CautionReadingsUnexplained, setup.Stop)
 		return out
 	}
-	const tol = recordFigureTol
-	mlkg := r.MLPerKg
-	switch {
-	case mlkg-tol >= setup.VtStopMLPerKg:
-		add("tidal-volume-high", setup.Stop)
-	case mlkg-tol > setup.VtWarnMLPerKg:
-		add("tidal-volume-high", setup.Warn)
-	case mlkg+tol < setup.VtStopLowMLPerKg:
-		add("tidal-volume-low", setup.Stop)
-	case mlkg+tol < setup.VtLowMLPerKg:
-		add("tidal-volume-low", setup.Warn)
-	}
-	switch p := r.PlateauPressureCmH2O - tol; {
-	case p > setup.PlateauStopCmH2O:
-		add("plateau-high", setup.Stop)
-	case p > setup.PlateauMaxCmH2O:
-		add("plateau-high", setup.Warn)
-	}
-	if r.PeakPressureCmH2O-tol > setup.PeakMaxCmH2O {
-		add("peak-high", setup.Stop)
-	}
-	switch p := r.IntrinsicPEEPCmH2O - tol; {
-	case p > setup.IntrinsicPEEPStop:
-		add("intrinsic-peep", setup.Stop)
-	case p > setup.IntrinsicPEEPMax:
-		add("intrinsic-peep", setup.Warn)
-	}
-	if r.RateBPM-tol > setup.RateMaxBPM {
-		add("rate-high", setup.Warn)
-	} else if r.RateBPM+tol < setup.RateMinBPM {
-		add("rate-low", setup.Warn)
+	for _, fig := range []struct {
+		id setup.CautionID
+		v  float64
+	}{
+		{setup.CautionTidalVolumeHigh, r.MLPerKg}, {setup.CautionTidalVolumeLow, r.MLPerKg},
+		{setup.CautionPlateauHigh, r.PlateauPressureCmH2O}, {setup.CautionPeakHigh, r.PeakPressureCmH2O},
+		{setup.CautionIntrinsicPEEP, r.IntrinsicPEEPCmH2O}, {setup.CautionRateHigh, r.RateBPM}, {setup.CautionRateLow, r.RateBPM},
+	} {
+		rule, _ := setup.CautionRuleOf(fig.id)
+		if l, ok := rule.JudgeCalm(fig.v, recordFigureTol); ok {
+			add(fig.id, l.Level)
+		}
 	}
 	return out
 }

@@ -86,9 +86,9 @@ func writerCautions(version int, want []setup.Caution) []setup.Caution {
 	var out []setup.Caution
 	for _, c := range want {
 		switch {
-		case strings.HasPrefix(c.ID, "measured-") || setup.IsGasCaution(c.ID) || c.ID == "readings-unexplained":
+		case strings.HasPrefix(string(c.ID), "measured-") || setup.IsGasCaution(c.ID) || c.ID == setup.CautionReadingsUnexplained:
 			continue
-		case c.ID == "tidal-volume-low" || c.ID == "plateau-high" || c.ID == "intrinsic-peep":
+		case c.ID == setup.CautionTidalVolumeLow || c.ID == setup.CautionPlateauHigh || c.ID == setup.CautionIntrinsicPEEP:
 			c.Level = min(c.Level, setup.Warn)
 		}
 		out = append(out, c)

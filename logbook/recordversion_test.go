@@ -60,7 +60,7 @@ func historyOf(t *testing.T, path string) (map[string]setup.Record, logbook.LogS
 	return out, sum
 }
 
-func cautionOf(r setup.Record, id string) *setup.Caution {
+func cautionOf(r setup.Record, id setup.CautionID) *setup.Caution {
 	for i := range r.Cautions {
 		if r.Cautions[i].ID == id {
 			return &r.Cautions[i]

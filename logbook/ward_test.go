@@ -37,7 +37,7 @@ func restamp(rec setup.Record, bed string, when time.Time, rpm float64, level se
 	case 0:
 		rec.Cautions = nil
 	default:
-		rec.Cautions = []setup.Caution{{ID: "test-" + level.String(), Level: level, Message: "invented"}}
+		rec.Cautions = []setup.Caution{{ID: setup.CautionID("test-" + level.String()), Level: level, Message: "invented"}}
 	}
 	return rec
 }

@@ -9,6 +9,7 @@ import (
 	"github.com/stretchr/testify/require"
 
 	"crankside/logbook"
+	"crankside/report"
 	"crankside/setup"
 )
 
@@ -30,7 +31,7 @@ func TestARecordFromTheFutureNeverHidesLaterChecks(t *testing.T) {
 		require.True(t, b4.CheckedAt.Equal(at(11, 0)), "the newest real check stands: %v", b4.CheckedAt)
 		require.Equal(t, 22.0, b4.MotorRPM)
 		require.True(t, b4.FutureAt.Equal(time.Date(2099, 1, 2, 10, 0, 0, 0, time.UTC)))
-		line := logbook.WardLine(b4)
+		line := report.WardLine(b4)
 		require.Contains(t, line, "a record dated 2099-01-02 10:00 UTC, in the future, from "+path)
 		require.Contains(t, line, "(60 min ago)", "derived: 12:00 - 11:00")
 		require.True(t, rows[1].CheckedAt.Equal(at(12, 4)), "4 min ahead is within the skew")
@@ -64,7 +65,7 @@ func TestARecordFromTheFutureNeverHidesLaterChecks(t *testing.T) {
 	rows, _, err = logbook.WardRows([]string{only}, at(12, 0), 0)
 	require.NoError(t, err)
 	require.Len(t, rows, 1)
-	require.Contains(t, logbook.WardLine(rows[0]), "2099-01-02 10:00 UTC (IN THE FUTURE")
+	require.Contains(t, report.WardLine(rows[0]), "2099-01-02 10:00 UTC (IN THE FUTURE")
 }
 
 // Two terminals record the same bed in the same second: the ward row does
@@ -84,7 +85,7 @@ func TestSameSecondChecksFromTwoLogsAreAConflict(t *testing.T) {
 		require.Equal(t, setup.Stop, rows[0].HighestLevel, "the louder check is shown")
 		require.Equal(t, b, rows[0].Source)
 		require.Equal(t, "conflict: two checks at 14:05 UTC from "+a+" and "+b, rows[0].Conflict)
-		lines = append(lines, logbook.WardLine(rows[0]))
+		lines = append(lines, report.WardLine(rows[0]))
 
 		h, _, err := logbook.ReadBedHistory(order, "B4", 0)
 		require.NoError(t, err)

@@ -7,8 +7,8 @@
 // optional proposed change evaluated beside it. Calibrate refits a profile's
 // calibration from bench points; DescribeProfile and BreathTrace serve the
 // machine and chart views. NewRecord makes the record of a check that
-// package logbook keeps in the handover log; WriteCard prints the handover
-// card.
+// package logbook keeps in the handover log; package report prints plans,
+// checks and their handover cards from what this package returns.
 // Cautions are computed here, in one place, from the figures; nothing that
 // shows a plan or a check computes one.
 //
@@ -18,7 +18,7 @@
 // whatever a lung model makes of them). When no lung explains the readings
 // the check carries a readings-unexplained stop, its JSON and record print
 // the current setting's lung figures as null (LungFiguresJSON withheld), and
-// the text and the card say so in their place; a proposal is still
+// the reports have no lung figure to print and say so in their place; a proposal is still
 // evaluated, on the assumed lung, and labelled so.
 //
 // The blood gas and the oximeter are judged the same way (GasCautions:

@@ -9,21 +9,6 @@ import (
 	"crankside/profiles"
 )
 
-// GasReadings are the handover's blood gas and oximeter entries, with the
-// apparatus dead space (tube, filter, connectors) the rate step needs when
-// the tidal volume changes. A nil field was not entered.
-type GasReadings struct {
-	SpO2Pct              *float64 // --spo2, %
-	PaO2MmHg             *float64 // --pao2, mmHg
-	PH                   *float64 // --ph
-	PaCO2MmHg            *float64 // --paco2, mmHg
-	ApparatusDeadSpaceML *float64 // mL; nil: 0 assumed and said so
-}
-
-func (g GasReadings) physiology() physiology.GasReadings {
-	return physiology.GasReadings{SpO2Pct: g.SpO2Pct, PaO2MmHg: g.PaO2MmHg, PH: g.PH, PaCO2MmHg: g.PaCO2MmHg}
-}
-
 // CheckGasEntries finds every gas entry outside its plausible range, each
 // as an *InputError naming its field ("spo2", "pao2", "ph", "paco2",
 // "dead-space-ml"), so that a form can mark all of them at once.
@@ -107,7 +92,7 @@ func ProtocolProposal(req CheckRequest, readings GasReadings, p profiles.Profile
 		ApparatusDeadSpaceML: readings.ApparatusDeadSpaceML,
 		Lung:                 req.Lung, NoAlveolarHold: req.NoAlveolarHold,
 	}
-	step, err := physiology.NextProtocolStep(st, readings.physiology())
+	step, err := physiology.NextProtocolStep(st, readings)
 	if err != nil {
 		// The readings were checked above: what is left is the setting.
 		return ProtocolStepResult{}, &InputError{Field: "setting", Reason: "no protocol step at this setting: " + err.Error()}

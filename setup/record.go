@@ -61,7 +61,7 @@ type CheckJSON struct {
 	Proposed        *ProposedJSON `json:"proposed,omitempty"`
 	// The blood gas and oximeter, and the protocol's next step they led
 	// to (see Check.Protocol); absent from checks without a reading.
-	GasReadings        *GasReadingsJSON  `json:"gas_readings,omitempty"`
+	GasReadings        *GasReadings      `json:"gas_readings,omitempty"`
 	ProtocolStep       *ProtocolStepJSON `json:"protocol_step,omitempty"`
 	ProtocolRuleStatus map[string]string `json:"protocol_rule_status,omitempty"` // rule id: fired, in-goal, no-step, no-reading
 	ProtocolChanges    []Change          `json:"protocol_changes,omitempty"`

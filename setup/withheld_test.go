@@ -13,6 +13,7 @@ import (
 
 	"crankside/logbook"
 	"crankside/physiology"
+	"crankside/report"
 	"crankside/setup"
 )
 
@@ -233,7 +234,7 @@ func TestNoLungFigureEscapesTheWithheldStruct(t *testing.T) {
 	require.Nil(t, recs[0].LungFiguresJSON, "a record read back has no lung figures (its nulls are not zeros)")
 	row := logbook.NewWardRow(recs[0], path, today.Add(time.Hour), 4*time.Hour)
 	require.Nil(t, row.MLPerKg, "the ward gives no mL/kg for a bed whose readings no lung explains")
-	require.Contains(t, logbook.WardLine(row), "readings unexplained")
+	require.Contains(t, report.WardLine(row), "readings unexplained")
 	wb, err := json.Marshal(row)
 	require.NoError(t, err)
 	require.Contains(t, string(wb), `"ml_per_kg":null`)

@@ -9,11 +9,13 @@ import (
 )
 
 // TestArchitecture keeps the dependency arrows of DEVELOPERS.md true:
-// ui -> logbook -> setup -> {machine, physiology, profiles}, one way:
-// physiology and machine import the standard library and gonum only;
-// profiles the standard library only; setup never imports logbook or ui;
-// logbook (the handover log store) imports setup and what setup may, never
-// ui; and nothing but ui and main imports a terminal library.
+// ui -> report -> logbook -> setup -> {machine, physiology, profiles}, one
+// way: physiology and machine import the standard library and gonum only;
+// profiles the standard library only; setup never imports logbook, report
+// or ui; logbook (the handover log store) imports setup and what setup
+// may, never report or ui; report (the text, card and sheet for people)
+// imports logbook, setup and what they may, never ui; and nothing but ui
+// and main imports a terminal library.
 func TestArchitecture(t *testing.T) {
 	out, err := exec.Command("go", "list", "-f", "{{.ImportPath}}|{{join .Imports \" \"}}", "crankside/...").CombinedOutput()
 	require.NoError(t, err, "%s", out)
@@ -26,6 +28,7 @@ func TestArchitecture(t *testing.T) {
 	require.Contains(t, imports, "crankside/ui/cli")
 	require.Contains(t, imports, "crankside/profiles/safetext")
 	require.Contains(t, imports, "crankside/logbook")
+	require.Contains(t, imports, "crankside/report")
 	std := func(p string) bool {
 		return !strings.Contains(strings.Split(p, "/")[0], ".") && !strings.HasPrefix(p, "crankside")
 	}
@@ -47,6 +50,7 @@ func TestArchitecture(t *testing.T) {
 		"crankside/profiles":          func(p string) bool { return std(p) || safetext(p) },
 		"crankside/setup":             core,
 		"crankside/logbook":           func(p string) bool { return core(p) || p == "crankside/setup" },
+		"crankside/report":            func(p string) bool { return core(p) || p == "crankside/setup" || p == "crankside/logbook" },
 	}
 	for pkg, ok := range allowed {
 		for _, dep := range imports[pkg] {

@@ -6,11 +6,12 @@ import (
 	tea "github.com/charmbracelet/bubbletea"
 
 	"crankside/logbook"
+	"crankside/report"
 	"crankside/setup"
 )
 
 // bedDue is the handover bed's last record, for the status line's time
-// since it and the next check due (setup.DueLine).
+// since it and the next check due (report.DueLine).
 type bedDue struct {
 	bed   string     // the bed looked up (BedKey), "" for none
 	known bool       // the log has been read for it
@@ -59,7 +60,7 @@ func (m *Model) dueText() string {
 	if !m.due.known {
 		return ""
 	}
-	line := setup.DueLine(m.due.bed, m.due.last, m.every, m.now())
+	line := report.DueLine(m.due.bed, m.due.last, m.every, m.now())
 	if m.due.last != nil && !m.now().Before(m.due.last.Add(m.everyOrDefault())) {
 		return m.styles.Error.Render(line)
 	}

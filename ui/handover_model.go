@@ -11,6 +11,7 @@ import (
 
 	"crankside/logbook"
 	"crankside/profiles/safetext"
+	"crankside/report"
 	"crankside/setup"
 )
 
@@ -192,7 +193,7 @@ func (m *Model) card() {
 		title = "Handover card, as recorded at " + m.recordedAt
 	}
 	var b strings.Builder
-	setup.WriteCard(&b, rec)
+	report.WriteCard(&b, rec)
 	// The card is the printed text; on the screen its level words are
 	// coloured as everywhere else.
 	lines := strings.Split(b.String(), "\n")
@@ -214,7 +215,7 @@ func (m *Model) history() tea.Cmd {
 	}
 	path := m.logPath
 	return func() tea.Msg {
-		h, sum, err := logbook.ReadBedHistory([]string{path}, bed, 0)
+		h, sum, err := logbook.ReadBedHistory([]string{path}, bed, logbook.HistoryShown)
 		return historyMsg{bed: bed, history: h, summary: sum, err: err}
 	}
 }
@@ -232,15 +233,22 @@ func (m *Model) showHistory(msg historyMsg) {
 		l = append(l, "No checks recorded for bed "+msg.bed+".")
 	default:
 		n := len(msg.history.Entries)
-		l = append(l, s.Label.Render(fmt.Sprintf("%d check%s, newest first (up/down, PgUp/PgDn scroll)", n, plural(n))))
+		if n < msg.history.Total {
+			l = append(l, s.Label.Render(fmt.Sprintf("%d checks, the newest %d first (up/down, PgUp/PgDn scroll)", msg.history.Total, n)))
+		} else {
+			l = append(l, s.Label.Render(fmt.Sprintf("%d check%s, newest first (up/down, PgUp/PgDn scroll)", n, plural(n))))
+		}
 		for _, e := range msg.history.Entries {
-			l = append(l, s.withLevels(safetext.Escape(setup.HistoryLine(e.Record)), s.Value))
-			if p := setup.ProposalLine(e.Record); p != "" {
+			l = append(l, s.withLevels(safetext.Escape(report.HistoryLine(e.Record)), s.Value))
+			if p := report.ProposalLine(e.Record); p != "" {
 				l = append(l, s.withLevels("    proposed: "+safetext.Escape(p), s.Label))
 			}
 			if len(e.Changes) > 0 {
 				l = append(l, s.Label.Render("    changed since the one before: "+safetext.Escape(strings.Join(e.Changes, "; "))))
 			}
+		}
+		if more := msg.history.NotShown("log show --bed " + msg.bed + " --all lists them"); more != "" {
+			l = append(l, s.Label.Render(more))
 		}
 	}
 	for _, p := range msg.summary.Lines() {

@@ -8,6 +8,7 @@ import (
 
 	"crankside/logbook"
 	"crankside/profiles/safetext"
+	"crankside/report"
 	"crankside/setup"
 )
 
@@ -234,7 +235,7 @@ func (w *wardView) lines(width int) (lines []string, top, bottom int) {
 			mark, st = "> ", s.FieldFocused
 			top = len(lines)
 		}
-		add(mark + s.withLevels(safetext.Escape(logbook.WardLine(r)), st))
+		add(mark + s.withLevels(safetext.Escape(report.WardLine(r)), st))
 		if i == w.cursor {
 			bottom = len(lines) - 1
 		}

@@ -1,6 +1,7 @@
-package setup
+package report
 
 import (
+	"crankside/setup"
 	"fmt"
 	"io"
 	"strings"
@@ -18,12 +19,12 @@ type Sheet struct {
 	Unit     string // the profile's id and label
 	Bed      string // "" when none was given
 	Patient  string
-	Setting  Setting
-	Cautions []Caution
-	Timing   TimingCheck
+	Setting  setup.Setting
+	Cautions []setup.Caution
+	Timing   setup.TimingCheck
 	// Watch is nil when no band is given (a stop, or readings no lung
 	// explains); WhyNone then says why.
-	Watch    *WatchJSON
+	Watch    *setup.WatchJSON
 	WhyNone  string
 	Inferred string // what a stopwatch check inferred
 	// Unexplained is the check's fit problem, "" when the readings (if
@@ -31,43 +32,26 @@ type Sheet struct {
 	Unexplained string
 	// Schedule is the bed's last record and the next check due, when a
 	// log was read or written (nil: no log).
-	Schedule *Schedule
+	Schedule *setup.Schedule
 	Printed  time.Time
 }
 
-// Schedule is when a bed was last checked and when the next check is due.
-type Schedule struct {
-	Log    string
-	Last   *time.Time // nil: no check of this bed in the log
-	Every  time.Duration
-	Source string // where the interval comes from
-}
-
-// Due is when the next check is due: the last record plus the interval;
-// ok is false when there is no record.
-func (s Schedule) Due() (time.Time, bool) {
-	if s.Last == nil {
-		return time.Time{}, false
-	}
-	return s.Last.Add(s.Every), true
-}
-
-// Sheet is the plan's bedside sheet, printed at now.
-func (pl Plan) Sheet(now time.Time) Sheet {
+// PlanSheet is the plan's bedside sheet, printed at now.
+func PlanSheet(pl setup.Plan, now time.Time) Sheet {
 	return Sheet{From: "plan", Unit: pl.ProfileID + " (" + pl.ProfileLabel + ")",
 		Patient:  fmt.Sprintf("%.0f cm %s, PBW %.1f kg (no name or identifier)", pl.Patient.HeightCm, pl.Patient.Sex, pl.PBWKg),
-		Setting:  Setting{Hole: pl.Hole.Label, RPM: pl.Timing.RPM, DwellS: pl.Timing.DwellS, PEEPCmH2O: pl.PEEPCmH2O, O2LPerMin: pl.O2FlowLPerMin},
-		Cautions: pl.Cautions, Timing: pl.TimingCheck.JSON(), Watch: pl.watchToSet(), WhyNone: WhyNoWatch(false), Printed: now}
+		Setting:  setup.Setting{Hole: pl.Hole.Label, RPM: pl.Timing.RPM, DwellS: pl.Timing.DwellS, PEEPCmH2O: pl.PEEPCmH2O, O2LPerMin: pl.O2FlowLPerMin},
+		Cautions: pl.Cautions, Timing: pl.TimingCheck.JSON(), Watch: pl.WatchToSet(), WhyNone: WhyNoWatch(false), Printed: now}
 }
 
-// Sheet is the check's bedside sheet for its current setting, printed at
+// CheckSheet is the check's bedside sheet for its current setting, printed at
 // now; unit is the profile's label, bed the bed's label or "".
-func (ck Check) Sheet(unit, bed string, now time.Time) Sheet {
+func CheckSheet(ck setup.Check, unit, bed string, now time.Time) Sheet {
 	j := ck.JSON()
 	return Sheet{From: "check", Unit: ck.ProfileID + " (" + unit + ")", Bed: bed,
 		Patient: fmt.Sprintf("%.0f cm %s, PBW %.1f kg (no name or identifier)", ck.Patient.HeightCm, ck.Patient.Sex, ck.PBWKg),
 		Setting: ck.Current.Setting, Cautions: ck.Current.Cautions, Timing: ck.TimingCheck.JSON(),
-		Watch: j.watchToSet(), WhyNone: WhyNoWatch(ck.Unexplained()), Inferred: ck.Inferred, Unexplained: ck.FitProblem, Printed: now}
+		Watch: checkWatchToSet(j), WhyNone: WhyNoWatch(ck.Unexplained()), Inferred: ck.Inferred, Unexplained: ck.FitProblem, Printed: now}
 }
 
 // Write prints the sheet.
@@ -81,16 +65,16 @@ func (s Sheet) Write(w io.Writer) error {
 		bed = "bed " + s.Bed
 	}
 	rw.line("%s; patient %s", bed, s.Patient)
-	rw.line("From a %s, printed %s", s.From, LocalDateTime(s.Printed))
+	rw.line("From a %s, printed %s", s.From, setup.LocalDateTime(s.Printed))
 	rw.line("%s", rule)
 	s.settingPart(rw)
 	s.watchPart(rw)
 	if len(s.Cautions) == 0 {
 		rw.line("CAUTIONS: none")
 	} else {
-		rw.line("CAUTIONS (%d, highest %s)", len(s.Cautions), LevelWord(Highest(s.Cautions)))
+		rw.line("CAUTIONS (%d, highest %s)", len(s.Cautions), setup.LevelWord(setup.Highest(s.Cautions)))
 		for _, c := range s.Cautions {
-			rw.line("  %-4s %s: %s", LevelWord(c.Level), c.ID, c.Message)
+			rw.line("  %-4s %s: %s", setup.LevelWord(c.Level), c.ID, c.Message)
 		}
 	}
 	rw.line("BEDSIDE CHECKLIST")
@@ -99,7 +83,7 @@ func (s Sheet) Write(w io.Writer) error {
 	}
 	s.schedulePart(rw)
 	rw.line("%s", rule)
-	rw.line("%s", ClinicalCaution)
+	rw.line("%s", setup.ClinicalCaution)
 	_, err := io.WriteString(w, rw.b.String())
 	return err
 }
@@ -110,7 +94,7 @@ func (s Sheet) settingPart(rw *reportWriter) {
 	if s.Unexplained != "" {
 		rw.line("%s", UnexplainedLine(s.Unexplained))
 	}
-	if st := FirstStop(s.Cautions); st != nil {
+	if st := setup.FirstStop(s.Cautions); st != nil {
 		rw.line("%s; %s", StopLine(s.Cautions), st.Advice)
 	}
 	rw.line("%s", SettingHeading(s.Cautions, "SET THE MACHINE TO"))
@@ -122,7 +106,7 @@ func (s Sheet) settingPart(rw *reportWriter) {
 		switch {
 		case r.ID == "o2_flow_l_min" && s.Setting.O2LPerMin <= 0:
 			text = "none (room air)"
-		case r.ID == "motor_rpm" && m.speedTimed():
+		case r.ID == "motor_rpm" && m != nil && m.TurnS != nil:
 			label, text = "One turn", plain(*m.TurnS)+" s (timed)"
 		case r.ID == "dwell_s" && m != nil && m.PauseS != nil:
 			label, text = "Pause", plain(*m.PauseS)+" s (timed)"
@@ -135,12 +119,12 @@ func (s Sheet) settingPart(rw *reportWriter) {
 	if s.Inferred != "" {
 		rw.line("  %s", s.Inferred)
 	}
-	if FirstStop(s.Cautions) != nil {
+	if setup.FirstStop(s.Cautions) != nil {
 		rw.line("WHAT THIS SETTING TIMES AT (for reference only: it is not to be used)")
 	} else {
 		rw.line("TO CONFIRM IT, TIME IT")
 	}
-	rw.line("  %s", s.Timing.TimingLine())
+	rw.line("  %s", TimingLine(s.Timing))
 }
 
 // watchPart is the band, the alarm limits, what to do out of the band,
@@ -185,28 +169,10 @@ func (s Sheet) schedulePart(rw *reportWriter) {
 		rw.line("  no check of bed %s is recorded in %s: check now", s.Bed, sc.Log)
 		return
 	}
-	rw.line("  last recorded %s; next check due %s", LocalDateTime(*sc.Last), LocalDateTime(due))
+	rw.line("  last recorded %s; next check due %s", setup.LocalDateTime(*sc.Last), setup.LocalDateTime(due))
 	if !due.After(s.Printed) {
-		rw.line("  OVERDUE: the next check was due %s", LocalDateTime(due))
+		rw.line("  OVERDUE: the next check was due %s", setup.LocalDateTime(due))
 	}
-}
-
-// RecordedSchedule is the schedule after a record was just written.
-func RecordedSchedule(logPath string, rec Record, every time.Duration) *Schedule {
-	sc := ScheduleAt(logPath, every)
-	t := rec.Time
-	sc.Last = &t
-	return sc
-}
-
-// ScheduleAt is the schedule of a log at the interval every (0:
-// DefaultCheckEvery), with no last check.
-func ScheduleAt(logPath string, every time.Duration) *Schedule {
-	sc := &Schedule{Log: logPath, Every: every, Source: "entered"}
-	if every <= 0 {
-		sc.Every, sc.Source = DefaultCheckEvery, CheckEverySource
-	}
-	return sc
 }
 
 // DueLine is the bed's time since its last record and when the next check
@@ -215,7 +181,7 @@ func ScheduleAt(logPath string, every time.Duration) *Schedule {
 // in the log". last nil means no record; every 0 means DefaultCheckEvery.
 func DueLine(bed string, last *time.Time, every time.Duration, now time.Time) string {
 	if every <= 0 {
-		every = DefaultCheckEvery
+		every = setup.DefaultCheckEvery
 	}
 	if last == nil {
 		return bed + ": no check in the log"
@@ -225,7 +191,7 @@ func DueLine(bed string, last *time.Time, every time.Duration, now time.Time) st
 	if !now.Before(due) {
 		return fmt.Sprintf("%s OVERDUE: checked %s ago (every %g h)", bed, ago, every.Hours())
 	}
-	return fmt.Sprintf("%s checked %s ago, next due %s", bed, ago, LocalClock(due))
+	return fmt.Sprintf("%s checked %s ago, next due %s", bed, ago, setup.LocalClock(due))
 }
 
 // agoText is a duration as a person says it: "35 min", "1 h 20 min".

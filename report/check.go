@@ -1,6 +1,7 @@
-package setup
+package report
 
 import (
+	"crankside/setup"
 	"fmt"
 	"io"
 	"strings"
@@ -28,30 +29,20 @@ func (w *reportWriter) line(format string, args ...any) {
 	}
 }
 
-// FirstStop is the first stop among the cautions, or nil.
-func FirstStop(cs []Caution) *Caution {
-	for i := range cs {
-		if cs[i].Level == Stop {
-			return &cs[i]
-		}
-	}
-	return nil
-}
-
 // SettingHeading is the heading over a setting: it never reads as an
 // instruction when the setting has a stop.
-func SettingHeading(cs []Caution, instruction string) string {
-	if s := FirstStop(cs); s != nil {
-		return "STOP: DO NOT USE THIS SETTING (" + s.ID + ")"
+func SettingHeading(cs []setup.Caution, instruction string) string {
+	if s := setup.FirstStop(cs); s != nil {
+		return "STOP: DO NOT USE THIS SETTING (" + string(s.ID) + ")"
 	}
 	return instruction
 }
 
 // StopLine names the first stop in full, for the line over a setting that
 // must not be used; "" without a stop.
-func StopLine(cs []Caution) string {
-	if s := FirstStop(cs); s != nil {
-		return "STOP  " + s.ID + ": " + s.Message
+func StopLine(cs []setup.Caution) string {
+	if s := setup.FirstStop(cs); s != nil {
+		return "STOP  " + string(s.ID) + ": " + s.Message
 	}
 	return ""
 }
@@ -67,20 +58,20 @@ func UnexplainedLine(fitProblem string) string {
 // be explained.
 const AssumedLungLabel = "with the ASSUMED lung (the readings could not be explained)"
 
-func (w *reportWriter) checkBody(j CheckJSON) {
+func (w *reportWriter) checkBody(j setup.CheckJSON) {
 	cur := j.Setting
-	var prop *Setting
-	var propFigures *FiguresJSON
+	var prop *setup.Setting
+	var propFigures *setup.FiguresJSON
 	if j.Proposed != nil {
 		prop, propFigures = &j.Proposed.Setting, &j.Proposed.FiguresJSON
 	}
 	if j.Unexplained() {
 		w.line("%s", UnexplainedLine(j.FitProblem))
 	}
-	if s := FirstStop(j.Cautions); s != nil && s.ID != "readings-unexplained" {
+	if s := setup.FirstStop(j.Cautions); s != nil && s.ID != setup.CautionReadingsUnexplained {
 		w.line("%s", StopLine(j.Cautions))
 	}
-	if line := ConversionLine(j.EntriesConverted); line != "" {
+	if line := setup.ConversionLine(j.EntriesConverted); line != "" {
 		w.line("ENTERED  %s", line)
 	}
 	w.protocolSection(j)
@@ -94,14 +85,14 @@ func (w *reportWriter) checkBody(j CheckJSON) {
 	switch {
 	case j.FittedResistanceAtLeast != nil:
 		w.line("LUNG (fitted to the end pressure: the peak is at the relief valve)  C %s mL/cmH2O; R at least %s cmH2O/(L/s) (the peak cannot tell more)",
-			sig2(*j.FittedComplianceMLPerCmH2O), sig2(*j.FittedResistanceAtLeast))
+			setup.Sig2(*j.FittedComplianceMLPerCmH2O), setup.Sig2(*j.FittedResistanceAtLeast))
 		w.fitRanges(j)
 	case j.FittedComplianceMLPerCmH2O != nil && j.FittedResistanceCmH2OPerLS == nil:
 		w.line("LUNG (fitted to the end pressure alone: the peak is at the relief valve and cannot tell R)  C %s mL/cmH2O; R %s cmH2O/(L/s) assumed (the peak cannot tell it)",
-			sig2(*j.FittedComplianceMLPerCmH2O), sig2(j.ResistanceCmH2OPerLS))
+			setup.Sig2(*j.FittedComplianceMLPerCmH2O), setup.Sig2(j.ResistanceCmH2OPerLS))
 		w.fitRanges(j)
 	case j.FittedComplianceMLPerCmH2O != nil:
-		w.line("LUNG (fitted)  C %s mL/cmH2O, R %s cmH2O/(L/s)", sig2(*j.FittedComplianceMLPerCmH2O), sig2(*j.FittedResistanceCmH2OPerLS))
+		w.line("LUNG (fitted)  C %s mL/cmH2O, R %s cmH2O/(L/s)", setup.Sig2(*j.FittedComplianceMLPerCmH2O), setup.Sig2(*j.FittedResistanceCmH2OPerLS))
 		w.fitRanges(j)
 	case j.Unexplained():
 		w.line("LUNG (ASSUMED, the readings could not be explained)  C %.0f mL/cmH2O, R %.0f cmH2O/(L/s) (%s)", j.ComplianceMLPerCmH2O, j.ResistanceCmH2OPerLS, j.MechanicsSource)
@@ -110,7 +101,7 @@ func (w *reportWriter) checkBody(j CheckJSON) {
 	}
 	if j.Gas != nil {
 		w.line("ROOM  %s C, %s %% RH, %s mmHg: BTPS factor %.3f; %s", plain(j.Gas.Room["temperature_c"].Value), plain(j.Gas.Room["humidity_pct"].Value),
-			plain(j.Gas.Room["barometric_mmhg"].Value), j.BTPSFactor, BTPSNote)
+			plain(j.Gas.Room["barometric_mmhg"].Value), j.BTPSFactor, setup.BTPSNote)
 		if j.Gas.ClearanceNote != "" {
 			w.line("NOTE  %s", j.Gas.ClearanceNote)
 		}
@@ -118,10 +109,10 @@ func (w *reportWriter) checkBody(j CheckJSON) {
 	if j.LungFiguresJSON == nil {
 		w.unexplainedFigures(j.FiguresJSON, propFigures)
 	} else {
-		w.figureTable(j.PatientGetsHeading(), FigureRows(j.FiguresJSON, propFigures))
+		w.figureTable(PatientGetsHeading(j), FigureRows(j.FiguresJSON, propFigures))
 	}
 	if j.TimingCheck != nil {
-		w.watchSection(j.watchToSet(), *j.TimingCheck, WhyNoWatch(j.Unexplained()))
+		w.watchSection(checkWatchToSet(j), *j.TimingCheck, WhyNoWatch(j.Unexplained()))
 	}
 	w.cautionList("NOW", j.Cautions)
 	if j.Proposed != nil {
@@ -133,11 +124,11 @@ func (w *reportWriter) checkBody(j CheckJSON) {
 	}
 }
 
-// watchToSet is the check's watch band when the current setting has no
+// checkWatchToSet is the check's watch band when the current setting has no
 // stop, nil otherwise: no alarm limits are given for a setting not to be
 // used.
-func (j CheckJSON) watchToSet() *WatchJSON {
-	if FirstStop(j.Cautions) != nil {
+func checkWatchToSet(j setup.CheckJSON) *setup.WatchJSON {
+	if setup.FirstStop(j.Cautions) != nil {
 		return nil
 	}
 	return j.Watch
@@ -145,11 +136,11 @@ func (j CheckJSON) watchToSet() *WatchJSON {
 
 // fitRanges prints what the manometer's step allows of the fitted lung,
 // the patient-effort note, and the room's BTPS factor.
-func (w *reportWriter) fitRanges(j CheckJSON) {
+func (w *reportWriter) fitRanges(j setup.CheckJSON) {
 	if j.FittedComplianceRange != nil && j.ManometerStepCmH2O != nil {
 		c, r, v := j.FittedComplianceRange, j.FittedResistanceRange, j.DeliveredVtRangeML
 		w.line("  readings +/- half the manometer's %s cmH2O step allow C %s, R %s, tidal volume %s mL (BTPS), %s",
-			plain(*j.ManometerStepCmH2O), jsonRangeText(c, sig2), jsonRangeText(r, sig2), jsonRangeText(v, func(x float64) string { return fmt.Sprintf("%.0f", x) }), FitRangeLabel)
+			plain(*j.ManometerStepCmH2O), jsonRangeText(c, setup.Sig2), jsonRangeText(r, setup.Sig2), jsonRangeText(v, func(x float64) string { return fmt.Sprintf("%.0f", x) }), setup.FitRangeLabel)
 	}
 	if j.FitRangeNote != "" {
 		w.line("  %s", j.FitRangeNote)
@@ -161,7 +152,7 @@ func (w *reportWriter) fitRanges(j CheckJSON) {
 
 // PatientGetsHeading heads the current figures: what the patient gets, or,
 // when the volumes are upper bounds, that and why.
-func (j CheckJSON) PatientGetsHeading() string {
+func PatientGetsHeading(j setup.CheckJSON) string {
 	if j.VolumeUpperBound {
 		return "AT MOST (UPPER BOUNDS: " + j.VolumeNote + ")"
 	}
@@ -169,7 +160,7 @@ func (j CheckJSON) PatientGetsHeading() string {
 }
 
 // PatientGetsShort is PatientGetsHeading for a screen's table column.
-func (j CheckJSON) PatientGetsShort() string {
+func PatientGetsShort(j setup.CheckJSON) string {
 	if j.VolumeUpperBound {
 		return "AT MOST"
 	}
@@ -187,14 +178,14 @@ func jsonRangeText(r *[2]*float64, format func(float64) string) string {
 			v[i] = *x
 		}
 	}
-	return rangeText(v, open, format)
+	return setup.RangeText(v, open, format)
 }
 
 // unexplainedFigures replaces THE PATIENT GETS when the lung's figures
 // are withheld: the machine's own figures (the rows FigureRows gives
 // without the lung's part), and a proposal's figures labelled as resting
 // on the assumed lung.
-func (w *reportWriter) unexplainedFigures(cur FiguresJSON, prop *FiguresJSON) {
+func (w *reportWriter) unexplainedFigures(cur setup.FiguresJSON, prop *setup.FiguresJSON) {
 	w.line("THE PATIENT GETS: NOT KNOWN (the readings cannot be explained; no predicted figure is shown for this setting)")
 	w.line("THE MACHINE'S TIMING NOW (does not depend on the lung)")
 	for _, r := range FigureRows(cur, nil) {
@@ -205,7 +196,7 @@ func (w *reportWriter) unexplainedFigures(cur FiguresJSON, prop *FiguresJSON) {
 	}
 }
 
-func (w *reportWriter) settingTable(cur Setting, prop *Setting, cs []Caution) {
+func (w *reportWriter) settingTable(cur setup.Setting, prop *setup.Setting, cs []setup.Caution) {
 	head := SettingHeading(cs, "THE MACHINE IS SET TO")
 	rows := SettingRows(cur, prop)
 	if prop == nil {
@@ -250,26 +241,26 @@ func (w *reportWriter) figureTable(title string, rows []Row) {
 	w.line("  %s", DrivingNote)
 }
 
-func (w *reportWriter) cautionList(label string, cs []Caution) {
+func (w *reportWriter) cautionList(label string, cs []setup.Caution) {
 	if len(cs) == 0 {
 		w.line("CAUTIONS %s: none", label)
 		return
 	}
-	w.line("CAUTIONS %s (%d, highest %s)", label, len(cs), LevelWord(Highest(cs)))
+	w.line("CAUTIONS %s (%d, highest %s)", label, len(cs), setup.LevelWord(setup.Highest(cs)))
 	for _, c := range cs {
-		w.line("  %-4s %s: %s; %s [%s]", LevelWord(c.Level), c.ID, c.Message, c.Advice, c.Source)
+		w.line("  %-4s %s: %s; %s [%s]", setup.LevelWord(c.Level), c.ID, c.Message, c.Advice, c.Source)
 	}
 }
 
-// WriteText prints a check for a person: the setting (beside a proposed
+// CheckText prints a check for a person: the setting (beside a proposed
 // change), the readings and the lung used, the figures with the change,
 // and the cautions of each.
-func (ck Check) WriteText(w io.Writer) error {
+func CheckText(w io.Writer, ck setup.Check) error {
 	rw := &reportWriter{}
 	rw.line("crankside check on %s: %.0f cm %s, PBW %.1f kg", ck.ProfileID, ck.Patient.HeightCm, ck.Patient.Sex, ck.PBWKg)
 	rw.checkBody(ck.JSON())
 	rw.line("")
-	rw.line("%s", ClinicalCaution)
+	rw.line("%s", setup.ClinicalCaution)
 	_, err := io.WriteString(w, rw.b.String())
 	return err
 }
@@ -281,7 +272,7 @@ const CardWidth = 76
 
 // WriteCard prints a handover card: plain text, at most 80 columns, for a
 // printer or the bedside folder.
-func WriteCard(w io.Writer, r Record) error {
+func WriteCard(w io.Writer, r setup.Record) error {
 	rw := &reportWriter{width: CardWidth}
 	rule := strings.Repeat("=", CardWidth)
 	rw.line("%s", rule)
@@ -289,13 +280,13 @@ func WriteCard(w io.Writer, r Record) error {
 	if r.Unexplained() {
 		rw.line("STOP: READINGS UNEXPLAINED - NOTHING ON THIS CARD IS WHAT THE PATIENT GETS")
 	}
-	if s := FirstStop(r.Cautions); s != nil {
+	if s := setup.FirstStop(r.Cautions); s != nil {
 		rw.line("STOP: THIS SETTING IS NOT TO BE USED AS IT IS (%s)", s.ID)
 	}
 	if r.VolumeUpperBound {
 		rw.line("THE VOLUMES ON THIS CARD ARE UPPER BOUNDS, NOT WHAT THE PATIENT GETS")
 	}
-	rw.line("HANDOVER CARD  bed %s  %s  checked by %s", r.Bed, LocalDateTime(r.Time), by)
+	rw.line("HANDOVER CARD  bed %s  %s  checked by %s", r.Bed, setup.LocalDateTime(r.Time), by)
 	rw.line("Machine %s, calibration %s", r.ProfileID, orNone(r.CalibrationDate))
 	rw.line("Patient %.0f cm %s, PBW %.1f kg (no name or identifier recorded)", r.HeightCm, r.Sex, r.PBWKg)
 	rw.line("%s", rule)
@@ -304,10 +295,7 @@ func WriteCard(w io.Writer, r Record) error {
 		rw.line("%s", l)
 	}
 	rw.line("%s", rule)
-	rw.line("%s", ClinicalCaution)
+	rw.line("%s", setup.ClinicalCaution)
 	_, err := io.WriteString(w, rw.b.String())
 	return err
 }
-
-// WriteCard prints the record's handover card (see WriteCard).
-func (r Record) WriteCard(w io.Writer) error { return WriteCard(w, r) }

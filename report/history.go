@@ -1,29 +1,32 @@
-package setup
+package report
 
-import "fmt"
+import (
+	"crankside/setup"
+	"fmt"
+)
 
 // HistoryLine is one recorded check on one line, as the log listing and
 // the screen's history both show it: when, who, the setting, what the
 // patient got, and the highest caution. Every number carries its unit.
-func HistoryLine(r Record) string {
+func HistoryLine(r setup.Record) string {
 	who := r.Initials
 	if r.SecondInitials != "" {
 		who += "+" + r.SecondInitials
 	}
-	head := fmt.Sprintf("%s  %-4s  %s", LocalDateTime(r.Time), who, SettingText(r.Setting))
+	head := fmt.Sprintf("%s  %-4s  %s", setup.LocalDateTime(r.Time), who, SettingText(r.Setting))
 	var line string
 	if lung := r.LungFiguresJSON; lung != nil {
-		line = fmt.Sprintf("%s: %s%.0f mL %.1f mL/kg, %d caution(s)", head, AtMost(r.CheckJSON), lung.DeliveredVtML, lung.MLPerKg, len(r.Cautions))
+		line = fmt.Sprintf("%s: %s%.0f mL %.1f mL/kg, %d caution(s)", head, setup.AtMost(r.CheckJSON), lung.DeliveredVtML, lung.MLPerKg, len(r.Cautions))
 	} else {
 		line = fmt.Sprintf("%s: STOP readings unexplained, volume not known, %d caution(s)", head, len(r.Cautions))
 	}
 	if len(r.Cautions) > 0 {
-		line += ", highest " + LevelWord(Highest(r.Cautions))
+		line += ", highest " + setup.LevelWord(setup.Highest(r.Cautions))
 	}
 	if r.Setting.O2LPerMin > 0 {
 		line += fmt.Sprintf("; O2 %.1f L/min", r.Setting.O2LPerMin)
 	}
-	if g := GasRecordText(r); g != "" {
+	if g := setup.GasRecordText(r); g != "" {
 		line += "; " + g
 	}
 	return line
@@ -31,14 +34,14 @@ func HistoryLine(r Record) string {
 
 // SettingText is a setting's hole, speed, dwell and PEEP valve, each
 // number with its unit.
-func SettingText(s Setting) string {
+func SettingText(s setup.Setting) string {
 	return fmt.Sprintf("hole %s, %.1f rpm, dwell %.1f s, PEEP %.0f cmH2O", s.Hole, s.RPM, s.DwellS, s.PEEPCmH2O)
 }
 
 // ProposalLine is a record's proposed setting on one line, or "": its
 // figures, its highest caution, and whether it rests on the assumed lung
 // because the record's readings are unexplained.
-func ProposalLine(r Record) string {
+func ProposalLine(r setup.Record) string {
 	if r.Proposed == nil {
 		return ""
 	}
@@ -48,7 +51,7 @@ func ProposalLine(r Record) string {
 		line = fmt.Sprintf("%s: %.0f mL %.1f mL/kg", SettingText(s), lung.DeliveredVtML, lung.MLPerKg)
 	}
 	if len(r.Proposed.Cautions) > 0 {
-		line += ", highest " + LevelWord(Highest(r.Proposed.Cautions))
+		line += ", highest " + setup.LevelWord(setup.Highest(r.Proposed.Cautions))
 	}
 	if s.O2LPerMin > 0 || r.Setting.O2LPerMin > 0 {
 		// A step often changes only the O2 bleed: without it the line
@@ -59,7 +62,7 @@ func ProposalLine(r Record) string {
 		line += " (ASSUMED lung: readings unexplained)"
 	}
 	switch r.ProposalFrom {
-	case ProposalFromStep, ProposalEnteredAsStep:
+	case setup.ProposalFromStep, setup.ProposalEnteredAsStep:
 		line += " (the protocol's step)"
 	}
 	return line
@@ -69,25 +72,18 @@ func ProposalLine(r Record) string {
 // unexplained, for a ward line: the first stop the readings themselves
 // raised, in a few words with its reading ("peak 120 cmH2O above 40"), or
 // "" when only the unexplained stop was raised.
-func UnexplainedReason(cs []Caution) string {
+func UnexplainedReason(cs []setup.Caution) string {
 	for _, c := range cs {
-		if c.Level != Stop || c.ID == "readings-unexplained" {
+		if c.Level != setup.Stop || c.ID == setup.CautionReadingsUnexplained {
 			continue
 		}
-		v, lim := plain(c.Value), plain(c.Limit)
 		switch c.ID {
-		case "measured-peak-high":
-			return "peak " + v + " cmH2O above " + lim
-		case "measured-peak-above-relief":
-			return "peak " + v + " cmH2O above relief " + lim
-		case "measured-end-at-or-below-peep":
-			return "end " + v + " cmH2O at or below PEEP"
-		case "measured-peak-below-end":
-			return "peak " + v + " below end " + lim + " cmH2O"
-		case "readings-not-numbers":
-			return "a reading is not a number"
+		case setup.CautionMeasuredPeakHigh, setup.CautionMeasuredPeakAboveRelief, setup.CautionMeasuredEndAtOrBelowPEEP,
+			setup.CautionMeasuredPeakBelowEnd, setup.CautionReadingsNotNumbers:
+			r, _ := setup.CautionRuleOf(c.ID)
+			return r.Ward(c)
 		}
-		return c.ID
+		return string(c.ID)
 	}
 	return ""
 }

@@ -1,6 +1,7 @@
-package setup
+package report
 
 import (
+	"crankside/setup"
 	"fmt"
 	"math"
 	"strconv"
@@ -17,7 +18,7 @@ const StepHeading = "THE STEP ON THIS MACHINE"
 
 // GasLine is the gas and oximeter entries on one line, each not taken said
 // so.
-func GasLine(g GasReadingsJSON) string {
+func GasLine(g setup.GasReadings) string {
 	one := func(name string, v *float64, unit string, digits int) string {
 		if v == nil {
 			return name + " not taken"
@@ -52,7 +53,7 @@ var ruleWords = map[string]string{"fired": "FIRED", "in-goal": "IN GOAL", "no-st
 
 // ProtocolRuleRows are the step's rules in the order they were applied;
 // nil without a step.
-func ProtocolRuleRows(j CheckJSON) []ProtocolRuleRow {
+func ProtocolRuleRows(j setup.CheckJSON) []ProtocolRuleRow {
 	if j.ProtocolStep == nil {
 		return nil
 	}
@@ -86,26 +87,26 @@ func ruleValue(id string, v float64) string {
 }
 
 // stepSetting is the step's setting from its JSON.
-func stepSetting(p ProtocolProposedJSON) Setting {
-	return Setting{Hole: p.Hole, RPM: p.MotorRPM, DwellS: p.DwellS, PEEPCmH2O: p.PEEPCmH2O, O2LPerMin: p.O2FlowLMin}
+func stepSetting(p setup.ProtocolProposedJSON) setup.Setting {
+	return setup.Setting{Hole: p.Hole, RPM: p.MotorRPM, DwellS: p.DwellS, PEEPCmH2O: p.PEEPCmH2O, O2LPerMin: p.O2FlowLMin}
 }
 
 // StepChanges reports whether the step changes the setting.
-func StepChanges(j CheckJSON) bool {
+func StepChanges(j setup.CheckJSON) bool {
 	if j.ProtocolStep == nil {
 		return false
 	}
-	return !sameSetting(stepSetting(j.ProtocolStep.Proposed), roundedSetting(j.Setting))
+	return !setup.SameSetting(stepSetting(j.ProtocolStep.Proposed), roundedSetting(j.Setting))
 }
 
-func roundedSetting(s Setting) Setting {
-	return Setting{Hole: s.Hole, RPM: r4(s.RPM), DwellS: r4(s.DwellS), PEEPCmH2O: r4(s.PEEPCmH2O), O2LPerMin: r4(s.O2LPerMin)}
+func roundedSetting(s setup.Setting) setup.Setting {
+	return setup.Setting{Hole: s.Hole, RPM: r4(s.RPM), DwellS: r4(s.DwellS), PEEPCmH2O: r4(s.PEEPCmH2O), O2LPerMin: r4(s.O2LPerMin)}
 }
 
 // StepSettingText is the step's setting on one line, without a heading:
 // "hole 8, 21.0 rpm, dwell 1.4 s (15.0 /min), PEEP 5 cmH2O, FiO2 0.30
 // (O2 3.2 L/min), Vt 6.1 mL/kg PBW", or why there is none.
-func StepSettingText(j CheckJSON) string {
+func StepSettingText(j setup.CheckJSON) string {
 	if j.ProtocolStep == nil {
 		return ""
 	}
@@ -119,11 +120,11 @@ func StepSettingText(j CheckJSON) string {
 
 // StepSettingHeading heads the step's setting: a stop of the step's
 // setting replaces the heading; a step not evaluated says so.
-func StepSettingHeading(j CheckJSON) string {
+func StepSettingHeading(j setup.CheckJSON) string {
 	switch {
-	case j.ProposalFrom == ProposalEntered && StepChanges(j):
+	case j.ProposalFrom == setup.ProposalEntered && StepChanges(j):
 		return StepHeading + " (not evaluated: the proposal entered differs from it)"
-	case j.Proposed != nil && (j.ProposalFrom == ProposalFromStep || j.ProposalFrom == ProposalEnteredAsStep):
+	case j.Proposed != nil && (j.ProposalFrom == setup.ProposalFromStep || j.ProposalFrom == setup.ProposalEnteredAsStep):
 		return SettingHeading(j.Proposed.Cautions, StepHeading)
 	}
 	return StepHeading
@@ -131,7 +132,7 @@ func StepSettingHeading(j CheckJSON) string {
 
 // StepChangeLines say what the machine's steps changed from what the
 // protocol wanted ("rate: wanted 21.1 /min, this machine 20.0 /min").
-func StepChangeLines(j CheckJSON) []string {
+func StepChangeLines(j setup.CheckJSON) []string {
 	var out []string
 	for _, c := range j.ProtocolChanges {
 		u := strings.TrimRight(" "+c.Unit, " ")
@@ -141,13 +142,13 @@ func StepChangeLines(j CheckJSON) []string {
 }
 
 // ProposalFromLine says where the proposal evaluated came from, or "".
-func ProposalFromLine(j CheckJSON) string {
+func ProposalFromLine(j setup.CheckJSON) string {
 	switch j.ProposalFrom {
-	case ProposalFromStep:
+	case setup.ProposalFromStep:
 		return "The proposal evaluated here is the protocol's step."
-	case ProposalEnteredAsStep:
+	case setup.ProposalEnteredAsStep:
 		return "The proposal entered is the protocol's step, evaluated here."
-	case ProposalEntered:
+	case setup.ProposalEntered:
 		if StepChanges(j) {
 			return "The proposal entered by hand is evaluated here, not the protocol's step: clear it, or enter the step's setting, to see the step's figures and cautions."
 		}
@@ -159,16 +160,16 @@ func ProposalFromLine(j CheckJSON) string {
 // protocolSection prints the readings, every rule with its reading, goal,
 // action and source, the step's setting on this machine, what the
 // machine's steps changed and where the proposal came from.
-func (w *reportWriter) protocolSection(j CheckJSON) {
+func (w *reportWriter) protocolSection(j setup.CheckJSON) {
 	if j.GasReadings == nil {
 		return
 	}
 	w.line("%s", GasLine(*j.GasReadings))
-	if g := GasWardWords(j.Cautions); g != "" {
+	if g := setup.GasWardWords(j.Cautions); g != "" {
 		// Near the top: the full list is under the figures.
 		w.line("GAS CAUTIONS  %s (in full under CAUTIONS NOW)", g)
 	}
-	if o := OxygenationText(j.OxygenationJSON); o != "" {
+	if o := setup.OxygenationText(j.OxygenationJSON); o != "" {
 		w.line("OXYGENATION  %s", o)
 	}
 	if j.ProtocolProblem != "" {
