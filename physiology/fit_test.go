@@ -2,6 +2,7 @@ package physiology
 
 import (
 	"errors"
+	"math"
 	"testing"
 
 	"github.com/stretchr/testify/require"
@@ -106,6 +107,17 @@ func TestFitMechanicsFromACoarseFit(t *testing.T) {
 	}
 	_, err := FitMechanicsFrom(Readings{20, 5}, 5, Mechanics{ComplianceMLPerCmH2O: 50, ResistanceCmH2OPerLS: 10}, equationOfMotion(5))
 	require.ErrorIs(t, err, ErrNoMechanics, "an end at PEEP is refused whatever the start")
+	// A start that is no lung (nothing fitted, a zero, an infinity on
+	// either side) is the physical start: the very fit FitMechanics makes,
+	// step for step.
+	want, err := FitMechanics(Readings{32.5, 20.5}, 5, equationOfMotion(5))
+	require.NoError(t, err)
+	for _, near := range []Mechanics{{}, {ComplianceMLPerCmH2O: 0, ResistanceCmH2OPerLS: 10}, {ComplianceMLPerCmH2O: 50},
+		{ComplianceMLPerCmH2O: math.Inf(1), ResistanceCmH2OPerLS: 10}, {ComplianceMLPerCmH2O: math.Inf(1)}, {ComplianceMLPerCmH2O: math.NaN(), ResistanceCmH2OPerLS: 10}} {
+		got, err := FitMechanicsFrom(Readings{32.5, 20.5}, 5, near, equationOfMotion(5))
+		require.NoError(t, err)
+		require.Equal(t, want, got, "from %+v", near)
+	}
 }
 
 func TestFitComplianceFromEndAlone(t *testing.T) {
@@ -118,6 +130,18 @@ func TestFitComplianceFromEndAlone(t *testing.T) {
 		require.InEpsilon(t, k.c, m.ComplianceMLPerCmH2O, 1e-6, "end %v (derived)", k.end)
 		require.Equal(t, 10.0, m.ResistanceCmH2OPerLS, "the resistance given, not fitted")
 		require.True(t, m.EndOnly)
+	}
+	// At the ends of the plausible resistances (FitRMin 1, FitRMax 100):
+	// end 15.1 at R 1 is 5 + 500/C + 0.1, and end 25 at R 100 is
+	// 5 + 500/C + 10, both C 50 (derived); beyond them is a programmer's
+	// mistake (a panic).
+	for _, k := range []struct{ end, r float64 }{{15.1, FitRMin}, {25, FitRMax}} {
+		m, err := FitComplianceFromEnd(k.end, 5, k.r, limited(5))
+		require.NoError(t, err, "R %v", k.r)
+		require.InEpsilon(t, 50, m.ComplianceMLPerCmH2O, 1e-6, "R %v (derived)", k.r)
+	}
+	for _, r := range []float64{FitRMin - 0.01, FitRMax + 0.01, math.NaN()} {
+		require.Panics(t, func() { _, _ = FitComplianceFromEnd(20, 5, r, limited(5)) }, "R %v", r)
 	}
 	// End 6.5 at R 10 needs 500/C = 0.5, C 1000: above FitCMax (200).
 	_, err := FitComplianceFromEnd(6.5, 5, 10, limited(5))
