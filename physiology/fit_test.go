@@ -167,3 +167,57 @@ func TestFitMechanicsOutsideTheRangesIsRefused(t *testing.T) {
 		require.Contains(t, re.Reason, k.says)
 	}
 }
+
+func TestPhysicalStartByHand(t *testing.T) {
+	// The start (fitter.start) worked by hand on the equation of motion
+	// (peak = 5 + 500/C + 0.5 R, end = 5 + 500/C + 0.1 R, Chatburn 2014;
+	// PEEP 5). The probe lung C 50, R 10 reads an end of 5 + 10 + 1 = 16,
+	// so it holds 50 x (16 - 5) = 550 mL; the lung that reads End holds
+	// the same, C = 550 / (End - 5). A second probe at that C and R 20
+	// reads a gap of 0.4 x 20 = 8, so R = 20 x gap / 8.
+	// - 32.5/26.5 (C 25, R 15): C 550/21.5 = 25.581, R 20 x 6/8 = 15.
+	// - 20/20 (no gap): C 550/15 = 36.667, R the least plausible, 1.
+	// - 6/5.01: C 550/0.01 is far above 200, so 200; R 20 x 0.99/8 = 2.475.
+	for _, k := range []struct{ peak, end, c, r float64 }{
+		{32.5, 26.5, 550 / 21.5, 15}, {20, 20, 550.0 / 15, FitRMin}, {6, 5.01, FitCMax, 2.475},
+	} {
+		lc, lr, err := newFitter(Readings{k.peak, k.end}, 5, equationOfMotion(5)).start()
+		require.NoError(t, err)
+		require.InEpsilon(t, k.c, math.Exp(lc), 1e-12, "%v/%v: C (derived)", k.peak, k.end)
+		require.InEpsilon(t, k.r, math.Exp(lr), 1e-12, "%v/%v: R (derived)", k.peak, k.end)
+	}
+	// A model whose end never rises above PEEP tells nothing of C: the
+	// probe's C 50 is kept; its gap of 1 cmH2O at R 20 scales a measured
+	// gap of 4 to R 80. A model with no gap at all keeps the probe's R 20.
+	flatEnd := func(c, r float64) (float64, float64, error) { return 6, 5, nil }
+	lc, lr, err := newFitter(Readings{20, 16}, 5, flatEnd).start()
+	require.NoError(t, err)
+	require.InEpsilon(t, 50, math.Exp(lc), 1e-12)
+	require.InEpsilon(t, 80, math.Exp(lr), 1e-12)
+	noGap := func(c, r float64) (float64, float64, error) { return 16, 16, nil }
+	lc, lr, err = newFitter(Readings{20, 16}, 5, noGap).start()
+	require.NoError(t, err)
+	require.InEpsilon(t, 50*11/11.0, math.Exp(lc), 1e-12)
+	require.InEpsilon(t, 20, math.Exp(lr), 1e-12)
+}
+
+func TestAFailingModelIsReportedNeverALung(t *testing.T) {
+	// A model that cannot run a lung (here any C above 100) stops the fit
+	// with its error, from the physical start or from a given lung, at the
+	// first lung it is asked for and at the second probe.
+	broken := errors.New("model refuses")
+	model := func(c, r float64) (float64, float64, error) {
+		if c > 100 {
+			return 0, 0, broken
+		}
+		return equationOfMotion(5)(c, r)
+	}
+	_, err := FitMechanicsFrom(Readings{32.5, 26.5}, 5, Mechanics{ComplianceMLPerCmH2O: 150, ResistanceCmH2OPerLS: 10}, model)
+	require.ErrorIs(t, err, broken)
+	// 8/7 starts at C 550/2 = 275 (above 100): the second probe fails.
+	_, err = FitMechanics(Readings{8, 7}, 5, model)
+	require.ErrorIs(t, err, broken)
+	// A model that fails at the first probe (C 50).
+	_, err = FitMechanics(Readings{32.5, 26.5}, 5, func(c, r float64) (float64, float64, error) { return 0, 0, broken })
+	require.ErrorIs(t, err, broken)
+}
