@@ -221,3 +221,49 @@ func TestAFailingModelIsReportedNeverALung(t *testing.T) {
 	_, err = FitMechanics(Readings{32.5, 26.5}, 5, func(c, r float64) (float64, float64, error) { return 0, 0, broken })
 	require.ErrorIs(t, err, broken)
 }
+
+// countingModel is model with a count of the lungs it is asked for; a
+// lung outside the plausible box (FitCMin-FitCMax, FitRMin-FitRMax; 1e-9
+// for the rounding of exp(log x)) is refused, as a model built for those
+// lungs only may.
+func countingModel(model PressureModel, n *int) PressureModel {
+	const e = 1e-9
+	return func(c, r float64) (float64, float64, error) {
+		*n++
+		if c > FitCMax*(1+e) || r > FitRMax*(1+e) || c < FitCMin*(1-e) || r < FitRMin*(1-e) {
+			return 0, 0, errors.New("outside the box")
+		}
+		return model(c, r)
+	}
+}
+
+func TestNewtonSolvesAWellPosedLungInFewModelRuns(t *testing.T) {
+	// The fit's Newton steps, not its bracketing solve, reach a lung the
+	// equation of motion makes: derived bound, 2 probes + 1 residual + 3
+	// runs a step (two differences, one trial) x at most 5 steps from a
+	// start within 3 % (quadratic convergence to 1e-9 cmH2O) = 18; 30
+	// leaves room for halved steps. The bracketing solve needs about 180
+	// runs on these readings. The hand-worked lungs of
+	// TestFitMechanicsSolvesBothEquations, and the box's corners C 200
+	// (peak 5 + 2.5 + 0.5 R), C 5 (5 + 100 + 0.5 R) and R 100 (5 + 500/C +
+	// 50), where the differences must be taken inward.
+	for _, k := range []struct{ peak, end, c, r float64 }{
+		{20, 16, 50, 10}, {32.5, 26.5, 25, 15}, {13.75, 11.75, 80, 5}, {32.5, 20.5, 40, 30},
+		{12.5, 8.5, 200, 10}, {115, 107, 5, 20}, {65, 25, 50, 100},
+	} {
+		n := 0
+		m, err := FitMechanics(Readings{k.peak, k.end}, 5, countingModel(equationOfMotion(5), &n))
+		require.NoError(t, err, "%+v", k)
+		require.InEpsilon(t, k.c, m.ComplianceMLPerCmH2O, 1e-6, "%+v: C (derived)", k)
+		require.InEpsilon(t, k.r, m.ResistanceCmH2OPerLS, 1e-6, "%+v: R (derived)", k)
+		require.LessOrEqual(t, n, 30, "%+v: model runs", k)
+		// From a lung 1 % off (a coarser model's fit), fewer still: 1 +
+		// 3 x at most 3 steps = 10, 16 with room for halved steps.
+		n = 0
+		near := Mechanics{ComplianceMLPerCmH2O: min(FitCMax, k.c*1.01), ResistanceCmH2OPerLS: max(FitRMin, k.r*0.99)}
+		m, err = FitMechanicsFrom(Readings{k.peak, k.end}, 5, near, countingModel(equationOfMotion(5), &n))
+		require.NoError(t, err, "%+v", k)
+		require.InEpsilon(t, k.c, m.ComplianceMLPerCmH2O, 1e-9, "%+v: C from near", k)
+		require.LessOrEqual(t, n, 16, "%+v: model runs from near", k)
+	}
+}
