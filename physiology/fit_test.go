@@ -267,3 +267,76 @@ func TestNewtonSolvesAWellPosedLungInFewModelRuns(t *testing.T) {
 		require.LessOrEqual(t, n, 16, "%+v: model runs from near", k)
 	}
 }
+
+func TestIllinoisFindsACubeRoot(t *testing.T) {
+	// The cube root of 2 (1.2599210498948732) as the root of x^3 - 2 on
+	// [0, 2], either sign first: the Illinois halving (Dowell and Jarratt
+	// 1971) converges superlinearly, here in about 9 evaluations; plain
+	// regula falsi keeps the end at 2 for ever and gains only a constant
+	// factor a step (derived: near the root 1.26 the secant to (2, 6) has
+	// slope 6/0.74 = 8.1 against f' = 3 x 1.26^2 = 4.76, so each step
+	// leaves 1 - 4.76/8.1 = 0.41 of the error, and 1e-10 needs about 26
+	// steps), so 12 is the bound.
+	for _, sign := range []float64{1, -1} {
+		n := 0
+		f := func(x float64) (float64, error) { n++; return sign * (x*x*x - 2), nil }
+		x, _, err := illinois(f, 0, 2, sign*-2, sign*6)
+		require.NoError(t, err)
+		require.InDelta(t, 1.2599210498948732, x, 1e-11, "sign %v", sign)
+		require.LessOrEqual(t, n, 12, "sign %v: evaluations", sign)
+	}
+	// Mirrored, (x - 2)^3 + 2 on [0, 2], root 2 - 1.2599210498948732,
+	// keeps the other end (0, -6) fixed: the halving works on that side too.
+	n := 0
+	f := func(x float64) (float64, error) { n++; return (x-2)*(x-2)*(x-2) + 2, nil }
+	x, _, err := illinois(f, 0, 2, -6, 2)
+	require.NoError(t, err)
+	require.InDelta(t, 2-1.2599210498948732, x, 1e-11)
+	require.LessOrEqual(t, n, 12, "mirrored: evaluations")
+	// A function that errors stops the solve with its error.
+	broken := errors.New("no value")
+	_, _, err = illinois(func(float64) (float64, error) { return 0, broken }, 0, 2, -2, 6)
+	require.ErrorIs(t, err, broken)
+}
+
+func TestReadingsNeedingALungBelowTheRangesAreRefused(t *testing.T) {
+	// Derived from the equation of motion (PEEP 5): 130/120 has a gap of
+	// 10 = 0.4 R, R 25, so 500/C = 120 - 5 - 2.5 = 112.5 and C 4.4, below
+	// FitCMin 5: re-take the end pressure. 20.2/20 has a gap of 0.2, R 0.5,
+	// below FitRMin 1: re-take the peak.
+	for _, k := range []struct {
+		peak, end float64
+		retake    string
+		says      string
+	}{{130, 120, "end pressure", "compliance below 5"}, {20.2, 20, "peak", "too close to the end pressure 20.0"}, {20.2, 20, "peak", "resistance below 1 "}} {
+		_, err := FitMechanics(Readings{k.peak, k.end}, 5, equationOfMotion(5))
+		var re *ReadingError
+		require.True(t, errors.As(err, &re), "%+v: %v", k, err)
+		require.Equal(t, k.retake, re.Retake, "%+v", k)
+		require.Contains(t, re.Reason, k.says, "%+v", k)
+	}
+	// At R 10 an end of 120 needs 500/C = 114, C 4.4: below 5.
+	_, err := FitComplianceFromEnd(120, 5, 10, limited(5))
+	require.ErrorContains(t, err, "compliance below 5")
+}
+
+func TestAPeakNoLungReachesIsRefused(t *testing.T) {
+	// A model whose peak jumps by 3 cmH2O where R passes 10 (as a valve
+	// that opens would make it): a peak of 21.5 over an end of 16 lies in
+	// the jump (C 50: peak 20 just below R 10, 23 just above, derived), so
+	// no lung reproduces it; the bracketing solve ends at the jump and
+	// says so, naming the closest lung, C 50 and R 10.
+	jump := func(c, r float64) (float64, float64, error) {
+		p, e, _ := equationOfMotion(5)(c, r)
+		if r > 10 {
+			p += 3
+		}
+		return p, e, nil
+	}
+	_, err := FitMechanics(Readings{21.5, 16}, 5, jump)
+	var re *ReadingError
+	require.True(t, errors.As(err, &re), "%v", err)
+	require.Equal(t, "peak", re.Retake)
+	require.Contains(t, re.Reason, "no compliance and resistance reproduce peak 21.5 and end 16.0")
+	require.Contains(t, re.Reason, "closest C 50 mL/cmH2O, R 10 cmH2O/(L/s)")
+}
