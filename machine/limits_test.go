@@ -203,3 +203,86 @@ func TestFitCalibrationResidualPercent(t *testing.T) {
 	require.InDelta(t, 1.5, fit.Residuals[0].ResidualML, 1e-9)
 	require.InDelta(t, 1.8868, fit.Residuals[0].ResidualPct, 1e-4)
 }
+
+func TestTheOutletValveOpensWhereBoyleSays(t *testing.T) {
+	// Derived (Boyle, isothermal, no leak): the cylinder's 785.40 mL at
+	// the bottom dead centre must be pushed to the circuit's 8 cmH2O,
+	// which takes 785.40 x 8 / (1033.23 + 8) = 6.0343 mL of the piston's
+	// travel (TestPreCompressionIsBoyles); the time at which the piston has
+	// moved that far, from x(t) = r cos(theta) + sqrt(L^2 - r^2 sin^2
+	// theta), theta = pi + omega t, is found here by bisection, apart from
+	// the code's grid. The valve opens inside a 1 ms step, interpolated to
+	// within 1e-5 s of it.
+	in := demoStroke(2.8)
+	in.StartVolumeML = 0
+	in.Gas = GasPath{HeadPositionCm: 29.2}
+	r := run(t, in)
+	omega := 2 * math.Pi * 21 / 60
+	pos := func(ts float64) float64 {
+		s, c := math.Sincos(math.Pi + omega*ts)
+		return 2.8*c + math.Sqrt(22*22-2.8*2.8*s*s)
+	}
+	area := math.Pi * 25
+	need := area * (29.2 - pos(0)) * 8 / (101325/98.0665 + 8)
+	lo, hi := 0.0, 1.0
+	for range 60 {
+		if mid := (lo + hi) / 2; area*(pos(mid)-pos(0)) < need {
+			lo = mid
+		} else {
+			hi = mid
+		}
+	}
+	require.InDelta(t, lo, r.Gas.ValveOpensS, 1e-5)
+	require.InDelta(t, need, r.Gas.PreCompressionML, 1e-4)
+}
+
+func TestAValveThatNeverOpensDeliversNothing(t *testing.T) {
+	// Derived: with the lung at 1000 cmH2O (40 000 mL over 40 mL/cmH2O,
+	// far beyond any patient, only to reach the case), the smallest hole's
+	// whole stroke (78.54 x 2 x 1.4 = 219.9 mL) cannot compress the
+	// cylinder's 78.54 x (29.2 - 20.6) = 675.4 mL to it (Boyle: that needs
+	// 675.4 x 1000 / 2033 = 332 mL), so the outlet valve never opens: the
+	// valve "opens" at the stroke's end, the whole displacement is
+	// pre-compression, nothing reaches the lung, and the piston's pressure
+	// at the end is Boyle's 1033.23 x 219.9 / (675.4 - 219.9) = 498.8
+	// cmH2O, whose force through the crank sets the peak torque (at least
+	// the end's, where dx/dtheta is 0, so this is a lower bound only on the
+	// force: 498.8 cmH2O x 98.0665 Pa x 0.007854 m2 = 384 N).
+	in := demoStroke(1.4)
+	in.StartVolumeML, in.Lung = 40000, Lung{40, 12}
+	in.PEEPCmH2O = 0
+	in.Gas = GasPath{HeadPositionCm: 29.2}
+	r := run(t, in)
+	durS := math.Pi / (2 * math.Pi * 21 / 60)
+	require.InDelta(t, durS, r.Gas.ValveOpensS, 1e-9)
+	require.InDelta(t, 219.9, r.Gas.PreCompressionML, 0.1)
+	require.InDelta(t, 0, r.DeliveredML, 1e-9)
+	require.Equal(t, 1429, r.Steps, "ceil(1428.57) steps of 1 ms")
+	// The torque: Norton's formula at each grid point with Boyle's
+	// pressure for the travel so far (from the analytic x(t)), apart from
+	// the code's summed flows.
+	k := in.Stroke.kinematics()
+	want := 0.0
+	n := r.Steps
+	for i := 0; i <= n; i++ {
+		th := k.bottom + k.omega*durS*float64(i)/float64(n)
+		s, c := math.Sincos(th)
+		x := 1.4*c + math.Sqrt(22*22-1.4*1.4*s*s)
+		d := math.Pi * 25 * (x - (22 - 1.4))
+		pc := (101325 / 98.0665) * d / (675.44 - d)
+		want = math.Max(want, math.Abs(nortonTorqueNm(in.Stroke.Crank, th, pc*98.0665*math.Pi*0.01/4+in.RingFrictionN)))
+	}
+	require.InEpsilon(t, want, r.PeakTorqueNm, 1e-3)
+}
+
+func TestStepsAreReported(t *testing.T) {
+	// 21 rpm in line: the delivery takes 60 / (2 x 21) = 1.428571 s, so
+	// ceil(1428.57) = 1429 steps of 1.428571/1429 s, in both versions.
+	for name, gas := range map[string]GasPath{"v1": {}, "v2": demoGas()} {
+		in := demoStroke(2.8)
+		in.Gas = gas
+		r := run(t, in)
+		require.Equal(t, 1429, r.Steps, name)
+		require.InDelta(t, 60.0/42/1429, r.StepS, 1e-15, name)
+	}
+}
