@@ -3,6 +3,7 @@ package physiology
 import (
 	"errors"
 	"math"
+	"strings"
 	"testing"
 
 	"github.com/stretchr/testify/require"
@@ -50,6 +51,12 @@ func TestFitMechanicsSaysWhichReadingToRetake(t *testing.T) {
 		require.True(t, errors.As(err, &re), "%+v: %v", c.rd, err)
 		require.Equal(t, c.retake, re.Retake, "%+v", c.rd)
 		require.ErrorIs(t, err, ErrNoMechanics)
+		// The message ends with what to do, in words a person reads.
+		want := "; re-take the " + c.retake
+		if c.retake == "both readings" {
+			want = "; re-take both readings"
+		}
+		require.True(t, strings.HasSuffix(err.Error(), want), "%q", err.Error())
 	}
 }
 
