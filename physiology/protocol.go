@@ -90,16 +90,22 @@ const (
 	srcAlveolar     = "derived: alveolar ventilation equation, PaCO2 proportional to 1 / (rate x (Vt - Vd))"
 )
 
-// GasReadings are the blood gas and the oximeter at handover. A nil field
-// was not taken.
+// GasReadings are the blood gas and the oximeter at handover, with the
+// apparatus dead space the rate step needs when the tidal volume changes:
+// the one type of these readings, from the entries to the protocol step,
+// the cautions, a check's JSON and its record (keys with their units). A
+// nil field was not taken (or, for the dead space, not entered: 0 mL is
+// then assumed and said so).
 type GasReadings struct {
-	SpO2Pct   *float64
-	PaO2MmHg  *float64
-	PH        *float64
-	PaCO2MmHg *float64
+	SpO2Pct              *float64 `json:"spo2_pct"`                // %
+	PaO2MmHg             *float64 `json:"pao2_mmhg"`               // mmHg
+	PH                   *float64 `json:"ph"`                      //
+	PaCO2MmHg            *float64 `json:"paco2_mmhg"`              // mmHg
+	ApparatusDeadSpaceML *float64 `json:"apparatus_dead_space_ml"` // mL: tube, filter, connectors
 }
 
-// Empty reports whether no reading was taken.
+// Empty reports whether no reading was taken; the apparatus dead space
+// alone is not a reading.
 func (g GasReadings) Empty() bool {
 	return g.SpO2Pct == nil && g.PaO2MmHg == nil && g.PH == nil && g.PaCO2MmHg == nil
 }

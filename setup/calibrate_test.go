@@ -99,8 +99,8 @@ func TestCalibrationCautions(t *testing.T) {
 	res, err := setup.Calibrate(p, pts, "", today)
 	require.NoError(t, err)
 	require.Equal(t, "2026-12-01", res.Date)
-	require.True(t, hasCaution(res.Cautions, "calibration-residual"))
-	require.True(t, hasCaution(res.Cautions, "calibration-thin"))
+	require.True(t, hasCaution(res.Cautions, setup.CautionCalibrationResidual))
+	require.True(t, hasCaution(res.Cautions, setup.CautionCalibrationThin))
 	_, err = setup.Calibrate(p, pts, "2027-01-01", today)
 	require.ErrorIs(t, err, setup.ErrInput, "a date in the future is refused")
 }
@@ -121,8 +121,8 @@ func TestPlanUsesTheNewCalibration(t *testing.T) {
 		require.InDelta(t, 0.9*h.SweptML-10, h.EffectiveSweptML, 1e-6)
 		require.Less(t, h.DeliveredML, before.Holes[i].DeliveredML)
 	}
-	require.False(t, hasCaution(after.Cautions, "calibration-missing"))
-	require.True(t, hasCaution(before.Cautions, "calibration-missing"))
+	require.False(t, hasCaution(after.Cautions, setup.CautionCalibrationMissing))
+	require.True(t, hasCaution(before.Cautions, setup.CautionCalibrationMissing))
 	// A weaker machine needs a larger hole for the same target.
 	require.Greater(t, after.Hole.RadiusCm, before.Hole.RadiusCm)
 }
@@ -167,9 +167,9 @@ func TestCalibrateUnwritableNamesTheCaution(t *testing.T) {
 	}
 	res, err := setup.Calibrate(p, pts, "2026-11-30", today)
 	require.NoError(t, err)
-	var ids []string
+	var ids []setup.CautionID
 	for _, c := range res.Unwritable() {
 		ids = append(ids, c.ID)
 	}
-	require.Contains(t, ids, "calibration-k-implausible")
+	require.Contains(t, ids, setup.CautionCalibrationKImplausible)
 }

@@ -11,6 +11,7 @@ import (
 	"github.com/stretchr/testify/require"
 
 	"crankside/physiology"
+	"crankside/report"
 	"crankside/setup"
 )
 
@@ -26,9 +27,9 @@ func TestHandoverCardGolden(t *testing.T) {
 	rec, err := setup.NewRecord(ck, "B4", "jk", today)
 	require.NoError(t, err)
 	var b bytes.Buffer
-	require.NoError(t, setup.WriteCard(&b, rec))
+	require.NoError(t, report.WriteCard(&b, rec))
 	for _, line := range strings.Split(b.String(), "\n") {
-		require.LessOrEqual(t, len(line), setup.CardWidth, "card line too wide: %q", line)
+		require.LessOrEqual(t, len(line), report.CardWidth, "card line too wide: %q", line)
 	}
 	require.Contains(t, b.String(), setup.ClinicalCaution[:40])
 	path := filepath.Join("testdata", "card.golden")

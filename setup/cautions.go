@@ -51,14 +51,14 @@ func (l *Level) UnmarshalText(b []byte) error {
 
 // Caution is one finding about a setting.
 type Caution struct {
-	ID      string  `json:"id"`
-	Level   Level   `json:"level"`
-	Message string  `json:"message"` // one line with the number and the limit
-	Value   float64 `json:"value"`
-	Limit   float64 `json:"limit"`
-	Unit    string  `json:"unit"`
-	Advice  string  `json:"advice"`
-	Source  string  `json:"source"`
+	ID      CautionID `json:"id"`
+	Level   Level     `json:"level"`
+	Message string    `json:"message"` // one line with the number and the limit
+	Value   float64   `json:"value"`
+	Limit   float64   `json:"limit"`
+	Unit    string    `json:"unit"`
+	Advice  string    `json:"advice"`
+	Source  string    `json:"source"`
 }
 
 // ClinicalCaution is carried by every screen and printout.
@@ -129,8 +129,15 @@ const (
 )
 
 const (
-	srcRadford = "Radford 1955 dead space 2.2 mL/kg PBW (from memory); threshold common practice"
-	srcProfile = "this machine's profile"
+	srcRadford      = "Radford 1955 dead space 2.2 mL/kg PBW (from memory); threshold common practice"
+	srcAlveolarStop = srcRadford + "; stop below 20 mL/kg/min, a third of the usual 60 (alveolar ventilation equation): common practice"
+	srcProfile      = "this machine's profile"
+	srcDevine       = "Devine 1974, ARDS Network 2000"
+	srcVtStopLow    = "common practice (ARDS Network 2000 floor is 4)"
+	srcIE           = srcARDSNet + "; " + srcMHRA
+	srcMinuteVent   = srcCommon + " (about 100 mL/kg/min is usual)"
+	srcCalK         = srcCommon + " (derived: a piston delivers at most what it sweeps)"
+	srcMeasuredPeak = srcMHRA + " (high inspiratory pressure)"
 )
 
 // assessment is every figure a caution may need.
@@ -163,61 +170,72 @@ func assess(a assessment) []Caution {
 	out = append(out, heightCaution(a)...)
 
 	mlkg := f.Hole.MLPerKg
-	switch {
-	case mlkg >= VtStopMLPerKg:
-		add(Caution{ID: "tidal-volume-high", Level: Stop, Value: mlkg, Limit: VtStopMLPerKg, Unit: "mL/kg PBW",
-			Message: fmt.Sprintf("tidal volume %.1f mL/kg PBW is at or above %.0f", mlkg, VtStopMLPerKg),
-			Advice:  smallerHoleAdvice(a, true), Source: srcARDSNet})
-	case mlkg > VtWarnMLPerKg:
-		add(Caution{ID: "tidal-volume-high", Level: Warn, Value: mlkg, Limit: VtWarnMLPerKg, Unit: "mL/kg PBW",
-			Message: fmt.Sprintf("tidal volume %.1f mL/kg PBW is above %.0f", mlkg, VtWarnMLPerKg),
-			Advice:  smallerHoleAdvice(a, false), Source: srcARDSNet})
-	case mlkg < VtStopLowMLPerKg:
-		add(Caution{ID: "tidal-volume-low", Level: Stop, Value: mlkg, Limit: VtStopLowMLPerKg, Unit: "mL/kg PBW",
-			Message: fmt.Sprintf("tidal volume %.1f mL/kg PBW is below %.0f: little or no gas passes the dead space", mlkg, VtStopLowMLPerKg),
-			Advice:  "do not use: larger hole; check the circuit for a leak", Source: "common practice (ARDS Network 2000 floor is 4)"})
-	case mlkg < VtLowMLPerKg:
-		add(Caution{ID: "tidal-volume-low", Level: Warn, Value: mlkg, Limit: VtLowMLPerKg, Unit: "mL/kg PBW",
-			Message: fmt.Sprintf("tidal volume %.1f mL/kg PBW is below %.0f", mlkg, VtLowMLPerKg),
-			Advice:  "watch CO2; consider a larger hole or a higher rate", Source: srcARDSNet})
+	if r, l, ok := judged(CautionTidalVolumeHigh, mlkg); ok {
+		msg := fmt.Sprintf("tidal volume %.1f mL/kg PBW is above %.0f", mlkg, l.Value)
+		if l.Level == Stop {
+			msg = fmt.Sprintf("tidal volume %.1f mL/kg PBW is at or above %.0f", mlkg, l.Value)
+		}
+		add(r.caution(l, mlkg, msg, smallerHoleAdvice(a, l.Level == Stop)))
+	}
+	if r, l, ok := judged(CautionTidalVolumeLow, mlkg); ok {
+		msg, advice := fmt.Sprintf("tidal volume %.1f mL/kg PBW is below %.0f", mlkg, l.Value), "watch CO2; consider a larger hole or a higher rate"
+		if l.Level == Stop {
+			msg = fmt.Sprintf("tidal volume %.1f mL/kg PBW is below %.0f: little or no gas passes the dead space", mlkg, l.Value)
+			advice = "do not use: larger hole; check the circuit for a leak"
+		}
+		add(r.caution(l, mlkg, msg, advice))
 	}
 	out = append(out, pressureCautions(a)...)
-	if r := f.Timing.RateBPM; r > RateMaxBPM {
-		add(Caution{ID: "rate-high", Level: Warn, Value: r, Limit: RateMaxBPM, Unit: "/min",
-			Message: fmt.Sprintf("rate %.1f /min is above %.0f", r, RateMaxBPM),
-			Advice:  "check for trapped gas; the protocol's ceiling is 35", Source: srcARDSNet})
-	} else if r < RateMinBPM {
-		add(Caution{ID: "rate-low", Level: Warn, Value: r, Limit: RateMinBPM, Unit: "/min",
-			Message: fmt.Sprintf("rate %.1f /min is below %.0f", r, RateMinBPM),
-			Advice:  "check minute ventilation and CO2", Source: srcCommon})
-	}
+	out = append(out, rateCautions(f.Timing.RateBPM)...)
 	out = append(out, timingCautions(a)...)
 	out = append(out, ventilationCautions(a)...)
 	out = append(out, reliefCautions(a.reliefCmH2O)...)
 	out = append(out, holeCautions(a)...)
 	out = append(out, calibrationCautions(a.cal)...)
 	if a.clearanceNote != "" {
-		add(Caution{ID: "clearance-default", Level: Note, Value: 0, Limit: 0, Unit: "cm",
+		add(Caution{ID: CautionClearanceDefault, Level: Note, Value: 0, Limit: 0, Unit: "cm",
 			Message: a.clearanceNote, Advice: "measure the gap between the piston at its top and the cylinder head; put it in the profile",
-			Source: srcProfile + " (format /2 default)"})
+			Source: cautionRule(CautionClearanceDefault).Source})
 	}
 	out = append(out, o2FlowCautions(a)...)
 	out = append(out, cylinderCautions(a)...)
-	if a.ratedTorque > 0 {
-		share := f.TorqueShareOfRating
-		switch {
-		case share > TorqueStopShare:
-			add(Caution{ID: "torque-high", Level: Stop, Value: 100 * share, Limit: 100 * TorqueStopShare, Unit: "% of rating",
-				Message: fmt.Sprintf("peak crank torque %.1f N m is %.0f%% of the motor's %.1f N m rating", f.PeakTorqueNm, 100*share, a.ratedTorque),
-				Advice:  "the motor may stall mid-breath: smaller hole or lower pressure", Source: "this machine's profile"})
-		case share > TorqueWarnShare:
-			add(Caution{ID: "torque-high", Level: Warn, Value: 100 * share, Limit: 100 * TorqueWarnShare, Unit: "% of rating",
-				Message: fmt.Sprintf("peak crank torque %.1f N m is %.0f%% of the motor's %.1f N m rating (over 80%%)", f.PeakTorqueNm, 100*share, a.ratedTorque),
-				Advice:  "little margin before the motor stalls", Source: srcCommon})
-		}
-	}
+	out = append(out, torqueCautions(a)...)
 	sort.SliceStable(out, func(i, j int) bool { return out[i].Level > out[j].Level })
 	return out
+}
+
+// rateCautions are the rate against the protocol's ceiling and a floor.
+func rateCautions(rate float64) []Caution {
+	if r, l, ok := judged(CautionRateHigh, rate); ok {
+		return []Caution{r.caution(l, rate, fmt.Sprintf("rate %.1f /min is above %.0f", rate, l.Value), "check for trapped gas; the protocol's ceiling is 35")}
+	}
+	if r, l, ok := judged(CautionRateLow, rate); ok {
+		return []Caution{r.caution(l, rate, fmt.Sprintf("rate %.1f /min is below %.0f", rate, l.Value), "check minute ventilation and CO2")}
+	}
+	return nil
+}
+
+// torqueCautions are the crank's peak torque against the motor's rating
+// (none when the profile gives no rating). The caution is in % of the
+// rating; the table's limits are shares of it.
+func torqueCautions(a assessment) []Caution {
+	f := a.f
+	if !(a.ratedTorque > 0) {
+		return nil
+	}
+	share := f.TorqueShareOfRating
+	r, l, ok := judged(CautionTorqueHigh, share)
+	if !ok {
+		return nil
+	}
+	c := r.caution(l, 100*share, fmt.Sprintf("peak crank torque %.1f N m is %.0f%% of the motor's %.1f N m rating", f.PeakTorqueNm, 100*share, a.ratedTorque),
+		"the motor may stall mid-breath: smaller hole or lower pressure")
+	if l.Level == Warn {
+		c.Message += fmt.Sprintf(" (over %.0f%%)", 100*l.Value)
+		c.Advice = "little margin before the motor stalls"
+	}
+	c.Limit, c.Unit = 100*l.Value, "% of rating"
+	return []Caution{c}
 }
 
 // pressureCautions are the predicted pressures against their limits.
@@ -225,47 +243,38 @@ func pressureCautions(a assessment) []Caution {
 	var out []Caution
 	add := func(c Caution) { out = append(out, c) }
 	f := a.f
-	if f.PlateauCmH2O > PlateauStopCmH2O {
-		add(Caution{ID: "plateau-high", Level: Stop, Value: f.PlateauCmH2O, Limit: PlateauStopCmH2O, Unit: "cmH2O",
-			Message: fmt.Sprintf("plateau pressure %.1f cmH2O is above %.0f, the limit of an emergency ventilator", f.PlateauCmH2O, PlateauStopCmH2O),
-			Advice:  "do not use: smaller hole; check the lung model against a measured plateau", Source: srcMHRA})
-	} else if f.PlateauCmH2O > PlateauMaxCmH2O {
-		add(Caution{ID: "plateau-high", Level: Warn, Value: f.PlateauCmH2O, Limit: PlateauMaxCmH2O, Unit: "cmH2O",
-			Message: fmt.Sprintf("plateau pressure %.1f cmH2O is above %.0f", f.PlateauCmH2O, PlateauMaxCmH2O),
-			Advice:  "reduce tidal volume (smaller hole)", Source: srcARDSNet})
+	if r, l, ok := judged(CautionPlateauHigh, f.PlateauCmH2O); ok && l.Level == Stop {
+		add(r.caution(l, f.PlateauCmH2O, fmt.Sprintf("plateau pressure %.1f cmH2O is above %.0f, the limit of an emergency ventilator", f.PlateauCmH2O, l.Value),
+			"do not use: smaller hole; check the lung model against a measured plateau"))
+	} else if ok {
+		add(r.caution(l, f.PlateauCmH2O, fmt.Sprintf("plateau pressure %.1f cmH2O is above %.0f", f.PlateauCmH2O, l.Value), "reduce tidal volume (smaller hole)"))
 	}
-	if f.DrivingCmH2O > DrivingMaxCmH2O {
-		add(Caution{ID: "driving-pressure-high", Level: Warn, Value: f.DrivingCmH2O, Limit: DrivingMaxCmH2O, Unit: "cmH2O",
-			Message: fmt.Sprintf("driving pressure (plateau above total PEEP) %.1f cmH2O is above %.0f", f.DrivingCmH2O, DrivingMaxCmH2O),
-			Advice:  "reduce tidal volume; review PEEP", Source: srcAmato})
+	if r, l, ok := judged(CautionDrivingPressureHigh, f.DrivingCmH2O); ok {
+		add(r.caution(l, f.DrivingCmH2O, fmt.Sprintf("driving pressure (plateau above total PEEP) %.1f cmH2O is above %.0f", f.DrivingCmH2O, l.Value),
+			"reduce tidal volume; review PEEP"))
 	}
 	if a.reliefCmH2O > 0 && (f.PressureLimited || f.PeakCmH2O > a.reliefCmH2O) {
 		// The model holds the circuit at the relief pressure and vents the
 		// rest: the figures shown are already the vented breath's.
-		add(Caution{ID: "peak-above-relief", Level: Stop, Value: f.PeakCmH2O, Limit: a.reliefCmH2O, Unit: "cmH2O",
+		add(Caution{ID: CautionPeakAboveRelief, Level: Stop, Value: f.PeakCmH2O, Limit: a.reliefCmH2O, Unit: "cmH2O",
 			Message: fmt.Sprintf("the breath reaches this machine's relief valve at %.0f cmH2O: it is pressure-limited, %.0f mL vents, and the patient gets less (%.0f mL) than the hole would give",
 				a.reliefCmH2O, f.ReliefVentedML, f.Hole.DeliveredML),
-			Advice: "use a smaller hole or a slower motor speed", Source: srcProfile})
+			Advice: "use a smaller hole or a slower motor speed", Source: cautionRule(CautionPeakAboveRelief).Source})
 	}
-	if f.PeakCmH2O > PeakMaxCmH2O {
-		add(Caution{ID: "peak-high", Level: Stop, Value: f.PeakCmH2O, Limit: PeakMaxCmH2O, Unit: "cmH2O",
-			Message: fmt.Sprintf("peak pressure %.1f cmH2O is above %.0f", f.PeakCmH2O, PeakMaxCmH2O),
-			Advice:  "the patient must never see more than 40 cmH2O; smaller hole or slower speed", Source: srcMHRA})
+	if r, l, ok := judged(CautionPeakHigh, f.PeakCmH2O); ok {
+		add(r.caution(l, f.PeakCmH2O, fmt.Sprintf("peak pressure %.1f cmH2O is above %.0f", f.PeakCmH2O, l.Value),
+			"the patient must never see more than 40 cmH2O; smaller hole or slower speed"))
 	}
-	if f.IntrinsicPEEPCmH2O > IntrinsicPEEPStop {
-		add(Caution{ID: "intrinsic-peep", Level: Stop, Value: f.IntrinsicPEEPCmH2O, Limit: IntrinsicPEEPStop, Unit: "cmH2O",
-			Message: fmt.Sprintf("intrinsic PEEP %.1f cmH2O is above %.0f: gas builds up breath after breath (%.0f mL trapped)", f.IntrinsicPEEPCmH2O, IntrinsicPEEPStop, f.TrappedML),
-			Advice:  "do not use: lower the rate or lengthen expiration (longer dwell)", Source: srcCommon})
-	} else if f.IntrinsicPEEPCmH2O > IntrinsicPEEPMax {
-		add(Caution{ID: "intrinsic-peep", Level: Warn, Value: f.IntrinsicPEEPCmH2O, Limit: IntrinsicPEEPMax, Unit: "cmH2O",
-			Message: fmt.Sprintf("intrinsic PEEP %.1f cmH2O is above %.0f: exhalation does not finish (%.0f mL trapped)", f.IntrinsicPEEPCmH2O, IntrinsicPEEPMax, f.TrappedML),
-			Advice:  "lower the rate or lengthen expiration (longer dwell)", Source: srcCommon})
+	if r, l, ok := judged(CautionIntrinsicPEEP, f.IntrinsicPEEPCmH2O); ok && l.Level == Stop {
+		add(r.caution(l, f.IntrinsicPEEPCmH2O, fmt.Sprintf("intrinsic PEEP %.1f cmH2O is above %.0f: gas builds up breath after breath (%.0f mL trapped)", f.IntrinsicPEEPCmH2O, l.Value, f.TrappedML),
+			"do not use: lower the rate or lengthen expiration (longer dwell)"))
+	} else if ok {
+		add(r.caution(l, f.IntrinsicPEEPCmH2O, fmt.Sprintf("intrinsic PEEP %.1f cmH2O is above %.0f: exhalation does not finish (%.0f mL trapped)", f.IntrinsicPEEPCmH2O, l.Value, f.TrappedML),
+			"lower the rate or lengthen expiration (longer dwell)"))
 	}
 	out = append(out, leakShareCautions(f)...)
-	if f.PEEPCmH2O < PEEPMinCmH2O {
-		add(Caution{ID: "peep-low", Level: Warn, Value: f.PEEPCmH2O, Limit: PEEPMinCmH2O, Unit: "cmH2O",
-			Message: fmt.Sprintf("PEEP %.1f cmH2O is below %.0f", f.PEEPCmH2O, PEEPMinCmH2O),
-			Advice:  "the protocol keeps PEEP at 5 or more", Source: srcARDSNet})
+	if r, l, ok := judged(CautionPEEPLow, f.PEEPCmH2O); ok {
+		add(r.caution(l, f.PEEPCmH2O, fmt.Sprintf("PEEP %.1f cmH2O is below %.0f", f.PEEPCmH2O, l.Value), "the protocol keeps PEEP at 5 or more"))
 	}
 	return out
 }
@@ -284,28 +293,27 @@ func ReadingCautions(r physiology.Readings, peepCmH2O, reliefCmH2O float64) []Ca
 	add := func(c Caution) { out = append(out, c) }
 	peak, end := r.PeakCmH2O, r.EndCmH2O
 	if !finiteNumber(peak) || !finiteNumber(end) {
-		return []Caution{{ID: "readings-not-numbers", Level: Stop, Unit: "cmH2O",
-			Message: "a manometer reading is not a number", Advice: look + "re-take both readings", Source: srcCommon}}
+		return []Caution{{ID: CautionReadingsNotNumbers, Level: Stop, Unit: "cmH2O",
+			Message: "a manometer reading is not a number", Advice: look + "re-take both readings", Source: cautionRule(CautionReadingsNotNumbers).Source}}
 	}
-	if peak > PeakMaxCmH2O {
-		add(Caution{ID: "measured-peak-high", Level: Stop, Value: peak, Limit: PeakMaxCmH2O, Unit: "cmH2O",
-			Message: fmt.Sprintf("the manometer reads a peak of %.1f cmH2O, above %.0f: the patient must never see more than %.0f", peak, PeakMaxCmH2O, PeakMaxCmH2O),
-			Advice:  look + "then re-take the peak", Source: srcMHRA + " (high inspiratory pressure)"})
+	if r, l, ok := judged(CautionMeasuredPeakHigh, peak); ok {
+		add(r.caution(l, peak, fmt.Sprintf("the manometer reads a peak of %.1f cmH2O, above %.0f: the patient must never see more than %.0f", peak, l.Value, l.Value),
+			look+"then re-take the peak"))
 	}
 	if reliefCmH2O > 0 && peak > reliefCmH2O {
-		add(Caution{ID: "measured-peak-above-relief", Level: Stop, Value: peak, Limit: reliefCmH2O, Unit: "cmH2O",
+		add(Caution{ID: CautionMeasuredPeakAboveRelief, Level: Stop, Value: peak, Limit: reliefCmH2O, Unit: "cmH2O",
 			Message: fmt.Sprintf("the manometer reads a peak of %.1f cmH2O, above this machine's relief valve at %.0f: the valve or the manometer is not working", peak, reliefCmH2O),
-			Advice:  look + "test the relief valve", Source: srcProfile + " (relief pressure)"})
+			Advice:  look + "test the relief valve", Source: cautionRule(CautionMeasuredPeakAboveRelief).Source})
 	}
 	if end <= peepCmH2O {
-		add(Caution{ID: "measured-end-at-or-below-peep", Level: Stop, Value: end, Limit: peepCmH2O, Unit: "cmH2O",
+		add(Caution{ID: CautionMeasuredEndAtOrBelowPEEP, Level: Stop, Value: end, Limit: peepCmH2O, Unit: "cmH2O",
 			Message: fmt.Sprintf("the end-inspiratory reading %.1f cmH2O is at or below PEEP %.1f: a leak, a disconnection, or the reading was taken at the wrong moment", end, peepCmH2O),
-			Advice:  look + "then re-take it as the piston stops", Source: srcMHRA + " (pressure not reached: disconnection)"})
+			Advice:  look + "then re-take it as the piston stops", Source: cautionRule(CautionMeasuredEndAtOrBelowPEEP).Source})
 	}
 	if peak < end {
-		add(Caution{ID: "measured-peak-below-end", Level: Stop, Value: peak, Limit: end, Unit: "cmH2O",
+		add(Caution{ID: CautionMeasuredPeakBelowEnd, Level: Stop, Value: peak, Limit: end, Unit: "cmH2O",
 			Message: fmt.Sprintf("the peak reading %.1f cmH2O is below the end reading %.1f: the peak is the highest pressure of the breath", peak, end),
-			Advice:  look + "re-take both readings on one breath", Source: srcCommon})
+			Advice:  look + "re-take both readings on one breath", Source: cautionRule(CautionMeasuredPeakBelowEnd).Source})
 	}
 	return out
 }
@@ -315,9 +323,10 @@ func finiteNumber(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }
 // unexplainedCaution is the stop for readings no lung explains: nothing the
 // model predicts for this setting is then what the patient gets.
 func unexplainedCaution(fitProblem string) Caution {
-	return Caution{ID: "readings-unexplained", Level: Stop, Unit: "",
+	return Caution{ID: CautionReadingsUnexplained, Level: Stop, Unit: "",
 		Message: "the readings cannot be explained by any lung at this setting: " + fitProblem,
-		Advice:  "no figure is shown as what the patient gets; check the circuit and the patient, then re-take both readings", Source: srcCommon}
+		Advice:  "no figure is shown as what the patient gets; check the circuit and the patient, then re-take both readings",
+		Source:  cautionRule(CautionReadingsUnexplained).Source}
 }
 
 // assumedLungCaution marks a proposal evaluated on the assumed lung because
@@ -331,28 +340,10 @@ func assumedLungCaution(rd *physiology.Readings) Caution {
 	if rd != nil && finiteNumber(rd.PeakCmH2O) && finiteNumber(rd.EndCmH2O) {
 		reads = fmt.Sprintf("%s/%s cmH2O (peak/end)", plain(rd.PeakCmH2O), plain(rd.EndCmH2O))
 	}
-	return Caution{ID: "proposal-on-assumed-lung", Level: Stop, Unit: "",
+	return Caution{ID: CautionProposalOnAssumedLung, Level: Stop, Unit: "",
 		Message: "this proposal's figures rest on an ASSUMED lung, while the manometer reads " + reads + " at the current setting",
 		Advice:  "do not use: find the cause (patient, tube, circuit, manometer) and re-take both readings before any change is made",
-		Source:  srcCommon + ": a figure from an assumed lung never stands in for what the manometer shows"}
-}
-
-// judgesAssumedLung reports whether the caution id judges a figure
-// the lung model predicts (volume, plateau, driving pressure, peak,
-// trapped gas, minute and alveolar ventilation from the predicted volume,
-// crank torque from the predicted pressures). The rest judge what does not
-// depend on the lung: the patient's height, the rate, I:E and reach of the
-// motor and controller, the PEEP valve, the relief valve, the calibration,
-// the cylinder. A new caution is kept unless it is listed here: when in
-// doubt a caution is shown.
-func judgesAssumedLung(id string) bool {
-	switch id {
-	case "tidal-volume-high", "tidal-volume-low", "plateau-high", "driving-pressure-high",
-		"peak-above-relief", "peak-high", "intrinsic-peep", "minute-ventilation-low",
-		"alveolar-ventilation-low", "torque-high":
-		return true
-	}
-	return false
+		Source:  cautionRule(CautionProposalOnAssumedLung).Source}
 }
 
 // withoutAssumedLungFigures drops from a setting's cautions those that
@@ -363,7 +354,7 @@ func judgesAssumedLung(id string) bool {
 func withoutAssumedLungFigures(cs []Caution) []Caution {
 	out := make([]Caution, 0, len(cs))
 	for _, c := range cs {
-		if !judgesAssumedLung(c.ID) {
+		if !cautionRule(c.ID).AssumedLung {
 			out = append(out, c)
 		}
 	}
@@ -391,19 +382,17 @@ func timingCautions(a assessment) []Caution {
 	var out []Caution
 	add := func(c Caution) { out = append(out, c) }
 	t := a.f.Timing
-	if r := t.RateBPM; (r >= RateMinBPM && r < RateNoteMinBPM) || (r > RateNoteMaxBPM && r <= RateMaxBPM) {
-		add(Caution{ID: "rate-outside-10-30", Level: Note, Value: r, Limit: ternary(r < RateNoteMinBPM, RateNoteMinBPM, RateNoteMaxBPM), Unit: "/min",
-			Message: fmt.Sprintf("rate %.1f /min is outside %.0f-%.0f /min, the range an emergency ventilator must offer", r, RateNoteMinBPM, RateNoteMaxBPM),
-			Advice:  "check minute ventilation, CO2 and trapped gas", Source: srcMHRA})
+	if r, l, ok := judged(CautionRateOutside10To30, t.RateBPM); ok && rateCautions(t.RateBPM) == nil {
+		add(r.caution(l, t.RateBPM, fmt.Sprintf("rate %.1f /min is outside %.0f-%.0f /min, the range an emergency ventilator must offer", t.RateBPM, r.Limits[0].Value, r.Limits[1].Value),
+			"check minute ventilation, CO2 and trapped gas"))
 	}
-	if ie := t.IE; ie > 0 && (ie < IEMinE || ie > IEMaxE) {
-		limit, what := IEMaxE, "expiration is more than three times inspiration"
-		if ie < IEMinE {
-			limit, what = IEMinE, "inspiration is longer than expiration (inverse ratio)"
+	if r, l, ok := judged(CautionIEOutside, t.IE); ok && t.IE > 0 {
+		what := "expiration is more than three times inspiration"
+		if l.Below {
+			what = "inspiration is longer than expiration (inverse ratio)"
 		}
-		add(Caution{ID: "ie-outside-1-1-to-1-3", Level: Warn, Value: ie, Limit: limit, Unit: "E of 1:E",
-			Message: fmt.Sprintf("I:E 1:%.1f is outside 1:%.0f-1:%.0f: %s", ie, IEMinE, IEMaxE, what),
-			Advice:  "change the dwell or the motor speed; inverse ratio traps gas", Source: srcARDSNet + "; " + srcMHRA})
+		add(r.caution(l, t.IE, fmt.Sprintf("I:E 1:%.1f is outside 1:%.0f-1:%.0f: %s", t.IE, r.Limits[0].Value, r.Limits[1].Value, what),
+			"change the dwell or the motor speed; inverse ratio traps gas"))
 	}
 	tp := a.timing
 	if tp == nil {
@@ -411,24 +400,25 @@ func timingCautions(a assessment) []Caution {
 	}
 	switch tp.Rate {
 	case machine.TooFast:
-		add(Caution{ID: "rate-unreachable", Level: Stop, Value: tp.WantedRateBPM, Limit: t.RateBPM, Unit: "/min",
+		add(Caution{ID: CautionRateUnreachable, Level: Stop, Value: tp.WantedRateBPM, Limit: t.RateBPM, Unit: "/min",
 			Message: fmt.Sprintf("rate %.1f /min cannot be reached: the fastest turn with no dwell gives %.1f /min", tp.WantedRateBPM, t.RateBPM),
-			Advice:  "choose a rate this motor can run", Source: srcProfile})
+			Advice:  "choose a rate this motor can run", Source: cautionRule(CautionRateUnreachable).Source})
 	case machine.TooSlow:
-		add(Caution{ID: "rate-unreachable", Level: Stop, Value: tp.WantedRateBPM, Limit: t.RateBPM, Unit: "/min",
+		add(Caution{ID: CautionRateUnreachable, Level: Stop, Value: tp.WantedRateBPM, Limit: t.RateBPM, Unit: "/min",
 			Message: fmt.Sprintf("rate %.1f /min cannot be reached: the longest dwell gives %.1f /min", tp.WantedRateBPM, t.RateBPM),
-			Advice:  "choose a faster rate or a longer inspiration", Source: srcProfile})
+			Advice:  "choose a faster rate or a longer inspiration", Source: cautionRule(CautionRateUnreachable).Source})
 	}
 	if tp.Speed == machine.SpeedLimited || tp.Raised {
 		pct := 100 * (t.TiS - tp.WantedTiS) / tp.WantedTiS
+		r := cautionRule(CautionTiNotReachable)
 		level := Warn
-		if a.fixedMotor && math.Abs(pct) < TiChangeFixedNotePct {
-			level = Note
+		if l, ok := r.Judge(math.Abs(pct)); ok && a.fixedMotor {
+			level = l.Level
 		}
-		add(Caution{ID: "ti-not-reachable", Level: level, Value: t.TiS, Limit: tp.WantedTiS, Unit: "s",
+		add(Caution{ID: r.ID, Level: level, Value: t.TiS, Limit: tp.WantedTiS, Unit: "s",
 			Message: fmt.Sprintf("inspiratory time %.2f s wanted needs %.1f rpm; the motor is set to %.1f rpm, giving Ti %.2f s (%+.0f%%), I:E 1:%.1f",
 				tp.WantedTiS, tp.WantedRPM, t.RPM, t.TiS, pct, t.IE),
-			Advice: "accept the changed Ti and I:E or choose another rate", Source: srcProfile})
+			Advice: "accept the changed Ti and I:E or choose another rate", Source: r.Source})
 	}
 	return out
 }
@@ -454,38 +444,40 @@ func ventilationCautions(a assessment) []Caution {
 	ve := rate * mlkg
 	dead := DeadSpaceMLPerKg * a.pbwKg
 	va := rate * (mlkg - DeadSpaceMLPerKg)
-	if ve < MinuteVentLowMLPerKgMin {
-		out = append(out, Caution{ID: "minute-ventilation-low", Level: Warn, Value: ve, Limit: MinuteVentLowMLPerKgMin, Unit: "mL/kg PBW/min",
-			Message: fmt.Sprintf("minute ventilation %.0f mL/kg PBW/min (%.1f L/min) is below %.0f mL/kg/min", ve, ve*a.pbwKg/1000, MinuteVentLowMLPerKgMin),
-			Advice:  lowVentilationAdvice(a), Source: srcCommon + " (about 100 mL/kg/min is usual)"})
+	if r, l, ok := judged(CautionMinuteVentilationLow, ve); ok {
+		out = append(out, r.caution(l, ve, fmt.Sprintf("minute ventilation %.0f mL/kg PBW/min (%.1f L/min) is below %.0f mL/kg/min", ve, ve*a.pbwKg/1000, l.Value),
+			lowVentilationAdvice(a)))
 	}
+	r, l, ok := judged(CautionAlveolarVentilationLow, va)
+	if !ok {
+		return out
+	}
+	figures := fmt.Sprintf("alveolar ventilation %.0f mL/kg PBW/min (%.1f L/min = rate %.1f x (Vt %.0f mL - dead space %.0f mL)) is below %.0f mL/kg/min",
+		va, va*a.pbwKg/1000, rate, mlkg*a.pbwKg, dead, l.Value)
 	switch {
-	case va <= 0:
-		out = append(out, Caution{ID: "alveolar-ventilation-low", Level: Stop, Value: va, Limit: AlveolarVentLowMLPerKgMin, Unit: "mL/kg PBW/min",
-			Message: fmt.Sprintf("tidal volume %.0f mL does not exceed the estimated dead space %.0f mL (%.1f mL/kg PBW): no alveolar ventilation", mlkg*a.pbwKg, dead, DeadSpaceMLPerKg),
-			Advice:  "do not use: larger hole", Source: srcRadford})
-	case va < AlveolarVentStopMLPerKgMin:
-		out = append(out, Caution{ID: "alveolar-ventilation-low", Level: Stop, Value: va, Limit: AlveolarVentStopMLPerKgMin, Unit: "mL/kg PBW/min",
-			Message: fmt.Sprintf("alveolar ventilation %.0f mL/kg PBW/min (%.1f L/min = rate %.1f x (Vt %.0f mL - dead space %.0f mL)) is below %.0f mL/kg/min: the patient is barely ventilated",
-				va, va*a.pbwKg/1000, rate, mlkg*a.pbwKg, dead, AlveolarVentStopMLPerKgMin),
-			Advice: "do not use: larger hole or higher rate; PaCO2 would be about three times normal or more", Source: srcRadford + "; stop below 20 mL/kg/min, a third of the usual 60 (alveolar ventilation equation): common practice"})
-	case va < AlveolarVentLowMLPerKgMin:
-		out = append(out, Caution{ID: "alveolar-ventilation-low", Level: Warn, Value: va, Limit: AlveolarVentLowMLPerKgMin, Unit: "mL/kg PBW/min",
-			Message: fmt.Sprintf("alveolar ventilation %.0f mL/kg PBW/min (%.1f L/min = rate %.1f x (Vt %.0f mL - dead space %.0f mL)) is below %.0f mL/kg/min",
-				va, va*a.pbwKg/1000, rate, mlkg*a.pbwKg, dead, AlveolarVentLowMLPerKgMin),
-			Advice: "expect CO2 to rise; the tube and any filter add dead space; check blood gas", Source: srcRadford})
+	case l.AtLimit:
+		// No alveolar ventilation at all: the limit said is the warn's.
+		c := r.caution(l, va, fmt.Sprintf("tidal volume %.0f mL does not exceed the estimated dead space %.0f mL (%.1f mL/kg PBW): no alveolar ventilation", mlkg*a.pbwKg, dead, DeadSpaceMLPerKg),
+			"do not use: larger hole")
+		c.Limit = r.limit(Warn).Value
+		out = append(out, c)
+	case l.Level == Stop:
+		out = append(out, r.caution(l, va, figures+": the patient is barely ventilated",
+			"do not use: larger hole or higher rate; PaCO2 would be about three times normal or more"))
+	default:
+		out = append(out, r.caution(l, va, figures, "expect CO2 to rise; the tube and any filter add dead space; check blood gas"))
 	}
 	return out
 }
 
 // reliefCautions judge the relief valve a profile declares.
 func reliefCautions(reliefCmH2O float64) []Caution {
-	if !(reliefCmH2O > ReliefMaxCmH2O) {
+	r, l, ok := judged(CautionReliefAbove40, reliefCmH2O)
+	if !ok {
 		return nil
 	}
-	return []Caution{{ID: "relief-above-40", Level: Warn, Value: reliefCmH2O, Limit: ReliefMaxCmH2O, Unit: "cmH2O",
-		Message: fmt.Sprintf("this machine's relief valve opens at %.0f cmH2O, above %.0f: it does not keep the patient below 40 cmH2O", reliefCmH2O, ReliefMaxCmH2O),
-		Advice:  "set the relief valve to 40 cmH2O or less and correct the profile", Source: srcMHRA}}
+	return []Caution{r.caution(l, reliefCmH2O, fmt.Sprintf("this machine's relief valve opens at %.0f cmH2O, above %.0f: it does not keep the patient below 40 cmH2O", reliefCmH2O, l.Value),
+		"set the relief valve to 40 cmH2O or less and correct the profile")}
 }
 
 func profileCautions(p profiles.Profile, cal CalibrationStatus) []Caution {
@@ -499,30 +491,29 @@ func profileCautions(p profiles.Profile, cal CalibrationStatus) []Caution {
 func calibrationCautions(cal CalibrationStatus) []Caution {
 	var out []Caution
 	add := func(c Caution) { out = append(out, c) }
+	oldRule, oldLimit, old := judged(CautionCalibrationOld, float64(cal.AgeDays))
 	switch {
 	case cal.Fit == nil:
-		add(Caution{ID: "calibration-missing", Level: Warn, Unit: "days",
+		add(Caution{ID: CautionCalibrationMissing, Level: Warn, Unit: "days",
 			Message: "this machine has no bench calibration: volumes are geometric, before leaks",
-			Advice:  "measure the delivered volume at the bedside; calibrate on a test lung", Source: srcCommon})
-	case cal.AgeDays > CalibrationMaxDays:
-		add(Caution{ID: "calibration-old", Level: Warn, Value: float64(cal.AgeDays), Limit: CalibrationMaxDays, Unit: "days",
-			Message: fmt.Sprintf("the bench calibration is %d days old (more than %d)", cal.AgeDays, CalibrationMaxDays),
-			Advice:  "recalibrate on a test lung", Source: srcCommon})
+			Advice:  "measure the delivered volume at the bedside; calibrate on a test lung", Source: cautionRule(CautionCalibrationMissing).Source})
+	case old:
+		add(oldRule.caution(oldLimit, float64(cal.AgeDays), fmt.Sprintf("the bench calibration is %d days old (more than %.0f)", cal.AgeDays, oldLimit.Value),
+			"recalibrate on a test lung"))
 	case cal.AgeDays < 0:
-		add(Caution{ID: "calibration-future", Level: Warn, Value: float64(cal.AgeDays), Unit: "days",
+		add(Caution{ID: CautionCalibrationFuture, Level: Warn, Value: float64(cal.AgeDays), Unit: "days",
 			Message: fmt.Sprintf("the bench calibration is dated %s, in the future", cal.Date),
-			Advice:  "check the date on the profile and the computer's clock", Source: srcCommon})
+			Advice:  "check the date on the profile and the computer's clock", Source: cautionRule(CautionCalibrationFuture).Source})
 	}
 	if cal.Fit != nil && cal.Outside > 0 {
-		add(Caution{ID: "calibration-residual", Level: Warn, Value: float64(cal.Outside), Unit: "points",
+		add(Caution{ID: CautionCalibrationResidual, Level: Warn, Value: float64(cal.Outside), Unit: "points",
 			Message: fmt.Sprintf("%d bench point(s) are outside +/-(4 mL + 15%%) of the fitted calibration", cal.Outside),
-			Advice:  "re-measure those holes", Source: srcISO})
+			Advice:  "re-measure those holes", Source: cautionRule(CautionCalibrationResidual).Source})
 	}
 	out = append(out, calibrationFitCautions(cal)...)
-	if cal.Fit != nil && cal.Holes < 3 {
-		add(Caution{ID: "calibration-thin", Level: Note, Value: float64(cal.Holes), Limit: 3, Unit: "holes",
-			Message: fmt.Sprintf("the calibration measured %d hole(s); at least 3 make a trustworthy line", cal.Holes),
-			Advice:  "measure more holes", Source: srcCommon})
+	if r, l, ok := judged(CautionCalibrationThin, float64(cal.Holes)); ok && cal.Fit != nil {
+		add(r.caution(l, float64(cal.Holes), fmt.Sprintf("the calibration measured %d hole(s); at least %.0f make a trustworthy line", cal.Holes, l.Value),
+			"measure more holes"))
 	}
 	return out
 }
@@ -537,23 +528,22 @@ func calibrationFitCautions(cal CalibrationStatus) []Caution {
 	}
 	var out []Caution
 	k := cal.K
-	if k < CalKMin || k > CalKMax {
-		limit, why := CalKMin, "more than 30% of the swept volume is lost: a leak or a valve fault, not a calibration"
-		if k > CalKMax {
-			limit, why = CalKMax, "the piston would deliver more than it sweeps"
+	if r, l, ok := judged(CautionCalibrationKImplausible, k); ok {
+		why := "the piston would deliver more than it sweeps"
+		if l.Below {
+			why = "more than 30% of the swept volume is lost: a leak or a valve fault, not a calibration"
 		}
-		out = append(out, Caution{ID: "calibration-k-implausible", Level: Warn, Value: k, Limit: limit, Unit: "k",
-			Message: fmt.Sprintf("the bench calibration's k %.3f is outside %.1f-%.1f: %s", k, CalKMin, CalKMax, why),
-			Advice:  "check the machine for leaks and the bench measurements, then recalibrate", Source: srcCommon + " (derived: a piston delivers at most what it sweeps)"})
+		out = append(out, r.caution(l, k, fmt.Sprintf("the bench calibration's k %.3f is outside %.1f-%.1f: %s", k, r.Limits[0].Value, r.Limits[1].Value, why),
+			"check the machine for leaks and the bench measurements, then recalibrate"))
 	}
 	for _, swept := range []float64{cal.SweptMaxML, cal.SweptMinML} {
 		if !(swept > 0) {
 			continue
 		}
 		if eff := cal.EffectiveSweptML(swept); eff > swept*(1+1e-9) {
-			out = append(out, Caution{ID: "calibration-above-swept", Level: Warn, Value: eff, Limit: swept, Unit: "mL",
+			out = append(out, Caution{ID: CautionCalibrationAboveSwept, Level: Warn, Value: eff, Limit: swept, Unit: "mL",
 				Message: fmt.Sprintf("the calibration gives a hole of %.0f mL geometric swept volume an effective %.0f mL: more than the piston sweeps", swept, eff),
-				Advice:  "re-measure on the bench; volumes from this calibration may be too high", Source: srcCommon + " (derived: effective volume cannot exceed geometric)"})
+				Advice:  "re-measure on the bench; volumes from this calibration may be too high", Source: cautionRule(CautionCalibrationAboveSwept).Source})
 			break
 		}
 	}

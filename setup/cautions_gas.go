@@ -70,28 +70,22 @@ func (c GasContext) fio2Text() string {
 	return fmt.Sprintf("FiO2 %.2f (estimated from the O2 bleed, %.1f L/min)", c.FiO2, c.O2LPerMin)
 }
 
-// gasRule is one gas caution: its id, the words a ward row gives it, and
+// gasRule is one gas caution: its id (its level rule, limits, source and
+// ward words are its entry in the table of cautions, cautiontable.go) and
 // how it judges the readings (nil when it does not speak).
 type gasRule struct {
-	id    string
-	ward  func(c Caution) string
+	id    CautionID
 	judge func(g GasReadings, ctx GasContext) *Caution
 }
 
-// gasRules is the table of gas cautions, in the order they are judged.
+// gasRules are the gas cautions, in the order they are judged.
 func gasRules() []gasRule {
-	reading := func(c Caution) string {
-		if c.Unit == "%" {
-			return "SpO2 " + plain(c.Value) + " %"
-		}
-		return "PaO2 " + plain(c.Value) + " mmHg"
-	}
 	return []gasRule{
-		{id: "gas-readings-disagree", judge: gasDisagreeCaution, ward: func(Caution) string { return "gas readings disagree" }},
-		{id: "oxygenation-low", judge: oxygenationLowCaution, ward: func(c Caution) string { return "low O2 (" + reading(c) + ")" }},
-		{id: "oxygenation-high", judge: oxygenationHighCaution, ward: func(c Caution) string { return "O2 above goal (" + reading(c) + ")" }},
-		{id: "ph-low", judge: phLowCaution, ward: func(c Caution) string { return "pH " + fmt.Sprintf("%.2f", c.Value) + " low" }},
-		{id: "ph-high", judge: phHighCaution, ward: func(c Caution) string { return "pH " + fmt.Sprintf("%.2f", c.Value) + " high" }},
+		{id: CautionGasReadingsDisagree, judge: gasDisagreeCaution},
+		{id: CautionOxygenationLow, judge: oxygenationLowCaution},
+		{id: CautionOxygenationHigh, judge: oxygenationHighCaution},
+		{id: CautionPHLow, judge: phLowCaution},
+		{id: CautionPHHigh, judge: phHighCaution},
 	}
 }
 
@@ -110,7 +104,7 @@ func GasCautions(g GasReadings, ctx GasContext) []Caution {
 }
 
 // IsGasCaution reports whether a caution id is one of the gas cautions.
-func IsGasCaution(id string) bool {
+func IsGasCaution(id CautionID) bool {
 	for _, r := range gasRules() {
 		if r.id == id {
 			return true
@@ -154,7 +148,7 @@ func oxygenationLowCaution(g GasReadings, _ GasContext) *Caution {
 		texts[i] = l.text
 	}
 	w := lows[0]
-	c := Caution{ID: "oxygenation-low", Level: w.level, Value: w.value, Limit: w.limit, Unit: w.unit,
+	c := Caution{ID: CautionOxygenationLow, Level: w.level, Value: w.value, Limit: w.limit, Unit: w.unit,
 		Message: strings.Join(texts, "; ") + " (goal PaO2 55-80 mmHg or SpO2 88-95 %)",
 		Advice:  "check the patient, the tube, the circuit, the oxygen supply and the bleed; the protocol's step is the next PEEP/FiO2 pair up",
 		Source:  srcOxGoal}
@@ -195,7 +189,7 @@ func oxygenationHighCaution(g GasReadings, ctx GasContext) *Caution {
 	if peepHigh {
 		given = append(given, fmt.Sprintf("PEEP %s cmH2O above 8", plain(ctx.PEEPCmH2O)))
 	}
-	return &Caution{ID: "oxygenation-high", Level: Note, Value: v, Limit: limit, Unit: unit,
+	return &Caution{ID: CautionOxygenationHigh, Level: Note, Value: v, Limit: limit, Unit: unit,
 		Message: fmt.Sprintf("%s %s %s is above the goal's %s %s with %s", name, plain(v), unit, plain(limit), unit, strings.Join(given, " and ")),
 		Advice:  "more oxygen or PEEP than the goal needs: the protocol's step is the pair below on the PEEP/FiO2 table",
 		Source:  srcOxHigh}
@@ -207,12 +201,12 @@ func phLowCaution(g GasReadings, _ GasContext) *Caution {
 	}
 	ph := *g.PH
 	if below(ph, PHLowStop) {
-		return &Caution{ID: "ph-low", Level: Stop, Value: ph, Limit: PHLowStop, Unit: "pH",
+		return &Caution{ID: CautionPHLow, Level: Stop, Value: ph, Limit: PHLowStop, Unit: "pH",
 			Message: fmt.Sprintf("pH %.2f is below %.2f: severe acidaemia", ph, PHLowStop),
 			Advice:  "call the clinician now: the protocol raises the rate to 35, then Vt may rise and bicarbonate may be given; recheck the gas",
 			Source:  srcPHSevere}
 	}
-	return &Caution{ID: "ph-low", Level: Warn, Value: ph, Limit: PHLowWarn, Unit: "pH",
+	return &Caution{ID: CautionPHLow, Level: Warn, Value: ph, Limit: PHLowWarn, Unit: "pH",
 		Message: fmt.Sprintf("pH %.2f is below the goal's %.2f", ph, PHLowWarn),
 		Advice:  "the protocol raises the rate (at most 35 /min) while the PaCO2 stays above 25 mmHg; recheck the gas",
 		Source:  srcPHGoal}
@@ -223,7 +217,7 @@ func phHighCaution(g GasReadings, _ GasContext) *Caution {
 		return nil
 	}
 	ph := *g.PH
-	return &Caution{ID: "ph-high", Level: Warn, Value: ph, Limit: PHHighWarn, Unit: "pH",
+	return &Caution{ID: CautionPHHigh, Level: Warn, Value: ph, Limit: PHHighWarn, Unit: "pH",
 		Message: fmt.Sprintf("pH %.2f is above the goal's %.2f", ph, PHHighWarn),
 		Advice:  "the protocol lowers the rate if it can; check for over-ventilation and recheck the gas",
 		Source:  srcPHGoal}
@@ -265,7 +259,7 @@ func gasDisagreeCaution(g GasReadings, _ GasContext) *Caution {
 	if !d.acidBase && !d.oximetry {
 		return nil
 	}
-	c := Caution{ID: "gas-readings-disagree", Level: Stop,
+	c := Caution{ID: CautionGasReadingsDisagree, Level: Stop,
 		Advice: "re-take the gas (an arterial sample? this patient's? the unit: kPa or mmHg?) and check the oximeter's probe; the protocol's step does not use these readings"}
 	var texts, sources []string
 	if d.oximetry {
@@ -310,7 +304,7 @@ func gasForStep(g GasReadings) (fed GasReadings, refused string) {
 	if len(out) == 0 {
 		return g, ""
 	}
-	return fed, "the gas readings disagree (gas-readings-disagree): " + strings.Join(out, ", and ") + " not used by the step"
+	return fed, "the gas readings disagree (" + string(CautionGasReadingsDisagree) + "): " + strings.Join(out, ", and ") + " not used by the step"
 }
 
 // GasWardWords are a record's gas cautions in a few words each, with their
@@ -318,10 +312,8 @@ func gasForStep(g GasReadings) (fed GasReadings, refused string) {
 func GasWardWords(cs []Caution) string {
 	var out []string
 	for _, c := range cs {
-		for _, r := range gasRules() {
-			if r.id == c.ID {
-				out = append(out, LevelWord(c.Level)+" "+r.ward(c))
-			}
+		if IsGasCaution(c.ID) {
+			out = append(out, WardWords(c))
 		}
 	}
 	return strings.Join(out, ", ")
@@ -348,7 +340,7 @@ func GasRecordText(r Record) string { return GasCheckText(r.CheckJSON) }
 // GasCheckText is GasRecordText for a check's JSON body, as the screen
 // holds it.
 func GasCheckText(j CheckJSON) string {
-	if j.GasReadings == nil || j.GasReadings.empty() {
+	if j.GasReadings == nil || j.GasReadings.Empty() {
 		return ""
 	}
 	words := GasWardWords(j.Cautions)
@@ -362,50 +354,19 @@ func GasCheckText(j CheckJSON) string {
 	return out
 }
 
-func (g GasReadingsJSON) empty() bool {
-	return g.SpO2Pct == nil && g.PaO2MmHg == nil && g.PH == nil && g.PaCO2MmHg == nil
-}
-
-// gasJSON fills a ward row's gas keys from its record.
-func (r WardRow) gasJSON(j *wardRowJSON) {
-	j.GasCautions = []Caution{}
-	for _, c := range r.Record.Cautions {
-		if IsGasCaution(c.ID) {
-			j.GasCautions = append(j.GasCautions, c)
-		}
-	}
-	if g := r.Record.GasReadings; g != nil && !g.empty() {
-		j.GasReadings = g
-	}
-	if o := r.Record.OxygenationJSON; o != nil {
-		j.PFRatio, j.SFRatio, j.ARDSSeverity = o.PFRatio, o.SFRatio, o.ARDSSeverity
-	}
-}
-
-// gasLevel is the highest level of the row's gas cautions, 0 with none.
-func (r WardRow) gasLevel() Level {
-	var l Level
-	for _, c := range r.Record.Cautions {
-		if IsGasCaution(c.ID) && c.Level > l {
-			l = c.Level
-		}
-	}
-	return l
-}
-
 // recordGasReadings are a record's gas readings as a check's, or false
 // when it has none.
 func recordGasReadings(r *Record) (GasReadings, bool) {
 	j := r.GasReadings
-	if j == nil || j.empty() {
+	if j == nil || j.Empty() {
 		return GasReadings{}, false
 	}
-	return GasReadings{SpO2Pct: j.SpO2Pct, PaO2MmHg: j.PaO2MmHg, PH: j.PH, PaCO2MmHg: j.PaCO2MmHg, ApparatusDeadSpaceML: j.ApparatusDeadSpaceML}, true
+	return *j, true
 }
 
-// gasRecordProblem holds a record's gas readings to the entries' ranges,
+// GasRecordProblem holds a record's gas readings to the entries' ranges,
 // as the log's reader keeps the writer's rules; "" when they are in them.
-func gasRecordProblem(r *Record) string {
+func GasRecordProblem(r *Record) string {
 	g, ok := recordGasReadings(r)
 	if !ok {
 		return ""
@@ -416,19 +377,19 @@ func gasRecordProblem(r *Record) string {
 	return ""
 }
 
-// recordGasCautions are the gas cautions a record's readings call for,
+// RecordGasCautions are the gas cautions a record's readings call for,
 // for the log's reader: a record whose gas STOP was edited out must not
 // read calm in the ward. oxygenation-high (a note that rests on the FiO2
 // estimate) is left out; a disagreement is called for only when it holds
 // with a margin of 0.01 (see disagreementBeyond).
-func recordGasCautions(r *Record) []Caution {
+func RecordGasCautions(r *Record) []Caution {
 	g, ok := recordGasReadings(r)
 	if !ok {
 		return nil
 	}
 	var out []Caution
 	for _, c := range GasCautions(g, GasContext{PEEPCmH2O: r.Setting.PEEPCmH2O}) {
-		if c.ID == "gas-readings-disagree" {
+		if c.ID == CautionGasReadingsDisagree {
 			if d := disagreementBeyond(g, 0.01); !d.acidBase && !d.oximetry {
 				continue
 			}

@@ -11,12 +11,13 @@ func gp(v float64) *float64 { return &v }
 
 // gasCase is one gas input just outside or just inside a limit.
 type gasCase struct {
-	id, source string
-	g          GasReadings
-	ctx        GasContext
-	level      Level    // the level wanted, 0: absent
-	limit      float64  // the limit the caution must report (when present)
-	says       []string // numbers the message must hold
+	id     CautionID
+	source string
+	g      GasReadings
+	ctx    GasContext
+	level  Level    // the level wanted, 0: absent
+	limit  float64  // the limit the caution must report (when present)
+	says   []string // numbers the message must hold
 }
 
 // roomAir is a setting breathing air at PEEP 5 (FiO2 0.21: no bleed, by
@@ -29,49 +30,49 @@ func TestGasCautionsAtTheirLimits(t *testing.T) {
 	onO2 := GasContext{FiO2: 0.5, FiO2Known: true, O2LPerMin: 6, PEEPCmH2O: 5}
 	cases := []gasCase{
 		// ARDS Network protocol card: oxygenation goal SpO2 88-95 %, PaO2 55-80 mmHg.
-		{"oxygenation-low", "ARDSNet: SpO2 below 88 %", GasReadings{SpO2Pct: gp(87.9)}, roomAir, Warn, 88, []string{"SpO2 87.9 %", "88 %"}},
-		{"oxygenation-low", "ARDSNet: SpO2 88 % is in goal", GasReadings{SpO2Pct: gp(88)}, roomAir, 0, 0, nil},
-		{"oxygenation-low", "ARDSNet: PaO2 below 55 mmHg", GasReadings{PaO2MmHg: gp(54.9)}, roomAir, Warn, 55, []string{"PaO2 54.9 mmHg", "55 mmHg"}},
-		{"oxygenation-low", "ARDSNet: PaO2 55 mmHg is in goal", GasReadings{PaO2MmHg: gp(55)}, roomAir, 0, 0, nil},
+		{CautionOxygenationLow, "ARDSNet: SpO2 below 88 %", GasReadings{SpO2Pct: gp(87.9)}, roomAir, Warn, 88, []string{"SpO2 87.9 %", "88 %"}},
+		{CautionOxygenationLow, "ARDSNet: SpO2 88 % is in goal", GasReadings{SpO2Pct: gp(88)}, roomAir, 0, 0, nil},
+		{CautionOxygenationLow, "ARDSNet: PaO2 below 55 mmHg", GasReadings{PaO2MmHg: gp(54.9)}, roomAir, Warn, 55, []string{"PaO2 54.9 mmHg", "55 mmHg"}},
+		{CautionOxygenationLow, "ARDSNet: PaO2 55 mmHg is in goal", GasReadings{PaO2MmHg: gp(55)}, roomAir, 0, 0, nil},
 		// Common practice, severe hypoxaemia: SpO2 below 85 %, PaO2 below 50
 		// mmHg (the two agree on Severinghaus's curve: S(50) = 85.0 %, derived).
-		{"oxygenation-low", "common practice: SpO2 below 85 % is a stop", GasReadings{SpO2Pct: gp(84.9)}, roomAir, Stop, 85, []string{"SpO2 84.9 %", "below 85 %", "severe hypoxaemia"}},
-		{"oxygenation-low", "common practice: SpO2 85 % is a warn", GasReadings{SpO2Pct: gp(85)}, roomAir, Warn, 88, []string{"SpO2 85 %"}},
-		{"oxygenation-low", "common practice: PaO2 below 50 mmHg is a stop", GasReadings{PaO2MmHg: gp(49.9)}, roomAir, Stop, 50, []string{"PaO2 49.9 mmHg", "below 50 mmHg"}},
-		{"oxygenation-low", "common practice: PaO2 50 mmHg is a warn", GasReadings{PaO2MmHg: gp(50)}, roomAir, Warn, 55, []string{"PaO2 50 mmHg"}},
+		{CautionOxygenationLow, "common practice: SpO2 below 85 % is a stop", GasReadings{SpO2Pct: gp(84.9)}, roomAir, Stop, 85, []string{"SpO2 84.9 %", "below 85 %", "severe hypoxaemia"}},
+		{CautionOxygenationLow, "common practice: SpO2 85 % is a warn", GasReadings{SpO2Pct: gp(85)}, roomAir, Warn, 88, []string{"SpO2 85 %"}},
+		{CautionOxygenationLow, "common practice: PaO2 below 50 mmHg is a stop", GasReadings{PaO2MmHg: gp(49.9)}, roomAir, Stop, 50, []string{"PaO2 49.9 mmHg", "below 50 mmHg"}},
+		{CautionOxygenationLow, "common practice: PaO2 50 mmHg is a warn", GasReadings{PaO2MmHg: gp(50)}, roomAir, Warn, 55, []string{"PaO2 50 mmHg"}},
 		// ARDSNet goal tops (SpO2 95 %, PaO2 80 mmHg), with FiO2 above 0.4 or PEEP above 8.
-		{"oxygenation-high", "ARDSNet: PaO2 above 80 at FiO2 0.5", GasReadings{PaO2MmHg: gp(80.1)}, onO2, Note, 80, []string{"PaO2 80.1 mmHg", "80 mmHg", "FiO2 0.50", "6.0 L/min"}},
-		{"oxygenation-high", "ARDSNet: PaO2 80 is in goal", GasReadings{PaO2MmHg: gp(80)}, onO2, 0, 0, nil},
-		{"oxygenation-high", "ARDSNet: SpO2 above 95 at FiO2 0.5", GasReadings{SpO2Pct: gp(95.1)}, onO2, Note, 95, []string{"SpO2 95.1 %", "95 %"}},
-		{"oxygenation-high", "ARDSNet: SpO2 95 is in goal", GasReadings{SpO2Pct: gp(95)}, onO2, 0, 0, nil},
-		{"oxygenation-high", "ARDSNet table: FiO2 0.41 has a pair below", GasReadings{SpO2Pct: gp(99)}, GasContext{FiO2: 0.41, FiO2Known: true, PEEPCmH2O: 5}, Note, 95, []string{"FiO2 0.41", "above 0.4"}},
-		{"oxygenation-high", "ARDSNet table: FiO2 0.4 at PEEP 8 is where the table starts", GasReadings{SpO2Pct: gp(99)}, GasContext{FiO2: 0.4, FiO2Known: true, PEEPCmH2O: 8}, 0, 0, nil},
-		{"oxygenation-high", "ARDSNet table: PEEP 8.5 has a pair below", GasReadings{SpO2Pct: gp(99)}, GasContext{FiO2: 0.3, FiO2Known: true, PEEPCmH2O: 8.5}, Note, 95, []string{"PEEP 8.5 cmH2O above 8"}},
-		{"oxygenation-high", "the FiO2 of a form still waiting is not known", GasReadings{SpO2Pct: gp(99)}, GasContext{FiO2: 0.9, PEEPCmH2O: 5}, 0, 0, nil},
+		{CautionOxygenationHigh, "ARDSNet: PaO2 above 80 at FiO2 0.5", GasReadings{PaO2MmHg: gp(80.1)}, onO2, Note, 80, []string{"PaO2 80.1 mmHg", "80 mmHg", "FiO2 0.50", "6.0 L/min"}},
+		{CautionOxygenationHigh, "ARDSNet: PaO2 80 is in goal", GasReadings{PaO2MmHg: gp(80)}, onO2, 0, 0, nil},
+		{CautionOxygenationHigh, "ARDSNet: SpO2 above 95 at FiO2 0.5", GasReadings{SpO2Pct: gp(95.1)}, onO2, Note, 95, []string{"SpO2 95.1 %", "95 %"}},
+		{CautionOxygenationHigh, "ARDSNet: SpO2 95 is in goal", GasReadings{SpO2Pct: gp(95)}, onO2, 0, 0, nil},
+		{CautionOxygenationHigh, "ARDSNet table: FiO2 0.41 has a pair below", GasReadings{SpO2Pct: gp(99)}, GasContext{FiO2: 0.41, FiO2Known: true, PEEPCmH2O: 5}, Note, 95, []string{"FiO2 0.41", "above 0.4"}},
+		{CautionOxygenationHigh, "ARDSNet table: FiO2 0.4 at PEEP 8 is where the table starts", GasReadings{SpO2Pct: gp(99)}, GasContext{FiO2: 0.4, FiO2Known: true, PEEPCmH2O: 8}, 0, 0, nil},
+		{CautionOxygenationHigh, "ARDSNet table: PEEP 8.5 has a pair below", GasReadings{SpO2Pct: gp(99)}, GasContext{FiO2: 0.3, FiO2Known: true, PEEPCmH2O: 8.5}, Note, 95, []string{"PEEP 8.5 cmH2O above 8"}},
+		{CautionOxygenationHigh, "the FiO2 of a form still waiting is not known", GasReadings{SpO2Pct: gp(99)}, GasContext{FiO2: 0.9, PEEPCmH2O: 5}, 0, 0, nil},
 		// ARDSNet: PaO2 decides over SpO2; PaO2 in goal keeps the note quiet.
-		{"oxygenation-high", "ARDSNet: PaO2 decides over SpO2", GasReadings{PaO2MmHg: gp(75), SpO2Pct: gp(97)}, onO2, 0, 0, nil},
+		{CautionOxygenationHigh, "ARDSNet: PaO2 decides over SpO2", GasReadings{PaO2MmHg: gp(75), SpO2Pct: gp(97)}, onO2, 0, 0, nil},
 		// ARDS Network protocol card: pH goal 7.30-7.45, below 7.15 severe.
-		{"ph-low", "ARDSNet: pH below 7.30", GasReadings{PH: gp(7.29)}, roomAir, Warn, 7.30, []string{"pH 7.29", "7.30"}},
-		{"ph-low", "ARDSNet: pH 7.30 is in goal", GasReadings{PH: gp(7.30)}, roomAir, 0, 0, nil},
-		{"ph-low", "ARDSNet: pH below 7.15 is the severe branch", GasReadings{PH: gp(7.14)}, roomAir, Stop, 7.15, []string{"pH 7.14", "7.15", "severe acidaemia"}},
-		{"ph-low", "ARDSNet: pH 7.15 is the moderate branch", GasReadings{PH: gp(7.15)}, roomAir, Warn, 7.30, []string{"pH 7.15"}},
-		{"ph-high", "ARDSNet: pH above 7.45", GasReadings{PH: gp(7.46)}, roomAir, Warn, 7.45, []string{"pH 7.46", "7.45"}},
-		{"ph-high", "ARDSNet: pH 7.45 is in goal", GasReadings{PH: gp(7.45)}, roomAir, 0, 0, nil},
+		{CautionPHLow, "ARDSNet: pH below 7.30", GasReadings{PH: gp(7.29)}, roomAir, Warn, 7.30, []string{"pH 7.29", "7.30"}},
+		{CautionPHLow, "ARDSNet: pH 7.30 is in goal", GasReadings{PH: gp(7.30)}, roomAir, 0, 0, nil},
+		{CautionPHLow, "ARDSNet: pH below 7.15 is the severe branch", GasReadings{PH: gp(7.14)}, roomAir, Stop, 7.15, []string{"pH 7.14", "7.15", "severe acidaemia"}},
+		{CautionPHLow, "ARDSNet: pH 7.15 is the moderate branch", GasReadings{PH: gp(7.15)}, roomAir, Warn, 7.30, []string{"pH 7.15"}},
+		{CautionPHHigh, "ARDSNet: pH above 7.45", GasReadings{PH: gp(7.46)}, roomAir, Warn, 7.45, []string{"pH 7.46", "7.45"}},
+		{CautionPHHigh, "ARDSNet: pH 7.45 is in goal", GasReadings{PH: gp(7.45)}, roomAir, 0, 0, nil},
 		// Henderson-Hasselbalch, HCO3 = 0.03 x PaCO2 x 10^(pH - 6.1),
 		// plausible 5-60 mmol/L (from memory); each derived by hand:
 		// 0.6 x 10^0.91 = 0.6 x 8.128 = 4.88 < 5; 0.6 x 10^0.93 = 5.11.
-		{"gas-readings-disagree", "H-H: pH 7.01, PaCO2 20 -> HCO3 4.88", GasReadings{PH: gp(7.01), PaCO2MmHg: gp(20)}, roomAir, Stop, 5, []string{"pH 7.01", "PaCO2 20 mmHg", "4.9 mmol/L", "outside 5-60"}},
-		{"gas-readings-disagree", "H-H: pH 7.03, PaCO2 20 -> HCO3 5.11", GasReadings{PH: gp(7.03), PaCO2MmHg: gp(20)}, roomAir, 0, 0, nil},
+		{CautionGasReadingsDisagree, "H-H: pH 7.01, PaCO2 20 -> HCO3 4.88", GasReadings{PH: gp(7.01), PaCO2MmHg: gp(20)}, roomAir, Stop, 5, []string{"pH 7.01", "PaCO2 20 mmHg", "4.9 mmol/L", "outside 5-60"}},
+		{CautionGasReadingsDisagree, "H-H: pH 7.03, PaCO2 20 -> HCO3 5.11", GasReadings{PH: gp(7.03), PaCO2MmHg: gp(20)}, roomAir, 0, 0, nil},
 		// 2.4 x 10^1.41 = 2.4 x 25.70 = 61.7 > 60; 2.4 x 10^1.39 = 58.9.
-		{"gas-readings-disagree", "H-H: pH 7.51, PaCO2 80 -> HCO3 61.7", GasReadings{PH: gp(7.51), PaCO2MmHg: gp(80)}, roomAir, Stop, 60, []string{"pH 7.51", "PaCO2 80 mmHg", "61.7 mmol/L"}},
-		{"gas-readings-disagree", "H-H: pH 7.49, PaCO2 80 -> HCO3 58.9", GasReadings{PH: gp(7.49), PaCO2MmHg: gp(80)}, roomAir, 0, 0, nil},
+		{CautionGasReadingsDisagree, "H-H: pH 7.51, PaCO2 80 -> HCO3 61.7", GasReadings{PH: gp(7.51), PaCO2MmHg: gp(80)}, roomAir, Stop, 60, []string{"pH 7.51", "PaCO2 80 mmHg", "61.7 mmol/L"}},
+		{CautionGasReadingsDisagree, "H-H: pH 7.49, PaCO2 80 -> HCO3 58.9", GasReadings{PH: gp(7.49), PaCO2MmHg: gp(80)}, roomAir, 0, 0, nil},
 		// Severinghaus 1979 with PO2 x 0.5-2 and +/- 6 %: PaO2 30 allows
 		// SpO2 up to S(60) + 6 = 96.58 %; PaO2 200 down to S(100) - 6 =
 		// 91.75 % (derived in TestSpO2RangeForPaO2AtDerivedEdges).
-		{"gas-readings-disagree", "Severinghaus: SpO2 96.7 with PaO2 30", GasReadings{SpO2Pct: gp(96.7), PaO2MmHg: gp(30)}, roomAir, Stop, 96.58, []string{"SpO2 96.7 %", "PaO2 30 mmHg", "13-97 %"}},
-		{"gas-readings-disagree", "Severinghaus: SpO2 96.5 with PaO2 30", GasReadings{SpO2Pct: gp(96.5), PaO2MmHg: gp(30)}, roomAir, 0, 0, nil},
-		{"gas-readings-disagree", "Severinghaus: SpO2 91.7 with PaO2 200", GasReadings{SpO2Pct: gp(91.7), PaO2MmHg: gp(200)}, roomAir, Stop, 91.75, []string{"SpO2 91.7 %", "PaO2 200 mmHg", "92-100 %"}},
-		{"gas-readings-disagree", "Severinghaus: SpO2 91.8 with PaO2 200", GasReadings{SpO2Pct: gp(91.8), PaO2MmHg: gp(200)}, roomAir, 0, 0, nil},
+		{CautionGasReadingsDisagree, "Severinghaus: SpO2 96.7 with PaO2 30", GasReadings{SpO2Pct: gp(96.7), PaO2MmHg: gp(30)}, roomAir, Stop, 96.58, []string{"SpO2 96.7 %", "PaO2 30 mmHg", "13-97 %"}},
+		{CautionGasReadingsDisagree, "Severinghaus: SpO2 96.5 with PaO2 30", GasReadings{SpO2Pct: gp(96.5), PaO2MmHg: gp(30)}, roomAir, 0, 0, nil},
+		{CautionGasReadingsDisagree, "Severinghaus: SpO2 91.7 with PaO2 200", GasReadings{SpO2Pct: gp(91.7), PaO2MmHg: gp(200)}, roomAir, Stop, 91.75, []string{"SpO2 91.7 %", "PaO2 200 mmHg", "92-100 %"}},
+		{CautionGasReadingsDisagree, "Severinghaus: SpO2 91.8 with PaO2 200", GasReadings{SpO2Pct: gp(91.8), PaO2MmHg: gp(200)}, roomAir, 0, 0, nil},
 	}
 	for _, c := range cases {
 		got := find(GasCautions(c.g, c.ctx), c.id)
@@ -93,7 +94,7 @@ func TestGasCautionsAtTheirLimits(t *testing.T) {
 // Every gas rule of the table has a case above, a source and a ward
 // wording: a rule added without them fails here.
 func TestEveryGasRuleIsTested(t *testing.T) {
-	seen := map[string]bool{}
+	seen := map[CautionID]bool{}
 	for _, g := range []GasReadings{{SpO2Pct: gp(80)}, {PaO2MmHg: gp(90)}, {PH: gp(7.1)}, {PH: gp(7.5)},
 		{PH: gp(7.6), PaCO2MmHg: gp(100)}} {
 		for _, c := range GasCautions(g, GasContext{FiO2: 0.6, FiO2Known: true, PEEPCmH2O: 10}) {
@@ -106,7 +107,7 @@ func TestEveryGasRuleIsTested(t *testing.T) {
 		require.True(t, seen[r.id], "gas rule %s raised by no input", r.id)
 		require.True(t, IsGasCaution(r.id))
 	}
-	require.False(t, IsGasCaution("calibration-missing"))
+	require.False(t, IsGasCaution(CautionCalibrationMissing))
 }
 
 // REFERENCES.md (version 3): pH 7.60 with PaCO2 100 mmHg implies HCO3
@@ -116,7 +117,7 @@ func TestEveryGasRuleIsTested(t *testing.T) {
 // x 10^1.3 = 1.2 x 19.95), is plausible.
 func TestHendersonHasselbalchPlausibility(t *testing.T) {
 	cs := GasCautions(GasReadings{PH: gp(7.60), PaCO2MmHg: gp(100), SpO2Pct: gp(93)}, roomAir)
-	c := find(cs, "gas-readings-disagree")
+	c := find(cs, CautionGasReadingsDisagree)
 	require.NotNil(t, c)
 	require.Equal(t, Stop, c.Level)
 	require.InDelta(t, 94.9, c.Value, 0.05, "derived: 0.03 x 100 x 10^1.5")
@@ -128,7 +129,7 @@ func TestHendersonHasselbalchPlausibility(t *testing.T) {
 	require.NotNil(t, fed.SpO2Pct, "the oximeter is another instrument: still read")
 	require.Contains(t, refused, "pH and PaCO2")
 
-	require.Nil(t, find(GasCautions(GasReadings{PH: gp(7.40), PaCO2MmHg: gp(40)}, roomAir), "gas-readings-disagree"), "derived: HCO3 23.9")
+	require.Nil(t, find(GasCautions(GasReadings{PH: gp(7.40), PaCO2MmHg: gp(40)}, roomAir), CautionGasReadingsDisagree), "derived: HCO3 23.9")
 	fed, refused = gasForStep(GasReadings{PH: gp(7.40), PaCO2MmHg: gp(40)})
 	require.Equal(t, "", refused)
 	require.NotNil(t, fed.PH)
@@ -150,13 +151,13 @@ func TestOximetryDisagreementRefusesBoth(t *testing.T) {
 
 // Both readings low: the worse level, both named.
 func TestOxygenationLowNamesBothReadings(t *testing.T) {
-	c := find(GasCautions(GasReadings{SpO2Pct: gp(87), PaO2MmHg: gp(48)}, roomAir), "oxygenation-low")
+	c := find(GasCautions(GasReadings{SpO2Pct: gp(87), PaO2MmHg: gp(48)}, roomAir), CautionOxygenationLow)
 	require.NotNil(t, c)
 	require.Equal(t, Stop, c.Level, "PaO2 48 is below 50 (common practice)")
 	require.Equal(t, 48.0, c.Value)
 	require.Contains(t, c.Message, "PaO2 48 mmHg is below 50 mmHg")
 	require.Contains(t, c.Message, "SpO2 87 % is below the goal's 88 %")
-	require.Nil(t, find(GasCautions(GasReadings{SpO2Pct: gp(87), PaO2MmHg: gp(120)}, GasContext{FiO2: 0.6, FiO2Known: true, PEEPCmH2O: 10}), "oxygenation-high"),
+	require.Nil(t, find(GasCautions(GasReadings{SpO2Pct: gp(87), PaO2MmHg: gp(120)}, GasContext{FiO2: 0.6, FiO2Known: true, PEEPCmH2O: 10}), CautionOxygenationHigh),
 		"never 'less oxygen' beside a low reading")
 }
 

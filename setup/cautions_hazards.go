@@ -79,10 +79,10 @@ func patientTriggeringCaution(a assessment) []Caution {
 	if !a.hz.breathingAgainst {
 		return nil
 	}
-	return []Caution{{ID: "patient-triggering", Level: Stop, Unit: "",
+	return []Caution{{ID: CautionPatientTriggering, Level: Stop, Unit: "",
 		Message: "the patient is breathing against the unit: it cannot follow the patient's breaths, and the readings are not valid",
 		Advice:  "call the clinician now about sedation or another ventilator; meanwhile ventilate by bag if the patient is distressed",
-		Source:  srcPassive}}
+		Source:  cautionRule(CautionPatientTriggering).Source}}
 }
 
 // o2FlowCautions judge the oxygen bleed against the flowmeter's maximum:
@@ -94,7 +94,7 @@ func o2FlowCautions(a assessment) []Caution {
 		return nil
 	}
 	reached := physiology.FiO2FromPistonIntake(max, f.Hole.EffectiveSweptML, f.Timing.RateBPM)
-	return []Caution{{ID: "o2-flow-above-flowmeter", Level: Stop, Value: f.O2FlowLPerMin, Limit: max, Unit: "L/min",
+	return []Caution{{ID: CautionO2FlowAboveFlowmeter, Level: Stop, Value: f.O2FlowLPerMin, Limit: max, Unit: "L/min",
 		Message: fmt.Sprintf("the O2 bleed %.1f L/min for FiO2 %.2f is above the flowmeter's maximum %.0f L/min: at %.0f L/min the FiO2 reaches only %.2f",
 			f.O2FlowLPerMin, f.FiO2, max, max, reached),
 		Advice: fmt.Sprintf("do not plan on FiO2 %.2f: accept FiO2 %.2f at %.0f L/min, or a smaller hole or lower rate (the piston draws less), or a second oxygen supply; the clinician decides",
@@ -106,17 +106,17 @@ func o2FlowCautions(a assessment) []Caution {
 // what happens at empty.
 func cylinderCautions(a assessment) []Caution {
 	f := a.f
-	if !f.CylinderGiven || !(f.CylinderMinutes < CylinderMinMinutes) {
+	r, l, ok := judged(CautionO2CylinderLow, f.CylinderMinutes)
+	if !f.CylinderGiven || !ok {
 		return nil
 	}
 	empty := fmt.Sprintf("empty in %.0f min, and then FiO2 falls to 0.21 with no alarm", f.CylinderEmptyMinutes)
-	msg := fmt.Sprintf("oxygen cylinder reaches its reserve of %.0f bar in %.0f min at %.1f L/min (under 2 hours); %s",
-		f.CylinderReserveBar, f.CylinderMinutes, f.O2FlowLPerMin, empty)
+	msg := fmt.Sprintf("oxygen cylinder reaches its reserve of %.0f bar in %.0f min at %.1f L/min (under %.0f hours); %s",
+		f.CylinderReserveBar, f.CylinderMinutes, f.O2FlowLPerMin, l.Value/60, empty)
 	if f.CylinderMinutes <= 0 {
 		msg = fmt.Sprintf("oxygen cylinder is at or below its reserve of %.0f bar; at %.1f L/min it is %s", f.CylinderReserveBar, f.O2FlowLPerMin, empty)
 	}
-	return []Caution{{ID: "o2-cylinder-low", Level: Warn, Value: f.CylinderMinutes, Limit: CylinderMinMinutes, Unit: "min",
-		Message: msg, Advice: "arrange a full cylinder now and change it at the reserve; watch the FiO2 and SpO2", Source: srcCylinderResv}}
+	return []Caution{r.caution(l, f.CylinderMinutes, msg, "arrange a full cylinder now and change it at the reserve; watch the FiO2 and SpO2")}
 }
 
 // applyCylinderReserve sets the cylinder's time to its reserve (the time
@@ -134,25 +134,26 @@ func applyCylinderReserve(f *Figures, cylL, cylBar, reserveBar float64) {
 // hole more than 10 % off the target (warn).
 func holeCautions(a assessment) []Caution {
 	hz := a.hz
-	if hz.smallestHoleMLPerKg > VtWarnMLPerKg {
-		return []Caution{{ID: "no-suitable-hole", Level: Stop, Value: hz.smallestHoleMLPerKg, Limit: VtWarnMLPerKg, Unit: "mL/kg PBW",
-			Message: fmt.Sprintf("the smallest hole (%s) gives %.1f mL/kg PBW, above %.0f: no hole of this machine suits this patient",
-				hz.smallestHoleLabel, hz.smallestHoleMLPerKg, VtWarnMLPerKg),
-			Advice: "do not use this machine for this patient: a ventilator that can give 4-8 mL/kg PBW is needed", Source: srcNoSuitableHole}}
+	none := cautionRule(CautionNoSuitableHole)
+	// The table's two limits: the nearest hole's distance from the
+	// target, and what the smallest hole gives.
+	offLimit, smallest := none.Limits[0], none.Limits[1]
+	if smallest.crossed(hz.smallestHoleMLPerKg) {
+		return []Caution{none.caution(smallest, hz.smallestHoleMLPerKg, fmt.Sprintf("the smallest hole (%s) gives %.1f mL/kg PBW, above %.0f: no hole of this machine suits this patient",
+			hz.smallestHoleLabel, hz.smallestHoleMLPerKg, smallest.Value),
+			"do not use this machine for this patient: a ventilator that can give 4-8 mL/kg PBW is needed")}
 	}
 	if !(a.targetMLPerK > 0) {
 		return nil
 	}
 	off := math.Abs(a.offTargetPct)
-	switch {
-	case off > NoSuitableHolePct:
-		return []Caution{{ID: "no-suitable-hole", Level: Stop, Value: a.offTargetPct, Limit: NoSuitableHolePct, Unit: "%",
-			Message: fmt.Sprintf("the nearest hole delivers %+.0f%% off the target volume (more than %.0f%%): no hole of this machine suits this patient", a.offTargetPct, NoSuitableHolePct),
-			Advice:  "do not use this setting: review the target with the clinician, or use another ventilator", Source: srcNoSuitableHole}}
-	case off > HoleOffTargetPct:
-		return []Caution{{ID: "hole-off-target", Level: Warn, Value: a.offTargetPct, Limit: HoleOffTargetPct, Unit: "%",
-			Message: fmt.Sprintf("the nearest hole delivers %+.0f%% off the target volume (more than %.0f%%)", a.offTargetPct, HoleOffTargetPct),
-			Advice:  "no hole on this machine is closer; review the target", Source: srcCommon}}
+	if offLimit.crossed(off) {
+		return []Caution{none.caution(offLimit, a.offTargetPct, fmt.Sprintf("the nearest hole delivers %+.0f%% off the target volume (more than %.0f%%): no hole of this machine suits this patient", a.offTargetPct, offLimit.Value),
+			"do not use this setting: review the target with the clinician, or use another ventilator")}
+	}
+	if r, l, ok := judged(CautionHoleOffTarget, off); ok {
+		return []Caution{r.caution(l, a.offTargetPct, fmt.Sprintf("the nearest hole delivers %+.0f%% off the target volume (more than %.0f%%)", a.offTargetPct, l.Value),
+			"no hole on this machine is closer; review the target")}
 	}
 	return nil
 }
@@ -160,12 +161,12 @@ func holeCautions(a assessment) []Caution {
 // heightCaution: below 152.4 cm the PBW formula is extrapolated, and both
 // it and this unit are for adults.
 func heightCaution(a assessment) []Caution {
-	if !(a.heightCm < physiology.DevineBaseCm) {
+	r, l, ok := judged(CautionHeightBelowFormula, a.heightCm)
+	if !ok {
 		return nil
 	}
-	return []Caution{{ID: "height-below-formula", Level: Warn, Value: a.heightCm, Limit: physiology.DevineBaseCm, Unit: "cm",
-		Message: fmt.Sprintf("height %.1f cm is below %.1f cm (60 in): the PBW formula and this unit are for adults; PBW is extrapolated", a.heightCm, physiology.DevineBaseCm),
-		Advice:  "a child or a very short adult needs settings and a ventilator made for them; check PBW against local tables", Source: "Devine 1974, ARDS Network 2000"}}
+	return []Caution{r.caution(l, a.heightCm, fmt.Sprintf("height %.1f cm is below %.1f cm (60 in): the PBW formula and this unit are for adults; PBW is extrapolated", a.heightCm, l.Value),
+		"a child or a very short adult needs settings and a ventilator made for them; check PBW against local tables")}
 }
 
 // smallerHoleAdvice is the advice of a high tidal volume: a smaller hole

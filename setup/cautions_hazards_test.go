@@ -23,7 +23,8 @@ func hazardous() assessment {
 
 func TestEachHazardAtItsLimit(t *testing.T) {
 	cases := []struct {
-		id, source     string
+		id             CautionID
+		source         string
 		level          Level
 		over, inside   func(a *assessment)
 		wantInMessage  []string
@@ -32,7 +33,7 @@ func TestEachHazardAtItsLimit(t *testing.T) {
 	}{
 		// Common practice: a unit that cannot sense a breath needs a
 		// passive patient.
-		{"patient-triggering", "common practice", Stop,
+		{CautionPatientTriggering, "common practice", Stop,
 			func(a *assessment) { a.hz.breathingAgainst = true }, func(a *assessment) { a.hz.breathingAgainst = false },
 			[]string{"breathing against the unit", "readings are not valid"}, "sedation or another ventilator", [2]float64{0, 0}},
 		// Common practice: flowmeters top out at 15 L/min. At 15 L/min into
@@ -40,38 +41,38 @@ func TestEachHazardAtItsLimit(t *testing.T) {
 		// oxygen); at 30 /min, 15 L/min: 0.21 + 0.79 x 15/15 = 1.00, so
 		// the case below uses 40 /min: 20 L/min drawn, 0.21 + 0.79 x 0.75
 		// = 0.8025 (derived from the bleed formula).
-		{"o2-flow-above-flowmeter", "common practice", Stop,
+		{CautionO2FlowAboveFlowmeter, "common practice", Stop,
 			func(a *assessment) { a.f.Timing.RateBPM = 40; a.f.O2FlowLPerMin = 15.01; a.f.FiO2 = 1 },
 			func(a *assessment) { a.f.O2FlowLPerMin = 15 },
 			[]string{"15.0 L/min for FiO2 1.00", "maximum 15 L/min", "reaches only 0.80"}, "accept FiO2 0.80", [2]float64{15.01, 15}},
 		// Common practice: more than a fifth off the target is another
 		// tidal volume.
-		{"no-suitable-hole", "common practice", Stop,
+		{CautionNoSuitableHole, "common practice", Stop,
 			func(a *assessment) { a.offTargetPct = 20.01 }, func(a *assessment) { a.offTargetPct = 20 },
 			[]string{"+20% off the target", "more than 20%"}, "do not use", [2]float64{20.01, 20}},
-		{"no-suitable-hole", "common practice", Stop,
+		{CautionNoSuitableHole, "common practice", Stop,
 			func(a *assessment) { a.offTargetPct = -20.01 }, func(a *assessment) { a.offTargetPct = -20 },
 			[]string{"-20% off the target"}, "do not use", [2]float64{-20.01, 20}},
 		// ARDS Network 2000: 4-8 mL/kg PBW; the smallest hole above 8.
-		{"no-suitable-hole", "ARDS Network 2000", Stop,
+		{CautionNoSuitableHole, "ARDS Network 2000", Stop,
 			func(a *assessment) { a.hz.smallestHoleMLPerKg = 8.01 }, func(a *assessment) { a.hz.smallestHoleMLPerKg = 8 },
 			[]string{"smallest hole (1) gives 8.0 mL/kg PBW, above 8"}, "a ventilator that can give 4-8", [2]float64{8.01, 8}},
 		// The 10 % warn stays below the 20 % stop.
-		{"hole-off-target", "common practice", Warn,
+		{CautionHoleOffTarget, "common practice", Warn,
 			func(a *assessment) { a.offTargetPct = 10.01 }, func(a *assessment) { a.offTargetPct = 10 },
 			[]string{"+10% off the target"}, "review the target", [2]float64{10.01, 10}},
 		// Common practice: a reserve of about a fifth of a full cylinder;
 		// under 2 hours to it is low.
-		{"o2-cylinder-low", "common practice", Warn,
+		{CautionO2CylinderLow, "common practice", Warn,
 			func(a *assessment) { a.f.CylinderMinutes = 119.9 }, func(a *assessment) { a.f.CylinderMinutes = 120 },
 			[]string{"reserve of 40 bar in 120 min", "empty in 400 min", "FiO2 falls to 0.21"}, "change it at the reserve", [2]float64{119.9, 120}},
 		// Devine 1974: the formula starts at 60 in = 152.4 cm.
-		{"height-below-formula", "Devine 1974", Warn,
+		{CautionHeightBelowFormula, "Devine 1974", Warn,
 			func(a *assessment) { a.heightCm = 152.3 }, func(a *assessment) { a.heightCm = 152.4 },
 			[]string{"152.3 cm is below 152.4 cm", "for adults"}, "made for them", [2]float64{152.3, 152.4}},
 	}
 	for _, c := range cases {
-		t.Run(c.id+"/"+c.source, func(t *testing.T) {
+		t.Run(string(c.id)+"/"+c.source, func(t *testing.T) {
 			a := hazardous()
 			c.over(&a)
 			got := find(assess(a), c.id)
@@ -100,7 +101,7 @@ func TestNoHazardWithoutItsInputs(t *testing.T) {
 	// nothing to a clean setting, even with a large O2 flow.
 	a := clean()
 	a.f.O2FlowLPerMin = 40
-	require.Nil(t, find(assess(a), "o2-flow-above-flowmeter"))
+	require.Nil(t, find(assess(a), CautionO2FlowAboveFlowmeter))
 	require.Empty(t, assess(hazardous()))
 }
 
@@ -114,7 +115,7 @@ func TestCylinderAtItsReserveSaysSo(t *testing.T) {
 	a := hazardous()
 	a.f.CylinderGiven, a.f.O2FlowLPerMin = true, 3
 	a.f.CylinderMinutes, a.f.CylinderEmptyMinutes, a.f.CylinderReserveBar = f.CylinderMinutes, f.CylinderEmptyMinutes, 40
-	c := find(assess(a), "o2-cylinder-low")
+	c := find(assess(a), CautionO2CylinderLow)
 	require.NotNil(t, c)
 	require.Contains(t, c.Message, "at or below its reserve of 40 bar")
 	require.Contains(t, c.Message, "empty in 133 min")
@@ -139,7 +140,7 @@ func TestHighVolumeAdviceKnowsTheSmallestHole(t *testing.T) {
 		a := hazardous()
 		a.f.Hole.MLPerKg = c.mlkg
 		a.hz.noSmallerHole = c.smallest
-		got := find(assess(a), "tidal-volume-high")
+		got := find(assess(a), CautionTidalVolumeHigh)
 		require.NotNil(t, got)
 		require.Contains(t, got.Advice, c.want, "%v mL/kg, smallest %v", c.mlkg, c.smallest)
 		if c.smallest {
@@ -155,7 +156,7 @@ func TestLowVentilationAdviceFitsTheLung(t *testing.T) {
 		a.f.Hole.MLPerKg = 4
 		a.f.Timing = machine.Timing{RateBPM: 14, TiS: 1.4}
 		a.hz.lung = lung
-		got := find(assess(a), "minute-ventilation-low")
+		got := find(assess(a), CautionMinuteVentilationLow)
 		require.NotNil(t, got)
 		if lung == physiology.Obstructive {
 			require.Contains(t, got.Advice, "accept a higher PaCO2 while the pH allows")

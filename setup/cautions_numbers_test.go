@@ -24,7 +24,7 @@ func TestTorqueCautionSaysItsNumbers(t *testing.T) {
 		a := clean()
 		a.ratedTorque = 8
 		a.f.PeakTorqueNm, a.f.TorqueShareOfRating = c.peakNm, c.share
-		got := find(assess(a), "torque-high")
+		got := find(assess(a), CautionTorqueHigh)
 		require.NotNil(t, got, "%.1f N m", c.peakNm)
 		require.Equal(t, c.level, got.Level)
 		require.Equal(t, c.message, got.Message)

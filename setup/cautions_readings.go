@@ -42,11 +42,11 @@ func fitCautions(rd *physiology.Readings, m *physiology.Mechanics, reliefCmH2O, 
 		switch {
 		case m != nil && m.RAtLeast:
 			told = fmt.Sprintf("what the readings still tell: compliance %s mL/cmH2O from the end pressure, and a resistance of at least %s cmH2O/(L/s) (the peak cannot tell more)",
-				sig2(m.ComplianceMLPerCmH2O), sig2(m.ResistanceCmH2OPerLS))
+				Sig2(m.ComplianceMLPerCmH2O), Sig2(m.ResistanceCmH2OPerLS))
 		case m != nil:
-			told = fmt.Sprintf("what the readings still tell: compliance %s mL/cmH2O from the end pressure alone (the resistance is assumed; the peak cannot tell it)", sig2(m.ComplianceMLPerCmH2O))
+			told = fmt.Sprintf("what the readings still tell: compliance %s mL/cmH2O from the end pressure alone (the resistance is assumed; the peak cannot tell it)", Sig2(m.ComplianceMLPerCmH2O))
 		}
-		out = append(out, Caution{ID: "measured-peak-at-relief", Level: Stop, Value: rd.PeakCmH2O, Limit: reliefCmH2O, Unit: "cmH2O",
+		out = append(out, Caution{ID: CautionMeasuredPeakAtRelief, Level: Stop, Value: rd.PeakCmH2O, Limit: reliefCmH2O, Unit: "cmH2O",
 			Message: fmt.Sprintf("the manometer reads a peak of %.1f cmH2O, within half a %s cmH2O step of this machine's relief valve at %s: the relief valve is venting: the breath is pressure-limited; the patient gets less than the hole delivers; %s",
 				rd.PeakCmH2O, plain(step.Value), plain(reliefCmH2O), told),
 			Advice: "check the patient now (tube, secretions, chest), then use a smaller hole or a slower speed and re-take both readings",
@@ -56,20 +56,11 @@ func fitCautions(rd *physiology.Readings, m *physiology.Mechanics, reliefCmH2O, 
 		return out
 	}
 	c := m.ComplianceMLPerCmH2O
-	switch {
-	case c > LeakComplianceStop:
-		out = append(out, leakComplianceCaution(Stop, c, LeakComplianceStop, deliveredML))
-	case c > LeakComplianceWarn:
-		out = append(out, leakComplianceCaution(Warn, c, LeakComplianceWarn, deliveredML))
+	if r, l, ok := judged(CautionReadingsSuggestLeak, c); ok {
+		out = append(out, r.caution(l, c, fmt.Sprintf("the readings fit a compliance of %.1f mL/cmH2O, above %s: pressures this low are what a cuff leak or a partial disconnection looks like; the patient may get less than shown: %.0f mL is an upper bound",
+			c, plain(l.Value), deliveredML), leakAdvice))
 	}
 	return out
-}
-
-func leakComplianceCaution(level Level, c, limit, deliveredML float64) Caution {
-	return Caution{ID: "readings-suggest-leak", Level: level, Value: c, Limit: limit, Unit: "mL/cmH2O",
-		Message: fmt.Sprintf("the readings fit a compliance of %.1f mL/cmH2O, above %s: pressures this low are what a cuff leak or a partial disconnection looks like; the patient may get less than shown: %.0f mL is an upper bound",
-			c, plain(limit), deliveredML),
-		Advice: leakAdvice, Source: srcLeakCompliance}
 }
 
 // Notes for volumes that are upper bounds, not what the patient gets.
@@ -83,7 +74,7 @@ const (
 // they are what the patient gets.
 func (ck Check) VolumeBoundNote() string {
 	for _, c := range ck.Current.Cautions {
-		if c.ID == "readings-suggest-leak" {
+		if c.ID == CautionReadingsSuggestLeak {
 			return LeakVolumeNote
 		}
 	}
@@ -93,9 +84,9 @@ func (ck Check) VolumeBoundNote() string {
 	return ""
 }
 
-// atMost is "at most " before a recorded volume that is an upper bound
+// AtMost is "at most " before a recorded volume that is an upper bound
 // (CheckJSON.VolumeUpperBound), or "".
-func atMost(j CheckJSON) string {
+func AtMost(j CheckJSON) string {
 	if j.VolumeUpperBound {
 		return "at most "
 	}
@@ -110,18 +101,13 @@ func leakShareCautions(f Figures) []Caution {
 		return nil
 	}
 	share := f.LeakedML / stroke
-	level, limit := Note, 0.0
-	switch {
-	case share > LeakShareStop:
-		level, limit = Stop, LeakShareStop
-	case share > LeakShareWarn:
-		level, limit = Warn, LeakShareWarn
-	default:
+	r, l, ok := judged(CautionLeakShareOfStroke, share)
+	if !ok {
 		return nil
 	}
-	return []Caution{{ID: "leak-share-of-stroke", Level: level, Value: 100 * share, Limit: 100 * limit, Unit: "% of the stroke",
-		Message: fmt.Sprintf("the modelled leak takes %.0f mL of the %.0f mL stroke (%.0f %%), above %.0f %%: every volume shown rests on the leak's figure, and if the real leak is smaller the patient gets more",
-			f.LeakedML, stroke, 100*share, 100*limit),
-		Advice: "find and fix the leak (cuff, connections, PEEP valve, piston seal) and measure it on the bench before trusting any volume",
-		Source: srcLeakShare}}
+	c := r.caution(l, 100*share, fmt.Sprintf("the modelled leak takes %.0f mL of the %.0f mL stroke (%.0f %%), above %.0f %%: every volume shown rests on the leak's figure, and if the real leak is smaller the patient gets more",
+		f.LeakedML, stroke, 100*share, 100*l.Value),
+		"find and fix the leak (cuff, connections, PEEP valve, piston seal) and measure it on the bench before trusting any volume")
+	c.Limit, c.Unit = 100*l.Value, "% of the stroke"
+	return []Caution{c}
 }

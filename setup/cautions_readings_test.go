@@ -34,7 +34,7 @@ func TestReadingsSuggestLeakLimits(t *testing.T) {
 		}
 		require.Len(t, cs, 1, "C %v", k.c)
 		got := cs[0]
-		require.Equal(t, "readings-suggest-leak", got.ID)
+		require.Equal(t, CautionReadingsSuggestLeak, got.ID)
 		require.Equal(t, k.level, got.Level, "C %v", k.c)
 		require.InDelta(t, k.c, got.Value, 0)
 		require.InDelta(t, k.limit, got.Limit, 0)
@@ -58,7 +58,7 @@ func TestMeasuredPeakAtReliefLimits(t *testing.T) {
 		cs := fitCautions(&physiology.Readings{PeakCmH2O: k.peak, EndCmH2O: 30}, m, 40, 0.5, 422, oneCmH2O)
 		var at *Caution
 		for i := range cs {
-			if cs[i].ID == "measured-peak-at-relief" {
+			if cs[i].ID == CautionMeasuredPeakAtRelief {
 				at = &cs[i]
 			}
 		}
@@ -99,7 +99,7 @@ func TestLeakShareLimits(t *testing.T) {
 			continue
 		}
 		require.Len(t, cs, 1)
-		require.Equal(t, "leak-share-of-stroke", cs[0].ID)
+		require.Equal(t, CautionLeakShareOfStroke, cs[0].ID)
 		require.Equal(t, k.level, cs[0].Level, "%v mL", k.leaked)
 		require.InDelta(t, 100*k.leaked/200, cs[0].Value, 1e-9)
 		require.InDelta(t, k.limit, cs[0].Limit, 0)

@@ -30,7 +30,7 @@ func clean() assessment {
 	}
 }
 
-func find(cs []Caution, id string) *Caution {
+func find(cs []Caution, id CautionID) *Caution {
 	for i := range cs {
 		if cs[i].ID == id {
 			return &cs[i]
@@ -58,63 +58,63 @@ func TestCleanSettingHasNoCautions(t *testing.T) {
 
 func TestEachCautionAtItsLimit(t *testing.T) {
 	cases := []struct {
-		id     string
+		id     CautionID
 		source string
 		level  Level
 		over   func(a *assessment) // builds the condition
 		inside func(a *assessment) // just inside the limit
 	}{
-		{"tidal-volume-high", "ARDSNet 2000: 4-8 mL/kg", Warn,
+		{CautionTidalVolumeHigh, "ARDSNet 2000: 4-8 mL/kg", Warn,
 			func(a *assessment) { a.f.Hole.MLPerKg = 8.01 }, func(a *assessment) { a.f.Hole.MLPerKg = 8.0 }},
-		{"tidal-volume-high", "ARDSNet 2000 range 4-8; stop at 10 mL/kg (common practice)", Stop,
+		{CautionTidalVolumeHigh, "ARDSNet 2000 range 4-8; stop at 10 mL/kg (common practice)", Stop,
 			func(a *assessment) { a.f.Hole.MLPerKg = 10 }, func(a *assessment) { a.f.Hole.MLPerKg = 9.99 }},
-		{"tidal-volume-low", "ARDSNet 2000: 4-8 mL/kg", Warn,
+		{CautionTidalVolumeLow, "ARDSNet 2000: 4-8 mL/kg", Warn,
 			func(a *assessment) { a.f.Hole.MLPerKg = 3.99 }, func(a *assessment) { a.f.Hole.MLPerKg = 4.0 }},
-		{"plateau-high", "ARDSNet 2000: plateau <= 30", Warn,
+		{CautionPlateauHigh, "ARDSNet 2000: plateau <= 30", Warn,
 			func(a *assessment) { a.f.PlateauCmH2O = 30.01 }, func(a *assessment) { a.f.PlateauCmH2O = 30 }},
-		{"driving-pressure-high", "Amato 2015, 15 cmH2O common practice", Warn,
+		{CautionDrivingPressureHigh, "Amato 2015, 15 cmH2O common practice", Warn,
 			func(a *assessment) { a.f.DrivingCmH2O = 15.01 }, func(a *assessment) { a.f.DrivingCmH2O = 15 }},
-		{"peak-above-relief", "the profile's relief pressure", Stop,
+		{CautionPeakAboveRelief, "the profile's relief pressure", Stop,
 			func(a *assessment) { a.reliefCmH2O = 30; a.f.PeakCmH2O = 30.01 }, func(a *assessment) { a.reliefCmH2O = 30; a.f.PeakCmH2O = 30 }},
-		{"peak-high", "MHRA RMVS001: never more than 40", Stop,
+		{CautionPeakHigh, "MHRA RMVS001: never more than 40", Stop,
 			func(a *assessment) { a.reliefCmH2O = 60; a.f.PeakCmH2O = 40.01 }, func(a *assessment) { a.reliefCmH2O = 60; a.f.PeakCmH2O = 40 }},
-		{"rate-high", "ARDSNet 2000: rate <= 35", Warn,
+		{CautionRateHigh, "ARDSNet 2000: rate <= 35", Warn,
 			func(a *assessment) { a.f.Timing.RateBPM = 35.01 }, func(a *assessment) { a.f.Timing.RateBPM = 35 }},
-		{"rate-low", "common practice: below 8", Warn,
+		{CautionRateLow, "common practice: below 8", Warn,
 			func(a *assessment) { a.f.Timing.RateBPM = 7.99 }, func(a *assessment) { a.f.Timing.RateBPM = 8 }},
-		{"intrinsic-peep", "common practice: above 2 cmH2O", Warn,
+		{CautionIntrinsicPEEP, "common practice: above 2 cmH2O", Warn,
 			func(a *assessment) { a.f.IntrinsicPEEPCmH2O = 2.01 }, func(a *assessment) { a.f.IntrinsicPEEPCmH2O = 2 }},
-		{"peep-low", "ARDSNet 2000: PEEP at least 5", Warn,
+		{CautionPEEPLow, "ARDSNet 2000: PEEP at least 5", Warn,
 			func(a *assessment) { a.f.PEEPCmH2O = 4.99 }, func(a *assessment) { a.f.PEEPCmH2O = 5 }},
-		{"rate-unreachable", "this machine's profile: not reachable by this motor", Stop,
+		{CautionRateUnreachable, "this machine's profile: not reachable by this motor", Stop,
 			func(a *assessment) { a.timing.Rate = machine.TooFast }, func(a *assessment) { a.timing.Rate = machine.Reached }},
-		{"rate-unreachable", "this machine's profile: not reachable by this controller", Stop,
+		{CautionRateUnreachable, "this machine's profile: not reachable by this controller", Stop,
 			func(a *assessment) { a.timing.Rate = machine.TooSlow }, func(a *assessment) { a.timing.Rate = machine.Reached }},
-		{"ti-not-reachable", "this machine's profile: nearest reachable speed used", Warn,
+		{CautionTiNotReachable, "this machine's profile: nearest reachable speed used", Warn,
 			func(a *assessment) { a.timing.Speed = machine.SpeedLimited }, func(a *assessment) { a.timing.Speed = machine.Reached }},
-		{"hole-off-target", "common practice: more than 10% off target", Warn,
+		{CautionHoleOffTarget, "common practice: more than 10% off target", Warn,
 			func(a *assessment) { a.offTargetPct = -10.01 }, func(a *assessment) { a.offTargetPct = -10 }},
-		{"calibration-missing", "common practice: calibration missing", Warn,
+		{CautionCalibrationMissing, "common practice: calibration missing", Warn,
 			func(a *assessment) { a.cal.Fit = nil }, func(a *assessment) { a.cal.Fit = &machine.Fit{} }},
-		{"calibration-old", "common practice: older than 30 days", Warn,
+		{CautionCalibrationOld, "common practice: older than 30 days", Warn,
 			func(a *assessment) { a.cal.AgeDays = 31 }, func(a *assessment) { a.cal.AgeDays = 30 }},
-		{"calibration-future", "common practice: a date in the future is a mistake", Warn,
+		{CautionCalibrationFuture, "common practice: a date in the future is a mistake", Warn,
 			func(a *assessment) { a.cal.AgeDays = -1 }, func(a *assessment) { a.cal.AgeDays = 0 }},
-		{"calibration-residual", "ISO 80601-2-12 (from memory)", Warn,
+		{CautionCalibrationResidual, "ISO 80601-2-12 (from memory)", Warn,
 			func(a *assessment) { a.cal.Outside = 1 }, func(a *assessment) { a.cal.Outside = 0 }},
-		{"calibration-thin", "common practice: three holes for a line", Note,
+		{CautionCalibrationThin, "common practice: three holes for a line", Note,
 			func(a *assessment) { a.cal.Holes = 2 }, func(a *assessment) { a.cal.Holes = 3 }},
-		{"o2-cylinder-low", "common practice: under 2 hours", Warn,
+		{CautionO2CylinderLow, "common practice: under 2 hours", Warn,
 			func(a *assessment) { a.f.CylinderMinutes = 119.9 }, func(a *assessment) { a.f.CylinderMinutes = 120 }},
-		{"torque-high", "common practice: above 80% of rating", Warn,
+		{CautionTorqueHigh, "common practice: above 80% of rating", Warn,
 			func(a *assessment) { a.f.TorqueShareOfRating = 0.801 }, func(a *assessment) { a.f.TorqueShareOfRating = 0.8 }},
-		{"torque-high", "this machine's profile: stop above 100%", Stop,
+		{CautionTorqueHigh, "this machine's profile: stop above 100%", Stop,
 			func(a *assessment) { a.f.TorqueShareOfRating = 1.001 }, func(a *assessment) { a.f.TorqueShareOfRating = 1.0 }},
-		{"height-below-formula", "Devine 1974: formula stated above 60 in", Warn,
+		{CautionHeightBelowFormula, "Devine 1974: formula stated above 60 in", Warn,
 			func(a *assessment) { a.heightCm = 152.3 }, func(a *assessment) { a.heightCm = 152.4 }},
 	}
 	for _, c := range cases {
-		t.Run(c.id+"/"+c.level.String(), func(t *testing.T) {
+		t.Run(string(c.id)+"/"+c.level.String(), func(t *testing.T) {
 			a := clean()
 			tp := *a.timing
 			a.timing = &tp

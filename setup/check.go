@@ -346,8 +346,7 @@ func evaluateSetting(u unit, s Setting, lung machine.Lung, pbw float64, req Chec
 	if err != nil {
 		return Evaluation{}, &InputError{Field: "setting", Reason: err.Error()}
 	}
-	cs := assess(assessment{heightCm: req.Patient.HeightCm, pbwKg: pbw, f: f, reliefCmH2O: u.p.Circuit.ReliefCmH2O, clearanceNote: u.gas.ClearanceNote(),
-		cal: u.cal, ratedTorque: u.p.Motor.RatedTorqueNm, fixedMotor: u.p.Motor.Fixed(), hz: checkHazards(u, s, req)})
+	cs := assess(newAssessment(u, req.Patient, pbw, f, nil, nil, checkHazards(u, s, req)))
 	return Evaluation{Setting: s, Figures: f, Cautions: cs}, nil
 }
 

@@ -176,10 +176,10 @@ func TestCheckCylinderAndFiO2(t *testing.T) {
 	require.InDelta(t, 0.46489, f.FiO2, 0.0001, "FiO2 at the piston's intake (derived)")
 	require.InDelta(t, 30, f.CylinderEmptyMinutes, 1e-9)
 	require.InDelta(t, 0, f.CylinderMinutes, 1e-9)
-	require.True(t, hasCaution(ck.Current.Cautions, "o2-cylinder-low"))
+	require.True(t, hasCaution(ck.Current.Cautions, setup.CautionO2CylinderLow))
 }
 
-func hasCaution(cs []setup.Caution, id string) bool {
+func hasCaution(cs []setup.Caution, id setup.CautionID) bool {
 	for _, c := range cs {
 		if c.ID == id {
 			return true

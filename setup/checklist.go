@@ -27,12 +27,3 @@ func Checklist(w *WatchJSON) []ChecklistItem {
 		{ID: "passive-patient", Text: "The patient is passive (sedated as prescribed): the unit cannot sense a breath, and breathing against it makes the readings meaningless", Source: "common practice"},
 	}
 }
-
-// ChecklistLines are the checklist as lines of text, each with its source.
-func ChecklistLines(w *WatchJSON) []string {
-	var out []string
-	for _, it := range Checklist(w) {
-		out = append(out, fmt.Sprintf("[ ] %s [%s]", it.Text, it.Source))
-	}
-	return out
-}

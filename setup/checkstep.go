@@ -29,10 +29,6 @@ const (
 	ProposalEntered = "entered"
 )
 
-// Empty reports whether no gas or oximeter reading was entered; the
-// apparatus dead space alone is not a reading.
-func (g GasReadings) Empty() bool { return g.physiology().Empty() }
-
 // unexplainedNoStep is why a check whose readings no lung explains has no
 // protocol step: the plateau rule would act on an assumed plateau while
 // the manometer says something else is going on.
@@ -107,7 +103,7 @@ func runCheckWithStep(req CheckRequest, p profiles.Profile) (Check, error) {
 		if stepEv != nil {
 			ck.ProposalFrom = ProposalFromStep
 		}
-	case sameSetting(hand.Apply(req.Setting), res.Proposed) && stepEv != nil:
+	case SameSetting(hand.Apply(req.Setting), res.Proposed) && stepEv != nil:
 		// The same setting: the step's evaluation also carries what the
 		// machine's reach did to the step (a rate it cannot reach).
 		ck.Proposed, ck.Differences = stepEv, stepDiff
@@ -118,8 +114,8 @@ func runCheckWithStep(req CheckRequest, p profiles.Profile) (Check, error) {
 	return ck, nil
 }
 
-// sameSetting compares two settings to well below any step of a dial.
-func sameSetting(a, b Setting) bool {
+// SameSetting compares two settings to well below any step of a dial.
+func SameSetting(a, b Setting) bool {
 	near := func(x, y float64) bool { return math.Abs(x-y) < 1e-6 }
 	return a.Hole == b.Hole && near(a.RPM, b.RPM) && near(a.DwellS, b.DwellS) &&
 		near(a.PEEPCmH2O, b.PEEPCmH2O) && near(a.O2LPerMin, b.O2LPerMin)
@@ -131,7 +127,7 @@ func sameSetting(a, b Setting) bool {
 // ok is false when the check has no step or the step changes nothing.
 func StepEntries(ck Check) (e Entries, ok bool) {
 	st := ck.Protocol
-	if st == nil || sameSetting(st.Proposed, ck.Current.Setting) {
+	if st == nil || SameSetting(st.Proposed, ck.Current.Setting) {
 		return nil, false
 	}
 	num := func(v float64) string { return strconv.FormatFloat(r4(v), 'f', -1, 64) }
@@ -142,32 +138,10 @@ func StepEntries(ck Check) (e Entries, ok bool) {
 	}, true
 }
 
-// GasReadingsJSON are the gas and oximeter entries of a check; null when
-// not entered.
-type GasReadingsJSON struct {
-	SpO2Pct              *float64 `json:"spo2_pct"`
-	PaO2MmHg             *float64 `json:"pao2_mmhg"`
-	PH                   *float64 `json:"ph"`
-	PaCO2MmHg            *float64 `json:"paco2_mmhg"`
-	ApparatusDeadSpaceML *float64 `json:"apparatus_dead_space_ml"`
-}
-
-func gasReadingsJSON(g GasReadings) *GasReadingsJSON {
-	cp := func(v *float64) *float64 {
-		if v == nil {
-			return nil
-		}
-		x := r4(*v)
-		return &x
-	}
-	return &GasReadingsJSON{SpO2Pct: cp(g.SpO2Pct), PaO2MmHg: cp(g.PaO2MmHg), PH: cp(g.PH), PaCO2MmHg: cp(g.PaCO2MmHg),
-		ApparatusDeadSpaceML: cp(g.ApparatusDeadSpaceML)}
-}
-
 // protocolJSON fills the check's JSON with the readings and the step.
 func (ck Check) protocolJSON(j *CheckJSON) {
 	if ck.BloodGas != nil {
-		j.GasReadings = gasReadingsJSON(*ck.BloodGas)
+		j.GasReadings = roundedGas(*ck.BloodGas)
 	}
 	j.OxygenationJSON = ck.Oxygenation
 	j.ProtocolProblem, j.ProposalFrom = ck.ProtocolProblem, ck.ProposalFrom

@@ -9,6 +9,7 @@ import (
 
 	"github.com/stretchr/testify/require"
 
+	"crankside/report"
 	"crankside/setup"
 )
 
@@ -86,13 +87,13 @@ func TestOldRecordsStillRead(t *testing.T) {
 	}
 	path := filepath.Join(t.TempDir(), "log.jsonl")
 	require.NoError(t, os.WriteFile(path, append(b, '\n'), 0o600))
-	recs, bad, err := setup.ReadLog(path)
+	recs, bad, err := readLog(path)
 	require.NoError(t, err)
 	require.Empty(t, bad)
 	require.Len(t, recs, 1)
 	require.Nil(t, recs[0].GasReadings)
 	var card strings.Builder
-	require.NoError(t, recs[0].WriteCard(&card))
+	require.NoError(t, report.WriteCard(&card, recs[0]))
 	require.NotContains(t, card.String(), "PROTOCOL STEP")
 }
 
@@ -109,7 +110,7 @@ func TestRecordCarriesTheStep(t *testing.T) {
 	require.NoError(t, err)
 	path := filepath.Join(t.TempDir(), "log.jsonl")
 	require.NoError(t, os.WriteFile(path, append(b, '\n'), 0o600))
-	recs, _, err := setup.ReadLog(path)
+	recs, _, err := readLog(path)
 	require.NoError(t, err)
 	got := recs[0]
 	require.Equal(t, 7.22, *got.GasReadings.PH)
@@ -117,8 +118,8 @@ func TestRecordCarriesTheStep(t *testing.T) {
 	require.Equal(t, "in-goal", got.ProtocolRuleStatus["oxygenation"])
 	require.Equal(t, rec.ProtocolStep, got.ProtocolStep, "round-trip property of the record")
 	var card, text strings.Builder
-	require.NoError(t, got.WriteCard(&card))
-	require.NoError(t, ck.WriteText(&text))
+	require.NoError(t, report.WriteCard(&card, got))
+	require.NoError(t, report.CheckText(&text, ck))
 	for _, want := range []string{"BLOOD GAS / OXIMETER", "FIRED      ph: pH = 7.22", "THE STEP ON THIS MACHINE", "MACHINE    rate"} {
 		require.Contains(t, card.String(), want)
 		require.Contains(t, text.String(), want)
@@ -141,7 +142,7 @@ func TestDeadSpaceAloneIsSaidToBeUnused(t *testing.T) {
 	require.NotNil(t, j.GasReadings)
 	require.Equal(t, 50.0, *j.GasReadings.ApparatusDeadSpaceML)
 	var text strings.Builder
-	require.NoError(t, ck.WriteText(&text))
+	require.NoError(t, report.CheckText(&text, ck))
 	require.Contains(t, text.String(), "PROTOCOL STEP: NONE  no blood gas or oximeter reading")
 
 	negative := -5.0
@@ -164,9 +165,9 @@ func TestHistoryProposalLineShowsTheOxygenAndTheStep(t *testing.T) {
 	require.Equal(t, setup.ProposalFromStep, ck.ProposalFrom)
 	rec, err := setup.NewRecord(ck, "B4", "ab", today)
 	require.NoError(t, err)
-	line := setup.ProposalLine(rec)
+	line := report.ProposalLine(rec)
 	require.Contains(t, line, "(the protocol's step)")
 	require.Contains(t, line, "; O2 ")
-	require.NotContains(t, setup.HistoryLine(rec), "; O2 ", "the setting has no O2 bleed")
+	require.NotContains(t, report.HistoryLine(rec), "; O2 ", "the setting has no O2 bleed")
 	require.Greater(t, rec.Proposed.Setting.O2LPerMin, 0.0)
 }

@@ -6,8 +6,9 @@
 // (the lung is fitted to them, or FitProblem says which to re-take), with an
 // optional proposed change evaluated beside it. Calibrate refits a profile's
 // calibration from bench points; DescribeProfile and BreathTrace serve the
-// machine and chart views. NewRecord, AppendRecord, ReadLog and History keep
-// the log of checks (one JSON line each); WriteCard prints the handover card.
+// machine and chart views. NewRecord makes the record of a check that
+// package logbook keeps in the handover log; package report prints plans,
+// checks and their handover cards from what this package returns.
 // Cautions are computed here, in one place, from the figures; nothing that
 // shows a plan or a check computes one.
 //
@@ -16,8 +17,8 @@
 // end reading at or below PEEP, a peak below the end reading are stops,
 // whatever a lung model makes of them). When no lung explains the readings
 // the check carries a readings-unexplained stop, its JSON and record print
-// the current setting's predicted figures as null (WithheldFigureKeys), and
-// the text and the card say so in their place; a proposal is still
+// the current setting's lung figures as null (LungFiguresJSON withheld), and
+// the reports have no lung figure to print and say so in their place; a proposal is still
 // evaluated, on the assumed lung, and labelled so.
 //
 // The blood gas and the oximeter are judged the same way (GasCautions:
@@ -35,14 +36,4 @@
 // Bad input (a height out of range, an unknown sex, an invalid profile)
 // returns an *InputError naming the field, the value and the accepted
 // range; nothing here panics on data.
-//
-// The handover log is one JSON line per check (crankside-check/1). It is
-// opened only as the user's own regular file: never through a symbolic
-// link, never a pipe or device (opened without blocking, then checked),
-// never one others may read or write (CheckLogPath says why and how to
-// fix it). Reading is a stream in bounded memory: a line over
-// MaxRecordBytes is dropped as it is read, damaged lines are counted with
-// the first MaxProblemsKept kept (LogSummary), and ReadBedHistory and
-// WardRows read several logs or folders of logs, merged by time, a copied
-// record counted once, decoding only the lines that may be shown.
 package setup

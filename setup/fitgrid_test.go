@@ -96,7 +96,7 @@ func TestHighPressureReadingsFit(t *testing.T) {
 	})
 	require.Empty(t, ck.FitProblem)
 	require.NotNil(t, ck.Fitted)
-	require.NotContains(t, ids(ck.Current.Cautions), "readings-unexplained")
+	require.NotContains(t, ids(ck.Current.Cautions), setup.CautionReadingsUnexplained)
 	// Readings rounded to 1 cmH2O move C by up to about 15 % here (its own
 	// range is 53-68); 10 % on C and 5 % on R hold the lung that made them.
 	require.InEpsilon(t, 60, ck.Fitted.ComplianceMLPerCmH2O, 0.10)

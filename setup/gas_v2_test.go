@@ -9,6 +9,7 @@ import (
 
 	"crankside/physiology"
 	"crankside/profiles"
+	"crankside/report"
 	"crankside/setup"
 )
 
@@ -96,10 +97,10 @@ func TestClearanceDefaultIsSaid(t *testing.T) {
 	p.Defaults = append(p.Defaults, "cylinder.clearance_cm")
 	pl, err := setup.MakePlan(setup.Request{Patient: setup.Patient{HeightCm: 170, Sex: physiology.Female}, Now: today}, p)
 	require.NoError(t, err)
-	require.True(t, has(pl, "clearance-default", setup.Note))
+	require.True(t, has(pl, setup.CautionClearanceDefault, setup.Note))
 	require.True(t, pl.JSON().ClearanceDefaulted)
 	var b strings.Builder
-	require.NoError(t, pl.WriteText(&b))
+	require.NoError(t, report.PlanText(&b, pl))
 	require.Contains(t, b.String(), "DEFAULT: not in the profile")
 }
 
@@ -133,7 +134,7 @@ func TestReliefLimitedBreathInAPlan(t *testing.T) {
 	require.Greater(t, f.ReliefVentedML, 0.0)
 	var c *setup.Caution
 	for i := range ck.Current.Cautions {
-		if ck.Current.Cautions[i].ID == "peak-above-relief" {
+		if ck.Current.Cautions[i].ID == setup.CautionPeakAboveRelief {
 			c = &ck.Current.Cautions[i]
 		}
 	}
@@ -172,7 +173,7 @@ func TestFitRangesFromTheManometerStep(t *testing.T) {
 	require.NotNil(t, j.DeliveredVtRangeML)
 	require.Equal(t, setup.PatientEffortNote, j.PatientEffortNote)
 	var b strings.Builder
-	require.NoError(t, ck.WriteText(&b))
+	require.NoError(t, report.CheckText(&b, ck))
 	require.Contains(t, b.String(), "patient passive")
 	require.NotContains(t, b.String(), "C 50.", "the fitted lung is not shown to decimals")
 }
@@ -187,7 +188,7 @@ func TestARangeAcrossALimitIsSaid(t *testing.T) {
 	pr := ck.Ranges.PlateauCmH2O
 	require.Less(t, pr[0], 30.0, "%v", pr)
 	require.Greater(t, pr[1], 30.0, "%v", pr)
-	require.True(t, hasCaution(ck.Current.Cautions, "range-crosses-plateau-30"))
+	require.True(t, hasCaution(ck.Current.Cautions, setup.CautionRangeCrossesPlateau30))
 }
 
 func TestCalibrateFitsTheLeakOnlyWhenTheBenchAllows(t *testing.T) {

@@ -8,10 +8,11 @@ import (
 	"github.com/stretchr/testify/require"
 
 	"crankside/physiology"
+	"crankside/report"
 	"crankside/setup"
 )
 
-func cautionOf(cs []setup.Caution, id string) *setup.Caution {
+func cautionOf(cs []setup.Caution, id setup.CautionID) *setup.Caution {
 	for i := range cs {
 		if cs[i].ID == id {
 			return &cs[i]
@@ -32,20 +33,20 @@ func TestPlanOxygenAboveTheFlowmeter(t *testing.T) {
 	require.NoError(t, err)
 	require.Equal(t, "17", pl.Hole.Label)
 	require.InDelta(t, 21.68, pl.O2FlowLPerMin, 0.01)
-	c := cautionOf(pl.Cautions, "o2-flow-above-flowmeter")
+	c := cautionOf(pl.Cautions, setup.CautionO2FlowAboveFlowmeter)
 	require.NotNil(t, c)
 	require.Equal(t, setup.Stop, c.Level)
 	require.InDelta(t, 15, c.Limit, 1e-9)
 	require.Contains(t, c.Message, "at 15 L/min the FiO2 reaches only 0.76")
 	require.Contains(t, c.Source, "this machine's profile", "demo-a gives its flowmeter")
-	require.Equal(t, "STOP: DO NOT USE THIS SETTING (o2-flow-above-flowmeter)", setup.SettingHeading(pl.Cautions, "SET THE MACHINE"))
+	require.Equal(t, "STOP: DO NOT USE THIS SETTING (o2-flow-above-flowmeter)", report.SettingHeading(pl.Cautions, "SET THE MACHINE"))
 	// The same plan at FiO2 0.7 needs 0.49 / 0.79 x 21.68 = 13.45 L/min:
 	// inside the flowmeter (derived).
 	pl, err = setup.MakePlan(setup.Request{Patient: setup.Patient{HeightCm: 200, Sex: physiology.Male},
 		Targets: setup.Targets{MLPerKg: 8, RateBPM: 30, FiO2: 0.7}, Now: today}, profile(t, "demo-a"))
 	require.NoError(t, err)
 	require.InDelta(t, 13.45, pl.O2FlowLPerMin, 0.01)
-	require.Nil(t, cautionOf(pl.Cautions, "o2-flow-above-flowmeter"))
+	require.Nil(t, cautionOf(pl.Cautions, setup.CautionO2FlowAboveFlowmeter))
 }
 
 func TestFlowmeterDefaultIsSaid(t *testing.T) {
@@ -57,7 +58,7 @@ func TestFlowmeterDefaultIsSaid(t *testing.T) {
 	pl, err := setup.MakePlan(setup.Request{Patient: setup.Patient{HeightCm: 200, Sex: physiology.Male},
 		Targets: setup.Targets{MLPerKg: 8, RateBPM: 30, FiO2: 1.0}, Now: today}, p)
 	require.NoError(t, err)
-	c := cautionOf(pl.Cautions, "o2-flow-above-flowmeter")
+	c := cautionOf(pl.Cautions, setup.CautionO2FlowAboveFlowmeter)
 	require.NotNil(t, c)
 	require.Contains(t, c.Source, "common practice")
 	require.Contains(t, c.Source, "default")
@@ -66,7 +67,7 @@ func TestFlowmeterDefaultIsSaid(t *testing.T) {
 	pl, err = setup.MakePlan(setup.Request{Patient: setup.Patient{HeightCm: 200, Sex: physiology.Male},
 		Targets: setup.Targets{MLPerKg: 8, RateBPM: 30, FiO2: 1.0}, Now: today}, p)
 	require.NoError(t, err)
-	require.Nil(t, cautionOf(pl.Cautions, "o2-flow-above-flowmeter"))
+	require.Nil(t, cautionOf(pl.Cautions, setup.CautionO2FlowAboveFlowmeter))
 }
 
 func TestPlanForASmallPatientHasNoSuitableHole(t *testing.T) {
@@ -77,21 +78,21 @@ func TestPlanForASmallPatientHasNoSuitableHole(t *testing.T) {
 	pl := plan(t, "demo-a", setup.Patient{HeightCm: 130, Sex: physiology.Female}, setup.Targets{})
 	require.InDelta(t, 25.1, pl.PBWKg, 0.05)
 	require.Equal(t, "1", pl.Hole.Label)
-	c := cautionOf(pl.Cautions, "no-suitable-hole")
+	c := cautionOf(pl.Cautions, setup.CautionNoSuitableHole)
 	require.NotNil(t, c)
 	require.Equal(t, setup.Stop, c.Level)
 	require.Greater(t, c.Value, 8.0)
 	require.Contains(t, c.Message, "the smallest hole (1) gives")
-	require.True(t, strings.HasPrefix(setup.SettingHeading(pl.Cautions, "SET THE MACHINE"), "STOP"))
-	h := cautionOf(pl.Cautions, "height-below-formula")
+	require.True(t, strings.HasPrefix(report.SettingHeading(pl.Cautions, "SET THE MACHINE"), "STOP"))
+	h := cautionOf(pl.Cautions, setup.CautionHeightBelowFormula)
 	require.NotNil(t, h)
 	require.Contains(t, h.Message, "for adults")
-	v := cautionOf(pl.Cautions, "tidal-volume-high")
+	v := cautionOf(pl.Cautions, setup.CautionTidalVolumeHigh)
 	require.NotNil(t, v)
 	require.NotContains(t, v.Advice, "smaller hole", "there is none")
 	// A 175 cm male is inside every hole limit.
 	pl = plan(t, "demo-a", setup.Patient{HeightCm: 175, Sex: physiology.Male}, setup.Targets{})
-	require.Nil(t, cautionOf(pl.Cautions, "no-suitable-hole"))
+	require.Nil(t, cautionOf(pl.Cautions, setup.CautionNoSuitableHole))
 }
 
 func TestCheckWithThePatientBreathingAgainstTheUnit(t *testing.T) {
@@ -101,7 +102,7 @@ func TestCheckWithThePatientBreathingAgainstTheUnit(t *testing.T) {
 	require.True(t, req.BreathingAgainst)
 	ck, err := setup.RunCheck(req, profile(t, "demo-a"))
 	require.NoError(t, err)
-	c := cautionOf(ck.Current.Cautions, "patient-triggering")
+	c := cautionOf(ck.Current.Cautions, setup.CautionPatientTriggering)
 	require.NotNil(t, c)
 	require.Equal(t, setup.Stop, c.Level)
 	require.Contains(t, c.Advice, "sedation or another ventilator")
@@ -110,7 +111,7 @@ func TestCheckWithThePatientBreathingAgainstTheUnit(t *testing.T) {
 	require.Empty(t, ps)
 	ck, err = setup.RunCheck(req, profile(t, "demo-a"))
 	require.NoError(t, err)
-	require.Nil(t, cautionOf(ck.Current.Cautions, "patient-triggering"))
+	require.Nil(t, cautionOf(ck.Current.Cautions, setup.CautionPatientTriggering))
 	e["breathing-against"] = "perhaps"
 	_, ps = setup.BuildCheckRequest(e, today)
 	require.NotNil(t, ps.Field("breathing-against"))

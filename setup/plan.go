@@ -129,12 +129,8 @@ func MakePlan(req Request, p profiles.Profile) (Plan, error) {
 	pl.Holes[chosen] = pl.Hole
 	pl.OffTargetPct = 100 * (pl.Hole.DeliveredML - pl.TargetVtML) / pl.TargetVtML
 	pl.Changes = timingChanges(pl.Timing)
-	pl.Cautions = assess(assessment{
-		heightCm: req.Patient.HeightCm, pbwKg: pbw, f: pl.Figures, reliefCmH2O: p.Circuit.ReliefCmH2O, clearanceNote: u.gas.ClearanceNote(),
-		timing: &pl.Timing, targetMLPerK: r.mlPerKg.Value, offTargetPct: pl.OffTargetPct,
-		cal: u.cal, ratedTorque: p.Motor.RatedTorqueNm, fixedMotor: p.Motor.Fixed(),
-		hz: planHazards(p, pl, r),
-	})
+	pl.Cautions = assess(newAssessment(u, req.Patient, pbw, pl.Figures, &pl.Timing,
+		&holeTarget{mlPerKg: r.mlPerKg.Value, offTargetPct: pl.OffTargetPct}, planHazards(p, pl, r)))
 	pl.Watch = watchOf(pl.Figures, p.Circuit.ReliefCmH2O, physiology.Value{Value: DefaultManometerStepCmH2O, Source: srcManometerStep}, false)
 	pl.TimingCheck = timingCheckOf(pl.Figures)
 	if err := finite(pl); err != nil {

@@ -37,7 +37,7 @@ func plan(t testing.TB, id string, pt setup.Patient, tg setup.Targets) setup.Pla
 	return pl
 }
 
-func has(pl setup.Plan, id string, level setup.Level) bool {
+func has(pl setup.Plan, id setup.CautionID, level setup.Level) bool {
 	for _, c := range pl.Cautions {
 		if c.ID == id && c.Level == level {
 			return true
@@ -89,7 +89,7 @@ func TestPlanDemoA170Female(t *testing.T) {
 	require.Greater(t, pl.PeakCmH2O, pl.EndInspCmH2O)
 	require.Greater(t, pl.EndInspCmH2O, pl.PlateauCmH2O)
 	// The machine has no calibration: said so, and nothing else is wrong.
-	require.True(t, has(pl, "calibration-missing", setup.Warn))
+	require.True(t, has(pl, setup.CautionCalibrationMissing, setup.Warn))
 	require.Len(t, pl.Cautions, 1, "%+v", pl.Cautions)
 	// What rounding changed is listed: dwell and rate.
 	var whats []string
@@ -120,8 +120,8 @@ func TestPlanFixedSpeedMotorDemoB(t *testing.T) {
 	// The wanted Ti (1.43 s) needs 21 rpm: not silently clamped. On a
 	// fixed-speed motor a Ti 5% off the wanted one (1.5 / 1.4286 - 1,
 	// derived) is under the 20% that makes it a warn (issue 10): a note.
-	require.True(t, has(pl, "ti-not-reachable", setup.Note))
-	require.False(t, has(pl, "ti-not-reachable", setup.Warn))
+	require.True(t, has(pl, setup.CautionTiNotReachable, setup.Note))
+	require.False(t, has(pl, setup.CautionTiNotReachable, setup.Warn))
 	// The bench calibration is applied: effective = k x swept + b, with k
 	// 0.946536 and b -4.368 mL worked by hand from the demo's four bench
 	// points (see TestCalibrateDemoBBenchByHand). Hole C (r 3.0 cm, bore
@@ -134,7 +134,7 @@ func TestPlanFixedSpeedMotorDemoB(t *testing.T) {
 	require.InDelta(t, 381.703507, pl.Hole.SweptML, 1e-6, "swept (pi r^2 h)")
 	require.InDelta(t, 356.93, pl.Hole.EffectiveSweptML, 0.5, "calibrated swept volume (derived by hand)")
 	require.Less(t, pl.Hole.EffectiveSweptML, pl.Hole.SweptML, "the invented bench points deliver less than geometry")
-	require.False(t, has(pl, "calibration-missing", setup.Warn))
+	require.False(t, has(pl, setup.CautionCalibrationMissing, setup.Warn))
 	require.Equal(t, 7, pl.Calibration.AgeDays)
 }
 
@@ -145,19 +145,19 @@ func TestPlanTiTheMotorCannotReach(t *testing.T) {
 	require.InDelta(t, 8, pl.Timing.RPM, 0)
 	require.InDelta(t, 3.75, pl.Timing.TiS, 1e-12)
 	require.InDelta(t, 6, pl.Timing.RateBPM, 1e-9) // 7.5 s turn + 2.5 s dwell
-	require.True(t, has(pl, "ti-not-reachable", setup.Warn))
-	require.False(t, has(pl, "rate-unreachable", setup.Stop))
+	require.True(t, has(pl, setup.CautionTiNotReachable, setup.Warn))
+	require.False(t, has(pl, setup.CautionRateUnreachable, setup.Stop))
 }
 
 func TestPlanRateTheMotorCannotReach(t *testing.T) {
 	// demo-b's fixed 3 s turn cannot give 30/min (2 s breaths).
 	pl := plan(t, "demo-b", setup.Patient{HeightCm: 170, Sex: physiology.Male}, setup.Targets{RateBPM: 30})
-	require.True(t, has(pl, "rate-unreachable", setup.Stop))
+	require.True(t, has(pl, setup.CautionRateUnreachable, setup.Stop))
 	require.InDelta(t, 20, pl.Timing.RateBPM, 1e-9)
 	// demo-a tops out at 40 rpm: 45/min at 1:1 cannot be run.
 	pl = plan(t, "demo-a", setup.Patient{HeightCm: 170, Sex: physiology.Male}, setup.Targets{RateBPM: 45, IE: 1})
-	require.True(t, has(pl, "rate-unreachable", setup.Stop))
-	require.True(t, has(pl, "rate-high", setup.Warn))
+	require.True(t, has(pl, setup.CautionRateUnreachable, setup.Stop))
+	require.True(t, has(pl, setup.CautionRateHigh, setup.Warn))
 }
 
 func TestPlanARDSPEEPFromTheTable(t *testing.T) {
@@ -194,12 +194,12 @@ func TestPlanHighVolumeAndPressureCautions(t *testing.T) {
 	require.Greater(t, pl.ReliefVentedML, 0.0)
 	// Plateau above 35 is a stop (MHRA RMVS001 2020: plateau limited to 35).
 	require.Greater(t, pl.PlateauCmH2O, 35.0)
-	require.True(t, has(pl, "plateau-high", setup.Stop))
-	require.True(t, has(pl, "driving-pressure-high", setup.Warn))
-	require.True(t, has(pl, "peak-above-relief", setup.Stop))
+	require.True(t, has(pl, setup.CautionPlateauHigh, setup.Stop))
+	require.True(t, has(pl, setup.CautionDrivingPressureHigh, setup.Warn))
+	require.True(t, has(pl, setup.CautionPeakAboveRelief, setup.Stop))
 	// 420 / 713 - 1 = -41 %, beyond 20 % off the target (common practice):
 	// no hole suits, a stop.
-	require.True(t, has(pl, "no-suitable-hole", setup.Stop), "the patient gets far less than the target")
+	require.True(t, has(pl, setup.CautionNoSuitableHole, setup.Stop), "the patient gets far less than the target")
 	// Past the relief a larger hole only vents more: the plan takes the
 	// smallest hole within 0.5 % of the nearest one's volume, not the largest.
 	require.NotEqual(t, "25", pl.Hole.Label)
@@ -211,7 +211,7 @@ func TestPlanTrappedGasOnAnObstructedLung(t *testing.T) {
 	// R 25 + valve 3, C 60: tau 1.68 s; 20/min at 1:1.5 leaves Te ~1.8 s.
 	pl := plan(t, "demo-a", setup.Patient{HeightCm: 175, Sex: physiology.Male},
 		setup.Targets{Lung: physiology.Obstructive, RateBPM: 20, IE: 1.5})
-	require.True(t, has(pl, "intrinsic-peep", setup.Warn), "PEEPi %v", pl.IntrinsicPEEPCmH2O)
+	require.True(t, has(pl, setup.CautionIntrinsicPEEP, setup.Warn), "PEEPi %v", pl.IntrinsicPEEPCmH2O)
 }
 
 func TestPlanTorqueAndCylinderCautions(t *testing.T) {
@@ -220,7 +220,7 @@ func TestPlanTorqueAndCylinderCautions(t *testing.T) {
 	pl, err := setup.MakePlan(setup.V1Request(setup.Request{Patient: setup.Patient{HeightCm: 170, Sex: physiology.Male},
 		Targets: setup.Targets{FiO2: 0.6, CylinderWaterL: 2, CylinderBar: 50}, Now: today}), p)
 	require.NoError(t, err)
-	require.True(t, has(pl, "torque-high", setup.Stop), "share %v", pl.TorqueShareOfRating)
+	require.True(t, has(pl, setup.CautionTorqueHigh, setup.Stop), "share %v", pl.TorqueShareOfRating)
 	// 2 L x 50 bar = 100 L (common practice) at ~3 L/min: well under 2 hours.
 	// Derived: target 66.0 x 6 = 396.1 mL -> hole 7 (408.41 x 60/61.5 =
 	// 398.45 mL) at 14.094/min; the piston draws 408.41 x 14.094 = 5.7561
@@ -231,14 +231,14 @@ func TestPlanTorqueAndCylinderCautions(t *testing.T) {
 	require.Equal(t, "7", pl.Hole.Label)
 	require.InDelta(t, 7.04, pl.CylinderMinutes, 0.01, "cylinder minutes to the reserve (derived)")
 	require.InDelta(t, 35.19, pl.CylinderEmptyMinutes, 0.02, "cylinder minutes to empty (derived)")
-	require.True(t, has(pl, "o2-cylinder-low", setup.Warn))
+	require.True(t, has(pl, setup.CautionO2CylinderLow, setup.Warn))
 }
 
 func TestPlanOldCalibration(t *testing.T) {
 	pl, err := setup.MakePlan(setup.Request{Patient: setup.Patient{HeightCm: 170, Sex: physiology.Male},
 		Now: time.Date(2027, 1, 1, 0, 0, 0, 0, time.UTC)}, profile(t, "demo-b"))
 	require.NoError(t, err)
-	require.True(t, has(pl, "calibration-old", setup.Warn))
+	require.True(t, has(pl, setup.CautionCalibrationOld, setup.Warn))
 }
 
 func TestPlanOffsetCrank(t *testing.T) {

@@ -9,21 +9,6 @@ import (
 	"crankside/profiles"
 )
 
-// GasReadings are the handover's blood gas and oximeter entries, with the
-// apparatus dead space (tube, filter, connectors) the rate step needs when
-// the tidal volume changes. A nil field was not entered.
-type GasReadings struct {
-	SpO2Pct              *float64 // --spo2, %
-	PaO2MmHg             *float64 // --pao2, mmHg
-	PH                   *float64 // --ph
-	PaCO2MmHg            *float64 // --paco2, mmHg
-	ApparatusDeadSpaceML *float64 // mL; nil: 0 assumed and said so
-}
-
-func (g GasReadings) physiology() physiology.GasReadings {
-	return physiology.GasReadings{SpO2Pct: g.SpO2Pct, PaO2MmHg: g.PaO2MmHg, PH: g.PH, PaCO2MmHg: g.PaCO2MmHg}
-}
-
 // CheckGasEntries finds every gas entry outside its plausible range, each
 // as an *InputError naming its field ("spo2", "pao2", "ph", "paco2",
 // "dead-space-ml"), so that a form can mark all of them at once.
@@ -151,7 +136,7 @@ func chooseStep(ck Check, req CheckRequest, readings GasReadings) (physiology.Pr
 		ApparatusDeadSpaceML: readings.ApparatusDeadSpaceML,
 		Lung:                 req.Lung, NoAlveolarHold: req.NoAlveolarHold,
 	}
-	step, err := physiology.NextProtocolStep(st, readings.physiology())
+	step, err := physiology.NextProtocolStep(st, readings)
 	if err != nil {
 		// The readings were checked before: what is left is the setting.
 		return st, step, &InputError{Field: "setting", Reason: "no protocol step at this setting: " + err.Error()}
@@ -464,17 +449,17 @@ func (res *ProtocolStepResult) evaluateProposed(u unit, ls lungState, req CheckR
 	if err != nil {
 		return Evaluation{}, &InputError{Field: "readings", Reason: "the protocol's step: " + err.Error()}
 	}
-	a := assessment{heightCm: req.Patient.HeightCm, pbwKg: ls.pbwKg, f: f, reliefCmH2O: u.p.Circuit.ReliefCmH2O,
-		cal: u.cal, ratedTorque: u.p.Motor.RatedTorqueNm, fixedMotor: u.p.Motor.Fixed(), hz: checkHazards(u, s, req)}
+	var tp *machine.TimingPlan
 	if res.Timing != nil {
-		tp := *res.Timing
-		tp.Timing = t
-		a.timing = &tp
+		c := *res.Timing
+		c.Timing = t
+		tp = &c
 	}
+	var target *holeTarget
 	if res.Step.VtChanged {
-		a.targetMLPerK = res.Step.MLPerKg
-		a.offTargetPct = 100 * (f.Hole.DeliveredML - res.TargetVtML) / res.TargetVtML
+		target = targetOf(res.Step.MLPerKg, res.TargetVtML, f.Hole.DeliveredML)
 	}
+	a := newAssessment(u, req.Patient, ls.pbwKg, f, tp, target, checkHazards(u, s, req))
 	return Evaluation{Setting: s, Figures: f, Cautions: res.bestReachable(assess(a))}, nil
 }
 

@@ -43,7 +43,7 @@ func hasChange(cs []setup.Change, what string) (setup.Change, bool) {
 	return setup.Change{}, false
 }
 
-func hasLeveledCaution(cs []setup.Caution, id string, level setup.Level) bool {
+func hasLeveledCaution(cs []setup.Caution, id setup.CautionID, level setup.Level) bool {
 	for _, c := range cs {
 		if c.ID == id && c.Level == level {
 			return true

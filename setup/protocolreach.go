@@ -48,16 +48,16 @@ func (res *ProtocolStepResult) bestReachable(cs []Caution) []Caution {
 		return cs
 	}
 	for i, c := range cs {
-		if c.ID != "rate-unreachable" {
+		if c.ID != CautionRateUnreachable {
 			continue
 		}
 		what := "fastest"
 		if tp.Rate == machine.TooSlow {
 			what = "slowest"
 		}
-		cs[i] = Caution{ID: "protocol-rate-not-reached", Level: Warn, Value: res.Step.RateBPM, Limit: tp.RateBPM, Unit: "/min",
+		cs[i] = Caution{ID: CautionProtocolRateNotReached, Level: Warn, Value: res.Step.RateBPM, Limit: tp.RateBPM, Unit: "/min",
 			Message: fmt.Sprintf("the protocol's rate %.1f /min cannot be reached on this machine: its %s, %.1f /min, is set here as the best it can do", res.Step.RateBPM, what, tp.RateBPM),
-			Advice:  res.nextLever(), Source: srcProfile + "; " + "ARDS Network protocol card"}
+			Advice:  res.nextLever(), Source: cautionRule(CautionProtocolRateNotReached).Source}
 	}
 	sort.SliceStable(cs, func(i, j int) bool { return cs[i].Level > cs[j].Level })
 	return cs

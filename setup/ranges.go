@@ -75,8 +75,8 @@ func plural(n int) string {
 	return "s"
 }
 
-// rangeText prints one range as "low-high", an open side as "open".
-func rangeText(r [2]float64, open [2]bool, format func(float64) string) string {
+// RangeText prints one range as "low-high", an open side as "open".
+func RangeText(r [2]float64, open [2]bool, format func(float64) string) string {
 	lo, hi := format(r[0]), format(r[1])
 	if open[0] {
 		lo = "open"
@@ -93,8 +93,8 @@ func (fr FitRanges) Text() string {
 	whole := func(v float64) string { return fmt.Sprintf("%.0f", v) }
 	tenth := func(v float64) string { return fmt.Sprintf("%.1f", v) }
 	return fmt.Sprintf("C %s mL/cmH2O, R %s cmH2O/(L/s), Vt %s mL (%s mL/kg)",
-		rangeText(fr.ComplianceMLPerCmH2O, fr.OpenC, sig2), rangeText(fr.ResistanceCmH2OPerLS, fr.OpenR, sig2),
-		rangeText(fr.DeliveredML, fr.OpenVt, whole), rangeText(fr.MLPerKg, fr.OpenVt, tenth))
+		RangeText(fr.ComplianceMLPerCmH2O, fr.OpenC, Sig2), RangeText(fr.ResistanceCmH2OPerLS, fr.OpenR, Sig2),
+		RangeText(fr.DeliveredML, fr.OpenVt, whole), RangeText(fr.MLPerKg, fr.OpenVt, tenth))
 }
 
 // manometerStep is the request's step with its source.
@@ -208,26 +208,28 @@ func rangeCautions(fr *FitRanges, f Figures, pbw float64) []Caution {
 		return nil
 	}
 	var out []Caution
-	cross := func(id, what string, r [2]float64, open [2]bool, limit float64, unit, src string) {
-		if (r[0] < limit || open[0]) && (r[1] > limit || open[1]) {
-			out = append(out, Caution{ID: id, Level: Warn, Value: r[1], Limit: limit, Unit: unit,
+	cross := func(id CautionID, what string, r [2]float64, open [2]bool) {
+		rule := cautionRule(id)
+		l := rule.Limits[0]
+		if (r[0] < l.Value || open[0]) && (r[1] > l.Value || open[1]) {
+			out = append(out, Caution{ID: id, Level: l.Level, Value: r[1], Limit: l.Value, Unit: l.Unit,
 				Message: fmt.Sprintf("within the manometer's %s cmH2O step the %s may be %s %s, across the limit of %s",
-					plain(fr.StepCmH2O.Value), what, rangeText(r, open, sig2), unit, plain(limit)),
+					plain(fr.StepCmH2O.Value), what, RangeText(r, open, Sig2), l.Unit, plain(l.Value)),
 				Advice: "re-read the manometer more finely or measure a plateau (hold at end of inspiration) before relying on the fit",
-				Source: src + "; range from the manometer's resolution"})
+				Source: rule.Source})
 		}
 	}
-	cross("range-crosses-vt-8", "tidal volume", fr.MLPerKg, fr.OpenVt, VtWarnMLPerKg, "mL/kg PBW", srcARDSNet)
-	cross("range-crosses-vt-10", "tidal volume", fr.MLPerKg, fr.OpenVt, VtStopMLPerKg, "mL/kg PBW", srcARDSNet)
-	cross("range-crosses-vt-4", "tidal volume", fr.MLPerKg, fr.OpenVt, VtLowMLPerKg, "mL/kg PBW", srcARDSNet)
-	cross("range-crosses-plateau-30", "plateau pressure", fr.PlateauCmH2O, fr.OpenPlateau, PlateauMaxCmH2O, "cmH2O", srcARDSNet)
-	cross("range-crosses-plateau-35", "plateau pressure", fr.PlateauCmH2O, fr.OpenPlateau, PlateauStopCmH2O, "cmH2O", srcMHRA)
+	cross(CautionRangeCrossesVt8, "tidal volume", fr.MLPerKg, fr.OpenVt)
+	cross(CautionRangeCrossesVt10, "tidal volume", fr.MLPerKg, fr.OpenVt)
+	cross(CautionRangeCrossesVt4, "tidal volume", fr.MLPerKg, fr.OpenVt)
+	cross(CautionRangeCrossesPlateau30, "plateau pressure", fr.PlateauCmH2O, fr.OpenPlateau)
+	cross(CautionRangeCrossesPlateau35, "plateau pressure", fr.PlateauCmH2O, fr.OpenPlateau)
 	return out
 }
 
-// sig2 prints v to 2 significant figures as a plain decimal (a fit from
+// Sig2 prints v to 2 significant figures as a plain decimal (a fit from
 // readings to 1 cmH2O is not known better).
-func sig2(v float64) string {
+func Sig2(v float64) string {
 	if v == 0 || math.IsNaN(v) || math.IsInf(v, 0) {
 		return plain(v)
 	}

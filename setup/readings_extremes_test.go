@@ -8,11 +8,13 @@ import (
 
 	"github.com/stretchr/testify/require"
 
+	"crankside/logbook"
 	"crankside/physiology"
+	"crankside/report"
 	"crankside/setup"
 )
 
-func cautionByID(cs []setup.Caution, id string) *setup.Caution {
+func cautionByID(cs []setup.Caution, id setup.CautionID) *setup.Caution {
 	for i := range cs {
 		if cs[i].ID == id {
 			return &cs[i]
@@ -31,7 +33,7 @@ func TestLowReadingsSuggestALeak(t *testing.T) {
 		r.Readings = &physiology.Readings{PeakCmH2O: 12, EndCmH2O: 9}
 	})
 	require.NotNil(t, ck.Fitted)
-	c := cautionByID(ck.Current.Cautions, "readings-suggest-leak")
+	c := cautionByID(ck.Current.Cautions, setup.CautionReadingsSuggestLeak)
 	require.NotNil(t, c)
 	require.Greater(t, ck.Fitted.ComplianceMLPerCmH2O, 150.0, "the issue saw C 160.8")
 	require.Equal(t, setup.Stop, c.Level)
@@ -45,11 +47,11 @@ func TestLowReadingsSuggestALeak(t *testing.T) {
 	require.Equal(t, setup.LeakVolumeNote, m["volume_note"])
 	// The text and the card never head the volume as what the patient gets.
 	var tx strings.Builder
-	require.NoError(t, ck.WriteText(&tx))
+	require.NoError(t, report.CheckText(&tx, ck))
 	rec, err := setup.NewRecord(ck, "B4", "jk", today)
 	require.NoError(t, err)
 	var card strings.Builder
-	require.NoError(t, setup.WriteCard(&card, rec))
+	require.NoError(t, report.WriteCard(&card, rec))
 	for name, out := range map[string]string{"text": tx.String(), "card": card.String()} {
 		require.Contains(t, out, "UPPER BOUND", name)
 		for _, line := range strings.Split(out, "\n") {
@@ -59,15 +61,15 @@ func TestLowReadingsSuggestALeak(t *testing.T) {
 	require.Contains(t, card.String(), "THE VOLUMES ON THIS CARD ARE UPPER BOUNDS")
 	// The history and the ward say it too (473 mL, 6.1 mL/kg: the volume
 	// this check shows).
-	require.Contains(t, setup.HistoryLine(rec), ": at most 473 mL 6.1 mL/kg")
-	require.Contains(t, setup.WardLine(setup.NewWardRow(rec, "h.jsonl", today, time.Hour)), ": at most 6.1 mL/kg")
+	require.Contains(t, report.HistoryLine(rec), ": at most 473 mL 6.1 mL/kg")
+	require.Contains(t, report.WardLine(logbook.NewWardRow(rec, "h.jsonl", today, time.Hour)), ": at most 6.1 mL/kg")
 	// A check whose volume is what the patient gets says no such thing.
 	plain := v2Check(t, profile(t, "demo-a"), func(r *setup.CheckRequest) {
 		r.Readings = &physiology.Readings{PeakCmH2O: 17, EndCmH2O: 14}
 	})
 	prec, err := setup.NewRecord(plain, "B4", "jk", today)
 	require.NoError(t, err)
-	require.NotContains(t, setup.HistoryLine(prec), "at most")
+	require.NotContains(t, report.HistoryLine(prec), "at most")
 }
 
 // A peak of 40.0 on demo-a's 40 cmH2O relief valve: the valve is venting.
@@ -81,7 +83,7 @@ func TestPeakAtTheReliefValve(t *testing.T) {
 	require.Empty(t, ck.FitProblem)
 	require.NotNil(t, ck.Fitted)
 	require.True(t, ck.Fitted.EndOnly)
-	c := cautionByID(ck.Current.Cautions, "measured-peak-at-relief")
+	c := cautionByID(ck.Current.Cautions, setup.CautionMeasuredPeakAtRelief)
 	require.NotNil(t, c)
 	require.Equal(t, setup.Stop, c.Level)
 	require.InDelta(t, 40, c.Limit, 0, "this machine's profile: relief 40 cmH2O")
@@ -105,7 +107,7 @@ func TestPeakAtTheReliefValve(t *testing.T) {
 	})
 	require.NotNil(t, step.Protocol, step.ProtocolProblem)
 	var tx strings.Builder
-	require.NoError(t, step.WriteText(&tx))
+	require.NoError(t, report.CheckText(&tx, step))
 	require.Contains(t, tx.String(), "plateau cmH2O (fitted to the end pressure alone (the peak is at the relief valve))")
 }
 
@@ -120,7 +122,7 @@ func TestLeakyProfileIsAStop(t *testing.T) {
 	p.Circuit.LeakLMinAt20CmH2O = 30
 	pl, err := setup.MakePlan(setup.Request{Patient: setup.Patient{HeightCm: 175, Sex: physiology.Male}, Now: today}, p)
 	require.NoError(t, err)
-	c := cautionByID(pl.Cautions, "leak-share-of-stroke")
+	c := cautionByID(pl.Cautions, setup.CautionLeakShareOfStroke)
 	require.NotNil(t, c)
 	require.Equal(t, setup.Stop, c.Level)
 	require.InDelta(t, 30, c.Limit, 0)
@@ -130,5 +132,5 @@ func TestLeakyProfileIsAStop(t *testing.T) {
 	p.Circuit.LeakLMinAt20CmH2O = 0
 	pl, err = setup.MakePlan(setup.Request{Patient: setup.Patient{HeightCm: 175, Sex: physiology.Male}, Now: today}, p)
 	require.NoError(t, err)
-	require.Nil(t, cautionByID(pl.Cautions, "leak-share-of-stroke"))
+	require.Nil(t, cautionByID(pl.Cautions, setup.CautionLeakShareOfStroke))
 }

@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"encoding/json"
 	"fmt"
+	"reflect"
 	"strings"
 	"time"
 	"unicode"
@@ -54,10 +55,13 @@ type CheckJSON struct {
 	VolumeNote       string `json:"volume_note,omitempty"`
 	MechanicsSource  string `json:"mechanics_source"`
 	EvaluationJSON
-	Proposed *ProposedJSON `json:"proposed,omitempty"`
+	// FiguresWithheld says why the lung's figures are withheld (nil in
+	// EvaluationJSON, null in the JSON); "" when they are given.
+	FiguresWithheld string        `json:"figures_withheld,omitempty"`
+	Proposed        *ProposedJSON `json:"proposed,omitempty"`
 	// The blood gas and oximeter, and the protocol's next step they led
 	// to (see Check.Protocol); absent from checks without a reading.
-	GasReadings        *GasReadingsJSON  `json:"gas_readings,omitempty"`
+	GasReadings        *GasReadings      `json:"gas_readings,omitempty"`
 	ProtocolStep       *ProtocolStepJSON `json:"protocol_step,omitempty"`
 	ProtocolRuleStatus map[string]string `json:"protocol_rule_status,omitempty"` // rule id: fired, in-goal, no-step, no-reading
 	ProtocolChanges    []Change          `json:"protocol_changes,omitempty"`
@@ -90,34 +94,54 @@ type CheckJSON struct {
 
 // Unexplained reports whether no lung explains the readings: then no
 // predicted figure of the current setting is what the patient gets, the
-// JSON prints each of them as null (WithheldFigureKeys) and every report
-// says so in their place.
+// lung's figures are withheld (LungFiguresJSON is nil, FiguresWithheld
+// says why) and every report says so in their place.
 func (j CheckJSON) Unexplained() bool { return j.FitProblem != "" }
 
-// WithheldFigureKeys are the current setting's predicted figures, which
-// depend on the lung: null in the JSON when the readings are unexplained.
-// The setting's own values (hole, swept volumes, speed, dwell, rate, Ti,
-// Te, I:E, PEEP valve, oxygen flow and cylinder time) do not depend on the
-// lung and stay.
-var WithheldFigureKeys = []string{
-	"delivered_vt_ml", "ml_per_kg", "fio2", "minute_ventilation_l_min", "peak_flow_l_min",
-	"peak_pressure_cmh2o", "end_inspiratory_pressure_cmh2o", "plateau_pressure_cmh2o",
-	"driving_pressure_cmh2o", "intrinsic_peep_cmh2o", "trapped_volume_ml", "exhalation_tau_s",
-	"peak_torque_nm", "rated_torque_share",
-	"delivered_vt_room_ml", "compression_loss_ml", "leaked_ml", "relief_vented_ml", "pressure_limited",
+// WithholdLung drops the current setting's lung figures when no lung
+// explains the readings, and says why beside them. Check.JSON calls it,
+// and so does the log's reader on every record it decodes (a record
+// written with the figures as null decodes them as zeros otherwise).
+func (j *CheckJSON) WithholdLung() {
+	if !j.Unexplained() {
+		return
+	}
+	j.LungFiguresJSON = nil
+	j.FiguresWithheld = WithheldReason
+}
+
+// WithheldReason is what stands beside the withheld lung figures.
+const WithheldReason = "no lung explains the readings: no figure that depends on the lung is known for this setting"
+
+// lungFigureKeys are the JSON keys of LungFiguresJSON, read off its type:
+// a figure added there is withheld with the others, with no list to keep.
+func lungFigureKeys() []string {
+	t := reflect.TypeOf(LungFiguresJSON{})
+	keys := make([]string, 0, t.NumField())
+	for i := 0; i < t.NumField(); i++ {
+		name, _, _ := strings.Cut(t.Field(i).Tag.Get("json"), ",")
+		keys = append(keys, name)
+	}
+	return keys
 }
 
 // checkJSONFields has CheckJSON's fields without its methods.
 type checkJSONFields CheckJSON
 
-// MarshalJSON writes the check with every key in order; when the readings
-// are unexplained the current setting's predicted figures are null.
+// MarshalJSON writes the check with every key in order. Without the
+// lung's figures (withheld) each of their keys is written as null, where
+// the figure would stand, so that a script reading "delivered_vt_ml"
+// finds null, never a number, and the log's records keep one shape.
 func (j CheckJSON) MarshalJSON() ([]byte, error) {
-	b, err := json.Marshal(checkJSONFields(j))
-	if err != nil || !j.Unexplained() {
-		return b, err
+	if j.LungFiguresJSON != nil {
+		return json.Marshal(checkJSONFields(j))
 	}
-	return nullTopLevel(b, WithheldFigureKeys)
+	j.LungFiguresJSON = &LungFiguresJSON{}
+	b, err := json.Marshal(checkJSONFields(j))
+	if err != nil {
+		return nil, err
+	}
+	return nullTopLevel(b, lungFigureKeys())
 }
 
 // nullTopLevel rewrites the values of the named keys of a JSON object (its
@@ -239,6 +263,7 @@ func (ck Check) JSON() CheckJSON {
 		j.Watch = &w
 	}
 	ck.protocolJSON(&j)
+	j.WithholdLung()
 	return j
 }
 
@@ -264,6 +289,10 @@ type Record struct {
 	// SecondInitials are a second checker's, when a ward double-checks a
 	// change (written only when given).
 	SecondInitials string `json:"second_initials,omitempty"`
+	// WriterVersion is the version of the record rules its writer kept
+	// (package logbook's RecordVersion, stamped when the record is
+	// appended); 0, no "record" key, is a writer from before the key.
+	WriterVersion int `json:"record,omitempty"`
 	CheckJSON
 }
 
@@ -275,13 +304,16 @@ type recordHead struct {
 	Initials string    `json:"initials"`
 	// SecondInitials: see Record.
 	SecondInitials string `json:"second_initials,omitempty"`
+	// WriterVersion: see Record; after the bed, so that a reader finds
+	// format, time and bed first, as the first writers wrote them.
+	WriterVersion int `json:"record,omitempty"`
 }
 
 // MarshalJSON writes the record's own keys, then the check's as
 // CheckJSON writes them (its MarshalJSON would otherwise stand for the
 // whole record, since the check is embedded).
 func (r Record) MarshalJSON() ([]byte, error) {
-	head, err := json.Marshal(recordHead{Format: r.Format, Time: r.Time, Bed: r.Bed, Initials: r.Initials, SecondInitials: r.SecondInitials})
+	head, err := json.Marshal(recordHead{Format: r.Format, Time: r.Time, Bed: r.Bed, Initials: r.Initials, SecondInitials: r.SecondInitials, WriterVersion: r.WriterVersion})
 	if err != nil {
 		return nil, err
 	}
@@ -305,6 +337,25 @@ func NewRecord(ck Check, bed, initials string, at time.Time) (Record, error) {
 		return Record{}, err
 	}
 	return Record{Format: RecordFormat, Time: at.UTC().Truncate(time.Second), Bed: BedKey(bed), Initials: strings.ToUpper(initials), CheckJSON: ck.JSON()}, nil
+}
+
+// BedKey is the label a bed is recorded, grouped and looked up under: its
+// ASCII letters upper case, so that b4 and B4 are one bed (labels hold
+// only ASCII letters, digits and - _ . /; see CheckBedLabel). Other bytes
+// are kept as they are.
+func BedKey(label string) string {
+	for i := 0; i < len(label); i++ {
+		if c := label[i]; c >= 'a' && c <= 'z' {
+			b := []byte(label)
+			for j := i; j < len(b); j++ {
+				if b[j] >= 'a' && b[j] <= 'z' {
+					b[j] -= 'a' - 'A'
+				}
+			}
+			return string(b)
+		}
+	}
+	return label
 }
 
 // CheckBedLabel accepts short labels such as "B4" or "ward3-12". A label

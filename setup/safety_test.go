@@ -8,7 +8,9 @@ import (
 
 	"github.com/stretchr/testify/require"
 
+	"crankside/logbook"
 	"crankside/physiology"
+	"crankside/report"
 	"crankside/setup"
 )
 
@@ -23,13 +25,13 @@ func TestProposalOnUnexplainedReadingsIsAStop(t *testing.T) {
 	require.Equal(t, setup.Stop, setup.Highest(ck.Proposed.Cautions))
 	c := setup.FirstStop(ck.Proposed.Cautions)
 	require.NotNil(t, c)
-	require.Equal(t, "proposal-on-assumed-lung", c.ID)
+	require.Equal(t, setup.CautionProposalOnAssumedLung, c.ID)
 	require.Contains(t, c.Message, "120/100 cmH2O", "the readings at the current setting")
 	require.Contains(t, c.Message, "ASSUMED lung")
 	require.Contains(t, c.Advice, "before any change is made")
 
 	var text bytes.Buffer
-	require.NoError(t, ck.WriteText(&text))
+	require.NoError(t, report.CheckText(&text, ck))
 	require.Contains(t, text.String(), "STOP proposal-on-assumed-lung")
 	require.NotContains(t, text.String(), "highest WARN)\n  WARN proposal-on-assumed-lung")
 
@@ -37,7 +39,7 @@ func TestProposalOnUnexplainedReadingsIsAStop(t *testing.T) {
 	require.NoError(t, err)
 	require.Equal(t, setup.Stop, setup.Highest(rec.Proposed.Cautions), "the record carries it")
 	var card bytes.Buffer
-	require.NoError(t, setup.WriteCard(&card, rec))
+	require.NoError(t, report.WriteCard(&card, rec))
 	require.Contains(t, strings.Join(strings.Fields(card.String()), " "), "STOP proposal-on-assumed-lung")
 }
 
@@ -50,7 +52,7 @@ func TestProposalOnExplainedReadingsHasNoAssumedLungStop(t *testing.T) {
 	ck, err := setup.RunCheck(req, profile(t, "demo-a"))
 	require.NoError(t, err)
 	require.Empty(t, ck.FitProblem)
-	_, ok := ids(ck.Proposed.Cautions)["proposal-on-assumed-lung"]
+	_, ok := ids(ck.Proposed.Cautions)[setup.CautionProposalOnAssumedLung]
 	require.False(t, ok)
 }
 
@@ -58,8 +60,8 @@ func TestProposalOnExplainedReadingsHasNoAssumedLungStop(t *testing.T) {
 // predicts for a setting (volume, pressures, trapped gas, ventilation,
 // torque): with unexplained readings they would judge the assumed lung,
 // not the patient (DESIGN.md: nothing is shown as what the patient gets).
-var lungFigureCautions = []string{"tidal-volume-high", "tidal-volume-low", "plateau-high", "driving-pressure-high",
-	"peak-above-relief", "peak-high", "intrinsic-peep", "minute-ventilation-low", "alveolar-ventilation-low", "torque-high"}
+var lungFigureCautions = []setup.CautionID{setup.CautionTidalVolumeHigh, setup.CautionTidalVolumeLow, setup.CautionPlateauHigh, setup.CautionDrivingPressureHigh,
+	setup.CautionPeakAboveRelief, setup.CautionPeakHigh, setup.CautionIntrinsicPEEP, setup.CautionMinuteVentilationLow, setup.CautionAlveolarVentilationLow, setup.CautionTorqueHigh}
 
 func TestUnexplainedCurrentCautionsDropTheAssumedLungsFigures(t *testing.T) {
 	// A 150 cm woman (PBW 42.7 kg) on hole 8: on the assumed lung the hole
@@ -71,7 +73,7 @@ func TestUnexplainedCurrentCautionsDropTheAssumedLungsFigures(t *testing.T) {
 	explained.ComplianceMLPerCmH2O = 60
 	ck, err := setup.RunCheck(explained, profile(t, "demo-a"))
 	require.NoError(t, err)
-	require.Contains(t, ids(ck.Current.Cautions), "tidal-volume-high", "control: the assumed lung's volume caution without readings")
+	require.Contains(t, ids(ck.Current.Cautions), setup.CautionTidalVolumeHigh, "control: the assumed lung's volume caution without readings")
 
 	req.Readings = &physiology.Readings{PeakCmH2O: 120, EndCmH2O: 100}
 	ck, err = setup.RunCheck(req, profile(t, "demo-a"))
@@ -83,10 +85,10 @@ func TestUnexplainedCurrentCautionsDropTheAssumedLungsFigures(t *testing.T) {
 	}
 	// Kept: the readings' own stops, the unexplained stop, and what does
 	// not depend on the lung (the patient's height, the calibration).
-	for _, id := range []string{"measured-peak-high", "measured-peak-above-relief", "readings-unexplained", "height-below-formula", "calibration-missing"} {
+	for _, id := range []setup.CautionID{setup.CautionMeasuredPeakHigh, setup.CautionMeasuredPeakAboveRelief, setup.CautionReadingsUnexplained, setup.CautionHeightBelowFormula, setup.CautionCalibrationMissing} {
 		require.Contains(t, got, id)
 	}
-	require.Equal(t, "measured-peak-high", setup.FirstStop(ck.Current.Cautions).ID)
+	require.Equal(t, setup.CautionMeasuredPeakHigh, setup.FirstStop(ck.Current.Cautions).ID)
 }
 
 // Lung-independent cautions stay with unexplained readings: a rate and
@@ -101,8 +103,8 @@ func TestUnexplainedKeepsTheSettingsOwnCautions(t *testing.T) {
 	require.NoError(t, err)
 	require.NotEmpty(t, ck.FitProblem)
 	got := ids(ck.Current.Cautions)
-	require.Contains(t, got, "peep-low")
-	require.Equal(t, setup.Warn, got["peep-low"])
+	require.Contains(t, got, setup.CautionPEEPLow)
+	require.Equal(t, setup.Warn, got[setup.CautionPEEPLow])
 }
 
 // unexplainedRecord is a record of demo-a hole 8 at 21 rpm, dwell 1.4 s,
@@ -125,9 +127,9 @@ func unexplainedRecord(t *testing.T, peak, end float64) setup.Record {
 // line says its highest caution and that it rests on the assumed lung.
 func TestHistoryAndProposalLinesCarryUnitsAndTheProposalsLevel(t *testing.T) {
 	rec := unexplainedRecord(t, 120, 100)
-	h := setup.HistoryLine(rec)
+	h := report.HistoryLine(rec)
 	require.Contains(t, h, "PEEP 5 cmH2O:", h)
-	p := setup.ProposalLine(rec)
+	p := report.ProposalLine(rec)
 	require.Contains(t, p, "hole 7, 21.0 rpm, dwell 1.4 s, PEEP 5 cmH2O:", p)
 	require.Contains(t, p, "highest STOP", p)
 	require.Contains(t, p, "(ASSUMED lung: readings unexplained)", p)
@@ -141,21 +143,21 @@ func TestHistoryAndProposalLinesCarryUnitsAndTheProposalsLevel(t *testing.T) {
 	require.NoError(t, err)
 	ok, err := setup.NewRecord(ck, "B4", "jk", today)
 	require.NoError(t, err)
-	p = setup.ProposalLine(ok)
+	p = report.ProposalLine(ok)
 	require.NotContains(t, p, "ASSUMED", p)
 	require.Contains(t, p, "PEEP 5 cmH2O:", p)
 	if len(ok.Proposed.Cautions) > 0 {
 		require.Contains(t, p, "highest "+setup.LevelWord(setup.Highest(ok.Proposed.Cautions)), p)
 	}
-	require.Contains(t, setup.HistoryLine(ok), "PEEP 5 cmH2O:")
+	require.Contains(t, report.HistoryLine(ok), "PEEP 5 cmH2O:")
 }
 
 // A ward line says which stop made the readings unexplained, so an
 // over-pressure and a disconnection do not read the same, and a proposal
 // with a stop says so.
 func TestWardLineNamesTheStopAndTheProposalsStop(t *testing.T) {
-	over := setup.WardLine(setup.NewWardRow(unexplainedRecord(t, 120, 100), "w.jsonl", today.Add(30*time.Minute), setup.DefaultCheckEvery))
-	disc := setup.WardLine(setup.NewWardRow(unexplainedRecord(t, 15, 3), "w.jsonl", today.Add(30*time.Minute), setup.DefaultCheckEvery))
+	over := report.WardLine(logbook.NewWardRow(unexplainedRecord(t, 120, 100), "w.jsonl", today.Add(30*time.Minute), setup.DefaultCheckEvery))
+	disc := report.WardLine(logbook.NewWardRow(unexplainedRecord(t, 15, 3), "w.jsonl", today.Add(30*time.Minute), setup.DefaultCheckEvery))
 	// The first stop of each (MHRA RMVS001 2020: high pressure above 40;
 	// pressure not reached, disconnection), in a few words with the reading.
 	require.Contains(t, over, "(peak 120 cmH2O above 40)", over)

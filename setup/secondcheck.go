@@ -39,27 +39,3 @@ func NeedsSecondSignature(r Record) bool {
 	p := r.Proposed
 	return p != nil && (!strings.EqualFold(p.Setting.Hole, r.Setting.Hole) || p.Setting.PEEPCmH2O != r.Setting.PEEPCmH2O)
 }
-
-// checkedBy is who checked a record, for the card and the history.
-func checkedBy(r Record) string {
-	by := r.Initials
-	if by == "" {
-		by = "(initials not given)"
-	}
-	if r.SecondInitials != "" {
-		by += ", second check " + r.SecondInitials
-	}
-	return by
-}
-
-// secondSignatureLine is the card's line for a second signature when the
-// proposal changes the hole or the PEEP, or "".
-func secondSignatureLine(r Record) string {
-	if !NeedsSecondSignature(r) {
-		return ""
-	}
-	if r.SecondInitials != "" {
-		return "Hole or PEEP changes: second check by " + r.SecondInitials + "  signature ____________"
-	}
-	return "Hole or PEEP changes: second checker ______  signature ____________"
-}

@@ -10,6 +10,8 @@ import (
 
 	"github.com/stretchr/testify/require"
 
+	"crankside/logbook"
+	"crankside/report"
 	"crankside/setup"
 )
 
@@ -42,10 +44,10 @@ func TestSecondSignatureLineOnlyForHoleOrPEEP(t *testing.T) {
 			rec := proposedRecord(t, tc.prop)
 			require.Equal(t, tc.want, setup.NeedsSecondSignature(rec))
 			var b bytes.Buffer
-			require.NoError(t, setup.WriteCard(&b, rec))
+			require.NoError(t, report.WriteCard(&b, rec))
 			require.Equal(t, tc.want, strings.Contains(b.String(), "second checker ______"), b.String())
 			for _, line := range strings.Split(b.String(), "\n") {
-				require.LessOrEqual(t, len(line), setup.CardWidth, line)
+				require.LessOrEqual(t, len(line), report.CardWidth, line)
 			}
 		})
 	}
@@ -57,15 +59,15 @@ func TestSecondInitialsOnCardHistoryAndLog(t *testing.T) {
 	require.NoError(t, err)
 	require.Equal(t, "AB", rec.SecondInitials)
 	var b bytes.Buffer
-	require.NoError(t, setup.WriteCard(&b, rec))
+	require.NoError(t, report.WriteCard(&b, rec))
 	require.Contains(t, b.String(), "checked by JK, second check AB")
 	require.Contains(t, b.String(), "second check by AB  signature ____")
-	require.Contains(t, setup.HistoryLine(rec), "JK+AB")
+	require.Contains(t, report.HistoryLine(rec), "JK+AB")
 
 	// Round trip through the log: the reader gives back what was written.
 	path := filepath.Join(t.TempDir(), "log.jsonl")
-	require.NoError(t, setup.AppendRecord(path, rec))
-	h, sum, err := setup.ReadBedHistory([]string{path}, "B4", 0)
+	require.NoError(t, logbook.AppendRecord(path, rec))
+	h, sum, err := logbook.ReadBedHistory([]string{path}, "B4", 0)
 	require.NoError(t, err)
 	require.Empty(t, sum.Lines())
 	require.Len(t, h.Entries, 1)
@@ -109,7 +111,7 @@ func TestReaderRefusesSecondInitialsTheWriterRefuses(t *testing.T) {
 			require.NotEqual(t, string(good), bad)
 			path := filepath.Join(t.TempDir(), "log.jsonl")
 			require.NoError(t, os.WriteFile(path, []byte(bad+"\n"), 0o600))
-			h, sum, err := setup.ReadBedHistory([]string{path}, "B4", 0)
+			h, sum, err := logbook.ReadBedHistory([]string{path}, "B4", 0)
 			require.NoError(t, err)
 			require.Empty(t, h.Entries)
 			require.NotEmpty(t, sum.Lines())

@@ -9,10 +9,11 @@ import (
 	"github.com/stretchr/testify/require"
 
 	"crankside/physiology"
+	"crankside/report"
 	"crankside/setup"
 )
 
-func sheetText(t *testing.T, s setup.Sheet) string {
+func sheetText(t *testing.T, s report.Sheet) string {
 	t.Helper()
 	var b bytes.Buffer
 	require.NoError(t, s.Write(&b))
@@ -20,12 +21,12 @@ func sheetText(t *testing.T, s setup.Sheet) string {
 }
 
 // requireFits80: every line of the sheet fits 80 columns (issue 23), at
-// most setup.CardWidth, and none is cut short.
+// most report.CardWidth, and none is cut short.
 func requireFits80(t *testing.T, text string) {
 	t.Helper()
 	for _, l := range strings.Split(text, "\n") {
 		require.LessOrEqual(t, len([]rune(l)), 80, "line too wide: %q", l)
-		require.LessOrEqual(t, len([]rune(l)), setup.CardWidth, "line too wide: %q", l)
+		require.LessOrEqual(t, len([]rune(l)), report.CardWidth, "line too wide: %q", l)
 		require.False(t, strings.HasSuffix(l, "…"), l)
 	}
 }
@@ -38,7 +39,7 @@ func TestSheetCarriesEverySection(t *testing.T) {
 	pl, err := setup.MakePlan(setup.Request{Patient: setup.Patient{HeightCm: 175, Sex: physiology.Male}, Now: today}, profile(t, "demo-a"))
 	require.NoError(t, err)
 	last := today.Add(-90 * time.Minute)
-	sh := pl.Sheet(today)
+	sh := report.PlanSheet(pl, today)
 	sh.Bed = "B4"
 	sh.Schedule = &setup.Schedule{Log: "ward.jsonl", Last: &last, Every: 4 * time.Hour, Source: "entered"}
 	text := sheetText(t, sh)
@@ -75,7 +76,7 @@ func TestSheetOfAStop(t *testing.T) {
 	pl, err := setup.MakePlan(setup.Request{Patient: setup.Patient{HeightCm: 175, Sex: physiology.Male}, Targets: setup.Targets{ComplianceMLPerCmH2O: 12}, Now: today}, profile(t, "demo-a"))
 	require.NoError(t, err)
 	require.NotNil(t, setup.FirstStop(pl.Cautions))
-	text := sheetText(t, pl.Sheet(today))
+	text := sheetText(t, report.PlanSheet(pl, today))
 	requireFits80(t, text)
 	require.NotContains(t, text, "SET THE MACHINE TO")
 	require.NotContains(t, text, "TO CONFIRM IT")
@@ -91,7 +92,7 @@ func TestSheetOfAStop(t *testing.T) {
 func TestSheetOfATimedCheck(t *testing.T) {
 	ck, err := runEntries(t, "demo-a", entries("turn-s", "2.86", "pause-s", "1.43", "peak", "17", "end-pressure", "14"))
 	require.NoError(t, err)
-	text := sheetText(t, ck.Sheet("Demonstration unit A", "B4", today))
+	text := sheetText(t, report.CheckSheet(ck, "Demonstration unit A", "B4", today))
 	requireFits80(t, text)
 	require.Contains(t, text, "One turn 2.86 s (timed); Pause 1.43 s (timed)")
 	require.Contains(t, text, "WATCH THE MANOMETER (on the lung fitted to the readings)")
@@ -106,10 +107,10 @@ func TestSheetOfATimedCheck(t *testing.T) {
 func TestDueLine(t *testing.T) {
 	last := today
 	require.Equal(t, "B4 checked 3 h 59 min ago, next due "+setup.LocalClock(today.Add(4*time.Hour)),
-		setup.DueLine("B4", &last, 0, today.Add(239*time.Minute)))
-	require.Equal(t, "B4 OVERDUE: checked 4 h 0 min ago (every 4 h)", setup.DueLine("B4", &last, 0, today.Add(4*time.Hour)))
+		report.DueLine("B4", &last, 0, today.Add(239*time.Minute)))
+	require.Equal(t, "B4 OVERDUE: checked 4 h 0 min ago (every 4 h)", report.DueLine("B4", &last, 0, today.Add(4*time.Hour)))
 	require.Equal(t, "B4 checked 35 min ago, next due "+setup.LocalClock(today.Add(2*time.Hour)),
-		setup.DueLine("B4", &last, 2*time.Hour, today.Add(35*time.Minute)))
-	require.Equal(t, "B4 OVERDUE: checked 2 h 1 min ago (every 2 h)", setup.DueLine("B4", &last, 2*time.Hour, today.Add(121*time.Minute)))
-	require.Equal(t, "B4: no check in the log", setup.DueLine("B4", nil, 0, today))
+		report.DueLine("B4", &last, 2*time.Hour, today.Add(35*time.Minute)))
+	require.Equal(t, "B4 OVERDUE: checked 2 h 1 min ago (every 2 h)", report.DueLine("B4", &last, 2*time.Hour, today.Add(121*time.Minute)))
+	require.Equal(t, "B4: no check in the log", report.DueLine("B4", nil, 0, today))
 }

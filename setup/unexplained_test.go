@@ -10,7 +10,9 @@ import (
 
 	"github.com/stretchr/testify/require"
 
+	"crankside/logbook"
 	"crankside/physiology"
+	"crankside/report"
 	"crankside/setup"
 )
 
@@ -31,8 +33,8 @@ func unexplainedCheck(t *testing.T, propose bool) setup.Check {
 	return ck
 }
 
-func ids(cs []setup.Caution) map[string]setup.Level {
-	out := map[string]setup.Level{}
+func ids(cs []setup.Caution) map[setup.CautionID]setup.Level {
+	out := map[setup.CautionID]setup.Level{}
 	for _, c := range cs {
 		if _, ok := out[c.ID]; !ok {
 			out[c.ID] = c.Level
@@ -45,12 +47,12 @@ func TestUnexplainedReadingsAreStops(t *testing.T) {
 	ck := unexplainedCheck(t, false)
 	got := ids(ck.Current.Cautions)
 	// MHRA RMVS001 2020: never more than 40 cmH2O; demo-a's relief is 40.
-	require.Equal(t, setup.Stop, got["measured-peak-high"])
-	require.Equal(t, setup.Stop, got["measured-peak-above-relief"])
-	require.Equal(t, setup.Stop, got["readings-unexplained"])
+	require.Equal(t, setup.Stop, got[setup.CautionMeasuredPeakHigh])
+	require.Equal(t, setup.Stop, got[setup.CautionMeasuredPeakAboveRelief])
+	require.Equal(t, setup.Stop, got[setup.CautionReadingsUnexplained])
 	require.Equal(t, setup.Stop, setup.Highest(ck.Current.Cautions))
 	first := setup.FirstStop(ck.Current.Cautions)
-	require.Equal(t, "measured-peak-high", first.ID, "the readings' own stops come first")
+	require.Equal(t, setup.CautionMeasuredPeakHigh, first.ID, "the readings' own stops come first")
 	require.InDelta(t, 120, first.Value, 0)
 	require.InDelta(t, 40, first.Limit, 0)
 }
@@ -58,12 +60,12 @@ func TestUnexplainedReadingsAreStops(t *testing.T) {
 func TestReadingStopsWhateverTheFit(t *testing.T) {
 	cases := []struct {
 		peak, end float64
-		id        string
+		id        setup.CautionID
 		why       string
 	}{
-		{55, 14, "measured-peak-high", "MHRA RMVS001 2020: 55 is above 40"},
-		{20, 3, "measured-end-at-or-below-peep", "RMVS001 disconnection alarm: 3 is below PEEP 5"},
-		{12, 14, "measured-peak-below-end", "common practice: the peak is the highest reading"},
+		{55, 14, setup.CautionMeasuredPeakHigh, "MHRA RMVS001 2020: 55 is above 40"},
+		{20, 3, setup.CautionMeasuredEndAtOrBelowPEEP, "RMVS001 disconnection alarm: 3 is below PEEP 5"},
+		{12, 14, setup.CautionMeasuredPeakBelowEnd, "common practice: the peak is the highest reading"},
 	}
 	for _, c := range cases {
 		req := checkReq("8", 21, 1.4)
@@ -73,7 +75,7 @@ func TestReadingStopsWhateverTheFit(t *testing.T) {
 		require.Equal(t, setup.Stop, ids(ck.Current.Cautions)[c.id], c.why)
 		require.Equal(t, setup.Stop, setup.FirstStop(ck.Current.Cautions).Level)
 		if ck.FitProblem != "" {
-			require.Equal(t, setup.Stop, ids(ck.Current.Cautions)["readings-unexplained"], c.why)
+			require.Equal(t, setup.Stop, ids(ck.Current.Cautions)[setup.CautionReadingsUnexplained], c.why)
 		}
 	}
 }
@@ -115,7 +117,7 @@ func TestUnexplainedJSONHasNullFigures(t *testing.T) {
 		}
 	}
 	// A stop (DESIGN.md Cautions, version 2: readings no lung explains).
-	require.Equal(t, setup.Stop, ids(ck.Proposed.Cautions)["proposal-on-assumed-lung"])
+	require.Equal(t, setup.Stop, ids(ck.Proposed.Cautions)[setup.CautionProposalOnAssumedLung])
 }
 
 func TestExplainedJSONKeepsFigures(t *testing.T) {
@@ -150,15 +152,15 @@ func TestUnexplainedRecordRoundTripCard(t *testing.T) {
 	require.Nil(t, m["delivered_vt_ml"])
 
 	path := filepath.Join(t.TempDir(), "log.jsonl")
-	require.NoError(t, setup.AppendRecord(path, rec))
-	recs, problems, err := setup.ReadLog(path)
+	require.NoError(t, logbook.AppendRecord(path, rec))
+	recs, problems, err := readLog(path)
 	require.NoError(t, err)
 	require.Empty(t, problems)
 	require.Len(t, recs, 1)
 
 	var mem, back bytes.Buffer
-	require.NoError(t, setup.WriteCard(&mem, rec))
-	require.NoError(t, setup.WriteCard(&back, recs[0]))
+	require.NoError(t, report.WriteCard(&mem, rec))
+	require.NoError(t, report.WriteCard(&back, recs[0]))
 	require.Equal(t, mem.String(), back.String())
 	card := back.String()
 	lines := strings.Split(card, "\n")
@@ -173,16 +175,16 @@ func TestUnexplainedRecordRoundTripCard(t *testing.T) {
 	require.NotContains(t, card[:j], "Tidal vol.", "no volume is shown for the current setting")
 	require.Equal(t, 1, strings.Count(card, "Tidal vol."), "only the proposal's")
 	for _, l := range lines {
-		require.LessOrEqual(t, len(l), setup.CardWidth, l)
+		require.LessOrEqual(t, len(l), report.CardWidth, l)
 	}
-	require.Contains(t, setup.HistoryLine(recs[0]), "readings unexplained")
-	require.NotContains(t, setup.HistoryLine(recs[0]), " 0 mL")
+	require.Contains(t, report.HistoryLine(recs[0]), "readings unexplained")
+	require.NotContains(t, report.HistoryLine(recs[0]), " 0 mL")
 }
 
 func TestUnexplainedCheckText(t *testing.T) {
 	ck := unexplainedCheck(t, false)
 	var b bytes.Buffer
-	require.NoError(t, ck.WriteText(&b))
+	require.NoError(t, report.CheckText(&b, ck))
 	out := b.String()
 	lines := strings.Split(out, "\n")
 	require.True(t, strings.HasPrefix(lines[1], "STOP  THE READINGS CANNOT BE EXPLAINED: "+ck.FitProblem), lines[1])
@@ -199,10 +201,10 @@ func TestPlanTextNamesTheFirstStop(t *testing.T) {
 		Targets: setup.Targets{MLPerKg: 9.5, ComplianceMLPerCmH2O: 12}, Now: today}, profile(t, "demo-a"))
 	require.NoError(t, err)
 	var b bytes.Buffer
-	require.NoError(t, pl.WriteText(&b))
+	require.NoError(t, report.PlanText(&b, pl))
 	first := setup.FirstStop(pl.Cautions)
 	require.NotNil(t, first)
-	require.Contains(t, b.String(), "STOP  "+first.ID+": "+first.Message)
+	require.Contains(t, b.String(), "STOP  "+string(first.ID)+": "+first.Message)
 	require.Contains(t, b.String(), "STOP: DO NOT USE THIS SETTING ("+first.ID+")")
 	require.NotContains(t, b.String(), "SET THE MACHINE")
 }
@@ -211,14 +213,14 @@ func TestProfileCautionsForTheMachinePanel(t *testing.T) {
 	// demo-b's relief is 45 cmH2O (the invented demo), above RMVS001's 40.
 	sum, err := setup.DescribeProfile(profile(t, "demo-b"), today)
 	require.NoError(t, err)
-	require.Equal(t, setup.Warn, ids(sum.Cautions)["relief-above-40"])
+	require.Equal(t, setup.Warn, ids(sum.Cautions)[setup.CautionReliefAbove40])
 	// demo-a: relief 40, no calibration.
 	sum, err = setup.DescribeProfile(profile(t, "demo-a"), today)
 	require.NoError(t, err)
 	cs := sum.Cautions
-	_, relief := ids(cs)["relief-above-40"]
+	_, relief := ids(cs)[setup.CautionReliefAbove40]
 	require.False(t, relief)
-	require.Equal(t, setup.Warn, ids(cs)["calibration-missing"])
+	require.Equal(t, setup.Warn, ids(cs)[setup.CautionCalibrationMissing])
 }
 
 func TestErrorsPrintPlainDecimals(t *testing.T) {
@@ -238,7 +240,7 @@ func TestUnexplainedCardGolden(t *testing.T) {
 	rec, err := setup.NewRecord(unexplainedCheck(t, true), "B4", "jk", today)
 	require.NoError(t, err)
 	var b bytes.Buffer
-	require.NoError(t, setup.WriteCard(&b, rec))
+	require.NoError(t, report.WriteCard(&b, rec))
 	path := filepath.Join("testdata", "card-unexplained.golden")
 	if *update {
 		require.NoError(t, os.WriteFile(path, b.Bytes(), 0o644))

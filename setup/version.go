@@ -23,7 +23,7 @@ const (
 	FormatCheckJSON       = "crankside-check/2" // the check object; a log line is RecordFormat
 	FormatCalibrationJSON = "crankside-calibration/2"
 	FormatHistoryJSON     = "crankside-history/2"            // log show --json
-	FormatWardJSON        = "crankside-ward/2"               // log beds --json: {"beds": [...], "problems": [...]}
+	FormatWardJSON        = "crankside-ward/3"               // log beds --json: {"beds": [...], "problems": [...]}; /3: ml_per_kg null, not 0, for a bed whose readings no lung explains
 	FormatProfileListJSON = "crankside-profile-list/1"       // profiles list --json
 	FormatValidationJSON  = "crankside-profile-validation/1" // profiles validate --json
 )

@@ -9,6 +9,7 @@ import (
 	"github.com/stretchr/testify/require"
 
 	"crankside/physiology"
+	"crankside/report"
 	"crankside/setup"
 )
 
@@ -60,7 +61,7 @@ func TestWatchOnACheck(t *testing.T) {
 	require.True(t, ck.Unexplained())
 	require.Nil(t, ck.Watch, "no band on readings no lung explains")
 	var b bytes.Buffer
-	require.NoError(t, ck.WriteText(&b))
+	require.NoError(t, report.CheckText(&b, ck))
 	require.Contains(t, b.String(), "no band and no alarm limits are given")
 	require.NotContains(t, b.String(), "Alarm HIGH")
 	require.Contains(t, b.String(), "TO CONFIRM BY STOPWATCH  one turn 2.86 s, then a pause of 1.40 s")
@@ -104,7 +105,7 @@ func TestStopPlanGivesNoAlarmLimits(t *testing.T) {
 	// derived: about 420 mL into 12 mL/cmH2O is a plateau near 5 + 35 = 40: a stop (RMVS001 2020, 35).
 	require.NotNil(t, setup.FirstStop(pl.Cautions), "a plateau far above 35 is a stop")
 	var b bytes.Buffer
-	require.NoError(t, pl.WriteText(&b))
+	require.NoError(t, report.PlanText(&b, pl))
 	out := b.String()
 	require.NotContains(t, out, "Alarm HIGH")
 	require.Contains(t, out, "no band and no alarm limits are given")

@@ -9,9 +9,13 @@ import (
 )
 
 // TestArchitecture keeps the dependency arrows of DEVELOPERS.md true:
-// physiology and machine import the standard library and gonum only;
-// profiles the standard library only; setup never imports ui; and nothing
-// but ui and main imports a terminal library.
+// ui -> report -> logbook -> setup -> {machine, physiology, profiles}, one
+// way: physiology and machine import the standard library and gonum only;
+// profiles the standard library only; setup never imports logbook, report
+// or ui; logbook (the handover log store) imports setup and what setup
+// may, never report or ui; report (the text, card and sheet for people)
+// imports logbook, setup and what they may, never ui; and nothing but ui
+// and main imports a terminal library.
 func TestArchitecture(t *testing.T) {
 	out, err := exec.Command("go", "list", "-f", "{{.ImportPath}}|{{join .Imports \" \"}}", "crankside/...").CombinedOutput()
 	require.NoError(t, err, "%s", out)
@@ -23,6 +27,8 @@ func TestArchitecture(t *testing.T) {
 	require.Contains(t, imports, "crankside/physiology")
 	require.Contains(t, imports, "crankside/ui/cli")
 	require.Contains(t, imports, "crankside/profiles/safetext")
+	require.Contains(t, imports, "crankside/logbook")
+	require.Contains(t, imports, "crankside/report")
 	std := func(p string) bool {
 		return !strings.Contains(strings.Split(p, "/")[0], ".") && !strings.HasPrefix(p, "crankside")
 	}
@@ -34,14 +40,17 @@ func TestArchitecture(t *testing.T) {
 	// safetext is the one terminal-safe text function, below everything, so
 	// any package may use it; it imports the standard library only.
 	safetext := func(p string) bool { return p == "crankside/profiles/safetext" }
+	core := func(p string) bool {
+		return std(p) || gonum(p) || safetext(p) || p == "crankside/physiology" || p == "crankside/machine" || p == "crankside/profiles"
+	}
 	allowed := map[string]func(string) bool{
 		"crankside/physiology":        func(p string) bool { return std(p) || gonum(p) || safetext(p) },
 		"crankside/machine":           func(p string) bool { return std(p) || gonum(p) || safetext(p) },
 		"crankside/profiles/safetext": std,
 		"crankside/profiles":          func(p string) bool { return std(p) || safetext(p) },
-		"crankside/setup": func(p string) bool {
-			return std(p) || gonum(p) || safetext(p) || p == "crankside/physiology" || p == "crankside/machine" || p == "crankside/profiles"
-		},
+		"crankside/setup":             core,
+		"crankside/logbook":           func(p string) bool { return core(p) || p == "crankside/setup" },
+		"crankside/report":            func(p string) bool { return core(p) || p == "crankside/setup" || p == "crankside/logbook" },
 	}
 	for pkg, ok := range allowed {
 		for _, dep := range imports[pkg] {

@@ -66,7 +66,7 @@ func TestABadGasReadsBackFromTheLog(t *testing.T) {
 		Beds   []map[string]any `json:"beds"`
 	}
 	require.NoError(t, json.Unmarshal([]byte(r.stdout), &ward))
-	require.Equal(t, "crankside-ward/2", ward.Format)
+	require.Equal(t, "crankside-ward/3", ward.Format)
 	beds := ward.Beds
 	require.Len(t, beds, 2)
 	require.Equal(t, "B4", beds[0]["bed"], "the stop first")

@@ -51,7 +51,7 @@ func TestEveryJSONOutputCarriesItsFormatAndVersions(t *testing.T) {
 		{[]string{"plan", "--height-cm", "175", "--sex", "male", "--json"}, "crankside-plan/2", 0},
 		{append(check, "--json"), "crankside-check/2", 0},
 		{[]string{"log", "show", "--log", logPath, "--json"}, "crankside-history/2", 0},
-		{[]string{"log", "beds", "--log", logPath, "--json"}, "crankside-ward/2", 0},
+		{[]string{"log", "beds", "--log", logPath, "--json"}, "crankside-ward/3", 0},
 		{[]string{"profiles", "list", "--profiles", profiles, "--json"}, "crankside-profile-list/1", 0},
 		{[]string{"calibrate", "--profile", profile, "--bench", bench, "--date", "2026-11-30", "--json"}, "crankside-calibration/2", 0},
 		{[]string{"profiles", "validate", profile, "--json"}, "crankside-profile-validation/1", 0},
@@ -62,7 +62,7 @@ func TestEveryJSONOutputCarriesItsFormatAndVersions(t *testing.T) {
 		require.Equal(t, c.status, r.status, "%s: %s", what, r.stderr)
 		obj := requireVersioned(t, what, r.stdout, c.format)
 		switch c.format {
-		case "crankside-ward/2":
+		case "crankside-ward/3":
 			beds := obj["beds"].([]any)
 			require.Len(t, beds, 1)
 			require.Equal(t, "B4", beds[0].(map[string]any)["bed"])

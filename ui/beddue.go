@@ -5,11 +5,13 @@ import (
 
 	tea "github.com/charmbracelet/bubbletea"
 
+	"crankside/logbook"
+	"crankside/report"
 	"crankside/setup"
 )
 
 // bedDue is the handover bed's last record, for the status line's time
-// since it and the next check due (setup.DueLine).
+// since it and the next check due (report.DueLine).
 type bedDue struct {
 	bed   string     // the bed looked up (BedKey), "" for none
 	known bool       // the log has been read for it
@@ -37,7 +39,7 @@ func (m *Model) lookupBed() tea.Cmd {
 	m.due = bedDue{bed: key}
 	path := m.logPath
 	return func() tea.Msg {
-		h, _, err := setup.ReadBedHistory([]string{path}, key, 1)
+		h, _, err := logbook.ReadBedHistory([]string{path}, key, 1)
 		if err != nil || len(h.Entries) == 0 {
 			return bedLastMsg{bed: key}
 		}
@@ -58,7 +60,7 @@ func (m *Model) dueText() string {
 	if !m.due.known {
 		return ""
 	}
-	line := setup.DueLine(m.due.bed, m.due.last, m.every, m.now())
+	line := report.DueLine(m.due.bed, m.due.last, m.every, m.now())
 	if m.due.last != nil && !m.now().Before(m.due.last.Add(m.everyOrDefault())) {
 		return m.styles.Error.Render(line)
 	}

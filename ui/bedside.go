@@ -6,6 +6,7 @@ import (
 	"github.com/charmbracelet/bubbles/key"
 	tea "github.com/charmbracelet/bubbletea"
 
+	"crankside/report"
 	"crankside/setup"
 )
 
@@ -40,10 +41,10 @@ func (m *Model) bedsideHere() bool { return m.focus == panelSetting || m.focus =
 // the handover check (from the Handover panel); a check recorded in this
 // session carries its record's time and the next check due.
 func (m *Model) sheet(check bool) {
-	var sh setup.Sheet
+	var sh report.Sheet
 	switch {
 	case check && m.out.check != nil:
-		sh = m.out.check.Sheet(m.out.profile.Label, setup.BedKey(m.checkField("bed").Value()), m.now())
+		sh = report.CheckSheet(*m.out.check, m.out.profile.Label, setup.BedKey(m.checkField("bed").Value()), m.now())
 		if m.recordedAt != "" && m.logPath != "" {
 			rec := setup.Record{Time: m.recordedTime}
 			sh.Schedule = setup.RecordedSchedule(m.logPath, rec, 0)
@@ -52,7 +53,7 @@ func (m *Model) sheet(check bool) {
 		m.handoverNote(m.styles.Error.Render("! no sheet: the check is not complete"))
 		return
 	case m.out.plan != nil:
-		sh = m.out.plan.Sheet(m.now())
+		sh = report.PlanSheet(*m.out.plan, m.now())
 	default:
 		m.note = "no sheet: the plan is not complete"
 		return

@@ -89,7 +89,7 @@ func (p *cautionsPanel) cautionList(cs []setup.Caution, none string) []string {
 		}
 	}
 	for _, c := range cs {
-		head := s.levelWord(c.Level) + " " + s.Value.Render(c.ID)
+		head := s.levelWord(c.Level) + " " + s.Value.Render(string(c.ID))
 		if c.Value != 0 || c.Limit != 0 {
 			head += s.Label.Render(fmt.Sprintf("  value %s, limit %s %s", trimFloat(c.Value), trimFloat(c.Limit), c.Unit))
 		}

@@ -8,6 +8,7 @@ import (
 	tea "github.com/charmbracelet/bubbletea"
 	"github.com/charmbracelet/lipgloss"
 
+	"crankside/report"
 	"crankside/setup"
 )
 
@@ -207,7 +208,7 @@ func (p *handoverPanel) results() string {
 		// A measured alarm is never replaced by a calm prediction: the
 		// reason comes first, in full, and no figure is shown as what
 		// the patient gets.
-		add(s.levelWord(setup.Stop) + " " + s.Error.Render(strings.TrimPrefix(setup.UnexplainedLine(ck.FitProblem), "STOP  ")))
+		add(s.levelWord(setup.Stop) + " " + s.Error.Render(strings.TrimPrefix(report.UnexplainedLine(ck.FitProblem), "STOP  ")))
 	}
 	if st := setup.FirstStop(ck.Current.Cautions); st != nil {
 		add(s.levelWord(setup.Stop) + " " + s.Error.Render("DO NOT USE THIS SETTING AS IT IS: "+st.Message))
@@ -229,12 +230,13 @@ func (p *handoverPanel) results() string {
 	p.lungLine(add, ck)
 	p.protocolOffer(add, j)
 	p.settingTable(add, j)
-	if ck.Unexplained() {
+	if j.LungFiguresJSON == nil {
+		// The lung's figures are withheld: there is none to show.
 		add(s.Error.Render("THE PATIENT GETS: NOT KNOWN (the readings cannot be explained)"))
 		if ck.Proposed != nil {
-			add(s.Section.Render("PROPOSED " + setup.AssumedLungLabel))
+			add(s.Section.Render("PROPOSED " + report.AssumedLungLabel))
 			prop := j.Proposed.FiguresJSON
-			for _, r := range setup.FigureRows(prop, nil) {
+			for _, r := range report.FigureRows(prop, nil) {
 				add(s.Label.Render(fmt.Sprintf("%-15s", r.Label)) + s.Value.Render(fmt.Sprintf(" %7s", r.Text)) + " " + s.Unit.Render(r.Unit))
 			}
 		}
@@ -371,7 +373,7 @@ func (p *handoverPanel) settingTable(add func(string), j setup.CheckJSON) {
 	if j.Proposed != nil {
 		prop = &j.Proposed.Setting
 	}
-	rows := setup.SettingRows(j.Setting, prop)
+	rows := report.SettingRows(j.Setting, prop)
 	head := fmt.Sprintf("%-12s %7s", "SETTING", "now")
 	if prop != nil {
 		head += fmt.Sprintf(" %8s", "proposed")
@@ -398,7 +400,7 @@ func (p *handoverPanel) figureTable(add func(string), j setup.CheckJSON) {
 	if j.Proposed != nil {
 		prop = &j.Proposed.FiguresJSON
 	}
-	rows := setup.FigureRows(j.FiguresJSON, prop)
+	rows := report.FigureRows(j.FiguresJSON, prop)
 	lw := 15
 	for _, r := range rows {
 		lw = max(lw, len(r.Label))
@@ -406,7 +408,7 @@ func (p *handoverPanel) figureTable(add func(string), j setup.CheckJSON) {
 	if j.VolumeUpperBound {
 		add(s.Error.Render(j.VolumeNote))
 	}
-	head := fmt.Sprintf("%-*s %7s", lw, j.PatientGetsShort(), "now")
+	head := fmt.Sprintf("%-*s %7s", lw, report.PatientGetsShort(j), "now")
 	if prop != nil {
 		head += fmt.Sprintf(" %8s %6s", "proposed", "change")
 	}
@@ -418,7 +420,7 @@ func (p *handoverPanel) figureTable(add func(string), j setup.CheckJSON) {
 		}
 		add(line + " " + s.Unit.Render(r.Unit))
 	}
-	add(s.Hint.Render(setup.DrivingNote))
+	add(s.Hint.Render(report.DrivingNote))
 }
 
 // cautionLines lists every caution in full: none is cut short.

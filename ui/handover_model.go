@@ -9,7 +9,9 @@ import (
 	tea "github.com/charmbracelet/bubbletea"
 	"github.com/charmbracelet/lipgloss"
 
+	"crankside/logbook"
 	"crankside/profiles/safetext"
+	"crankside/report"
 	"crankside/setup"
 )
 
@@ -148,9 +150,9 @@ func (m *Model) save() tea.Cmd {
 	}
 	path, at := m.logPath, rec.Time
 	return func() tea.Msg {
-		err := setup.EnsureLogDir(path)
+		err := logbook.EnsureLogDir(path)
 		if err == nil {
-			err = setup.AppendRecord(path, rec)
+			err = logbook.AppendRecord(path, rec)
 		}
 		return savedMsg{bed: rec.Bed, path: path, at: at, err: err}
 	}
@@ -191,7 +193,7 @@ func (m *Model) card() {
 		title = "Handover card, as recorded at " + m.recordedAt
 	}
 	var b strings.Builder
-	setup.WriteCard(&b, rec)
+	report.WriteCard(&b, rec)
 	// The card is the printed text; on the screen its level words are
 	// coloured as everywhere else.
 	lines := strings.Split(b.String(), "\n")
@@ -213,7 +215,7 @@ func (m *Model) history() tea.Cmd {
 	}
 	path := m.logPath
 	return func() tea.Msg {
-		h, sum, err := setup.ReadBedHistory([]string{path}, bed, 0)
+		h, sum, err := logbook.ReadBedHistory([]string{path}, bed, 0)
 		return historyMsg{bed: bed, history: h, summary: sum, err: err}
 	}
 }
@@ -233,8 +235,8 @@ func (m *Model) showHistory(msg historyMsg) {
 		n := len(msg.history.Entries)
 		l = append(l, s.Label.Render(fmt.Sprintf("%d check%s, newest first (up/down, PgUp/PgDn scroll)", n, plural(n))))
 		for _, e := range msg.history.Entries {
-			l = append(l, s.withLevels(safetext.Escape(setup.HistoryLine(e.Record)), s.Value))
-			if p := setup.ProposalLine(e.Record); p != "" {
+			l = append(l, s.withLevels(safetext.Escape(report.HistoryLine(e.Record)), s.Value))
+			if p := report.ProposalLine(e.Record); p != "" {
 				l = append(l, s.withLevels("    proposed: "+safetext.Escape(p), s.Label))
 			}
 			if len(e.Changes) > 0 {
@@ -264,7 +266,7 @@ func logNote(path string) string {
 		return "Not recording: start with --log FILE to keep a record of checks."
 	}
 	where := safetext.Escape(path)
-	if err := setup.CheckLogPath(path); err != nil {
+	if err := logbook.CheckLogPath(path); err != nil {
 		// A new log is made in a folder the screen creates itself.
 		if !errors.Is(err, os.ErrNotExist) {
 			return "CANNOT RECORD to " + where + ": " + safetext.Escape(err.Error())

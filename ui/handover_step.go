@@ -3,6 +3,7 @@ package ui
 import (
 	"strings"
 
+	"crankside/report"
 	"crankside/setup"
 )
 
@@ -46,7 +47,7 @@ func (p *handoverPanel) protocolOffer(add func(string), j setup.CheckJSON) {
 	if j.ProtocolStep == nil {
 		return
 	}
-	text := setup.StepSettingText(j)
+	text := report.StepSettingText(j)
 	if j.Proposed != nil && j.ProposalFrom != setup.ProposalEntered {
 		// The step's own setting has a stop: said before it, in words.
 		if st := setup.FirstStop(j.Proposed.Cautions); st != nil {
@@ -54,7 +55,7 @@ func (p *handoverPanel) protocolOffer(add func(string), j setup.CheckJSON) {
 		}
 	}
 	switch {
-	case !setup.StepChanges(j):
+	case !report.StepChanges(j):
 		add(s.Section.Render("Protocol step: ") + s.Value.Render(text))
 	case j.ProposalFrom == setup.ProposalEnteredAsStep:
 		add(s.Section.Render("Protocol step taken into PROPOSE: ") + s.Value.Render(text) +
@@ -66,10 +67,10 @@ func (p *handoverPanel) protocolOffer(add func(string), j setup.CheckJSON) {
 		}
 		add(s.Section.Render("Protocol step: ") + s.Value.Render(text) + s.FieldFocused.Render(take))
 	}
-	for _, c := range setup.StepChangeLines(j) {
+	for _, c := range report.StepChangeLines(j) {
 		add(s.Label.Render(" machine: ") + s.Value.Render(c))
 	}
-	if l := setup.ProposalFromLine(j); l != "" {
+	if l := report.ProposalFromLine(j); l != "" {
 		add(s.Hint.Render(l))
 	}
 }
@@ -84,7 +85,7 @@ func (p *handoverPanel) protocolWhy(add func(string), j setup.CheckJSON) {
 	add(s.Section.Render("WHY THIS PROTOCOL STEP"))
 	// The rules that fired in full; the others one line each, as the
 	// screen beside the form is narrow (the card has them all in full).
-	for _, r := range setup.ProtocolRuleRows(j) {
+	for _, r := range report.ProtocolRuleRows(j) {
 		if r.Fired {
 			add(" " + s.Caution.Render(r.Word) + " " + s.Value.Render(r.Head))
 			add(s.Hint.Render("   " + r.Action + " [" + r.Source + "]"))

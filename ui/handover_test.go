@@ -10,7 +10,9 @@ import (
 	tea "github.com/charmbracelet/bubbletea"
 	"github.com/stretchr/testify/require"
 
+	"crankside/logbook"
 	"crankside/physiology"
+	"crankside/report"
 	"crankside/setup"
 )
 
@@ -83,7 +85,7 @@ func TestHandoverRecordQuitAndHistory(t *testing.T) {
 	// Record it: one line in the log, and quitting no longer asks.
 	runCmd(m, press(m, tea.KeyMsg{Type: tea.KeyCtrlS}))
 	require.Contains(t, screen(m), "Recorded for bed B4")
-	h, sum, err := setup.ReadBedHistory([]string{logPath}, "B4", 0)
+	h, sum, err := logbook.ReadBedHistory([]string{logPath}, "B4", 0)
 	require.NoError(t, err)
 	require.Zero(t, sum.Damaged)
 	require.Len(t, h.Entries, 1)
@@ -193,14 +195,14 @@ func TestTheHandoverSaysWhatABlankEntryIsTakenToBe(t *testing.T) {
 }
 
 // The card on screen at 80x24 is not wrapped a second time: each of its
-// lines fits the frame (setup.CardWidth), so no line is a fragment of
+// lines fits the frame (report.CardWidth), so no line is a fragment of
 // the one before.
 func TestTheCardFitsTheFrameAt80x24(t *testing.T) {
 	m := filledModel(t)
 	press(m, tea.KeyMsg{Type: tea.KeyCtrlO})
 	require.NotNil(t, m.overlay)
 	fw, _ := m.panelFrame()
-	require.LessOrEqual(t, setup.CardWidth, m.w-fw)
+	require.LessOrEqual(t, report.CardWidth, m.w-fw)
 	for _, l := range strings.Split(m.overlay.text, "\n") {
 		require.LessOrEqual(t, len([]rune(l)), m.w-fw, "a card line wider than the frame: %q", l)
 	}

@@ -9,6 +9,7 @@ import (
 	"github.com/charmbracelet/bubbles/textinput"
 	tea "github.com/charmbracelet/bubbletea"
 
+	"crankside/report"
 	"crankside/setup"
 )
 
@@ -233,7 +234,7 @@ func (p *machinePanel) previewView() string {
 	s := p.styles
 	r := p.preview
 	var b strings.Builder
-	r.WriteText(&b)
+	report.CalibrationText(&b, *r)
 	head := s.Section.Render("REFIT PREVIEW: nothing is saved until you press Ctrl+W") + "\n"
 	if p.out.source.Embedded {
 		head += s.Error.Render("This is an embedded demo: it cannot be written. Save a copy with 'crankside profiles show "+r.Profile.ID+" --json'.") + "\n"

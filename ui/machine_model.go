@@ -63,7 +63,7 @@ func (m *Model) writeRefit() tea.Cmd {
 	if bad := prev.Unwritable(); len(bad) > 0 {
 		// As calibrate --write: a fit its own cautions call implausible
 		// is never saved.
-		m.machine.note = "! nothing written: the fit is implausible (" + setup.LevelWord(bad[0].Level) + " " + bad[0].ID + ": " + bad[0].Message + "); re-measure on the bench"
+		m.machine.note = "! nothing written: the fit is implausible (" + setup.LevelWord(bad[0].Level) + " " + string(bad[0].ID) + ": " + bad[0].Message + "); re-measure on the bench"
 		return nil
 	}
 	path, p, stamp := m.out.source.Path, prev.Profile, m.out.source.Stamp

@@ -15,6 +15,7 @@ import (
 	"github.com/charmbracelet/lipgloss"
 	"github.com/charmbracelet/x/ansi"
 
+	"crankside/logbook"
 	"crankside/profiles"
 	"crankside/profiles/safetext"
 	"crankside/setup"
@@ -134,8 +135,8 @@ type savedMsg struct {
 // historyMsg is a bed's earlier checks read from the log.
 type historyMsg struct {
 	bed     string
-	history setup.BedHistory
-	summary setup.LogSummary
+	history logbook.BedHistory
+	summary logbook.LogSummary
 	err     error
 }
 
@@ -780,14 +781,15 @@ func (m *Model) summary() string {
 				reason = strings.Join(m.out.checkWaiting, "; ")
 			}
 			return m.waitingLine(s.Waiting.Render("CHECK WAITING for "+reason), s.Waiting.Render("CHECK WAITING for entries: F6 says which"))
-		case ck.Unexplained():
+		case m.out.checkJSON.LungFiguresJSON == nil:
+			// The lung's figures are withheld: none to put on the line.
 			return m.withLead(s.Error.Render("Set now: readings unexplained, patient gets NOT KNOWN"))
 		}
 		lead := "Set now: "
 		if len(m.out.toConfirm) > 0 {
 			lead = "Recorded, not yet confirmed: "
 		}
-		parts := m.strip(lead, ck.Current.Figures, ck.Current.Cautions, ck.VolumeBoundNote() != "")
+		parts := m.strip(lead, m.out.checkJSON.FiguresJSON, ck.Current.Cautions, ck.VolumeBoundNote() != "")
 		if due := m.dueText(); due != "" {
 			// The bed's next check is safety-relevant: right after the level.
 			parts = append([]string{parts[0], due}, parts[1:]...)
@@ -802,14 +804,15 @@ func (m *Model) summary() string {
 		}
 		return m.waitingLine(s.Waiting.Render("SETTING WAITING for "+reason), s.Waiting.Render("SETTING WAITING for entries: see beside them"))
 	}
-	return m.withLead(m.strip("Plan: ", pl.Figures, pl.Cautions, false)...)
+	return m.withLead(m.strip("Plan: ", pl.FiguresJSON(), pl.Cautions, false)...)
 }
 
 // strip is one line: the highest caution first, so a narrow window never
 // cuts it off, then the hole, speed, dwell, volume and the caution count.
 // upperBound marks a volume that is at most what the patient gets (setup's
-// Check.VolumeBoundNote).
-func (m *Model) strip(lead string, f setup.Figures, cs []setup.Caution, upperBound bool) []string {
+// Check.VolumeBoundNote). The volume is read from the lung's figures,
+// which the caller has found present.
+func (m *Model) strip(lead string, f setup.FiguresJSON, cs []setup.Caution, upperBound bool) []string {
 	vol := ""
 	if upperBound {
 		vol = m.styles.Caution.Render("at most ")
@@ -821,10 +824,12 @@ func (m *Model) strip(lead string, f setup.Figures, cs []setup.Caution, upperBou
 	}
 	parts := []string{
 		s.Label.Render(lead) + level,
-		s.Label.Render("Hole ") + s.Big.Render(f.Hole.Label),
-		s.Big.Render(f1(f.Timing.RPM)) + s.Unit.Render(" rpm"),
-		s.Label.Render("dwell ") + s.Big.Render(f1(f.Timing.DwellS)) + s.Unit.Render(" s"),
-		vol + s.Value.Render(f0(f.Hole.DeliveredML)) + s.Unit.Render(" mL ") + s.Value.Render(f1(f.Hole.MLPerKg)) + s.Unit.Render(" mL/kg"),
+		s.Label.Render("Hole ") + s.Big.Render(f.Hole),
+		s.Big.Render(f1(f.MotorRPM)) + s.Unit.Render(" rpm"),
+		s.Label.Render("dwell ") + s.Big.Render(f1(f.DwellS)) + s.Unit.Render(" s"),
+	}
+	if l := f.LungFiguresJSON; l != nil {
+		parts = append(parts, vol+s.Value.Render(f0(l.DeliveredVtML))+s.Unit.Render(" mL ")+s.Value.Render(f1(l.MLPerKg))+s.Unit.Render(" mL/kg"))
 	}
 	if n := len(cs); n > 0 {
 		parts = append(parts, s.Label.Render(fmt.Sprintf("%d caution%s", n, plural(n))))

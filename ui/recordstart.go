@@ -7,6 +7,7 @@ import (
 	tea "github.com/charmbracelet/bubbletea"
 
 	"crankside/profiles/safetext"
+	"crankside/report"
 	"crankside/setup"
 )
 
@@ -29,7 +30,7 @@ var (
 
 // appliedText is the question, on the status line and the panel.
 func (q *appliedQuestion) text() string {
-	return "The record at " + setup.LocalClock(q.rec.Time) + " proposed " + safetext.Escape(setup.ProposalLine(q.rec)) +
+	return "The record at " + setup.LocalClock(q.rec.Time) + " proposed " + safetext.Escape(report.ProposalLine(q.rec)) +
 		". Was it applied? Ctrl+Y yes (fill it in), Ctrl+N no"
 }
 

@@ -13,6 +13,7 @@ import (
 	"github.com/muesli/termenv"
 	"github.com/stretchr/testify/require"
 
+	"crankside/logbook"
 	"crankside/physiology"
 	"crankside/setup"
 )
@@ -159,7 +160,7 @@ func TestARecordsProposalIsAskedAbout(t *testing.T) {
 	require.NoError(t, err)
 	rec, err := setup.NewRecord(ck, "B4", "jk", testNow().Add(-55*60e9))
 	require.NoError(t, err)
-	require.NoError(t, setup.AppendRecord(logPath, rec))
+	require.NoError(t, logbook.AppendRecord(logPath, rec))
 	for _, applied := range []bool{true, false} {
 		t.Run(fmt.Sprint("applied ", applied), func(t *testing.T) {
 			m := New(Options{Profile: p, Source: src, ProfilesDir: t.TempDir(), Now: testNow, LogPath: logPath})
@@ -199,7 +200,7 @@ func TestASecondCheckerOnTheCardAndTheRecord(t *testing.T) {
 	require.Contains(t, m.overlay.text, "Hole or PEEP changes: second check by CD")
 	press(m, esc, ctrlS)
 	require.Contains(t, oneLine(m.handover.results()), "Recorded for bed B4")
-	h, _, err := setup.ReadBedHistory([]string{m.logPath}, "B4", 0)
+	h, _, err := logbook.ReadBedHistory([]string{m.logPath}, "B4", 0)
 	require.NoError(t, err)
 	require.Len(t, h.Entries, 1)
 	require.Equal(t, "CD", h.Entries[0].Record.SecondInitials)

@@ -7,6 +7,7 @@ import (
 	"github.com/charmbracelet/bubbles/key"
 	tea "github.com/charmbracelet/bubbletea"
 
+	"crankside/report"
 	"crankside/setup"
 )
 
@@ -92,7 +93,7 @@ func (p *settingPanel) details(pl *setup.Plan) string {
 			add(s.levelWord(c.Level) + " " + s.Error.Render(c.Message))
 		}
 	}
-	heading := setup.SettingHeading(pl.Cautions, "SET ON THE MACHINE")
+	heading := report.SettingHeading(pl.Cautions, "SET ON THE MACHINE")
 	if setup.FirstStop(pl.Cautions) != nil {
 		add(s.Error.Render(heading))
 	} else {
@@ -117,10 +118,10 @@ func (p *settingPanel) details(pl *setup.Plan) string {
 	}
 	add(s.kv(" Aim", f0(pl.TargetVtML), "mL") + s.Unit.Render(fmt.Sprintf(" (%+.0f%% off it)", pl.OffTargetPct)))
 	add(s.kv(" Next holes", strings.Join(nb, ", "), "mL/kg"))
-	for _, r := range pl.FigureRows() {
+	for _, r := range report.PlanFigureRows(*pl) {
 		add(s.kv(" "+strings.TrimSpace(r.Label), r.Text, r.Unit))
 	}
-	add(s.Hint.Render(setup.DrivingNote))
+	add(s.Hint.Render(report.DrivingNote))
 	for _, c := range pl.Changes {
 		add(s.Label.Render(" Rounded ") + s.Unit.Render(c.What+": wanted "+trimFloat(c.Wanted)+", set "+trimFloat(c.Got)+" "+c.Unit))
 	}
@@ -129,7 +130,7 @@ func (p *settingPanel) details(pl *setup.Plan) string {
 			add(s.levelWord(c.Level) + " " + s.Caution.Render(c.Message))
 		}
 	}
-	for _, wl := range pl.WatchLines() {
+	for _, wl := range report.PlanWatchLines(*pl) {
 		if wl.Heading {
 			add(s.Section.Render(wl.Text))
 		} else {

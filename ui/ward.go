@@ -6,14 +6,16 @@ import (
 	"github.com/charmbracelet/bubbles/key"
 	tea "github.com/charmbracelet/bubbletea"
 
+	"crankside/logbook"
 	"crankside/profiles/safetext"
+	"crankside/report"
 	"crankside/setup"
 )
 
 // wardMsg is every bed's last check, read off the UI's goroutine.
 type wardMsg struct {
-	rows    []setup.WardRow
-	summary setup.LogSummary
+	rows    []logbook.WardRow
+	summary logbook.LogSummary
 	err     error
 }
 
@@ -21,8 +23,8 @@ type wardMsg struct {
 // overdue, then warn); Enter starts the next check of the chosen bed from
 // its record.
 type wardView struct {
-	rows    []setup.WardRow
-	summary setup.LogSummary
+	rows    []logbook.WardRow
+	summary logbook.LogSummary
 	err     error
 	loading bool
 	cursor  int
@@ -44,7 +46,7 @@ func (m *Model) readWard() tea.Cmd {
 	m.ward = &wardView{loading: true, styles: m.styles}
 	path, now := m.logPath, m.now()
 	return func() tea.Msg {
-		rows, sum, err := setup.WardRows([]string{path}, now, 0)
+		rows, sum, err := logbook.WardRows([]string{path}, now, 0)
 		return wardMsg{rows: rows, summary: sum, err: err}
 	}
 }
@@ -233,7 +235,7 @@ func (w *wardView) lines(width int) (lines []string, top, bottom int) {
 			mark, st = "> ", s.FieldFocused
 			top = len(lines)
 		}
-		add(mark + s.withLevels(safetext.Escape(setup.WardLine(r)), st))
+		add(mark + s.withLevels(safetext.Escape(report.WardLine(r)), st))
 		if i == w.cursor {
 			bottom = len(lines) - 1
 		}

@@ -12,6 +12,7 @@ import (
 	"github.com/charmbracelet/x/exp/teatest"
 	"github.com/stretchr/testify/require"
 
+	"crankside/logbook"
 	"crankside/physiology"
 	"crankside/setup"
 )
@@ -25,7 +26,7 @@ func recordCheck(t *testing.T, logPath, bed string, heightCm float64, sex physio
 	require.NoError(t, err)
 	rec, err := setup.NewRecord(ck, bed, "jk", at)
 	require.NoError(t, err)
-	require.NoError(t, setup.AppendRecord(logPath, rec))
+	require.NoError(t, logbook.AppendRecord(logPath, rec))
 }
 
 func wardLog(t *testing.T) string {

@@ -3,12 +3,14 @@ package cli
 import (
 	"errors"
 	"fmt"
+	"io"
 	"os"
 	"strings"
 	"time"
 
 	"crankside/profiles"
 	"crankside/profiles/safetext"
+	"crankside/report"
 	"crankside/setup"
 )
 
@@ -71,7 +73,7 @@ func runCalibrate(env Env) int {
 		if bad := res.Unwritable(); len(bad) > 0 {
 			ids := make([]string, len(bad))
 			for i, c := range bad {
-				ids[i] = setup.LevelWord(c.Level) + " " + c.ID
+				ids[i] = setup.LevelWord(c.Level) + " " + string(c.ID)
 			}
 			fmt.Fprintf(env.Stderr, "crankside calibrate: nothing written: the fit is implausible (%s: %s); re-measure on the bench, or run without --write to see the whole fit\n",
 				strings.Join(ids, ", "), safetext.Escape(bad[0].Message))
@@ -87,7 +89,7 @@ func runCalibrate(env Env) int {
 	if asJSON() {
 		return writeJSON(env, setup.FormatCalibrationJSON, res.JSON(write()))
 	}
-	if status := writeText(env, "calibrate", res.WriteText); status != ExitOK {
+	if status := writeText(env, "calibrate", func(w io.Writer) error { return report.CalibrationText(w, res) }); status != ExitOK {
 		return status
 	}
 	if write() {

@@ -2,11 +2,14 @@ package cli
 
 import (
 	"fmt"
+	"io"
 	"strings"
 	"time"
 
+	"crankside/logbook"
 	"crankside/profiles"
 	"crankside/profiles/safetext"
+	"crankside/report"
 	"crankside/setup"
 )
 
@@ -176,9 +179,9 @@ func runCheck(env Env) int {
 	case o.asJSON():
 		status = writeJSON(env, setup.FormatCheckJSON, ck.JSON())
 	case o.card():
-		status = writeText(env, "check", rec.WriteCard)
+		status = writeText(env, "check", func(w io.Writer) error { return report.WriteCard(w, rec) })
 	default:
-		status = writeText(env, "check", ck.WriteText)
+		status = writeText(env, "check", func(w io.Writer) error { return report.CheckText(w, ck) })
 	}
 	if status != ExitOK {
 		return status
@@ -218,9 +221,9 @@ func (o checkOptions) outputProblem() string {
 // checkSheet prints the bedside sheet; with --log the record is appended
 // first, so that the sheet's last record is one that was written.
 func checkSheet(env Env, ck setup.Check, rec setup.Record, unit string, o checkOptions) int {
-	sheet := ck.Sheet(unit, setup.BedKey(o.bed()), time.Now())
+	sheet := report.CheckSheet(ck, unit, setup.BedKey(o.bed()), time.Now())
 	if o.logPath() != "" {
-		if err := setup.AppendRecord(o.logPath(), rec); err != nil {
+		if err := logbook.AppendRecord(o.logPath(), rec); err != nil {
 			fmt.Fprintf(env.Stderr, "crankside check: the check was NOT recorded, so no sheet is printed: %s\n", safetext.Escape(err.Error()))
 			return ExitFailure
 		}
@@ -242,7 +245,7 @@ func everyEntered(text string) time.Duration {
 
 func appendRecord(env Env, rec setup.Record, o checkOptions) int {
 	path := o.logPath()
-	if err := setup.AppendRecord(path, rec); err != nil {
+	if err := logbook.AppendRecord(path, rec); err != nil {
 		fmt.Fprintf(env.Stderr, "crankside check: the check above was NOT recorded: %s\n", safetext.Escape(err.Error()))
 		return ExitFailure
 	}

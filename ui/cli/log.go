@@ -6,8 +6,10 @@ import (
 	"strings"
 	"time"
 
+	"crankside/logbook"
 	"crankside/physiology"
 	"crankside/profiles/safetext"
+	"crankside/report"
 	"crankside/setup"
 )
 
@@ -40,7 +42,7 @@ within 5 min are shown with a conflict note; the ward row is the one with the
 louder caution, whatever the order of --log.
 
 --json prints one object: "format" (crankside-history/2 for show,
-crankside-ward/2 for beds), "model_version", "program_version", then
+crankside-ward/3 for beds), "model_version", "program_version", then
 "beds" and "problems" (the damaged lines, as on stderr).
 
 Exit status: 0 read; 1 a damaged line or a skipped log (stderr says which);
@@ -74,7 +76,7 @@ func runLog(env Env) int {
 
 // summarise prints a few damaged lines and a count on stderr; it says
 // whether there were any.
-func summarise(env Env, cmd string, sum setup.LogSummary) bool {
+func summarise(env Env, cmd string, sum logbook.LogSummary) bool {
 	for _, l := range sum.Lines() {
 		fmt.Fprintf(env.Stderr, "crankside %s: %s\n", cmd, safetext.Escape(l))
 	}
@@ -87,7 +89,7 @@ func summarise(env Env, cmd string, sum setup.LogSummary) bool {
 // tells the caller to exit 1 once the rest is printed; done means stop
 // now with status.
 func expandLogs(env Env, cmd string, logs []string) (files []string, skipped bool, status int, done bool) {
-	files, skips, err := setup.ExpandLogFolders(logs)
+	files, skips, err := logbook.ExpandLogFolders(logs)
 	if err != nil {
 		return nil, false, UsageError(env.Stderr, cmd, err.Error()), true
 	}
@@ -130,7 +132,7 @@ func runLogShow(env Env, args []string) int {
 	if done {
 		return status
 	}
-	hist, sum, err := setup.ReadHistories(files, bed(), 0)
+	hist, sum, err := logbook.ReadHistories(files, bed(), 0)
 	if err != nil {
 		return UsageError(env.Stderr, "log show", err.Error())
 	}
@@ -146,10 +148,10 @@ func runLogShow(env Env, args []string) int {
 	return status
 }
 
-func logJSON(hist []setup.BedHistory, sum setup.LogSummary) any {
+func logJSON(hist []logbook.BedHistory, sum logbook.LogSummary) any {
 	type bedJSON struct {
-		Bed    string               `json:"bed"`
-		Checks []setup.HistoryEntry `json:"checks"`
+		Bed    string                 `json:"bed"`
+		Checks []logbook.HistoryEntry `json:"checks"`
 	}
 	out := struct {
 		Beds     []bedJSON `json:"beds"`
@@ -162,7 +164,7 @@ func logJSON(hist []setup.BedHistory, sum setup.LogSummary) any {
 	return out
 }
 
-func writeHistory(w io.Writer, hist []setup.BedHistory, bed string, manyLogs bool) error {
+func writeHistory(w io.Writer, hist []logbook.BedHistory, bed string, manyLogs bool) error {
 	var b strings.Builder
 	switch {
 	case len(hist) == 0 && bed == "":
@@ -173,8 +175,8 @@ func writeHistory(w io.Writer, hist []setup.BedHistory, bed string, manyLogs boo
 	for _, h := range hist {
 		fmt.Fprintf(&b, "Bed %s: %d check(s), newest first\n", h.Bed, len(h.Entries))
 		for _, e := range h.Entries {
-			fmt.Fprintf(&b, "  %s\n", setup.HistoryLine(e.Record))
-			if p := setup.ProposalLine(e.Record); p != "" {
+			fmt.Fprintf(&b, "  %s\n", report.HistoryLine(e.Record))
+			if p := report.ProposalLine(e.Record); p != "" {
 				fmt.Fprintf(&b, "      proposed: %s\n", p)
 			}
 			if len(e.Changes) > 0 {
@@ -206,18 +208,18 @@ func runLogBeds(env Env, args []string) int {
 	if done {
 		return status
 	}
-	rows, sum, err := setup.WardRows(files, time.Now(), interval)
+	rows, sum, err := logbook.WardRows(files, time.Now(), interval)
 	if err != nil {
 		return UsageError(env.Stderr, "log beds", err.Error())
 	}
 	damaged := summarise(env, "log beds", sum) || skipped
 	if asJSON() {
 		if rows == nil {
-			rows = []setup.WardRow{}
+			rows = []logbook.WardRow{}
 		}
 		status = writeJSON(env, setup.FormatWardJSON, struct {
-			Beds     []setup.WardRow `json:"beds"`
-			Problems []string        `json:"problems"`
+			Beds     []logbook.WardRow `json:"beds"`
+			Problems []string          `json:"problems"`
 		}{rows, append([]string{}, sum.Lines()...)})
 	} else {
 		status = writeText(env, "log beds", func(w io.Writer) error { return writeBeds(w, rows, interval, len(sum.Logs) > 1) })
@@ -228,11 +230,11 @@ func runLogBeds(env Env, args []string) int {
 	return status
 }
 
-func writeBeds(w io.Writer, rows []setup.WardRow, every time.Duration, manyLogs bool) error {
+func writeBeds(w io.Writer, rows []logbook.WardRow, every time.Duration, manyLogs bool) error {
 	var b strings.Builder
 	fmt.Fprintf(&b, "%d bed(s), most urgent first; OVERDUE after %g h (%s)\n", len(rows), every.Hours(), setup.CheckEverySource)
 	for _, r := range rows {
-		b.WriteString(setup.WardLine(r))
+		b.WriteString(report.WardLine(r))
 		if manyLogs {
 			b.WriteString("  [" + r.Source + "]")
 		}

@@ -1,10 +1,13 @@
 package cli
 
 import (
+	"io"
 	"time"
 
+	"crankside/logbook"
 	"crankside/profiles"
 	"crankside/profiles/safetext"
+	"crankside/report"
 	"crankside/setup"
 )
 
@@ -76,7 +79,7 @@ func runPlan(env Env) int {
 	case sheet():
 		status = planSheet(env, pl, bed(), logPath(), every())
 	default:
-		status = writeText(env, "plan", pl.WriteText)
+		status = writeText(env, "plan", func(w io.Writer) error { return report.PlanText(w, pl) })
 	}
 	if status == ExitOK && pl.HighestLevel() == setup.Stop {
 		return ExitStop
@@ -108,10 +111,10 @@ func planSheetProblem(asJSON, sheet bool, bed, logPath, every string) string {
 // planSheet prints the plan's bedside sheet; with --log, the bed's last
 // recorded check and the next due.
 func planSheet(env Env, pl setup.Plan, bed, logPath, every string) int {
-	sh := pl.Sheet(time.Now())
+	sh := report.PlanSheet(pl, time.Now())
 	sh.Bed = setup.BedKey(bed)
 	if logPath != "" {
-		sc, err := setup.BedSchedule(logPath, bed, everyEntered(every))
+		sc, err := logbook.BedSchedule(logPath, bed, everyEntered(every))
 		if err != nil {
 			return UsageError(env.Stderr, "plan", "--log: "+safetext.Escape(err.Error()))
 		}

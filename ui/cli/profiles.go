@@ -3,12 +3,14 @@ package cli
 import (
 	"errors"
 	"fmt"
+	"io"
 	"sort"
 	"time"
 
 	"crankside/physiology"
 	"crankside/profiles"
 	"crankside/profiles/safetext"
+	"crankside/report"
 	"crankside/setup"
 )
 
@@ -123,7 +125,7 @@ func profilesShow(env Env, ref, dir string, asJSON bool) int {
 		return ExitFailure
 	}
 	fmt.Fprintf(env.Stdout, "%s (%s)\n", safetext.Escape(p.ID), safetext.Escape(src.String()))
-	return writeText(env, "profiles show", s.WriteText)
+	return writeText(env, "profiles show", func(w io.Writer) error { return report.ProfileText(w, s) })
 }
 
 func profilesValidate(env Env, path string) int {

@@ -8,6 +8,7 @@ import (
 	"github.com/charmbracelet/lipgloss"
 	"github.com/muesli/termenv"
 
+	"crankside/logbook"
 	"crankside/profiles"
 	"crankside/setup"
 	"crankside/ui"
@@ -18,7 +19,7 @@ import (
 // what the entry builder makes of them.
 func RunScreen(env Env) int {
 	f, profile, dir := planFlagSet("", TopUsage()+"\nFlags of the screen:\n")
-	logPath := f.text("log", setup.DefaultLogPath(), "the handover log the screen records checks in")
+	logPath := f.text("log", logbook.DefaultLogPath(), "the handover log the screen records checks in")
 	every := f.text("every", "", "hours between checks, for the bed's next check due on the status line (default 4, common practice)")
 	asJSON := f.boolean("json", "(for sub-commands only)")
 	if status, done := f.parse(env, env.Args, "", false); done {
