@@ -43,6 +43,7 @@ type historyReader struct {
 	bed    string
 	needle []byte                       // the bed label, for a pre-check before decoding
 	keep   int                          // records kept per bed (0: all)
+	window time.Duration                // and with keep, those within window of the newest (at most wardHoldMax)
 	keys   map[[sha256.Size]byte]string // a record's key: the log its kept copy came from
 	// ahead, when not zero, is the time after which a record is from the
 	// future (see FutureSkew): such records are kept apart, in future
@@ -96,7 +97,7 @@ func (h *historyReader) take(log string, logIdx int, d decodedLine) {
 	}
 	items := append(h.byBed[bed], it)
 	if h.keep > 0 && len(items) > 2*h.keep+16 {
-		items = newest(items, h.keep)
+		items = newestWithin(items, h.keep, h.window)
 	}
 	h.byBed[bed] = items
 }

@@ -50,21 +50,27 @@ func checkBreath(c, r, cc, durS, peep, startML float64) error {
 	return nil
 }
 
-// torqueTrack follows the crank torque and piston flow of a stroke as the
-// simulation passes each grid point.
+// torqueTrack follows the crank torque of a stroke as the simulation
+// passes each grid point (the peak piston flow, which does not depend on
+// the pressure, is the motion's).
 type torqueTrack struct {
-	dx, flows                 []float64
+	dx                        []float64
 	newtonPerCmH2O, frictionN float64
-	peakTorqueNm, peakFlow    float64
+	peakTorqueNm              float64
+}
+
+// peak is the highest torque followed, 0 when none was (tr nil).
+func (tr *torqueTrack) peak() float64 {
+	if tr == nil {
+		return 0
+	}
+	return tr.peakTorqueNm
 }
 
 func (tr *torqueTrack) at(i int, pistonCmH2O float64) {
 	force := pistonCmH2O*tr.newtonPerCmH2O + tr.frictionN
 	if t := math.Abs(TorqueNm(force, tr.dx[i])); t > tr.peakTorqueNm {
 		tr.peakTorqueNm = t
-	}
-	if q := tr.flows[i]; q > tr.peakFlow {
-		tr.peakFlow = q
 	}
 }
 

@@ -131,7 +131,9 @@ func (r *v2run) mark(i int, pistonCmH2O float64) {
 	if q > r.peakQ {
 		r.peakQ = q
 	}
-	r.tr.at(i, pistonCmH2O)
+	if r.tr != nil {
+		r.tr.at(i, pistonCmH2O)
+	}
 	if r.observe != nil {
 		r.observe(float64(i)*r.h, r.p+r.peep, r.f*q, r.f*r.v)
 	}
@@ -149,7 +151,7 @@ func (r *v2run) needML(pcCmH2O float64) float64 {
 	return r.cylinderML(r.x[0]) * pcCmH2O / (r.patm + pcCmH2O)
 }
 
-func (sim *Simulator) strokeV2(in StrokeInput, x []float64, tr *torqueTrack, h float64) (StrokeResult, error) {
+func (sim *Simulator) strokeV2(in StrokeInput, m *motion, tr *torqueTrack, h float64) (StrokeResult, error) {
 	g := in.Gas
 	f := g.BTPSFactor
 	if f == 0 {
@@ -159,7 +161,7 @@ func (sim *Simulator) strokeV2(in StrokeInput, x []float64, tr *torqueTrack, h f
 		f: f, cl: in.Lung.ComplianceMLPerCmH2O / f, rML: in.Lung.ResistanceCmH2OPerLS / 1000, cc: in.CircuitMLPerCmH2O,
 		g: LeakMLPerSPerCmH2O(g.LeakLPerMinAt20CmH2O), peep: in.PEEPCmH2O, patm: g.BarometricCmH2O,
 		reliefP: math.Inf(1), area: BoreAreaCm2(in.Stroke.BoreCm), head: g.HeadPositionCm,
-		gasOn: g.HeadPositionCm > 0 && !g.noCylinderGas, h: h, flows: tr.flows, x: x, tr: tr, observe: in.Observe,
+		gasOn: g.HeadPositionCm > 0 && !g.noCylinderGas, h: h, flows: m.flows, x: m.x, tr: tr, observe: in.Observe,
 	}
 	r.invCl, r.invR = 1/r.cl, 1/r.rML
 	if r.patm == 0 {
@@ -182,10 +184,8 @@ func (sim *Simulator) strokeV2(in StrokeInput, x []float64, tr *torqueTrack, h f
 		r.mark(0, r.p+r.peep)
 	}
 	r.deliver(i0)
-	for i := 1; i < len(r.flows); i++ {
-		r.out.PistonML += (r.flows[i-1] + r.flows[i]) / 2 * h
-	}
-	res := StrokeResult{PeakPistonFlowMLPerS: tr.peakFlow, PeakTorqueNm: tr.peakTorqueNm, Gas: r.out}
+	r.out.PistonML = m.pistonML
+	res := StrokeResult{PeakPistonFlowMLPerS: m.peakFlow, PeakTorqueNm: tr.peak(), Gas: r.out}
 	res.Gas.DeliveredRoomML = r.v - start
 	if r.g > 0 {
 		// Each step's exact map conserves volume, so the leak is what the
@@ -306,7 +306,9 @@ func (r *v2run) deliver(i0 int) {
 		if q > peakQ {
 			peakQ = q
 		}
-		tr.at(i+1, p+r.peep)
+		if tr != nil {
+			tr.at(i+1, p+r.peep)
+		}
 		if r.observe != nil {
 			r.observe(float64(i+1)*r.h, p+r.peep, r.f*q, r.f*v)
 		}

@@ -96,6 +96,10 @@ type StrokeInput struct {
 	// the leak, the relief valve); the zero value is the version 1 model,
 	// exactly.
 	Gas GasPath
+	// NoTorque leaves the crank torque out (PeakTorqueNm is then 0): a
+	// caller that needs only the pressures and volumes, as a fit's trial
+	// lungs do, saves following it at every step. Nothing else changes.
+	NoTorque bool
 }
 
 // StrokeResult is a simulated delivery with the crank torque it needs.
@@ -119,15 +123,18 @@ func SimulateStroke(in StrokeInput) (StrokeResult, error) {
 
 // Simulator runs strokes one after another and keeps what they share: the
 // exact one-step map of the last lung, circuit and step (a matrix
-// exponential, recomputed only when one of them changes) and the buffers of
-// piston motion, so a stroke allocates nothing once the buffers have grown.
-// The zero value is ready to use. A Simulator is not safe for use by more
-// than one goroutine at a time; give each goroutine its own. Its results
-// are exactly SimulateStroke's.
+// exponential, recomputed only when one of them changes) and the piston's
+// motion on the last strokes' grids (its position, dx/dtheta and flow at
+// every step, which depend on the crank, the speed and the step but not on
+// the lung), so that a fit running one stroke for many trial lungs
+// computes the crank's motion once, and a stroke allocates nothing once
+// the buffers have grown. The zero value is ready to use. A Simulator is
+// not safe for use by more than one goroutine at a time; give each
+// goroutine its own. Its results are exactly SimulateStroke's.
 type Simulator struct {
-	v1           stepperCache
-	v2           propCache
-	dx, x, flows []float64
+	v1     stepperCache
+	v2     propCache
+	motion motionCache
 }
 
 // SimulateStroke is the package function SimulateStroke, reusing the
@@ -154,36 +161,20 @@ func (sim *Simulator) SimulateStroke(in StrokeInput) (StrokeResult, error) {
 			return StrokeResult{}, err
 		}
 	}
-	sim.grow(n+1, v2)
-	var x []float64
+	m := sim.motion.get(in.Stroke, &k, n, h)
+	var tr *torqueTrack // nil: no torque asked for
+	if !in.NoTorque {
+		tr = &torqueTrack{dx: m.dx, frictionN: in.RingFrictionN,
+			newtonPerCmH2O: pascalPerCmH2O * BoreAreaCm2(in.Stroke.BoreCm) / 1e4}
+	}
 	if v2 {
-		x = sim.x[:n+1]
+		return sim.strokeV2(in, m, tr, h)
 	}
-	dx, flows := sim.dx[:n+1], sim.flows[:n+1]
-	k.fillMotion(dx, x, h)
-	for i, d := range dx {
-		flows[i] = k.flowPerDxDTheta * d
-	}
-	tr := torqueTrack{dx: dx, flows: flows, frictionN: in.RingFrictionN,
-		newtonPerCmH2O: pascalPerCmH2O * BoreAreaCm2(in.Stroke.BoreCm) / 1e4}
-	if v2 {
-		return sim.strokeV2(in, x, &tr, h)
-	}
-	b, err := runExact(sim.v1.get(c, r, cc, h), c, in.PEEPCmH2O, in.StartVolumeML, flows, in.Observe, &tr)
+	b, err := runExact(sim.v1.get(c, r, cc, h), c, in.PEEPCmH2O, in.StartVolumeML, m.flows, in.Observe, tr)
 	if err != nil {
 		return StrokeResult{}, err
 	}
-	return StrokeResult{Breath: b, PeakPistonFlowMLPerS: tr.peakFlow, PeakTorqueNm: tr.peakTorqueNm}, nil
-}
-
-// grow makes the buffers hold n samples; positions only when asked.
-func (sim *Simulator) grow(n int, positions bool) {
-	if cap(sim.dx) < n {
-		sim.dx, sim.flows = make([]float64, n), make([]float64, n)
-	}
-	if positions && cap(sim.x) < n {
-		sim.x = make([]float64, n)
-	}
+	return StrokeResult{Breath: b, PeakPistonFlowMLPerS: m.peakFlow, PeakTorqueNm: tr.peak()}, nil
 }
 
 // pascalPerCmH2O is the conventional centimetre of water (NIST SP 811,

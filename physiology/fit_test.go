@@ -90,6 +90,24 @@ func TestFitMechanicsNearGivesTheSameLung(t *testing.T) {
 	}
 }
 
+func TestFitMechanicsFromACoarseFit(t *testing.T) {
+	// The hand-worked C 25, R 15 of TestFitMechanicsSolvesBothEquations
+	// (peak 32.5, end 26.5), started from a lung a coarser model might
+	// give: reached to the full fit's residual of 1e-9 cmH2O, so within
+	// 1e-9 relative (derived: near the solution the readings move by about
+	// 500/C = 20 cmH2O per unit of log C and 0.4 x 15 = 6 per unit of
+	// log R, so a residual of 1e-9 leaves log C and log R within about
+	// 1e-10). A start that is no lung starts from the physical estimate.
+	for _, near := range []Mechanics{{ComplianceMLPerCmH2O: 25.01, ResistanceCmH2OPerLS: 14.99}, {ComplianceMLPerCmH2O: 31, ResistanceCmH2OPerLS: 9}, {}} {
+		m, err := FitMechanicsFrom(Readings{32.5, 26.5}, 5, near, equationOfMotion(5))
+		require.NoError(t, err)
+		require.InEpsilon(t, 25, m.ComplianceMLPerCmH2O, 1e-9, "from %+v", near)
+		require.InEpsilon(t, 15, m.ResistanceCmH2OPerLS, 1e-9, "from %+v", near)
+	}
+	_, err := FitMechanicsFrom(Readings{20, 5}, 5, Mechanics{ComplianceMLPerCmH2O: 50, ResistanceCmH2OPerLS: 10}, equationOfMotion(5))
+	require.ErrorIs(t, err, ErrNoMechanics, "an end at PEEP is refused whatever the start")
+}
+
 func TestFitComplianceFromEndAlone(t *testing.T) {
 	// Derived: at R 10 the end reading is 5 + 500/C + 1, so an end of 16
 	// gives C 50 and an end of 26 gives C 25 (Chatburn 2014 equation of

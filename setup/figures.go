@@ -85,7 +85,7 @@ func deliveredFromRestAt(u unit, h profiles.Hole, rpm float64, ls lungState, ste
 	s := u.stroke(h, rpm, u.cal.Calibration)
 	r, err := u.simulator().SimulateStroke(machine.StrokeInput{
 		Stroke: s, Lung: ls.lung, CircuitMLPerCmH2O: u.p.Circuit.ComplianceMLPerCmH2O, PEEPCmH2O: ls.peep,
-		StepS: stepS, Gas: u.gas.patientPath(),
+		StepS: stepS, Gas: u.gas.patientPath(), NoTorque: true, // a hole's figure from rest has no torque
 	})
 	if err != nil {
 		return HoleFigure{}, err
@@ -142,6 +142,7 @@ func evaluateFrom(u unit, h profiles.Hole, t machine.Timing, ls lungState, o2LPe
 			Stroke: u.stroke(h, t.RPM, u.cal.Calibration), Lung: ls.lung,
 			CircuitMLPerCmH2O: u.p.Circuit.ComplianceMLPerCmH2O, PEEPCmH2O: ls.peep,
 			StartVolumeML: f.TrappedML, RingFrictionN: u.p.Cylinder.RingFrictionN, Gas: u.gas.patientPath(), StepS: u.stepS,
+			NoTorque: u.pressuresOnly,
 		})
 		if err != nil {
 			return Figures{}, err

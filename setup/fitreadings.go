@@ -21,6 +21,7 @@ type readingsFit struct {
 }
 
 func newReadingsFit(u unit, s Setting, pbw float64, req CheckRequest, assumedR float64) readingsFit {
+	u.pressuresOnly = true // the fit and its ranges read no torque
 	return readingsFit{u: u, s: s, pbw: pbw, halfStep: manometerStep(req).Value / 2, assumedR: assumedR}
 }
 
@@ -39,15 +40,7 @@ func PeakAtRelief(peakCmH2O, reliefCmH2O, halfStepCmH2O float64) bool {
 // relief valve by more than half a step is no breath the model vents at
 // that pressure can give.
 func (rf readingsFit) fit(rd physiology.Readings, near *physiology.Mechanics) (physiology.Mechanics, error) {
-	h, _ := rf.u.p.HoleByLabel(rf.s.Hole)
-	t := machine.TimingOf(rf.s.RPM, rf.s.DwellS, rf.u.crank(h).DeliveryAngle())
-	model := func(c, r float64) (float64, float64, error) {
-		f, err := evaluate(rf.u, h, t, lungState{lung: machine.Lung{ComplianceMLPerCmH2O: c, ResistanceCmH2OPerLS: r}, peep: rf.s.PEEPCmH2O, pbwKg: rf.pbw}, 0, 0, 0)
-		if err != nil {
-			return 0, 0, err
-		}
-		return f.PeakCmH2O, f.EndInspCmH2O, nil
-	}
+	model := rf.model()
 	relief := rf.u.p.Circuit.ReliefCmH2O
 	switch {
 	case relief > 0 && rd.PeakCmH2O > relief+rf.halfStep:
@@ -57,6 +50,41 @@ func (rf readingsFit) fit(rd physiology.Readings, near *physiology.Mechanics) (p
 		return rf.fitAtRelief(rd, relief, near, model)
 	case near != nil:
 		return physiology.FitMechanicsNear(rd, rf.s.PEEPCmH2O, *near, model)
+	}
+	return rf.fitCoarseFirst(rd, model)
+}
+
+// model is the breath model's peak and end-inspiratory pressures for a
+// trial lung at this setting, trapped gas included.
+func (rf readingsFit) model() physiology.PressureModel {
+	h, _ := rf.u.p.HoleByLabel(rf.s.Hole)
+	t := machine.TimingOf(rf.s.RPM, rf.s.DwellS, rf.u.crank(h).DeliveryAngle())
+	return func(c, r float64) (float64, float64, error) {
+		f, err := evaluate(rf.u, h, t, lungState{lung: machine.Lung{ComplianceMLPerCmH2O: c, ResistanceCmH2OPerLS: r}, peep: rf.s.PEEPCmH2O, pbwKg: rf.pbw}, 0, 0, 0)
+		if err != nil {
+			return 0, 0, err
+		}
+		return f.PeakCmH2O, f.EndInspCmH2O, nil
+	}
+}
+
+// fitCoarseFirst fits the readings on the model at ScanStepS (a tenth of
+// the steps; its pressures are within about 1e-3 cmH2O of the 1 ms
+// model's), then from that lung on the model itself, to the same residual
+// as a fit from the physical start: the lung is the same to the fit's own
+// tolerance, found in a third of the full-step strokes. When the coarse
+// fit finds no lung, or the fine one fails from it, the readings are
+// fitted from the physical start as before, so that a refusal is always
+// the full-step model's.
+func (rf readingsFit) fitCoarseFirst(rd physiology.Readings, model physiology.PressureModel) (physiology.Mechanics, error) {
+	if rf.u.stepS != ScanStepS {
+		coarse := rf
+		coarse.u.stepS = ScanStepS
+		if cm, err := physiology.FitMechanics(rd, rf.s.PEEPCmH2O, coarse.model()); err == nil {
+			if m, err := physiology.FitMechanicsFrom(rd, rf.s.PEEPCmH2O, cm, model); err == nil {
+				return m, nil
+			}
+		}
 	}
 	return physiology.FitMechanics(rd, rf.s.PEEPCmH2O, model)
 }

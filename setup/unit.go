@@ -23,6 +23,10 @@ type unit struct {
 	// stepS is the time step of every stroke evaluate runs (0: the model's
 	// 1 ms); the fit ranges' corners use ScanStepS.
 	stepS float64
+	// pressuresOnly marks a unit whose evaluations serve a fit's trial
+	// lungs: their torque is left out (PeakTorqueNm 0), every other
+	// figure is the same.
+	pressuresOnly bool
 	// cylinderReserveBar is where an oxygen cylinder's time runs to
 	// (cautions_hazards.go); set with the request's cylinder.
 	cylinderReserveBar float64

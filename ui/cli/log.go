@@ -14,12 +14,14 @@ import (
 )
 
 var logUsage = []string{
-	"log show --log FILE|DIR [--log ...] [--bed LABEL] [--json]",
+	"log show --log FILE|DIR [--log ...] [--bed LABEL] [--limit N | --all] [--json]",
 	"log beds --log FILE|DIR [--log ...] [--every HOURS] [--json]",
 }
 
 const logLong = `show lists the handover checks, bed by bed, newest first, with what
-changed since the check before and which log (terminal) each came from.
+changed since the check before and which log (terminal) each came from: the
+newest 100 of each bed (--limit N for another number, --all for every one;
+memory then grows with the history), and a line counting the earlier ones.
 beds shows one row per bed: its last check, how long ago, the setting found,
 mL/kg, the highest caution, whether a change was proposed, and OVERDUE when
 the last check is older than --every hours (default 4: common practice; use
@@ -41,9 +43,10 @@ check: it is named beside it, with its year. Checks of one bed from two logs
 within 5 min are shown with a conflict note; the ward row is the one with the
 louder caution, whatever the order of --log.
 
---json prints one object: "format" (crankside-history/2 for show,
+--json prints one object: "format" (crankside-history/3 for show,
 crankside-ward/3 for beds), "model_version", "program_version", then
-"beds" and "problems" (the damaged lines, as on stderr).
+"beds" and "problems" (the damaged lines, as on stderr); each bed of show
+has "checks" (the newest shown), "checks_total" and "checks_not_shown".
 
 Exit status: 0 read; 1 a damaged line or a skipped log (stderr says which);
 2 a bad flag, or a log that cannot be opened.
@@ -125,14 +128,25 @@ func parseLogFlags(env Env, f *flags, logs *[]string, args []string, cmd string)
 func runLogShow(env Env, args []string) int {
 	f, logs, asJSON := logFlags("log show")
 	bed := f.text("bed", "", "only this bed")
+	limitText := f.text("limit", "", fmt.Sprintf("show each bed's newest N checks (default %d; the rest are counted)", logbook.HistoryShown))
+	all := f.boolean("all", "show every check (memory grows with the history)")
 	if status, done := parseLogFlags(env, f, logs, args, "log show"); done {
 		return status
+	}
+	limit, ie := logbook.HistoryLimit(limitText())
+	switch {
+	case ie != nil:
+		return UsageError(env.Stderr, "log show", "--limit: "+ie.Reason)
+	case all() && limitText() != "":
+		return UsageError(env.Stderr, "log show", "give --limit N or --all, not both")
+	case all():
+		limit = 0
 	}
 	files, skipped, status, done := expandLogs(env, "log show", *logs)
 	if done {
 		return status
 	}
-	hist, sum, err := logbook.ReadHistories(files, bed(), 0)
+	hist, sum, err := logbook.ReadHistories(files, bed(), limit)
 	if err != nil {
 		return UsageError(env.Stderr, "log show", err.Error())
 	}
@@ -152,13 +166,15 @@ func logJSON(hist []logbook.BedHistory, sum logbook.LogSummary) any {
 	type bedJSON struct {
 		Bed    string                 `json:"bed"`
 		Checks []logbook.HistoryEntry `json:"checks"`
+		Total  int                    `json:"checks_total"`
+		Hidden int                    `json:"checks_not_shown"`
 	}
 	out := struct {
 		Beds     []bedJSON `json:"beds"`
 		Problems []string  `json:"problems"`
 	}{Beds: []bedJSON{}, Problems: []string{}}
 	for _, h := range hist {
-		out.Beds = append(out.Beds, bedJSON{Bed: h.Bed, Checks: h.Entries})
+		out.Beds = append(out.Beds, bedJSON{Bed: h.Bed, Checks: h.Entries, Total: h.Total, Hidden: h.Total - len(h.Entries)})
 	}
 	out.Problems = append(out.Problems, sum.Lines()...)
 	return out
@@ -173,7 +189,11 @@ func writeHistory(w io.Writer, hist []logbook.BedHistory, bed string, manyLogs b
 		fmt.Fprintf(&b, "No checks recorded for bed %s.\n", safetext.Escape(bed))
 	}
 	for _, h := range hist {
-		fmt.Fprintf(&b, "Bed %s: %d check(s), newest first\n", h.Bed, len(h.Entries))
+		if n := len(h.Entries); n < h.Total {
+			fmt.Fprintf(&b, "Bed %s: %d checks, the newest %d first\n", h.Bed, h.Total, n)
+		} else {
+			fmt.Fprintf(&b, "Bed %s: %d check(s), newest first\n", h.Bed, n)
+		}
 		for _, e := range h.Entries {
 			fmt.Fprintf(&b, "  %s\n", report.HistoryLine(e.Record))
 			if p := report.ProposalLine(e.Record); p != "" {
@@ -188,6 +208,9 @@ func writeHistory(w io.Writer, hist []logbook.BedHistory, bed string, manyLogs b
 			if e.Conflict != "" {
 				fmt.Fprintf(&b, "      %s\n", e.Conflict)
 			}
+		}
+		if more := h.NotShown("--limit N or --all to see them"); more != "" {
+			fmt.Fprintf(&b, "  %s\n", more)
 		}
 	}
 	_, err := io.WriteString(w, b.String())

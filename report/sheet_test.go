@@ -1,4 +1,4 @@
-package setup_test
+package report_test
 
 import (
 	"bytes"
