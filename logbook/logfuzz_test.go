@@ -116,7 +116,7 @@ func FuzzStreamMatchesWhole(f *testing.F) {
 				}
 			}
 		}
-		wr := newWardReader(time.Date(9999, 12, 31, 0, 0, 0, 0, time.UTC), &sum) // no record is from the future here
+		wr := newWardScan(time.Date(9999, 12, 31, 0, 0, 0, 0, time.UTC), &sum) // no record is from the future here
 		if err := scanLog(bytes.NewReader(data), "x", &sum, wr.visit("x", 0)); err != nil {
 			t.Fatal(err)
 		}

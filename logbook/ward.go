@@ -1,7 +1,6 @@
 package logbook
 
 import (
-	"bytes"
 	"encoding/json"
 	"fmt"
 	"math"
@@ -146,50 +145,53 @@ func SortWardRows(rows []WardRow) {
 	})
 }
 
-// WardRows reads logs (files or folders of *.jsonl, see ExpandLogPaths)
+// WardRows reads logs (files or folders of *.jsonl, see ExpandLogFolders)
 // as a stream and returns one row per bed, from its newest record in any
 // of them, most urgent first (see SortWardRows). every is the interval
 // between checks: 0 means setup.DefaultCheckEvery; a negative one is refused.
 //
-// Each line's format, bed and time are found without decoding it; only
-// the few newest lines of each bed are decoded in full, so a damaged line
-// is counted in the summary when it is one of those (or has no record
-// shape), not when it lies further back behind a good newer record of its
-// bed. When a line turns out not to say what the quick look found, the
+// Each line's format, bed and time are read off its first keys without
+// decoding it (lineHeader); only the lines that can decide a row are
+// decoded and held to the writer's rules (see wardscan.go): each bed's
+// newest lines, those within ConflictWindow of its newest good one, and
+// its newest from the future. A damaged line is therefore counted in the
+// summary when it is one of those (or has no record shape), not when it
+// lies further back behind a good newer record of its bed (the bed its
+// first "bed" key names). When the lines held cannot tell a row, the
 // whole read is done again decoding every line. summary.Records counts
-// the lines that look like records; duplicates are not looked for, as an
-// identical copy cannot change a bed's row.
-func WardRows(paths []string, now time.Time, every time.Duration) ([]WardRow, LogSummary, error) {
+// the lines that look like records; a copy of a record is counted once
+// only among the lines decoded. More files than the limit
+// (DefaultMaxFiles, or MaxFiles) is a *TooManyFilesError before any is
+// read; WithProgress notes how far the read has got.
+func WardRows(paths []string, now time.Time, every time.Duration, opts ...ReadOption) ([]WardRow, LogSummary, error) {
 	if every < 0 {
 		return nil, LogSummary{}, &setup.InputError{Field: "every", Reason: fmt.Sprintf("%v: the interval between checks must be positive", every)}
 	}
 	if every == 0 {
 		every = setup.DefaultCheckEvery
 	}
-	files, err := ExpandLogPaths(paths)
+	c := configOf(opts)
+	files, _, err := expandLogPaths(paths, false, c)
 	if err != nil {
 		return nil, LogSummary{}, err
 	}
-	var sum LogSummary
-	w := newWardReader(now.Add(FutureSkew), &sum)
-	for i, path := range files {
-		if err := readOneLog(path, &sum, w.visit(path, i)); err != nil {
-			return nil, sum, err
-		}
+	rows, sum, exact, err := wardRowsScan(files, now, every, c.progress)
+	if err != nil {
+		return nil, sum, err
 	}
-	rows, exact := w.rows(now, every)
 	if !exact {
-		return wardRowsDecodingAll(files, now, every)
+		return wardRowsDecodingAll(files, now, every, c.progress)
 	}
 	SortWardRows(rows)
 	return rows, sum, nil
 }
 
 // wardRowsDecodingAll is the slow, exact way: every line decoded.
-func wardRowsDecodingAll(files []string, now time.Time, every time.Duration) ([]WardRow, LogSummary, error) {
+func wardRowsDecodingAll(files []string, now time.Time, every time.Duration, p *Progress) ([]WardRow, LogSummary, error) {
 	var sum LogSummary
 	h := newHistoryReader("", wardKeep, &sum)
-	h.ahead = now.Add(FutureSkew)
+	h.progress = p
+	h.ahead, h.window = now.Add(FutureSkew), ConflictWindow
 	if err := h.readFiles(files); err != nil {
 		return nil, sum, err
 	}
@@ -202,7 +204,7 @@ func wardRowsDecodingAll(files []string, now time.Time, every time.Duration) ([]
 	}
 	rows := make([]WardRow, 0, len(beds))
 	for b := range beds {
-		items := newest(h.byBed[b], h.keep)
+		items := newestWithin(h.byBed[b], h.keep, ConflictWindow)
 		var good []wardItem
 		for i := len(items) - 1; i >= 0; i-- {
 			good = append(good, wardItem{rec: items[i].rec, log: items[i].log, line: items[i].line, key: items[i].key})
@@ -231,160 +233,6 @@ type wardCandidate struct {
 
 func (a wardCandidate) before(b wardCandidate) bool {
 	return orderBefore(a.at, a.log, a.line, b.at, b.log, b.line)
-}
-
-// newWardReader reads records dated up to ahead as checks of now.
-func newWardReader(ahead time.Time, sum *LogSummary) *wardReader {
-	return &wardReader{beds: map[string][]wardCandidate{}, future: map[string]wardCandidate{}, ahead: ahead, sum: sum}
-}
-
-type wardReader struct {
-	beds   map[string][]wardCandidate
-	future map[string]wardCandidate // each bed's newest line dated after ahead
-	ahead  time.Time                // now + FutureSkew
-	sum    *LogSummary
-}
-
-func (w *wardReader) visit(log string, logIdx int) func(int, []byte) {
-	return func(n int, text []byte) {
-		bed, at, ok := quickHeader(text)
-		if !ok {
-			if bed, at, ok = decodedHeader(text); !ok {
-				w.sum.damaged(log, n, reasonJunk)
-				return
-			}
-		}
-		w.sum.Records++
-		bed = setup.BedKey(bed)
-		c := wardCandidate{at: at, log: log, logIdx: logIdx, line: n}
-		if at.After(w.ahead) {
-			if old, ok := w.future[bed]; !ok || old.before(c) {
-				c.text = append(old.text[:0], text...)
-				w.future[bed] = c
-			}
-			return
-		}
-		cs := w.beds[bed]
-		if len(cs) < wardKeep {
-			c.text = append([]byte(nil), text...)
-			w.beds[bed] = append(cs, c)
-			return
-		}
-		oldest := 0
-		for i := range cs {
-			if cs[i].before(cs[oldest]) {
-				oldest = i
-			}
-		}
-		if cs[oldest].before(c) {
-			c.text = append(cs[oldest].text[:0], text...) // reuse the evicted line's memory
-			cs[oldest] = c
-		}
-	}
-}
-
-// rows decodes each bed's newest good line, and those of other logs
-// within ConflictWindow of it; exact is false when a line's decoded bed
-// or time is not what the quick look found, or when every line held for
-// a bed was damaged (an older good line may lie further back).
-func (w *wardReader) rows(now time.Time, every time.Duration) (rows []WardRow, exact bool) {
-	beds := map[string]bool{}
-	for b := range w.beds {
-		beds[b] = true
-	}
-	for b := range w.future {
-		beds[b] = true
-	}
-	for bed := range beds {
-		cs := w.beds[bed]
-		sort.Slice(cs, func(i, j int) bool { return cs[j].before(cs[i]) })
-		var good []wardItem
-		for _, c := range cs {
-			if len(good) > 0 && good[0].rec.Time.Sub(c.at) > ConflictWindow {
-				break
-			}
-			it, ok, same := w.decode(bed, c)
-			if !same {
-				return nil, false
-			}
-			if ok {
-				good = append(good, it)
-			}
-		}
-		var fut *wardItem
-		if c, has := w.future[bed]; has {
-			it, ok, same := w.decode(bed, c)
-			if !same {
-				return nil, false
-			}
-			if ok {
-				fut = &it
-			}
-		}
-		if len(good) == 0 && (len(cs) > 0 || fut == nil) {
-			return nil, false
-		}
-		rows = append(rows, wardRowOf(good, fut, now, every))
-	}
-	return rows, true
-}
-
-// decode decodes a held line: ok when it is a good record (a damaged one
-// is counted), same when it says what the quick look found.
-func (w *wardReader) decode(bed string, c wardCandidate) (it wardItem, ok, same bool) {
-	rec, problem := decodeRecord(c.text)
-	if problem != "" {
-		w.sum.damaged(c.log, c.line, problem)
-		return wardItem{}, false, true
-	}
-	if setup.BedKey(rec.Bed) != bed || !rec.Time.Equal(c.at) {
-		return wardItem{}, false, false
-	}
-	return wardItem{rec: rec, log: c.log, line: c.line, key: recordKey(&rec, c.text)}, true, true
-}
-
-const (
-	recordPrefix = `{"format":"` + setup.RecordFormat + `","time":"`
-	bedAfterTime = `","bed":"`
-)
-
-// quickHeader reads the bed and time of a line written as this program
-// writes records (format, time and bed first, compact, no escapes in the
-// line) without decoding it. The rest of the line must not hold any of
-// those keys again (a later duplicate is what a decoder would keep); a
-// line with any backslash is left to decodedHeader, since an escaped key
-// could hide a duplicate.
-func quickHeader(text []byte) (bed string, at time.Time, ok bool) {
-	if !bytes.HasPrefix(text, []byte(recordPrefix)) || bytes.IndexByte(text, '\\') >= 0 {
-		return "", time.Time{}, false
-	}
-	rest := text[len(recordPrefix):]
-	i := bytes.Index(rest, []byte(bedAfterTime))
-	if i < 0 || i > 64 {
-		return "", time.Time{}, false
-	}
-	t := rest[:i]
-	rest = rest[i+len(bedAfterTime):]
-	j := bytes.IndexByte(rest, '"')
-	if j < 0 {
-		return "", time.Time{}, false
-	}
-	if repeatsHeaderKey(rest[j:]) {
-		return "", time.Time{}, false
-	}
-	at, err := time.Parse(time.RFC3339Nano, string(t))
-	if err != nil {
-		return "", time.Time{}, false
-	}
-	return string(rest[:j]), at, true
-}
-
-// repeatsHeaderKey reports whether text, free of escapes, holds the
-// string "format", "time" or "bed" anywhere: as a key at any depth, with
-// any spacing before its colon, or (harmlessly: the line is then decoded)
-// as a value.
-func repeatsHeaderKey(text []byte) bool {
-	return bytes.Contains(text, []byte(`"format"`)) || bytes.Contains(text, []byte(`"time"`)) || bytes.Contains(text, []byte(`"bed"`))
 }
 
 // decodedHeader decodes only a record's format, time and bed.

@@ -9,8 +9,8 @@ import (
 	"crankside/setup"
 )
 
-// BenchmarkQuickHeader is the per-line cost of the ward's quick look.
-func BenchmarkQuickHeader(b *testing.B) {
+// BenchmarkLineHeader is the per-line cost of the ward's quick look.
+func BenchmarkLineHeader(b *testing.B) {
 	rec := setup.Record{Format: setup.RecordFormat, Time: time.Date(2026, 12, 1, 9, 0, 0, 0, time.UTC), Bed: "B7", Initials: "AB"}
 	rec.MechanicsSource = "from memory: typical intubated adult values"
 	rec.Cautions = []setup.Caution{{ID: "calibration-missing", Level: setup.Warn, Message: "this machine has no bench calibration: volumes are geometric, before leaks", Unit: "days", Advice: "measure the delivered volume at the bedside; calibrate on a test lung", Source: "common practice"}}
@@ -22,7 +22,7 @@ func BenchmarkQuickHeader(b *testing.B) {
 	b.SetBytes(int64(len(line)))
 	b.ReportAllocs()
 	for i := 0; i < b.N; i++ {
-		if bed, _, ok := quickHeader(line); !ok || bed != "B7" {
+		if bed, _, ok := lineHeader(line); !ok || string(bed) != "B7" {
 			b.Fatalf("quick look failed on %s", line)
 		}
 	}

@@ -22,7 +22,7 @@ const (
 	FormatPlanJSON        = "crankside-plan/2"
 	FormatCheckJSON       = "crankside-check/2" // the check object; a log line is RecordFormat
 	FormatCalibrationJSON = "crankside-calibration/2"
-	FormatHistoryJSON     = "crankside-history/2"            // log show --json
+	FormatHistoryJSON     = "crankside-history/3"            // log show --json: /3 shows the newest checks and counts the rest
 	FormatWardJSON        = "crankside-ward/3"               // log beds --json: {"beds": [...], "problems": [...]}; /3: ml_per_kg null, not 0, for a bed whose readings no lung explains
 	FormatProfileListJSON = "crankside-profile-list/1"       // profiles list --json
 	FormatValidationJSON  = "crankside-profile-validation/1" // profiles validate --json

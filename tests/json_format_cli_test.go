@@ -50,7 +50,7 @@ func TestEveryJSONOutputCarriesItsFormatAndVersions(t *testing.T) {
 	}{
 		{[]string{"plan", "--height-cm", "175", "--sex", "male", "--json"}, "crankside-plan/2", 0},
 		{append(check, "--json"), "crankside-check/2", 0},
-		{[]string{"log", "show", "--log", logPath, "--json"}, "crankside-history/2", 0},
+		{[]string{"log", "show", "--log", logPath, "--json"}, "crankside-history/3", 0},
 		{[]string{"log", "beds", "--log", logPath, "--json"}, "crankside-ward/3", 0},
 		{[]string{"profiles", "list", "--profiles", profiles, "--json"}, "crankside-profile-list/1", 0},
 		{[]string{"calibrate", "--profile", profile, "--bench", bench, "--date", "2026-11-30", "--json"}, "crankside-calibration/2", 0},

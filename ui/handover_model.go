@@ -215,7 +215,7 @@ func (m *Model) history() tea.Cmd {
 	}
 	path := m.logPath
 	return func() tea.Msg {
-		h, sum, err := logbook.ReadBedHistory([]string{path}, bed, 0)
+		h, sum, err := logbook.ReadBedHistory([]string{path}, bed, logbook.HistoryShown)
 		return historyMsg{bed: bed, history: h, summary: sum, err: err}
 	}
 }
@@ -233,7 +233,11 @@ func (m *Model) showHistory(msg historyMsg) {
 		l = append(l, "No checks recorded for bed "+msg.bed+".")
 	default:
 		n := len(msg.history.Entries)
-		l = append(l, s.Label.Render(fmt.Sprintf("%d check%s, newest first (up/down, PgUp/PgDn scroll)", n, plural(n))))
+		if n < msg.history.Total {
+			l = append(l, s.Label.Render(fmt.Sprintf("%d checks, the newest %d first (up/down, PgUp/PgDn scroll)", msg.history.Total, n)))
+		} else {
+			l = append(l, s.Label.Render(fmt.Sprintf("%d check%s, newest first (up/down, PgUp/PgDn scroll)", n, plural(n))))
+		}
 		for _, e := range msg.history.Entries {
 			l = append(l, s.withLevels(safetext.Escape(report.HistoryLine(e.Record)), s.Value))
 			if p := report.ProposalLine(e.Record); p != "" {
@@ -242,6 +246,9 @@ func (m *Model) showHistory(msg historyMsg) {
 			if len(e.Changes) > 0 {
 				l = append(l, s.Label.Render("    changed since the one before: "+safetext.Escape(strings.Join(e.Changes, "; "))))
 			}
+		}
+		if more := msg.history.NotShown("log show --bed " + msg.bed + " --all lists them"); more != "" {
+			l = append(l, s.Label.Render(more))
 		}
 	}
 	for _, p := range msg.summary.Lines() {
