@@ -53,6 +53,8 @@ type historyReader struct {
 	byBed  map[string][]histItem
 	total  map[string]int
 	sum    *LogSummary
+	// progress, when not nil, is told of each file read (WithProgress).
+	progress *Progress
 }
 
 func (h *historyReader) visit(log string, logIdx int) func(int, []byte) {
@@ -263,7 +265,7 @@ func hexByte(hi, lo byte) int {
 // a bed label only that bed is kept, and a line is decoded only when the
 // label could be in it. Bed labels are matched and grouped whatever the
 // case of their letters (setup.BedKey): an older record of b4 is one of B4's.
-// paths are files or folders of *.jsonl logs (see ExpandLogPaths);
+// paths are files or folders of *.jsonl logs (see ExpandLogFolders);
 // records from several logs are merged by time, and a record found twice
 // (the same canonical JSON) is counted once.
 //
@@ -271,14 +273,18 @@ func hexByte(hi, lo byte) int {
 // CheckLogPath) stops the read with an error; damaged lines do not, and
 // are counted in the summary. Memory grows with the entries kept, not
 // with the size of the logs. The lines are decoded on every core, with
-// the same result as on one (see readFiles).
-func ReadHistories(paths []string, bed string, limit int) ([]BedHistory, LogSummary, error) {
+// the same result as on one (see readFiles). More files than the limit
+// (DefaultMaxFiles, or MaxFiles) is a *TooManyFilesError before any is
+// read; WithProgress notes how far the read has got.
+func ReadHistories(paths []string, bed string, limit int, opts ...ReadOption) ([]BedHistory, LogSummary, error) {
 	var sum LogSummary
-	files, err := ExpandLogPaths(paths)
+	c := configOf(opts)
+	files, _, err := expandLogPaths(paths, false, c)
 	if err != nil {
 		return nil, sum, err
 	}
 	h := newHistoryReader(bed, limit, &sum)
+	h.progress = c.progress
 	if err := h.readFiles(files); err != nil {
 		return nil, sum, err
 	}

@@ -6,6 +6,7 @@ import (
 	"io/fs"
 	"os"
 	"path/filepath"
+	"slices"
 	"strings"
 )
 
@@ -72,17 +73,6 @@ func CheckLogPath(path string) error {
 	return f.Close()
 }
 
-// ExpandLogPaths turns a list of logs and folders of logs into the files
-// to read: a folder stands for the *.jsonl files directly inside it (not
-// in sub-folders), in name order. A path named twice (or a file and its
-// folder) is read once. A symbolic link, given or found in a folder, is
-// refused later when opened; a folder with no log is an error, as is an
-// empty list.
-func ExpandLogPaths(paths []string) ([]string, error) {
-	files, _, err := expandLogPaths(paths, false)
-	return files, err
-}
-
 // SkippedLog is a log found by expanding a folder that fails the log checks
 // (a link, not a regular file, another user's, readable by others, or
 // unreadable): it is left out, and Err says why.
@@ -104,47 +94,43 @@ func (s SkippedLog) String() string {
 	return fmt.Sprintf("log %s skipped: %s; its beds are not shown", s.Path, why)
 }
 
-// ExpandLogFolders is ExpandLogPaths, except that a file found inside a
-// folder is opened once here and, when it fails the log checks, left out
+// ExpandLogFolders turns a list of logs and folders of logs into the
+// files to read: a folder stands for the *.jsonl files directly inside it
+// (not in sub-folders), in name order. A path named twice (or a file and
+// its folder) is read once. A symbolic link named directly is refused
+// later when opened; a folder with no log is an error, as is an empty
+// list. A file found inside a folder is opened once here and, when it fails the log checks, left out
 // and returned in skipped, so that one group-readable file does not hide
 // every other bed of the ward. A file named directly is not checked here:
-// opening it refuses it, as ExpandLogPaths does. The caller must say
+// opening it refuses it, as the readers do. The caller must say
 // loudly what was skipped (its beds are missing from what it shows).
-func ExpandLogFolders(paths []string) (files []string, skipped []SkippedLog, err error) {
-	return expandLogPaths(paths, true)
+//
+// More files than the limit (DefaultMaxFiles, or MaxFiles) is a
+// *TooManyFilesError, found before any file is opened. With a Progress,
+// the check of the files found in folders notes how far it has got.
+func ExpandLogFolders(paths []string, opts ...ReadOption) (files []string, skipped []SkippedLog, err error) {
+	return expandLogPaths(paths, true, configOf(opts))
 }
 
-func expandLogPaths(paths []string, skipBad bool) ([]string, []SkippedLog, error) {
+// logPath is a path to read: named (a file or what is not a folder) or
+// found in a folder.
+type logPath struct {
+	path     string
+	inFolder bool
+}
+
+// expandLogPaths lists what paths stand for (see ExpandLogFolders), refuses more files than
+// c.maxFiles (0: no limit) before opening any, then keeps each file once
+// and, with skipBad, checks each found in a folder.
+func expandLogPaths(paths []string, skipBad bool, c readConfig) ([]string, []SkippedLog, error) {
 	if len(paths) == 0 {
 		return nil, nil, errors.New("no log file given")
 	}
-	var out []string
-	var skipped []SkippedLog
-	var seen []os.FileInfo
-	add := func(p string, inFolder bool) {
-		st, err := os.Lstat(p)
-		if err == nil {
-			for _, s := range seen {
-				if os.SameFile(s, st) {
-					return
-				}
-			}
-			seen = append(seen, st)
-		}
-		if inFolder && skipBad {
-			f, err := openLogForRead(p)
-			if err != nil {
-				skipped = append(skipped, SkippedLog{Path: p, Err: err})
-				return
-			}
-			f.Close()
-		}
-		out = append(out, p)
-	}
+	var found []logPath
 	for _, p := range paths {
 		st, err := os.Lstat(p)
 		if err != nil || !st.IsDir() {
-			add(p, false) // opening it gives the precise refusal
+			found = append(found, logPath{path: p}) // opening it gives the precise refusal
 			continue
 		}
 		entries, err := os.ReadDir(p)
@@ -154,13 +140,51 @@ func expandLogPaths(paths []string, skipBad bool) ([]string, []SkippedLog, error
 		n := 0
 		for _, e := range entries { // ReadDir sorts by name
 			if filepath.Ext(e.Name()) == ".jsonl" {
-				add(filepath.Join(p, e.Name()), true)
+				found = append(found, logPath{path: filepath.Join(p, e.Name()), inFolder: true})
 				n++
 			}
 		}
 		if n == 0 {
 			return nil, nil, fmt.Errorf("log folder %s holds no *.jsonl log", p)
 		}
+	}
+	if c.maxFiles > 0 && len(found) > c.maxFiles {
+		return nil, nil, &TooManyFilesError{Files: len(found), Limit: c.maxFiles}
+	}
+	return keepOnce(found, skipBad, c.progress)
+}
+
+// keepOnce keeps each file once (the first time it is named) and, with
+// skipBad, leaves out those found in a folder that fail the log checks.
+func keepOnce(found []logPath, skipBad bool, p *Progress) ([]string, []SkippedLog, error) {
+	out := make([]string, 0, len(found))
+	var skipped []SkippedLog
+	ids := map[[2]uint64]bool{}
+	var seen []os.FileInfo // files the system gives no id for
+	p.begin("checking", len(found))
+	for _, f := range found {
+		p.step()
+		if st, err := os.Lstat(f.path); err == nil {
+			if id, ok := fileID(st); ok {
+				if ids[id] {
+					continue
+				}
+				ids[id] = true
+			} else if slices.ContainsFunc(seen, func(s os.FileInfo) bool { return os.SameFile(s, st) }) {
+				continue
+			} else {
+				seen = append(seen, st)
+			}
+		}
+		if f.inFolder && skipBad {
+			lf, err := openLogForRead(f.path)
+			if err != nil {
+				skipped = append(skipped, SkippedLog{Path: f.path, Err: err})
+				continue
+			}
+			lf.Close()
+		}
+		out = append(out, f.path)
 	}
 	return out, skipped, nil
 }

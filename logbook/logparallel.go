@@ -55,11 +55,13 @@ func decodeLine(n int, text []byte, bed string) decodedLine {
 // with the decoding spread over the cores.
 func (h *historyReader) readFiles(files []string) error {
 	workers := runtime.GOMAXPROCS(0)
+	h.progress.begin("reading", len(files))
 	if workers < 2 {
 		for i, path := range files {
 			if err := readOneLog(path, h.sum, h.visit(path, i)); err != nil {
 				return err
 			}
+			h.progress.step()
 		}
 		return nil
 	}
@@ -119,6 +121,7 @@ func (h *historyReader) readFiles(files []string) error {
 		if err != nil {
 			break
 		}
+		h.progress.step()
 	}
 	close(jobs)
 	close(pending)

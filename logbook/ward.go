@@ -145,7 +145,7 @@ func SortWardRows(rows []WardRow) {
 	})
 }
 
-// WardRows reads logs (files or folders of *.jsonl, see ExpandLogPaths)
+// WardRows reads logs (files or folders of *.jsonl, see ExpandLogFolders)
 // as a stream and returns one row per bed, from its newest record in any
 // of them, most urgent first (see SortWardRows). every is the interval
 // between checks: 0 means setup.DefaultCheckEvery; a negative one is refused.
@@ -160,33 +160,37 @@ func SortWardRows(rows []WardRow) {
 // first "bed" key names). When the lines held cannot tell a row, the
 // whole read is done again decoding every line. summary.Records counts
 // the lines that look like records; a copy of a record is counted once
-// only among the lines decoded.
-func WardRows(paths []string, now time.Time, every time.Duration) ([]WardRow, LogSummary, error) {
+// only among the lines decoded. More files than the limit
+// (DefaultMaxFiles, or MaxFiles) is a *TooManyFilesError before any is
+// read; WithProgress notes how far the read has got.
+func WardRows(paths []string, now time.Time, every time.Duration, opts ...ReadOption) ([]WardRow, LogSummary, error) {
 	if every < 0 {
 		return nil, LogSummary{}, &setup.InputError{Field: "every", Reason: fmt.Sprintf("%v: the interval between checks must be positive", every)}
 	}
 	if every == 0 {
 		every = setup.DefaultCheckEvery
 	}
-	files, err := ExpandLogPaths(paths)
+	c := configOf(opts)
+	files, _, err := expandLogPaths(paths, false, c)
 	if err != nil {
 		return nil, LogSummary{}, err
 	}
-	rows, sum, exact, err := wardRowsScan(files, now, every)
+	rows, sum, exact, err := wardRowsScan(files, now, every, c.progress)
 	if err != nil {
 		return nil, sum, err
 	}
 	if !exact {
-		return wardRowsDecodingAll(files, now, every)
+		return wardRowsDecodingAll(files, now, every, c.progress)
 	}
 	SortWardRows(rows)
 	return rows, sum, nil
 }
 
 // wardRowsDecodingAll is the slow, exact way: every line decoded.
-func wardRowsDecodingAll(files []string, now time.Time, every time.Duration) ([]WardRow, LogSummary, error) {
+func wardRowsDecodingAll(files []string, now time.Time, every time.Duration, p *Progress) ([]WardRow, LogSummary, error) {
 	var sum LogSummary
 	h := newHistoryReader("", wardKeep, &sum)
+	h.progress = p
 	h.ahead, h.window = now.Add(FutureSkew), ConflictWindow
 	if err := h.readFiles(files); err != nil {
 		return nil, sum, err

@@ -100,13 +100,15 @@ func (b *bedLines) letGo(at time.Time) {
 
 // wardRowsScan is the ward read of files (see WardRows): the rows and
 // exact as wardScan.rows gives them.
-func wardRowsScan(files []string, now time.Time, every time.Duration) ([]WardRow, LogSummary, bool, error) {
+func wardRowsScan(files []string, now time.Time, every time.Duration, p *Progress) ([]WardRow, LogSummary, bool, error) {
 	var sum LogSummary
 	w := newWardScan(now.Add(FutureSkew), &sum)
+	p.begin("reading", len(files))
 	for i, path := range files {
 		if err := readOneLog(path, &sum, w.visit(path, i)); err != nil {
 			return nil, sum, true, err
 		}
+		p.step()
 	}
 	rows, exact := w.rows(now, every)
 	return rows, sum, exact, nil

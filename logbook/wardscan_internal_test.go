@@ -208,9 +208,9 @@ func TestWardScanAgreesWithDecodingEveryLine(t *testing.T) {
 		dir := t.TempDir()
 		paths := genScanLogs(t, rng, dir, base)
 		now := scanDay
-		fast, fastSum, exact, err := wardRowsScan(paths, now, setup.DefaultCheckEvery)
+		fast, fastSum, exact, err := wardRowsScan(paths, now, setup.DefaultCheckEvery, nil)
 		require.NoError(t, err)
-		slow, slowSum, err := wardRowsDecodingAll(paths, now, setup.DefaultCheckEvery)
+		slow, slowSum, err := wardRowsDecodingAll(paths, now, setup.DefaultCheckEvery, nil)
 		require.NoError(t, err)
 		want := rowText(wardOracle(t, paths, now))
 		require.Equal(t, want, rowText(slow), "run %d: every line decoded", run)

@@ -220,3 +220,61 @@ func TestOxygenationIndices(t *testing.T) {
 		}
 	}
 }
+
+// The log's reader calls for a disagreement only when it holds by more
+// than 0.01 (a record keeps four decimals). Henderson-Hasselbalch (derived
+// by hand): pH 7.02, PaCO2 20: 0.6 x 10^0.92 = 4.9906 mmol/L, below 5 by
+// less than 0.01; pH 7.01: 4.88, below by more. On the high side, pH 7.4
+// and PaCO2 95.5: 2.865 x 10^1.3 = 57.16, inside; the check itself and
+// the reader agree.
+func TestRecordGasCautionsKeepAMargin(t *testing.T) {
+	rec := func(ph, co2 float64) *Record {
+		return &Record{CheckJSON: CheckJSON{GasReadings: &GasReadings{PH: gp(ph), PaCO2MmHg: gp(co2)}}}
+	}
+	require.NotNil(t, find(GasCautions(GasReadings{PH: gp(7.02), PaCO2MmHg: gp(20)}, roomAir), CautionGasReadingsDisagree), "the check: 4.9906 < 5")
+	require.Nil(t, find(RecordGasCautions(rec(7.02, 20)), CautionGasReadingsDisagree), "the reader: within 0.01")
+	require.NotNil(t, find(RecordGasCautions(rec(7.01, 20)), CautionGasReadingsDisagree), "the reader: 4.88")
+	// 0.03 x 40 x 10^(7.8 - 6.1) = 1.2 x 50.12 = 60.14 > 60.01; PaCO2
+	// 39.93: 60.04, still above; 39.9: 59.98 below 60.
+	require.NotNil(t, find(RecordGasCautions(rec(7.8, 40)), CautionGasReadingsDisagree))
+	require.Nil(t, find(RecordGasCautions(rec(7.8, 39.9)), CautionGasReadingsDisagree))
+	// SpO2 and PaO2 by Severinghaus (see TestGasCautionsAtTheirLimits):
+	// PaO2 30 allows up to 96.58 %: 96.585 is within 0.01, 96.6 beyond.
+	ox := func(spo2 float64) *Record {
+		return &Record{CheckJSON: CheckJSON{GasReadings: &GasReadings{SpO2Pct: gp(spo2), PaO2MmHg: gp(30)}}}
+	}
+	require.Nil(t, find(RecordGasCautions(ox(96.585)), CautionGasReadingsDisagree))
+	require.NotNil(t, find(RecordGasCautions(ox(96.6)), CautionGasReadingsDisagree))
+	require.Nil(t, RecordGasCautions(&Record{}), "no gas, nothing called for")
+	// oxygenation-high is judged on the record's PEEP alone (its FiO2 is
+	// an estimate the reader does not take): PEEP 12 above 8 calls for it,
+	// PEEP 8 does not.
+	hi := &Record{CheckJSON: CheckJSON{GasReadings: &GasReadings{PaO2MmHg: gp(120)}}}
+	hi.Setting.PEEPCmH2O = 12
+	require.NotNil(t, find(RecordGasCautions(hi), CautionOxygenationHigh))
+	hi.Setting.PEEPCmH2O = 8
+	require.Nil(t, find(RecordGasCautions(hi), CautionOxygenationHigh))
+}
+
+// A FiO2 of 0 is not known (a form still waiting); the bleed is echoed.
+func TestNewGasContext(t *testing.T) {
+	require.False(t, NewGasContext(0, 2, 5).FiO2Known)
+	c := NewGasContext(0.35, 4.5, 8)
+	require.True(t, c.FiO2Known)
+	require.Equal(t, "FiO2 0.35 (estimated from the O2 bleed, 4.5 L/min)", c.fio2Text())
+	require.Equal(t, 8.0, c.PEEPCmH2O)
+}
+
+// A pH and PaCO2 that disagree take the PaO2 of the same sample with them
+// out of the step; with the oximetry disagreeing too, both pairs go.
+func TestGasForStepSaysWhatItLeavesOut(t *testing.T) {
+	g := GasReadings{PH: gp(7.01), PaCO2MmHg: gp(20), PaO2MmHg: gp(70)}
+	fed, refused := gasForStep(g)
+	require.Nil(t, fed.PaO2MmHg)
+	require.Equal(t, "the gas readings disagree (gas-readings-disagree): pH, PaCO2 and the PaO2 of the same sample not used by the step", refused)
+	g.SpO2Pct = gp(99) // PaO2 70 allows at most S(140) + 6: above 100, so 99 agrees
+	g.PaO2MmHg = gp(30)
+	fed, refused = gasForStep(g)
+	require.Nil(t, fed.SpO2Pct)
+	require.Equal(t, "the gas readings disagree (gas-readings-disagree): pH and PaCO2, and SpO2 and PaO2 not used by the step", refused)
+}

@@ -339,3 +339,36 @@ func TestPressureCautionsSayTheirNumbers(t *testing.T) {
 	a.f.Hole.MLPerKg = 2
 	messageOf(t, assess(a), CautionTidalVolumeLow, Warn)
 }
+
+// Cautions of one level keep the order they were judged in (a stable sort,
+// most serious first): the volume before the pressures, the readings'
+// own stops before the unexplained one.
+func TestCautionsOfOneLevelKeepTheirOrder(t *testing.T) {
+	a := clean()
+	a.f.Hole.MLPerKg, a.f.PlateauCmH2O, a.f.DrivingCmH2O = 8.5, 31, 16
+	a.cal.AgeDays = 40
+	var ids []CautionID
+	for _, c := range assess(a) {
+		ids = append(ids, c.ID)
+	}
+	require.Equal(t, []CautionID{CautionTidalVolumeHigh, CautionPlateauHigh, CautionDrivingPressureHigh, CautionCalibrationOld}, ids)
+	rd := physiology.Readings{PeakCmH2O: 45, EndCmH2O: 5}
+	cs := checkCautions(&rd, 5, 42, "no lung", []Caution{{ID: CautionPEEPLow, Level: Warn}, {ID: CautionPatientTriggering, Level: Stop}})
+	ids = nil
+	for _, c := range cs {
+		ids = append(ids, c.ID)
+	}
+	require.Equal(t, []CautionID{CautionMeasuredPeakHigh, CautionMeasuredPeakAboveRelief, CautionMeasuredEndAtOrBelowPEEP,
+		CautionReadingsUnexplained, CautionPatientTriggering, CautionPEEPLow}, ids)
+	require.Equal(t, Stop, Highest(cs))
+	require.Equal(t, Level(0), Highest(nil))
+}
+
+// A calibration line is judged on the swept volumes the profile has: a
+// swept volume of 0 (not known) is skipped, not judged as a hole of 0 mL
+// that any positive offset would lift above its geometric volume.
+func TestCalibrationAboveSweptSkipsAnUnknownHole(t *testing.T) {
+	cal := clean().cal
+	cal.K, cal.BML, cal.SweptMinML = 0.9, 10, 0 // 1200 mL -> 1090 mL
+	require.Empty(t, calibrationCautions(cal))
+}

@@ -107,3 +107,37 @@ func TestLeakShareLimits(t *testing.T) {
 		require.Contains(t, cs[0].Advice, "find and fix the leak")
 	}
 }
+
+// What a peak at the relief valve still tells, by what the fit found: a
+// least resistance, the compliance alone, or no lung at all.
+func TestPeakAtReliefSaysWhatTheReadingsTell(t *testing.T) {
+	rd := &physiology.Readings{PeakCmH2O: 40, EndCmH2O: 30}
+	cs := fitCautions(rd, &physiology.Mechanics{ComplianceMLPerCmH2O: 22, ResistanceCmH2OPerLS: 9, EndOnly: true}, 40, 0.5, 422, oneCmH2O)
+	require.Len(t, cs, 1)
+	require.Equal(t, "the manometer reads a peak of 40.0 cmH2O, within half a 1 cmH2O step of this machine's relief valve at 40: the relief valve is venting: the breath is pressure-limited; the patient gets less than the hole delivers; what the readings still tell: compliance 22 mL/cmH2O from the end pressure alone (the resistance is assumed; the peak cannot tell it)", cs[0].Message)
+	require.Equal(t, "this machine's profile (relief pressure); manometer step: common practice", cs[0].Source)
+	cs = fitCautions(rd, nil, 40, 0.5, 422, oneCmH2O)
+	require.Len(t, cs, 1)
+	require.Contains(t, cs[0].Message, "; no lung could be fitted to the end pressure either")
+	require.Empty(t, fitCautions(nil, nil, 40, 0.5, 422, oneCmH2O), "no readings, no fit: nothing")
+}
+
+// The leak's share is judged only with a stroke and a leak.
+func TestLeakShareNeedsAStrokeAndALeak(t *testing.T) {
+	require.Empty(t, leakShareCautions(Figures{Hole: HoleFigure{EffectiveSweptML: 0}, LeakedML: 50}))
+	require.Empty(t, leakShareCautions(Figures{Hole: HoleFigure{EffectiveSweptML: 200}, LeakedML: 0}))
+	require.Empty(t, leakShareCautions(Figures{Hole: HoleFigure{EffectiveSweptML: -1}, LeakedML: 50}))
+}
+
+// A check's volumes are upper bounds when its readings suggest a leak or
+// its peak sat at the relief valve, and what the patient gets otherwise.
+func TestVolumeBoundNote(t *testing.T) {
+	require.Equal(t, "", Check{}.VolumeBoundNote())
+	leak := Check{Current: Evaluation{Cautions: []Caution{{ID: CautionPEEPLow}, {ID: CautionReadingsSuggestLeak, Level: Warn}}}}
+	require.Equal(t, LeakVolumeNote, leak.VolumeBoundNote())
+	relief := Check{Fitted: &physiology.Mechanics{EndOnly: true}}
+	require.Equal(t, ReliefVolumeNote, relief.VolumeBoundNote())
+	require.Equal(t, "", Check{Fitted: &physiology.Mechanics{}}.VolumeBoundNote())
+	require.Equal(t, "at most ", AtMost(CheckJSON{VolumeUpperBound: true}))
+	require.Equal(t, "", AtMost(CheckJSON{}))
+}

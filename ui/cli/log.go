@@ -1,6 +1,7 @@
 package cli
 
 import (
+	"errors"
 	"fmt"
 	"io"
 	"strings"
@@ -14,8 +15,8 @@ import (
 )
 
 var logUsage = []string{
-	"log show --log FILE|DIR [--log ...] [--bed LABEL] [--limit N | --all] [--json]",
-	"log beds --log FILE|DIR [--log ...] [--every HOURS] [--json]",
+	"log show --log FILE|DIR [--log ...] [--bed LABEL] [--limit N | --all] [--max-files N] [--json]",
+	"log beds --log FILE|DIR [--log ...] [--every HOURS] [--max-files N] [--json]",
 }
 
 const logLong = `show lists the handover checks, bed by bed, newest first, with what
@@ -33,7 +34,12 @@ record found in two logs (a copied file) is counted once. Damaged or torn
 lines are skipped, and summarised on stderr; earlier records stay. A log
 found in a folder that fails the log checks (readable by others, a link,
 another user's) is skipped and said on stderr, with exit 1 after the rest;
-a log named directly with --log is refused.
+a log named directly with --log is refused. A read of more than a second
+says how far it has got on stderr ("reading 12 000 of 100 000 files...").
+At most --max-files log files are read (default 10 000: a ward's folder holds
+a log per terminal, or per terminal and month, far fewer; a folder of more is
+more likely the wrong one, and takes a while): with more, nothing is read and
+the one line on stderr says how many were found (exit 2).
 
 A line the writer could not have written (a key twice or in another case, a
 bed label or initials it refuses, figures out of range or that disagree, a
@@ -90,9 +96,13 @@ func summarise(env Env, cmd string, sum logbook.LogSummary) bool {
 // stderr of each log found in a folder that it was skipped because it
 // fails the log checks (its beds are missing from what follows). skipped
 // tells the caller to exit 1 once the rest is printed; done means stop
-// now with status.
-func expandLogs(env Env, cmd string, logs []string) (files []string, skipped bool, status int, done bool) {
-	files, skips, err := logbook.ExpandLogFolders(logs)
+// now with status. More files than --max-files is one line, exit 2.
+func expandLogs(env Env, cmd string, logs []string, opts []logbook.ReadOption) (files []string, skipped bool, status int, done bool) {
+	files, skips, err := logbook.ExpandLogFolders(logs, opts...)
+	var tooMany *logbook.TooManyFilesError
+	if errors.As(err, &tooMany) {
+		return nil, false, UsageError(env.Stderr, cmd, fmt.Sprintf("--max-files: %s; to read them all, give --max-files %d", err, tooMany.Files)), true
+	}
 	if err != nil {
 		return nil, false, UsageError(env.Stderr, cmd, err.Error()), true
 	}
@@ -106,12 +116,25 @@ func expandLogs(env Env, cmd string, logs []string) (files []string, skipped boo
 	return files, len(skips) > 0, ExitOK, false
 }
 
-// logFlags are the flags both log sub-commands take: the logs, and JSON.
-func logFlags(cmd string) (f *flags, logs *[]string, asJSON func() bool) {
+// logFlags are the flags both log sub-commands take: the logs, how many
+// files they may be, and JSON.
+func logFlags(cmd string) (f *flags, logs *[]string, maxFiles func() string, asJSON func() bool) {
 	f = newFlags(cmd, help(logUsage, logLong)+"\nFlags:\n")
 	logs = f.repeated("log", "a log file or a folder of logs (may be repeated)")
+	maxFiles = f.text("max-files", "", "read at most N log files (default 10 000: more than a ward's folder holds)")
 	asJSON = f.boolean("json", "print JSON")
-	return f, logs, asJSON
+	return f, logs, maxFiles, asJSON
+}
+
+// readOptions are the log reads' options from --max-files, with a note of
+// progress on stderr; done means stop now with status.
+func readOptions(env Env, cmd, maxFiles string) (opts []logbook.ReadOption, status int, done bool) {
+	n, ie := logbook.MaxFilesEntry(maxFiles)
+	if ie != nil {
+		return nil, UsageError(env.Stderr, cmd, "--max-files: "+ie.Reason), true
+	}
+	note := func(s string) { fmt.Fprintf(env.Stderr, "crankside %s: %s\n", cmd, s) }
+	return []logbook.ReadOption{logbook.MaxFiles(n), logbook.WithProgress(logbook.NewProgress(note, 0, nil))}, ExitOK, false
 }
 
 // parseLogFlags parses them and refuses a command with no log.
@@ -126,7 +149,7 @@ func parseLogFlags(env Env, f *flags, logs *[]string, args []string, cmd string)
 }
 
 func runLogShow(env Env, args []string) int {
-	f, logs, asJSON := logFlags("log show")
+	f, logs, maxFiles, asJSON := logFlags("log show")
 	bed := f.text("bed", "", "only this bed")
 	limitText := f.text("limit", "", fmt.Sprintf("show each bed's newest N checks (default %d; the rest are counted)", logbook.HistoryShown))
 	all := f.boolean("all", "show every check (memory grows with the history)")
@@ -142,11 +165,15 @@ func runLogShow(env Env, args []string) int {
 	case all():
 		limit = 0
 	}
-	files, skipped, status, done := expandLogs(env, "log show", *logs)
+	opts, status, done := readOptions(env, "log show", maxFiles())
 	if done {
 		return status
 	}
-	hist, sum, err := logbook.ReadHistories(files, bed(), limit)
+	files, skipped, status, done := expandLogs(env, "log show", *logs, opts)
+	if done {
+		return status
+	}
+	hist, sum, err := logbook.ReadHistories(files, bed(), limit, opts...)
 	if err != nil {
 		return UsageError(env.Stderr, "log show", err.Error())
 	}
@@ -218,7 +245,7 @@ func writeHistory(w io.Writer, hist []logbook.BedHistory, bed string, manyLogs b
 }
 
 func runLogBeds(env Env, args []string) int {
-	f, logs, asJSON := logFlags("log beds")
+	f, logs, maxFiles, asJSON := logFlags("log beds")
 	every := f.text("every", "", "hours between checks before a bed is OVERDUE (default 4, common practice)")
 	if status, done := parseLogFlags(env, f, logs, args, "log beds"); done {
 		return status
@@ -227,11 +254,15 @@ func runLogBeds(env Env, args []string) int {
 	if ie != nil {
 		return UsageError(env.Stderr, "log beds", "--every: "+ie.Reason)
 	}
-	files, skipped, status, done := expandLogs(env, "log beds", *logs)
+	opts, status, done := readOptions(env, "log beds", maxFiles())
 	if done {
 		return status
 	}
-	rows, sum, err := logbook.WardRows(files, time.Now(), interval)
+	files, skipped, status, done := expandLogs(env, "log beds", *logs, opts)
+	if done {
+		return status
+	}
+	rows, sum, err := logbook.WardRows(files, time.Now(), interval, opts...)
 	if err != nil {
 		return UsageError(env.Stderr, "log beds", err.Error())
 	}
