@@ -108,7 +108,7 @@ type CautionRule struct {
 	Levels string
 	// Limits are its fixed limits (none when the limit is the machine's
 	// or the readings' own: the relief valve, the PEEP set, the wanted
-	// rate). A hook that judges by them judges with judge.
+	// rate). A hook judges by them with Judge (judged).
 	Limits []Limit
 	// Source is the source of the limit, or of the finding when it has no
 	// fixed limit (each Limit names its own).
