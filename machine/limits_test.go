@@ -286,3 +286,50 @@ func TestStepsAreReported(t *testing.T) {
 		require.InDelta(t, 60.0/42/1429, r.StepS, 1e-15, name)
 	}
 }
+
+func TestAStrokeAccountsForEveryMillilitre(t *testing.T) {
+	// Conservation of volume (derived: each step's exact map conserves
+	// it, DESIGN version 2): with no leak, what the piston displaced is what
+	// entered the lung (room volume), what compressing the cylinder's gas
+	// took, what the relief valve vented, and what the circuit's compliance
+	// holds at the end over the start (Cc x the rise in circuit pressure,
+	// which starts at V0/C above PEEP) - with and without the relief valve
+	// venting, on small and large holes. The piston's displacement is the
+	// hole's swept volume (78.54 cm2 x 2r) to the trapezoid rule's 1e-6.
+	for _, relief := range []float64{0, 14, 30} {
+		for _, radius := range []float64{1.4, 2.8, 6.2} {
+			in := demoStroke(radius)
+			in.Gas = demoGas()
+			in.Gas.LeakLPerMinAt20CmH2O = 0
+			in.Gas.ReliefCmH2O = relief
+			r := run(t, in)
+			rise := r.EndCmH2O - in.PEEPCmH2O - in.StartVolumeML/in.Lung.ComplianceMLPerCmH2O
+			shared := r.Gas.DeliveredRoomML + r.Gas.CompressionLossML + r.Gas.ReliefVentedML + in.CircuitMLPerCmH2O*rise
+			require.InDelta(t, r.Gas.PistonML, shared, 1e-8, "relief %v radius %v", relief, radius)
+			require.InEpsilon(t, math.Pi*25*2*radius, r.Gas.PistonML, 1e-6, "radius %v", radius)
+			if relief != 30 { // at 30 only the largest hole reaches the valve
+				require.Equal(t, relief == 14, r.Gas.PressureLimited, "relief %v radius %v", relief, radius)
+			}
+		}
+	}
+}
+
+func TestTheLeakIsConductanceTimesPressure(t *testing.T) {
+	// DESIGN version 2: Qleak = G x Pc, G = 2 L/min at 20 cmH2O = 1.6667
+	// mL/s per cmH2O. Integrated by the trapezoid rule over the circuit
+	// pressure the stroke reports at each grid point (from the valve's
+	// first opening step on too), it is the leak the stroke counts, to
+	// 1e-6.
+	for _, radius := range []float64{1.4, 2.8, 6.2} {
+		in := demoStroke(radius)
+		in.Gas = demoGas()
+		var ts, ps []float64
+		in.Observe = func(tS, pc, _, _ float64) { ts = append(ts, tS); ps = append(ps, pc) }
+		r := run(t, in)
+		want := 0.0
+		for i := 1; i < len(ts); i++ {
+			want += 2000.0 / 60 / 20 * (ps[i-1] + ps[i]) / 2 * (ts[i] - ts[i-1])
+		}
+		require.InEpsilon(t, want, r.Gas.LeakedML, 1e-6, "radius %v", radius)
+	}
+}
