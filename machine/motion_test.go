@@ -28,6 +28,18 @@ func TestSimulatorKeepsTheMotionOnlyForTheSameStroke(t *testing.T) {
 		func(in *StrokeInput) { in.Stroke.Crank.OffsetCm = 1.5 },
 		func(in *StrokeInput) { in.Stroke.Crank.RodCm = 25 },
 		func(in *StrokeInput) { in.Gas = GasPath{} },
+		// Version 1 keeps its exact step for the last lung, circuit and
+		// step: change each alone.
+		func(in *StrokeInput) { in.Gas = GasPath{}; in.Lung = Lung{25, 12} },
+		func(in *StrokeInput) { in.Gas = GasPath{}; in.Lung = Lung{25, 20} },
+		func(in *StrokeInput) { in.Gas = GasPath{}; in.Lung = Lung{25, 20}; in.CircuitMLPerCmH2O = 3 },
+		func(in *StrokeInput) {
+			in.Gas = GasPath{}
+			in.Lung = Lung{25, 20}
+			in.CircuitMLPerCmH2O = 3
+			in.StepS = 0.004
+		},
+		func(in *StrokeInput) { in.Gas = GasPath{}; in.Lung = Lung{25, 20}; in.CircuitMLPerCmH2O = 3 },
 	}
 	var sim Simulator
 	for i, change := range steps {

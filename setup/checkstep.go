@@ -9,7 +9,7 @@ import (
 )
 
 // A check with a blood gas or oximeter reading also carries the
-// protocol's next step (ProtocolProposal). How it meets a proposal entered
+// protocol's next step (protocolStep, in protocol.go). How it meets a proposal entered
 // by hand: the hand's proposal wins and is the one evaluated, since the
 // person may have taken the step and then changed a value, and the check
 // says so (ProposalFrom). Without a hand proposal the step is the
@@ -74,6 +74,7 @@ func runCheckWithStep(req CheckRequest, p profiles.Profile) (Check, error) {
 	if err != nil {
 		return Check{}, err
 	}
+	setting := ck // the setting's check, before the gas is judged: the step's starting point
 	ck.judgeGas(gas)
 	if ck.Unexplained() {
 		ck.ProtocolProblem = unexplainedNoStep
@@ -84,7 +85,7 @@ func runCheckWithStep(req CheckRequest, p profiles.Profile) (Check, error) {
 		ck.ProtocolProblem = "no protocol step: " + refused + "; re-take the gas, then the step is computed"
 		return ck, nil
 	}
-	res, err := ProtocolProposal(req, fed, p)
+	res, err := protocolStep(setting, req, fed, p)
 	if err != nil {
 		ck.ProtocolProblem = "no protocol step at this setting: " + err.Error()
 		return ck, nil

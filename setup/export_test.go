@@ -54,3 +54,23 @@ func FitCheckReadings(req CheckRequest, p profiles.Profile, rd physiology.Readin
 	u.gas = withRoom(u.gas, room, req.v1Gas)
 	return newReadingsFit(u, req.Setting, pbw, req, 10).fit(rd, nil)
 }
+
+// ProtocolProposal is the protocol's next step alone, for tests: the
+// check of req's setting (any proposal in req left out) and the step from
+// readings, as a check with gas readings computes it (protocolStep): the
+// hole nearest the new volume, the speed and dwell for the new rate at
+// the same I:E, the PEEP valve, and the O2 flow for the new FiO2 (held
+// FiO2 when only the minute ventilation changes), evaluated with the same
+// lung as the current setting (fitted to the readings when they fit) and
+// with its cautions, the machine's reach included.
+func ProtocolProposal(req CheckRequest, readings GasReadings, p profiles.Profile) (ProtocolStepResult, error) {
+	if bad := CheckGasEntries(readings); len(bad) > 0 {
+		return ProtocolStepResult{}, bad[0]
+	}
+	req.Proposal = Proposal{}
+	ck, err := RunCheck(req, p)
+	if err != nil {
+		return ProtocolStepResult{}, err
+	}
+	return protocolStep(ck, req, readings, p)
+}

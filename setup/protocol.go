@@ -57,20 +57,30 @@ type ProtocolStepResult struct {
 	Notes []string
 }
 
-// ProtocolProposal computes the protocol's next step from the readings at
-// the check's current setting, and the setting of this machine that makes
-// it: the hole nearest the new volume, the speed and dwell for the new rate
-// at the same I:E, the PEEP valve, and the O2 flow for the new FiO2 (held
-// FiO2 when only the minute ventilation changes). Any proposal in req is
-// replaced by the step's. The step's setting is evaluated with the same
-// lung as the current one (fitted to the readings when they fit) and with
-// its cautions, the machine's reach included.
-func ProtocolProposal(req CheckRequest, readings GasReadings, p profiles.Profile) (ProtocolStepResult, error) {
-	if bad := CheckGasEntries(readings); len(bad) > 0 {
-		return ProtocolStepResult{}, bad[0]
-	}
-	req.Proposal = Proposal{}
-	ck, err := RunCheck(req, p)
+// The protocol's next step at a check runs in four parts, each once:
+//
+//   - choose: physiology.NextProtocolStep reads the gas at the current
+//     setting and chooses the step (chooseStep);
+//   - place: setup puts the step on this machine, the hole and the rate
+//     settling together, then the speed and dwell, then the O2 flow for the
+//     placed breath (stepPlacer.place, giving a stepPlace);
+//   - evaluate: the placed setting is predicted with its cautions, the
+//     machine's reach and the hole's distance from the step's volume
+//     included (evaluateProposed);
+//   - describe: the machine's changes to the step, and notes that say in
+//     words what it did (describe).
+//
+// The check's request is read for the step's state (the lung, the
+// alveolar hold), the unit (the clock, the version 1 limit) and the
+// evaluation (the patient, the cylinder, the hazards); the check itself
+// is not run again.
+
+// protocolStep is the protocol's next step at ck, the check of req's
+// current setting, from gas readings already checked (CheckGasEntries).
+// A proposal ck carries is left out: the step is the proposal.
+func protocolStep(ck Check, req CheckRequest, readings GasReadings, p profiles.Profile) (ProtocolStepResult, error) {
+	ck.Proposed, ck.Differences = nil, nil
+	st, step, err := chooseStep(ck, req, readings)
 	if err != nil {
 		return ProtocolStepResult{}, err
 	}
@@ -80,6 +90,40 @@ func ProtocolProposal(req CheckRequest, readings GasReadings, p profiles.Profile
 	}
 	u.gas = ck.Gas // the check's room, cylinder, leak and relief valve
 	u.cylinderReserveBar = ck.Current.Figures.CylinderReserveBar
+	res := ProtocolStepResult{Readings: readings, Step: step, Check: ck,
+		TargetMLPerKg: step.MLPerKg, TargetVtML: step.MLPerKg * ck.PBWKg}
+	ls := lungState{lung: machine.Lung{ComplianceMLPerCmH2O: ck.Mechanics.Value, ResistanceCmH2OPerLS: ck.Resistance.Value},
+		peep: step.PEEPCmH2O, pbwKg: ck.PBWKg}
+
+	pl, err := res.placer(u, st, ls).place()
+	if err != nil {
+		return ProtocolStepResult{}, err
+	}
+	res.Proposed, res.Timing = pl.setting, pl.timing
+	if err := checkSetting(u, res.Proposed, "propose-"); err != nil {
+		return ProtocolStepResult{}, err
+	}
+	ev, err := res.evaluateProposed(u, ls, req)
+	if err != nil {
+		return ProtocolStepResult{}, err
+	}
+	if !finiteFigures(ev.Figures) {
+		return ProtocolStepResult{}, &InputError{Field: "readings", Reason: "the model gave no finite figures for the protocol's step"}
+	}
+	res.describe(u, pl)
+
+	res.RateBPM, res.FiO2 = ev.Figures.Timing.RateBPM, ev.Figures.FiO2
+	if res.Proposed != ck.Current.Setting {
+		res.Check.Proposed = &ev
+		res.Check.Differences = differences(ck.Current.Figures, ev.Figures)
+	}
+	return res, nil
+}
+
+// chooseStep is the physiology's part: the state now (the check's
+// current figures, its plateau predicted or fitted to the readings) and
+// the step the protocol's rules choose from the readings.
+func chooseStep(ck Check, req CheckRequest, readings GasReadings) (physiology.ProtocolState, physiology.ProtocolStep, error) {
 	cur := ck.Current
 	plateauSrc := "predicted; compliance " + ck.Mechanics.Source
 	if ck.Fitted != nil {
@@ -94,101 +138,136 @@ func ProtocolProposal(req CheckRequest, readings GasReadings, p profiles.Profile
 	}
 	step, err := physiology.NextProtocolStep(st, readings)
 	if err != nil {
-		// The readings were checked above: what is left is the setting.
-		return ProtocolStepResult{}, &InputError{Field: "setting", Reason: "no protocol step at this setting: " + err.Error()}
+		// The readings were checked before: what is left is the setting.
+		return st, step, &InputError{Field: "setting", Reason: "no protocol step at this setting: " + err.Error()}
 	}
-	res := ProtocolStepResult{Readings: readings, Step: step, Check: ck,
-		TargetMLPerKg: step.MLPerKg, TargetVtML: step.MLPerKg * ck.PBWKg}
-	lung := machine.Lung{ComplianceMLPerCmH2O: ck.Mechanics.Value, ResistanceCmH2OPerLS: ck.Resistance.Value}
-	ls := lungState{lung: lung, peep: step.PEEPCmH2O, pbwKg: ck.PBWKg}
-	if err := res.placeOnMachine(u, st, ls); err != nil {
-		return ProtocolStepResult{}, err
-	}
-	if err := checkSetting(u, res.Proposed, "propose-"); err != nil {
-		return ProtocolStepResult{}, err
-	}
-	ev, err := res.evaluateProposed(u, ls, req)
-	if err != nil {
-		return ProtocolStepResult{}, err
-	}
-	res.RateBPM, res.FiO2 = ev.Figures.Timing.RateBPM, ev.Figures.FiO2
-	if res.Proposed != cur.Setting {
-		res.Check.Proposed = &ev
-		res.Check.Differences = differences(cur.Figures, ev.Figures)
-	}
-	if !finiteFigures(ev.Figures) {
-		return ProtocolStepResult{}, &InputError{Field: "readings", Reason: "the model gave no finite figures for the protocol's step"}
-	}
-	return res, nil
+	return st, step, nil
 }
 
-// placeOnMachine chooses the hole, speed, dwell and O2 flow for the step.
-// The hole and the timing settle together, as in MakePlan: with an offset
-// crank the delivery angle, and so the speed for a Ti, depends on the hole.
-func (res *ProtocolStepResult) placeOnMachine(u unit, st physiology.ProtocolState, ls lungState) error {
+// stepPlacer puts a chosen step on this machine.
+type stepPlacer struct {
+	u        unit
+	cur      Setting
+	curIE    float64 // I:E now (E of 1:E)
+	step     physiology.ProtocolStep
+	st       physiology.ProtocolState
+	ls       lungState // the step's PEEP on the check's lung
+	targetML float64   // the step's tidal volume at this PBW
+	// scales: the step's rate was computed for the step's volume, so that
+	// a hole delivering another volume needs another rate
+	// (rateScalesWithVt).
+	scales bool
+}
+
+func (res *ProtocolStepResult) placer(u unit, st physiology.ProtocolState, ls lungState) stepPlacer {
 	cur := res.Check.Current
-	hole, _ := u.p.HoleByLabel(cur.Setting.Hole)
-	rpm, dwell := cur.Setting.RPM, cur.Setting.DwellS
-	ie := cur.Figures.Timing.IE
-	if res.Step.RateChanged && ie < physiology.IEMin {
-		res.note(fmt.Sprintf("I:E now 1:%.2f is inverse; the new rate is planned at 1:1", ie))
-		ie = physiology.IEMin
+	return stepPlacer{u: u, cur: cur.Setting, curIE: cur.Figures.Timing.IE, step: res.Step, st: st, ls: ls,
+		targetML: res.TargetVtML, scales: res.rateScalesWithVt()}
+}
+
+// stepPlace is the step on this machine, and what the machine did to it
+// on the way, for describe to say.
+type stepPlace struct {
+	setting Setting
+	timing  *machine.TimingPlan // nil when the rate did not change: speed and dwell kept
+	breath  HoleFigure          // the placed hole's breath from rest at the placed speed
+	// inverseIE: the I:E now is inverse and the new rate is planned at 1:1.
+	inverseIE bool
+	hole      holePick
+	// lengthenedFrom is the rate above the protocol's 35 /min that the
+	// dwell's rounding gave before the dwell was made one step longer; 0
+	// when it was not.
+	lengthenedFrom float64
+	o2             o2Pick
+}
+
+// holePick is why the step's hole is the one it is, when that is not
+// simply the hole nearest the step's volume.
+type holePick struct {
+	inUse   string // the hole in use, when it is the nearest the step's volume ("" otherwise)
+	smaller bool   // the next smaller hole is taken so that a plateau step takes effect
+}
+
+// o2Pick is the O2 flow of the placed breath.
+type o2Pick struct {
+	flow float64 // L/min
+	set  bool    // set for the placed breath (false: the breath and FiO2 are unchanged, the flow kept)
+	fio2 float64 // the FiO2 the flow was set for
+	// intake is the piston's intake of the placed breath, L/min.
+	intake float64
+}
+
+// place puts the step on the machine: the hole and the rate first, then
+// the speed and dwell for that rate at the same I:E, then the O2 flow for
+// the FiO2 at the placed breath's intake.
+func (pc stepPlacer) place() (stepPlace, error) {
+	var pl stepPlace
+	ie := pc.curIE
+	if pc.step.RateChanged && ie < physiology.IEMin {
+		pl.inverseIE, ie = true, physiology.IEMin
 	}
-	want := res.Step.RateBPM
-	for pass := 0; pass < 4 && res.Step.VtChanged; pass++ {
-		if res.Step.RateChanged {
-			tp, err := machine.PlanTiming(u.motor, u.controller, u.crank(hole).DeliveryAngle(), want, ie)
+	hole, pick, want, err := pc.holeAndRate(ie)
+	if err != nil {
+		return pl, err
+	}
+	pl.hole = pick
+	pl.setting = Setting{Hole: hole.Label, RPM: pc.cur.RPM, DwellS: pc.cur.DwellS, PEEPCmH2O: pc.step.PEEPCmH2O, O2LPerMin: pc.cur.O2LPerMin}
+	if pc.step.RateChanged {
+		tp, err := machine.PlanTiming(pc.u.motor, pc.u.controller, pc.u.crank(hole).DeliveryAngle(), want, ie)
+		if err != nil {
+			return pl, &InputError{Field: "rate", Reason: err.Error()}
+		}
+		pl.lengthenedFrom = pc.keepRateInProtocol(&tp, hole)
+		pl.timing = &tp
+		pl.setting.RPM, pl.setting.DwellS = tp.RPM, tp.DwellS
+	}
+	if pl.breath, err = deliveredFromRest(pc.u, hole, pl.setting.RPM, pc.ls); err != nil {
+		return pl, &InputError{Field: "profile " + pc.u.p.ID, Reason: err.Error()}
+	}
+	pl.o2 = pc.o2Flow(pl.setting, pl.breath)
+	pl.setting.O2LPerMin = pl.o2.flow
+	return pl, nil
+}
+
+// holeAndRate settles the step's hole and wanted rate together, as
+// MakePlan settles its hole and timing: the speed for the new rate at the
+// same I:E sets what each hole delivers (and with an offset crank the hole
+// sets the speed for a Ti), and when the rate was computed for the step's
+// volume (scales), the placed hole's volume sets the rate. Without a
+// volume step the hole stays; with a rate that does not depend on the hole
+// one pass settles.
+func (pc stepPlacer) holeAndRate(ie float64) (profiles.Hole, holePick, float64, error) {
+	hole, _ := pc.u.p.HoleByLabel(pc.cur.Hole)
+	rpm, want := pc.cur.RPM, pc.step.RateBPM
+	var pick holePick
+	for pass := 0; pass < 4 && pc.step.VtChanged; pass++ {
+		if pc.step.RateChanged {
+			tp, err := machine.PlanTiming(pc.u.motor, pc.u.controller, pc.u.crank(hole).DeliveryAngle(), want, ie)
 			if err != nil {
-				return &InputError{Field: "rate", Reason: err.Error()}
+				return hole, pick, want, &InputError{Field: "rate", Reason: err.Error()}
 			}
 			rpm = tp.RPM
 		}
-		next, err := res.holeForStep(u, st, ls, rpm)
+		next, p, err := pc.pickHole(rpm)
 		if err != nil {
-			return err
+			return hole, pick, want, err
 		}
 		moved := next.Label != hole.Label
-		hole = next
-		if res.rateScalesWithVt() {
-			hf, err := deliveredFromRest(u, hole, rpm, ls)
+		hole, pick = next, p
+		if pc.scales {
+			hf, err := deliveredFromRest(pc.u, hole, rpm, pc.ls)
 			if err != nil {
-				return &InputError{Field: "profile " + u.p.ID, Reason: err.Error()}
+				return hole, pick, want, &InputError{Field: "profile " + pc.u.p.ID, Reason: err.Error()}
 			}
-			if w := res.rateForVolume(hf.DeliveredML); math.Abs(w-want) > 0.05 {
+			if w := pc.rateForVolume(hf.DeliveredML); math.Abs(w-want) > 0.05 {
 				want, moved = w, true
 			}
 		}
-		if !moved || !res.Step.RateChanged {
+		if !moved || !pc.step.RateChanged {
 			break // settled, or the speed does not depend on the hole
 		}
 	}
-	if res.Step.RateChanged {
-		tp, err := machine.PlanTiming(u.motor, u.controller, u.crank(hole).DeliveryAngle(), want, ie)
-		if err != nil {
-			return &InputError{Field: "rate", Reason: err.Error()}
-		}
-		res.Timing = &tp
-	}
-	if res.Timing != nil {
-		res.keepRateInProtocol(u, hole)
-		rpm, dwell = res.Timing.RPM, res.Timing.DwellS
-		res.Changes = append(res.Changes, res.stepTimingChanges()...)
-		res.timingNotes(u)
-	}
-	hf, err := deliveredFromRest(u, hole, rpm, ls)
-	if err != nil {
-		return &InputError{Field: "profile " + u.p.ID, Reason: err.Error()}
-	}
-	if res.Timing != nil && res.rateScalesWithVt() && math.Abs(res.Timing.WantedRateBPM-res.Step.RateBPM) > 0.05 {
-		res.note(fmt.Sprintf("the hole delivers %.0f mL, not the step's %.0f mL: the rate this machine sets keeps the step's alveolar ventilation (dead space %.0f mL) with this hole",
-			hf.DeliveredML, res.TargetVtML, res.Step.DeadSpaceML))
-	}
-	if res.Step.VtChanged && math.Abs(hf.DeliveredML-res.TargetVtML) > 0.5 {
-		res.Changes = append(res.Changes, Change{What: "tidal volume", Wanted: res.TargetVtML, Got: hf.DeliveredML, Unit: "mL"})
-	}
-	res.Proposed = Setting{Hole: hole.Label, RPM: rpm, DwellS: dwell, PEEPCmH2O: res.Step.PEEPCmH2O, O2LPerMin: cur.Setting.O2LPerMin}
-	res.setO2Flow(hf, st)
-	return nil
+	return hole, pick, want, nil
 }
 
 // rateScalesWithVt reports whether the step's rate was computed for the
@@ -206,68 +285,131 @@ func (res *ProtocolStepResult) rateScalesWithVt() bool {
 // rateForVolume is the step's rate rescaled so that rate x (Vt - dead
 // space) is what the step wanted when the hole delivers deliveredML
 // instead of the step's volume, within the protocol's rates.
-func (res *ProtocolStepResult) rateForVolume(deliveredML float64) float64 {
-	w, err := physiology.RateForPaCO2(res.Step.RateBPM, res.TargetVtML, deliveredML, res.Step.DeadSpaceML, 1, 1)
+func (pc stepPlacer) rateForVolume(deliveredML float64) float64 {
+	w, err := physiology.RateForPaCO2(pc.step.RateBPM, pc.targetML, deliveredML, pc.step.DeadSpaceML, 1, 1)
 	if err != nil {
-		return res.Step.RateBPM
+		return pc.step.RateBPM
 	}
-	lo := math.Min(physiology.ProtocolRateFloorBPM, res.Step.RateBPM)
-	hi := math.Max(physiology.ProtocolRateMaxBPM, res.Step.RateBPM)
+	lo := math.Min(physiology.ProtocolRateFloorBPM, pc.step.RateBPM)
+	hi := math.Max(physiology.ProtocolRateMaxBPM, pc.step.RateBPM)
 	return math.Round(math.Min(hi, math.Max(lo, w))*10) / 10
 }
 
-// holeForStep is the hole whose delivered volume at rpm is nearest the
+// pickHole is the hole whose delivered volume at rpm is nearest the
 // step's volume (MakePlan's rule). When that is the hole in use, a plateau
 // step down takes the next smaller hole if it keeps 4 mL/kg PBW or more, so
-// that the step takes effect; a step up stays and says so.
-func (res *ProtocolStepResult) holeForStep(u unit, st physiology.ProtocolState, ls lungState, rpm float64) (profiles.Hole, error) {
-	holes := make([]HoleFigure, 0, len(u.p.Crank.Holes))
+// that the step takes effect; otherwise the hole stays (describe says so).
+func (pc stepPlacer) pickHole(rpm float64) (profiles.Hole, holePick, error) {
+	holes := make([]HoleFigure, 0, len(pc.u.p.Crank.Holes))
 	curIdx := 0
-	for i, h := range u.p.Crank.Holes {
-		hf, err := deliveredFromRest(u, h, rpm, ls)
+	for i, h := range pc.u.p.Crank.Holes {
+		hf, err := deliveredFromRest(pc.u, h, rpm, pc.ls)
 		if err != nil {
-			return profiles.Hole{}, &InputError{Field: "profile " + u.p.ID, Reason: err.Error()}
+			return profiles.Hole{}, holePick{}, &InputError{Field: "profile " + pc.u.p.ID, Reason: err.Error()}
 		}
 		holes = append(holes, hf)
-		if h.Label == res.Check.Current.Setting.Hole {
+		if h.Label == pc.cur.Hole {
 			curIdx = i
 		}
 	}
-	chosen := nearestHole(holes, res.TargetVtML)
-	if chosen == curIdx {
-		below, _ := neighbours(holes, curIdx)
-		// Only the plateau above its goal forces the next smaller hole; a
-		// step towards 6 mL/kg does not go below 6 for want of a hole.
-		down := res.Step.MLPerKg < st.MLPerKg && st.PlateauCmH2O > physiology.PlateauGoalMaxCmH2O+1e-9
-		if down && below != nil && below.MLPerKg >= physiology.VtFloorMLPerKg-0.05 {
-			for i := range holes {
-				if holes[i].Label == below.Label {
-					chosen = i
-				}
-			}
-			res.note(fmt.Sprintf("the hole nearest %.0f mL is the one in use (%s); the next smaller hole %s (%.0f mL, %.1f mL/kg PBW) is taken so that the plateau step takes effect",
-				res.TargetVtML, holes[curIdx].Label, below.Label, below.DeliveredML, below.MLPerKg))
-		} else {
-			res.note(fmt.Sprintf("the hole nearest %.0f mL is the one in use (%s): the tidal volume does not change on this machine", res.TargetVtML, holes[curIdx].Label))
-		}
+	chosen := nearestHole(holes, pc.targetML)
+	if chosen != curIdx {
+		return pc.u.p.Crank.Holes[chosen], holePick{}, nil
 	}
-	return u.p.Crank.Holes[chosen], nil
+	pick := holePick{inUse: holes[curIdx].Label}
+	below, _ := neighbours(holes, curIdx)
+	// Only the plateau above its goal forces the next smaller hole; a
+	// step towards 6 mL/kg does not go below 6 for want of a hole.
+	down := pc.step.MLPerKg < pc.st.MLPerKg && pc.st.PlateauCmH2O > physiology.PlateauGoalMaxCmH2O+1e-9
+	if down && below != nil && below.MLPerKg >= physiology.VtFloorMLPerKg-0.05 {
+		for i := range holes {
+			if holes[i].Label == below.Label {
+				chosen = i
+			}
+		}
+		pick.smaller = true
+	}
+	return pc.u.p.Crank.Holes[chosen], pick, nil
 }
 
 // keepRateInProtocol lengthens the dwell one controller step when the
-// controller's rounding took the rate above the protocol's 35 /min.
-func (res *ProtocolStepResult) keepRateInProtocol(u unit, hole profiles.Hole) {
-	tp := res.Timing
-	if tp.RateBPM <= physiology.ProtocolRateMaxBPM+0.05 || res.Step.RateBPM > physiology.ProtocolRateMaxBPM+1e-9 {
-		return
+// controller's rounding took the rate above the protocol's 35 /min, and
+// returns the rate it had (0 when the dwell was kept).
+func (pc stepPlacer) keepRateInProtocol(tp *machine.TimingPlan, hole profiles.Hole) float64 {
+	if tp.RateBPM <= physiology.ProtocolRateMaxBPM+0.05 || pc.step.RateBPM > physiology.ProtocolRateMaxBPM+1e-9 {
+		return 0
 	}
-	d := math.Round((tp.DwellS+u.controller.DwellStepS)*1e9) / 1e9
-	if d > u.controller.MaxSettableDwellS()+1e-9 {
-		return
+	d := math.Round((tp.DwellS+pc.u.controller.DwellStepS)*1e9) / 1e9
+	if d > pc.u.controller.MaxSettableDwellS()+1e-9 {
+		return 0
 	}
 	was := tp.RateBPM
-	tp.Timing = machine.TimingOf(tp.RPM, d, u.crank(hole).DeliveryAngle())
-	res.note(fmt.Sprintf("the dwell's step gave %.1f /min, above the protocol's 35: the dwell is one step longer, %.1f s, giving %.1f /min", was, d, tp.RateBPM))
+	tp.Timing = machine.TimingOf(tp.RPM, d, pc.u.crank(hole).DeliveryAngle())
+	return was
+}
+
+// o2Flow is the oxygen bled into the intake for the step's FiO2 at the
+// piston's placed intake; with FiO2 unchanged it holds the FiO2 now, and
+// with the breath unchanged too it keeps the flow.
+func (pc stepPlacer) o2Flow(s Setting, breath HoleFigure) o2Pick {
+	sameBreath := s.Hole == pc.cur.Hole && s.RPM == pc.cur.RPM && s.DwellS == pc.cur.DwellS
+	if !pc.step.FiO2Changed && sameBreath {
+		return o2Pick{flow: pc.cur.O2LPerMin}
+	}
+	rate := 60 / (60/s.RPM + s.DwellS)
+	fio2 := pc.st.FiO2
+	if pc.step.FiO2Changed {
+		fio2 = pc.step.FiO2
+	}
+	// Version 2: the oxygen mixes into what the piston draws (effective
+	// swept x rate). A flowmeter is set to a tenth of a litre: rounded up,
+	// so that the FiO2 is never below the step's.
+	flow := math.Max(0, math.Ceil(physiology.O2FlowForFiO2AtPistonIntake(fio2, breath.EffectiveSweptML, rate)*10-1e-9)/10)
+	if fio2 >= 1 && pc.cur.O2LPerMin > flow {
+		flow = pc.cur.O2LPerMin // already all oxygen: keep the larger flow
+	}
+	return o2Pick{flow: flow, set: true, fio2: fio2, intake: physiology.PistonIntakeLPerMin(breath.EffectiveSweptML, rate)}
+}
+
+// describe says what the machine did to the step, in the order it was
+// placed: the changes to the step's rate, timing and volume, and a note
+// for each thing a person would otherwise wonder about.
+func (res *ProtocolStepResult) describe(u unit, pl stepPlace) {
+	cur := res.Check.Current
+	if pl.inverseIE {
+		res.note(fmt.Sprintf("I:E now 1:%.2f is inverse; the new rate is planned at 1:1", cur.Figures.Timing.IE))
+	}
+	switch h := pl.hole; {
+	case h.smaller:
+		// The smaller hole is the placed one: its volume at the speed set.
+		res.note(fmt.Sprintf("the hole nearest %.0f mL is the one in use (%s); the next smaller hole %s (%.0f mL, %.1f mL/kg PBW) is taken so that the plateau step takes effect",
+			res.TargetVtML, h.inUse, pl.breath.Label, pl.breath.DeliveredML, pl.breath.MLPerKg))
+	case h.inUse != "":
+		res.note(fmt.Sprintf("the hole nearest %.0f mL is the one in use (%s): the tidal volume does not change on this machine", res.TargetVtML, h.inUse))
+	}
+	if res.Timing != nil {
+		if pl.lengthenedFrom > 0 {
+			res.note(fmt.Sprintf("the dwell's step gave %.1f /min, above the protocol's 35: the dwell is one step longer, %.1f s, giving %.1f /min",
+				pl.lengthenedFrom, res.Timing.DwellS, res.Timing.RateBPM))
+		}
+		res.Changes = append(res.Changes, res.stepTimingChanges()...)
+		res.timingNotes(u)
+		if res.rateScalesWithVt() && math.Abs(res.Timing.WantedRateBPM-res.Step.RateBPM) > 0.05 {
+			res.note(fmt.Sprintf("the hole delivers %.0f mL, not the step's %.0f mL: the rate this machine sets keeps the step's alveolar ventilation (dead space %.0f mL) with this hole",
+				pl.breath.DeliveredML, res.TargetVtML, res.Step.DeadSpaceML))
+		}
+	}
+	if res.Step.VtChanged && math.Abs(pl.breath.DeliveredML-res.TargetVtML) > 0.5 {
+		res.Changes = append(res.Changes, Change{What: "tidal volume", Wanted: res.TargetVtML, Got: pl.breath.DeliveredML, Unit: "mL"})
+	}
+	if o := pl.o2; o.set && math.Abs(o.flow-cur.Setting.O2LPerMin) >= 0.005 {
+		why := fmt.Sprintf("for FiO2 %.2f", o.fio2)
+		if !res.Step.FiO2Changed {
+			why = fmt.Sprintf("to hold FiO2 %.2f", o.fio2)
+		}
+		res.note(fmt.Sprintf("O2 flow %.1f -> %.1f L/min %s at the piston's proposed intake %.1f L/min (bled into the intake; rounded up to 0.1 L/min)",
+			cur.Setting.O2LPerMin, o.flow, why, o.intake))
+	}
 }
 
 // timingNotes say in words what the motor did to the new rate.
@@ -286,38 +428,6 @@ func (res *ProtocolStepResult) timingNotes(u unit) {
 	case machine.TooSlow:
 		res.note(fmt.Sprintf("the controller's longest dwell gives %.1f /min, not %.1f", tp.RateBPM, tp.WantedRateBPM))
 	}
-}
-
-// setO2Flow is the oxygen bled into the intake for the step's FiO2 at the
-// piston's proposed intake; with FiO2 unchanged it holds the FiO2 now.
-func (res *ProtocolStepResult) setO2Flow(hf HoleFigure, st physiology.ProtocolState) {
-	cur := res.Check.Current.Setting
-	s := &res.Proposed
-	sameBreath := s.Hole == cur.Hole && s.RPM == cur.RPM && s.DwellS == cur.DwellS
-	if !res.Step.FiO2Changed && sameBreath {
-		return
-	}
-	rate := 60 / (60/s.RPM + s.DwellS)
-	fio2 := st.FiO2
-	if res.Step.FiO2Changed {
-		fio2 = res.Step.FiO2
-	}
-	// Version 2: the oxygen mixes into what the piston draws (effective
-	// swept x rate). A flowmeter is set to a tenth of a litre: rounded up,
-	// so that the FiO2 is never below the step's.
-	flow := math.Max(0, math.Ceil(physiology.O2FlowForFiO2AtPistonIntake(fio2, hf.EffectiveSweptML, rate)*10-1e-9)/10)
-	if fio2 >= 1 && cur.O2LPerMin > flow {
-		flow = cur.O2LPerMin // already all oxygen: keep the larger flow
-	}
-	s.O2LPerMin = flow
-	if math.Abs(flow-cur.O2LPerMin) < 0.005 {
-		return
-	}
-	why := fmt.Sprintf("for FiO2 %.2f", fio2)
-	if !res.Step.FiO2Changed {
-		why = fmt.Sprintf("to hold FiO2 %.2f", fio2)
-	}
-	res.note(fmt.Sprintf("O2 flow %.1f -> %.1f L/min %s at the piston's proposed intake %.1f L/min (bled into the intake; rounded up to 0.1 L/min)", cur.O2LPerMin, flow, why, physiology.PistonIntakeLPerMin(hf.EffectiveSweptML, rate)))
 }
 
 func (res *ProtocolStepResult) note(s string) {
