@@ -1,7 +1,6 @@
 package logbook
 
 import (
-	"encoding/json"
 	"errors"
 	"fmt"
 	"os"
@@ -30,7 +29,7 @@ func AppendRecord(path string, rec setup.Record) error {
 	if p := recordProblem(&rec); p != "" {
 		return fmt.Errorf("log %s: record NOT written (nothing was written): %s", path, p)
 	}
-	line, err := json.Marshal(rec)
+	line, err := encodeRecordLine(rec)
 	if err != nil {
 		return err
 	}

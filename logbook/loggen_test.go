@@ -2,6 +2,7 @@ package logbook_test
 
 import (
 	"bufio"
+	"bytes"
 	"encoding/json"
 	"fmt"
 	"os"
@@ -24,6 +25,14 @@ var genStart = time.Date(2026, 1, 1, 0, 0, 0, 0, time.UTC)
 // make a 100 000-record log take minutes.
 func writeLargeLog(tb testing.TB, path string, n, beds int) {
 	tb.Helper()
+	writeLargeLogAs(tb, path, n, beds, func(rec setup.Record) ([]byte, error) { return json.Marshal(rec) })
+}
+
+// writeLargeLogAs is writeLargeLog with each record's line as encode
+// writes it (json.Marshal: the first writers' lines, with no "record"
+// key; logbook.EncodeRecordLine: this writer's).
+func writeLargeLogAs(tb testing.TB, path string, n, beds int, encode func(setup.Record) ([]byte, error)) {
+	tb.Helper()
 	var kinds []setup.Record
 	for i, s := range []struct {
 		hole       string
@@ -40,17 +49,29 @@ func writeLargeLog(tb testing.TB, path string, n, beds int) {
 		require.NoError(tb, err)
 		kinds = append(kinds, rec)
 	}
+	// Each kind is encoded once; a line is its kind's with the time and
+	// bed of its header replaced (the writer writes them first, once), so
+	// that a slow encoder does not make the log take minutes.
+	header := func(rec setup.Record) []byte {
+		return fmt.Appendf(nil, `"time":%q,"bed":%q,`, rec.Time.UTC().Format(time.RFC3339), rec.Bed)
+	}
+	var lines [][]byte
+	for _, k := range kinds {
+		line, err := encode(k)
+		require.NoError(tb, err)
+		require.True(tb, bytes.Contains(line, header(k)), "the header where the writer writes it")
+		lines = append(lines, line)
+	}
 	f, err := os.OpenFile(path, os.O_WRONLY|os.O_CREATE|os.O_EXCL, 0o600)
 	require.NoError(tb, err)
 	w := bufio.NewWriterSize(f, 1<<20)
 	step := 4 * time.Hour / time.Duration(beds)
 	for i := 0; i < n; i++ {
-		rec := kinds[(i/beds)%len(kinds)]
+		kind := (i / beds) % len(kinds)
+		rec := kinds[kind]
 		rec.Bed = fmt.Sprintf("B%d", i%beds+1)
 		rec.Time = genStart.Add(time.Duration(i) * step).Truncate(time.Second)
-		line, err := json.Marshal(rec)
-		require.NoError(tb, err)
-		w.Write(line)
+		w.Write(bytes.Replace(lines[kind], header(kinds[kind]), header(rec), 1))
 		w.WriteByte('\n')
 	}
 	require.NoError(tb, w.Flush())

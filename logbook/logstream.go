@@ -154,6 +154,9 @@ func decodeRecord(text []byte) (rec setup.Record, problem string) {
 	if err := json.Unmarshal(text, &rec); err != nil {
 		return setup.Record{}, reasonJunk
 	}
+	if p := expandCompact(&rec); p != "" {
+		return setup.Record{}, fmt.Sprintf(reasonRules, p)
+	}
 	rec.WithholdLung()
 	if p := recordProblem(&rec); p != "" {
 		return setup.Record{}, fmt.Sprintf(reasonRules, p)

@@ -35,8 +35,15 @@ const (
 	// caution its figures call for, the gas path, the timing check and,
 	// when a lung explains the readings, the watch band.
 	RecordV2 = 2
+	// RecordV3 is the compact record (recordcompact.go): it leaves out
+	// what the reader recomputes (the clinical caution, the withheld
+	// figures' sentence, the setting's values repeated among its
+	// figures), the watch band and the timing check (reproducible from
+	// the entries on the profile; neither the ward nor a history shows
+	// them) and every null; its rules are otherwise RecordV2's.
+	RecordV3 = 3
 	// RecordVersion is the version AppendRecord writes.
-	RecordVersion = RecordV2
+	RecordVersion = RecordV3
 )
 
 // writerOf is the writer version a record names (no key: RecordV1), or
@@ -45,7 +52,7 @@ func writerOf(r *setup.Record) (int, string) {
 	switch v := r.WriterVersion; {
 	case v == 0:
 		return RecordV1, ""
-	case v == RecordV2:
+	case v == RecordV2 || v == RecordV3:
 		return v, ""
 	case v > RecordVersion:
 		return 0, fmt.Sprintf("record version %d is newer than this program reads (up to %d): read it with the crankside that wrote it, or a newer one", v, RecordVersion)
@@ -64,10 +71,10 @@ func writerLacks(r *setup.Record, version int) string {
 	if r.Gas == nil {
 		lacks = append(lacks, "gas")
 	}
-	if r.TimingCheck == nil {
+	if r.TimingCheck == nil && version == RecordV2 {
 		lacks = append(lacks, "timing_check")
 	}
-	if r.Watch == nil && !r.Unexplained() {
+	if r.Watch == nil && !r.Unexplained() && version == RecordV2 {
 		lacks = append(lacks, "watch")
 	}
 	if len(lacks) == 0 {
@@ -104,7 +111,7 @@ func writerCautions(version int, want []setup.Caution) []setup.Caution {
 // measured readings' cautions are the check's own (ReadingCautions), with
 // their numbers; the others name the rule and the level.
 func withRecomputed(r *setup.Record, version int) {
-	if version >= RecordVersion {
+	if version >= RecordV2 {
 		return
 	}
 	var measured []setup.Caution

@@ -1,6 +1,7 @@
 package logbook_test
 
 import (
+	"encoding/json"
 	"os"
 	"path/filepath"
 	"strings"
@@ -147,7 +148,7 @@ func TestAWriterVersionIsHeldToWhatItWrote(t *testing.T) {
 	b4 := lines[0]
 	b7 := lines[3]
 	requireDamaged(t, "lacks gas, timing_check, which a record version 2 always has", []string{"B4"}, b4, versioned(t, b7, "2"))
-	requireDamaged(t, "record version 3 is newer than this program reads (up to 2)", []string{"B4"}, b4, versioned(t, b7, "3"))
+	requireDamaged(t, "record version 4 is newer than this program reads (up to 3)", []string{"B4"}, b4, versioned(t, b7, "4"))
 	requireDamaged(t, "record version 1 was never written", []string{"B4"}, b4, versioned(t, b7, "1"))
 	requireDamaged(t, "record version -2 was never written", []string{"B4"}, b4, versioned(t, b7, "-2"))
 
@@ -157,12 +158,29 @@ func TestAWriterVersionIsHeldToWhatItWrote(t *testing.T) {
 	require.NoError(t, err)
 	noGas := rec
 	noGas.Gas = nil
-	requireDamaged(t, "lacks gas, which a record version 2 always has", []string{"B4"}, b4, recordLine(t, noGas))
+	requireDamaged(t, "lacks gas, which a record version 2 always has", []string{"B4"}, b4, v2Line(t, noGas))
+	requireDamaged(t, "lacks gas, which a record version 3 always has", []string{"B4"}, b4, recordLine(t, noGas))
 	explained := wardRecord(t, "B5", at(10, 0), 21, 0)
 	explained.Watch = nil
-	requireDamaged(t, "lacks watch, which a record version 2 always has", []string{"B4"}, b4, recordLine(t, explained))
+	requireDamaged(t, "lacks watch, which a record version 2 always has", []string{"B4"}, b4, v2Line(t, explained))
 	explained.Watch, explained.TimingCheck = wardRecord(t, "B5", at(10, 0), 21, 0).Watch, nil
-	requireDamaged(t, "lacks timing_check, which a record version 2 always has", []string{"B4"}, b4, recordLine(t, explained))
+	requireDamaged(t, "lacks timing_check, which a record version 2 always has", []string{"B4"}, b4, v2Line(t, explained))
+
+	// The compact writer (version 3) never writes what the reader puts
+	// back: a line of it that carries one was not written by it.
+	compact := recordLine(t, wardRecord(t, "B5", at(10, 0), 21, 0))
+	for _, extra := range []string{`"clinical_caution":"calm"`, `"watch":{}`, `"timing_check":{}`, `"figures_withheld":"x"`} {
+		requireDamaged(t, "which a record version 3 never writes", []string{"B4"}, b4, strings.TrimSuffix(compact, "}")+","+extra+"}")
+	}
+}
+
+// v2Line is rec as the version 2 writer wrote it: every key, nulls too.
+func v2Line(t *testing.T, rec setup.Record) string {
+	t.Helper()
+	rec.WriterVersion = logbook.RecordV2
+	b, err := json.Marshal(rec)
+	require.NoError(t, err)
+	return string(b)
 }
 
 // Taking a version 2 record's "record" key out with its STOP does not
@@ -174,7 +192,7 @@ func TestADowngradedRecordReadsNoCalmer(t *testing.T) {
 	require.NoError(t, err)
 	require.Equal(t, setup.Stop, setup.Highest(rec.Cautions))
 	rec.Cautions = nil
-	line := recordLine(t, rec)
+	line := v2Line(t, rec)
 	require.Contains(t, line, `"record":2,`)
 	v1 := strings.Replace(line, `"record":2,`, "", 1)
 	recs, sum := historyOf(t, versionLog(t, v1))
@@ -197,8 +215,8 @@ func TestAppendRecordWritesItsVersion(t *testing.T) {
 	require.NoError(t, logbook.AppendRecord(path, rec))
 	b, err := os.ReadFile(path)
 	require.NoError(t, err)
-	require.True(t, strings.HasPrefix(string(b), `{"format":"crankside-check/1","time":"2026-12-01T10:00:00Z","bed":"B4","initials":"AB","record":2,`), "%.120s", b)
+	require.True(t, strings.HasPrefix(string(b), `{"format":"crankside-check/1","time":"2026-12-01T10:00:00Z","bed":"B4","initials":"AB","record":3,`), "%.120s", b)
 	recs, sum := historyOf(t, path)
 	require.Zero(t, sum.Damaged)
-	require.Equal(t, logbook.RecordV2, recs["B4"].WriterVersion)
+	require.Equal(t, logbook.RecordV3, recs["B4"].WriterVersion)
 }

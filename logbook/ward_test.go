@@ -44,8 +44,7 @@ func restamp(rec setup.Record, bed string, when time.Time, rpm float64, level se
 
 // recordLine is rec as this program's writer writes it (its version).
 func recordLine(t testing.TB, rec setup.Record) string {
-	rec.WriterVersion = logbook.RecordVersion
-	b, err := json.Marshal(rec)
+	b, err := logbook.EncodeRecordLine(rec)
 	require.NoError(t, err)
 	return string(b)
 }

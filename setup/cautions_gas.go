@@ -379,9 +379,10 @@ func GasRecordProblem(r *Record) string {
 
 // RecordGasCautions are the gas cautions a record's readings call for,
 // for the log's reader: a record whose gas STOP was edited out must not
-// read calm in the ward. oxygenation-high (a note that rests on the FiO2
-// estimate) is left out; a disagreement is called for only when it holds
-// with a margin of 0.01 (see disagreementBeyond).
+// read calm in the ward. The FiO2 (an estimate) is not taken, so
+// oxygenation-high is called for by the record's PEEP alone (above 8
+// cmH2O); a disagreement is called for only when it holds with a margin
+// of 0.01 (see disagreementBeyond).
 func RecordGasCautions(r *Record) []Caution {
 	g, ok := recordGasReadings(r)
 	if !ok {

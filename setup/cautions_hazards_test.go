@@ -1,6 +1,7 @@
 package setup
 
 import (
+	"math"
 	"testing"
 
 	"github.com/stretchr/testify/require"
@@ -176,4 +177,22 @@ func TestParseYesNo(t *testing.T) {
 	}
 	_, err := ParseYesNo("maybe")
 	require.ErrorContains(t, err, `"maybe" is not yes or no`)
+}
+
+// The time to the reserve of a cylinder already below it is 0, not
+// negative; a cylinder not given or not drawn on (no flow: no end) keeps
+// its time. Gas = water capacity x pressure (common practice): 10 L x 30
+// bar at 3 L/min is 100 min to empty.
+func TestCylinderReserveAtTheEdges(t *testing.T) {
+	f := Figures{CylinderGiven: true, O2FlowLPerMin: 3, CylinderMinutes: physiology.CylinderMinutesLeft(10, 30, 3)}
+	applyCylinderReserve(&f, 10, 30, 40)
+	require.InDelta(t, 0, f.CylinderMinutes, 1e-9, "below the reserve: none left to it")
+	require.InDelta(t, 100, f.CylinderEmptyMinutes, 1e-9)
+	require.Equal(t, 40.0, f.CylinderReserveBar)
+	f = Figures{CylinderGiven: false, CylinderMinutes: 77}
+	applyCylinderReserve(&f, 10, 100, 40)
+	require.Equal(t, 77.0, f.CylinderMinutes)
+	f = Figures{CylinderGiven: true, CylinderMinutes: math.Inf(1)}
+	applyCylinderReserve(&f, 10, 100, 40)
+	require.True(t, math.IsInf(f.CylinderMinutes, 1))
 }

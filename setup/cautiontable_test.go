@@ -216,3 +216,30 @@ func TestNoBareCautionIDs(t *testing.T) {
 	}
 	require.Empty(t, bad, "bare caution ids: use the CautionID constants")
 }
+
+// The caution inputs are built in one place (newAssessment in
+// cautioninputs.go): a second hand-built assessment could leave a field at
+// zero and silently switch a caution off.
+func TestCautionInputsHaveOneConstructor(t *testing.T) {
+	fset := token.NewFileSet()
+	files, err := filepath.Glob("*.go")
+	require.NoError(t, err)
+	var built []string
+	for _, name := range files {
+		if strings.HasSuffix(name, "_test.go") {
+			continue
+		}
+		f, err := parser.ParseFile(fset, name, nil, 0)
+		require.NoError(t, err)
+		ast.Inspect(f, func(n ast.Node) bool {
+			if cl, ok := n.(*ast.CompositeLit); ok {
+				if id, ok := cl.Type.(*ast.Ident); ok && id.Name == "assessment" {
+					built = append(built, fset.Position(cl.Pos()).String())
+				}
+			}
+			return true
+		})
+	}
+	require.Len(t, built, 1, "assessment literals: %v", built)
+	require.True(t, strings.HasPrefix(built[0], "cautioninputs.go:"), built[0])
+}

