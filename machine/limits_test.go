@@ -286,3 +286,116 @@ func TestStepsAreReported(t *testing.T) {
 		require.InDelta(t, 60.0/42/1429, r.StepS, 1e-15, name)
 	}
 }
+
+func TestAStrokeAccountsForEveryMillilitre(t *testing.T) {
+	// Conservation of volume (derived: each step's exact map conserves
+	// it, DESIGN version 2): with no leak, what the piston displaced is what
+	// entered the lung (room volume), what compressing the cylinder's gas
+	// took, what the relief valve vented, and what the circuit's compliance
+	// holds at the end over the start (Cc x the rise in circuit pressure,
+	// which starts at V0/C above PEEP) - with and without the relief valve
+	// venting, on small and large holes. The piston's displacement is the
+	// hole's swept volume (78.54 cm2 x 2r) to the trapezoid rule's 1e-6.
+	for _, relief := range []float64{0, 14, 30} {
+		for _, radius := range []float64{1.4, 2.8, 6.2} {
+			in := demoStroke(radius)
+			in.Gas = demoGas()
+			in.Gas.LeakLPerMinAt20CmH2O = 0
+			in.Gas.ReliefCmH2O = relief
+			r := run(t, in)
+			rise := r.EndCmH2O - in.PEEPCmH2O - in.StartVolumeML/in.Lung.ComplianceMLPerCmH2O
+			shared := r.Gas.DeliveredRoomML + r.Gas.CompressionLossML + r.Gas.ReliefVentedML + in.CircuitMLPerCmH2O*rise
+			require.InDelta(t, r.Gas.PistonML, shared, 1e-8, "relief %v radius %v", relief, radius)
+			require.InEpsilon(t, math.Pi*25*2*radius, r.Gas.PistonML, 1e-6, "radius %v", radius)
+			if relief != 30 { // at 30 only the largest hole reaches the valve
+				require.Equal(t, relief == 14, r.Gas.PressureLimited, "relief %v radius %v", relief, radius)
+			}
+		}
+	}
+}
+
+func TestTheLeakIsConductanceTimesPressure(t *testing.T) {
+	// DESIGN version 2: Qleak = G x Pc, G = 2 L/min at 20 cmH2O = 1.6667
+	// mL/s per cmH2O. Integrated by the trapezoid rule over the circuit
+	// pressure the stroke reports at each grid point (from the valve's
+	// first opening step on too), it is the leak the stroke counts, to
+	// 1e-6.
+	for _, radius := range []float64{1.4, 2.8, 6.2} {
+		in := demoStroke(radius)
+		in.Gas = demoGas()
+		var ts, ps []float64
+		in.Observe = func(tS, pc, _, _ float64) { ts = append(ts, tS); ps = append(ps, pc) }
+		r := run(t, in)
+		want := 0.0
+		for i := 1; i < len(ts); i++ {
+			want += 2000.0 / 60 / 20 * (ps[i-1] + ps[i]) / 2 * (ts[i] - ts[i-1])
+		}
+		require.InEpsilon(t, want, r.Gas.LeakedML, 1e-6, "radius %v", radius)
+	}
+}
+
+func TestSettableSpeedsAndDwells(t *testing.T) {
+	// Derived from the motor and controller rules: a variable motor of
+	// 8-40 rpm in 0.5 rpm steps sets 8, 8.5 ... 40 and nothing between or
+	// beyond; 8-39.8 in 0.5 steps tops at 39.5; a fixed motor at 20 rpm
+	// sets 20 only; a controller of 0.1 s steps up to 10 s sets 0, 0.1 ...
+	// 10 (and 9.95 up to 9.9 when its maximum is 9.95).
+	m := Motor{MinRPM: 8, MaxRPM: 40, StepRPM: 0.5}
+	for rpm, ok := range map[float64]bool{8: true, 8.5: true, 21: true, 40: true, 7.5: false, 8.25: false, 40.5: false, 39.75: false} {
+		require.Equal(t, ok, m.Settable(rpm), "%v rpm on 8-40/0.5", rpm)
+	}
+	odd := Motor{MinRPM: 8, MaxRPM: 39.8, StepRPM: 0.5}
+	require.InDelta(t, 39.5, odd.TopRPM(), 1e-12)
+	require.True(t, odd.Settable(39.5))
+	require.False(t, odd.Settable(40))
+	fixed := FixedMotor(20)
+	for rpm, ok := range map[float64]bool{20: true, 20.5: false, 19.5: false, 21: false} {
+		require.Equal(t, ok, fixed.Settable(rpm), "%v rpm on a fixed 20", rpm)
+	}
+	c := Controller{DwellStepS: 0.1, MaxDwellS: 10}
+	for d, ok := range map[float64]bool{0: true, 0.1: true, 1.4: true, 10: true, -0.1: false, 0.05: false, 10.1: false} {
+		require.Equal(t, ok, c.Settable(d), "dwell %v s on 0.1/10", d)
+	}
+	short := Controller{DwellStepS: 0.1, MaxDwellS: 9.95}
+	require.InDelta(t, 9.9, short.MaxSettableDwellS(), 1e-12)
+	require.True(t, short.Settable(9.9))
+	require.False(t, short.Settable(10))
+}
+
+func TestAStrokeRefusesWhatNoMachineIs(t *testing.T) {
+	// A stroke with no bore, no speed, an infinite speed or bore, a
+	// negative or undefined calibration scale, or a negative ring friction
+	// is refused as a bad breath; a scale of 0 (a calibration that
+	// delivers nothing) runs.
+	for name, mod := range map[string]func(*StrokeInput){
+		"bore 0":         func(in *StrokeInput) { in.Stroke.BoreCm = 0 },
+		"bore Inf":       func(in *StrokeInput) { in.Stroke.BoreCm = math.Inf(1) },
+		"rpm 0":          func(in *StrokeInput) { in.Stroke.RPM = 0 },
+		"rpm Inf":        func(in *StrokeInput) { in.Stroke.RPM = math.Inf(1) },
+		"scale -0.1":     func(in *StrokeInput) { in.Stroke.Scale = -0.1 },
+		"scale NaN":      func(in *StrokeInput) { in.Stroke.Scale = math.NaN() },
+		"scale Inf":      func(in *StrokeInput) { in.Stroke.Scale = math.Inf(1) },
+		"friction -1":    func(in *StrokeInput) { in.RingFrictionN = -1 },
+		"friction NaN":   func(in *StrokeInput) { in.RingFrictionN = math.NaN() },
+		"rod too short":  func(in *StrokeInput) { in.Stroke.Crank.RodCm = 2.8 },
+		"start NaN":      func(in *StrokeInput) { in.StartVolumeML = math.NaN() },
+		"PEEP Inf":       func(in *StrokeInput) { in.PEEPCmH2O = math.Inf(1) },
+		"compliance 0":   func(in *StrokeInput) { in.Lung.ComplianceMLPerCmH2O = 0 },
+		"circuit Inf":    func(in *StrokeInput) { in.CircuitMLPerCmH2O = math.Inf(1) },
+		"step -0.001 s":  func(in *StrokeInput) { in.StepS = -0.001 },
+		"resistance NaN": func(in *StrokeInput) { in.Lung.ResistanceCmH2OPerLS = math.NaN() },
+	} {
+		in := demoStroke(2.8)
+		mod(&in)
+		_, err := SimulateStroke(in)
+		if name == "rod too short" { // the crank's own refusal (Crank.Validate)
+			require.ErrorContains(t, err, "must be longer than radius", name)
+			continue
+		}
+		require.ErrorIs(t, err, ErrBadBreath, name)
+	}
+	in := demoStroke(2.8)
+	in.Stroke.Scale = 0
+	r := run(t, in)
+	require.InDelta(t, 0, r.Gas.PistonML+r.PeakPistonFlowMLPerS, 1e-12)
+}

@@ -1,4 +1,4 @@
-package tests
+package main
 
 import (
 	"encoding/json"
@@ -255,7 +255,7 @@ func TestHandoverRateCappedAtTheMotorsMaximum(t *testing.T) {
 	// the severe band) with PaCO2 60: HCO3 = 0.03 x 60 x 10^1.05 = 20.2,
 	// PaCO2 for 7.35 = 20.2 / (0.03 x 10^1.25) = 37.9, rate 13.33 x 60 / 37.9
 	// = 21.1 /min (derived), which this motor cannot reach.
-	raw, err := os.ReadFile(filepath.Join("..", "profiles", "demo", "demo-a.json"))
+	raw, err := os.ReadFile(filepath.Join("profiles", "demo", "demo-a.json"))
 	require.NoError(t, err)
 	var prof map[string]any
 	require.NoError(t, json.Unmarshal(raw, &prof))
