@@ -186,6 +186,27 @@ type stepPlace struct {
 type holePick struct {
 	inUse   string // the hole in use, when it is the nearest the step's volume ("" otherwise)
 	smaller bool   // the next smaller hole is taken so that a plateau step takes effect
+	// belowFloor is the hole nearest the step's volume when it is below 4
+	// mL/kg PBW and not in use: not taken. floorKept is the index of the
+	// hole taken instead (the nearest at or above the floor, or the hole in
+	// use when no hole keeps it).
+	belowFloor *HoleFigure
+	floorKept  int
+}
+
+// nearestAtOrAbove is the index of the hole nearest targetML among those
+// delivering at least floorMLPerKg per kg PBW, or -1 when none does.
+func nearestAtOrAbove(holes []HoleFigure, targetML, floorMLPerKg float64) int {
+	best := -1
+	for i, h := range holes {
+		if h.MLPerKg < floorMLPerKg-1e-9 {
+			continue
+		}
+		if best < 0 || math.Abs(h.DeliveredML-targetML) < math.Abs(holes[best].DeliveredML-targetML)-1e-9 {
+			best = i
+		}
+	}
+	return best
 }
 
 // o2Pick is the O2 flow of the placed breath.
@@ -296,8 +317,11 @@ func (pc stepPlacer) rateForVolume(deliveredML float64) float64 {
 }
 
 // pickHole is the hole whose delivered volume at rpm is nearest the
-// step's volume (MakePlan's rule). When that is the hole in use, a plateau
-// step down takes the next smaller hole if it keeps 4 mL/kg PBW or more, so
+// step's volume (MakePlan's rule), never a hole below the ARDS Network
+// floor of 4 mL/kg PBW that is not already in use: when the nearest is
+// below it, the nearest hole at or above it is taken (or the hole stays
+// when none keeps it). When the hole is the one in use, a plateau step
+// down takes the next smaller hole if it keeps 4 mL/kg PBW or more, so
 // that the step takes effect; otherwise the hole stays (describe says so).
 func (pc stepPlacer) pickHole(rpm float64) (profiles.Hole, holePick, error) {
 	holes := make([]HoleFigure, 0, len(pc.u.p.Crank.Holes))
@@ -313,6 +337,13 @@ func (pc stepPlacer) pickHole(rpm float64) (profiles.Hole, holePick, error) {
 		}
 	}
 	chosen := nearestHole(holes, pc.targetML)
+	if chosen != curIdx && holes[chosen].MLPerKg < physiology.VtFloorMLPerKg-1e-9 {
+		floor := holePick{belowFloor: &holes[chosen], floorKept: curIdx}
+		if i := nearestAtOrAbove(holes, pc.targetML, physiology.VtFloorMLPerKg); i >= 0 {
+			floor.floorKept = i
+		}
+		return pc.u.p.Crank.Holes[floor.floorKept], floor, nil
+	}
 	if chosen != curIdx {
 		return pc.u.p.Crank.Holes[chosen], holePick{}, nil
 	}
@@ -321,7 +352,7 @@ func (pc stepPlacer) pickHole(rpm float64) (profiles.Hole, holePick, error) {
 	// Only the plateau above its goal forces the next smaller hole; a
 	// step towards 6 mL/kg does not go below 6 for want of a hole.
 	down := pc.step.MLPerKg < pc.st.MLPerKg && pc.st.PlateauCmH2O > physiology.PlateauGoalMaxCmH2O+1e-9
-	if down && below != nil && below.MLPerKg >= physiology.VtFloorMLPerKg-0.05 {
+	if down && below != nil && below.MLPerKg >= physiology.VtFloorMLPerKg-1e-9 {
 		for i := range holes {
 			if holes[i].Label == below.Label {
 				chosen = i
@@ -384,6 +415,12 @@ func (res *ProtocolStepResult) describe(u unit, pl stepPlace) {
 		// The smaller hole is the placed one: its volume at the speed set.
 		res.note(fmt.Sprintf("the hole nearest %.0f mL is the one in use (%s); the next smaller hole %s (%.0f mL, %.1f mL/kg PBW) is taken so that the plateau step takes effect",
 			res.TargetVtML, h.inUse, pl.breath.Label, pl.breath.DeliveredML, pl.breath.MLPerKg))
+	case h.belowFloor != nil && pl.breath.Label == cur.Setting.Hole:
+		res.note(fmt.Sprintf("the hole nearest %.0f mL, %s (%.1f mL/kg PBW), is below the ARDS Network floor of 4 mL/kg PBW and no hole nearer keeps it: the hole in use (%s) stays and the tidal volume does not change on this machine",
+			res.TargetVtML, h.belowFloor.Label, h.belowFloor.MLPerKg, pl.breath.Label))
+	case h.belowFloor != nil:
+		res.note(fmt.Sprintf("the hole nearest %.0f mL, %s (%.1f mL/kg PBW), is below the ARDS Network floor of 4 mL/kg PBW: the nearest hole at or above it, %s (%.0f mL, %.1f mL/kg PBW), is taken",
+			res.TargetVtML, h.belowFloor.Label, h.belowFloor.MLPerKg, pl.breath.Label, pl.breath.DeliveredML, pl.breath.MLPerKg))
 	case h.inUse != "":
 		res.note(fmt.Sprintf("the hole nearest %.0f mL is the one in use (%s): the tidal volume does not change on this machine", res.TargetVtML, h.inUse))
 	}

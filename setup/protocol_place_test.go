@@ -334,3 +334,46 @@ func planTimingForTest(u unit, rateBPM float64) (machine.TimingPlan, error) {
 	h, _ := u.p.HoleByLabel("8")
 	return machine.PlanTiming(u.motor, u.controller, u.crank(h).DeliveryAngle(), rateBPM, 2)
 }
+
+// The step never proposes a hole below 4 mL/kg PBW, the ARDS Network
+// floor (ARDS Network protocol card: Vt down in 1 mL/kg steps, not below
+// 4). demo-b, male 175 cm: PBW 50 + 0.91 x 22.6 = 70.566 kg, 4 mL/kg =
+// 282.3 mL (ARDS Network 2000). Hole C at 20 rpm, 1.0 s, PEEP 10 on an
+// assumed compliance of 15 mL/cmH2O gives under 5 mL/kg with a plateau
+// above 30: the step is down to the floor, 282.3 mL. Hole B is nearer
+// 282.3 mL than C but below it: C, the nearest hole that keeps 4 mL/kg,
+// stays. With a hole added between B and C that keeps the floor, that
+// hole is taken.
+func TestStepNeverProposesAHoleBelowTheFloor(t *testing.T) {
+	p := placeProfile(t, "demo-b")
+	req := withCompliance(placeReq(physiology.Male, 175, "C", 20, 1.0, 10, 0), 15)
+	res, err := ProtocolProposal(req, GasReadings{}, p)
+	require.NoError(t, err)
+	const pbw = 70.566
+	floor := 4 * pbw
+	require.InDelta(t, pbw, res.Check.PBWKg, 0.001)
+	require.Greater(t, res.Check.Current.Figures.PlateauCmH2O, 30.0, "the premise: a plateau above 30")
+	require.True(t, res.Step.VtChanged)
+	require.InDelta(t, 4.0, res.TargetMLPerKg, 1e-9, "down to the floor")
+	require.InDelta(t, floor, res.TargetVtML, 0.01)
+	vols := holeVolumes(t, res, p, res.Proposed.RPM)
+	require.Less(t, vols["B"], floor, "the premise: B is below the floor")
+	require.GreaterOrEqual(t, vols["C"], floor, "the premise: C keeps it")
+	require.Less(t, floor-vols["B"], vols["C"]-floor, "the premise: B is the nearest")
+
+	require.Equal(t, "C", res.Proposed.Hole, "notes %q", res.Notes)
+	require.Contains(t, res.Notes, fmt.Sprintf("the hole nearest %.0f mL, B (%.1f mL/kg PBW), is below the ARDS Network floor of 4 mL/kg PBW and no hole nearer keeps it: the hole in use (C) stays and the tidal volume does not change on this machine",
+		floor, vols["B"]/pbw))
+	require.NotContains(t, strings.Join(res.Notes, "\n"), "next smaller hole")
+
+	// A hole of radius 2.9 cm, between B (2.5) and C (3.0).
+	p.Crank.Holes = append(p.Crank.Holes, profiles.Hole{Label: "X", RadiusCm: 2.9})
+	res, err = ProtocolProposal(req, GasReadings{}, p)
+	require.NoError(t, err)
+	vols = holeVolumes(t, res, p, res.Proposed.RPM)
+	require.GreaterOrEqual(t, vols["X"], floor, "the premise: X keeps the floor")
+	require.Less(t, vols["X"], vols["C"], "the premise: X is nearer than C")
+	require.Equal(t, "X", res.Proposed.Hole, "notes %q", res.Notes)
+	require.Contains(t, res.Notes, fmt.Sprintf("the hole nearest %.0f mL, B (%.1f mL/kg PBW), is below the ARDS Network floor of 4 mL/kg PBW: the nearest hole at or above it, X (%.0f mL, %.1f mL/kg PBW), is taken",
+		floor, vols["B"]/pbw, vols["X"], vols["X"]/pbw))
+}
