@@ -347,3 +347,17 @@ func TestAPeakNoLungReachesIsRefused(t *testing.T) {
 	require.Contains(t, re.Reason, "no compliance and resistance reproduce peak 21.5 and end 16.0")
 	require.Contains(t, re.Reason, "closest C 50 mL/cmH2O, R 10 cmH2O/(L/s)")
 }
+
+func TestAStalledFitIsALungOnlyWhenBothReadingsAreMet(t *testing.T) {
+	// A model whose pressures do not depend on R at all (peak = 5 + 500/C
+	// + 5, end = 5 + 500/C + 1: a gap of 4 whatever the lung, derived)
+	// leaves Newton no step (its Jacobian is singular). Started at C 50,
+	// which gives the peak of 20 exactly, the end of 18 is still 2 cmH2O
+	// off: that is no fit, and since no lung gives a gap of 2, the
+	// readings are refused (re-take the peak), never returned as C 50.
+	model := func(c, r float64) (float64, float64, error) { return 10 + 500/c, 6 + 500/c, nil }
+	m, err := FitMechanicsFrom(Readings{20, 18}, 5, Mechanics{ComplianceMLPerCmH2O: 50, ResistanceCmH2OPerLS: 10}, model)
+	var re *ReadingError
+	require.True(t, errors.As(err, &re), "got %+v, %v", m, err)
+	require.Equal(t, "peak", re.Retake)
+}
