@@ -372,3 +372,14 @@ func TestCalibrationAboveSweptSkipsAnUnknownHole(t *testing.T) {
 	cal.K, cal.BML, cal.SweptMinML = 0.9, 10, 0 // 1200 mL -> 1090 mL
 	require.Empty(t, calibrationCautions(cal))
 }
+
+// The calibration's tolerance: a line within a part in a billion of the
+// geometric volume (k = 1 + 1e-9, no offset) is rounding, not a piston
+// delivering more than it sweeps; k = 1 + 1e-6 is above.
+func TestCalibrationAboveSweptTolerance(t *testing.T) {
+	cal := clean().cal
+	cal.K, cal.BML = 1+1e-9, 0
+	require.Empty(t, calibrationCautions(cal))
+	cal.K = 1 + 1e-6
+	messageOf(t, calibrationCautions(cal), CautionCalibrationAboveSwept, Warn)
+}
