@@ -322,7 +322,9 @@ func holdVentilationRule(st ProtocolState, newMLPerKg, vdML float64, vdSource st
 	}
 	hi := math.Max(ProtocolRateMaxBPM, st.RateBPM)
 	lo := math.Min(ProtocolRateFloorBPM, st.RateBPM)
-	rate = round1(math.Min(hi, math.Max(lo, rate)))
+	// Rounded first, then held to the limits: a rate already above 35 /min
+	// (hi is then the rate itself) must not round up past where it was.
+	rate = math.Min(hi, math.Max(lo, round1(rate)))
 	if math.Abs(rate-st.RateBPM) < 0.05 {
 		r.Status = RuleNoStep
 		r.Action = fmt.Sprintf("rate stays %.1f /min (limits %.0f-%.0f): PaCO2 will move with the Vt step; re-check the gas", st.RateBPM, lo, hi)
