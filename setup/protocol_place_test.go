@@ -377,3 +377,47 @@ func TestStepNeverProposesAHoleBelowTheFloor(t *testing.T) {
 	require.Contains(t, res.Notes, fmt.Sprintf("the hole nearest %.0f mL, B (%.1f mL/kg PBW), is below the ARDS Network floor of 4 mL/kg PBW: the nearest hole at or above it, X (%.0f mL, %.1f mL/kg PBW), is taken",
 		floor, vols["B"]/pbw, vols["X"], vols["X"]/pbw))
 }
+
+// What the step does not change stays as it was, to the last digit: with
+// the hole kept (the floor case above, demo-b hole C) and the rate kept
+// (the alveolar-ventilation hold switched off, so the Vt step alone moves
+// the rate: nothing), the breath is the same breath and the FiO2 is not a
+// step, so the O2 flow is the flow in use, even one that is not on the
+// flowmeter's 0.1 L/min marks; recomputed it would round up to 2.1 (the
+// rounding of TestStepO2Line). No rate change: no timing, no dwell or
+// motor note.
+func TestStepKeepsTheFlowOfAnUnchangedBreath(t *testing.T) {
+	req := withCompliance(placeReq(physiology.Male, 175, "C", 20, 1.0, 10, 2.05), 15)
+	req.NoAlveolarHold = true
+	res, err := ProtocolProposal(req, GasReadings{}, placeProfile(t, "demo-b"))
+	require.NoError(t, err)
+	require.True(t, res.Step.VtChanged, "the premise: a Vt step")
+	require.False(t, res.Step.RateChanged || res.Step.FiO2Changed, "the premise: no rate or FiO2 step")
+	require.Equal(t, "C", res.Proposed.Hole, "the premise: the hole stays (notes %q)", res.Notes)
+	require.Equal(t, req.Setting.RPM, res.Proposed.RPM)
+	require.Equal(t, req.Setting.DwellS, res.Proposed.DwellS)
+	require.Equal(t, 2.05, res.Proposed.O2LPerMin, "the flow in use, not one recomputed")
+	require.Nil(t, res.Timing)
+	notes := strings.Join(res.Notes, "\n")
+	require.NotContains(t, notes, "O2 flow")
+	require.NotContains(t, notes, "dwell's step")
+}
+
+// A rate step that the motor reaches at the same I:E with a dwell the
+// controller can set says nothing of the motor's speed range or of a
+// lengthened dwell: those notes are for the cases that happened (the
+// variable-speed motor of demo-a at 20 rpm with no dwell, pH 7.25 and
+// PaCO2 50: the rate goes up within the motor's range, as in
+// TestStepPlansAnInverseRatioAtOneToOne).
+func TestStepSaysOnlyWhatTheMachineDid(t *testing.T) {
+	res, err := ProtocolProposal(placeReq(physiology.Male, 182, "8", 20, 0, 5, 0), GasReadings{PH: ptr(7.25), PaCO2MmHg: ptr(50)}, placeProfile(t, "demo-a"))
+	require.NoError(t, err)
+	require.True(t, res.Step.RateChanged, "the premise: a rate step")
+	require.NotNil(t, res.Timing)
+	require.NotEqual(t, machine.SpeedLimited, res.Timing.Speed, "the premise: within the motor's range")
+	require.LessOrEqual(t, res.Timing.RateBPM, 35.05, "the premise: the dwell's rounding kept the rate within 35")
+	notes := strings.Join(res.Notes, "\n")
+	require.NotContains(t, notes, "outside this motor's")
+	require.NotContains(t, notes, "dwell's step gave")
+	require.NotContains(t, notes, "one speed")
+}
