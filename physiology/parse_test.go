@@ -92,4 +92,23 @@ func TestTrappedVolumeEdges(t *testing.T) {
 	require.Zero(t, TrappedVolumeML(0, 2, 1))
 	require.True(t, math.IsInf(TrappedVolumeML(500, 0, 1), 1))
 	require.InDelta(t, 0, TrappedVolumeML(500, 100, 0.5), 1e-12)
+	// A lung with no time constant empties at once: nothing is trapped,
+	// even with no expiratory time (a passive exhalation's decay, common
+	// practice; tau 0 is tested before Te).
+	require.Zero(t, TrappedVolumeML(500, 0, 0))
+	require.Zero(t, TrappedVolumeML(500, 1, -0.5))
+}
+
+// The trapped volume at steady state is Vt k / (1 - k), k = e^(-Te/tau)
+// (REFERENCES.md, derived from the exponential passive exhalation), in
+// the package's own tests so that its arithmetic is checked where it is
+// written: Te = tau gives k = e^-1 = 0.367879, so 500 x 0.367879 /
+// 0.632121 = 290.99 mL; Te = 2 s, tau 0.5 s gives k = e^-4 = 0.0183156,
+// 500 x 0.0183156 / 0.9816844 = 9.329 mL (derived). The time constant is
+// R x C: 10 cmH2O/(L/s) x 50 mL/cmH2O = 0.5 s (common practice).
+func TestTrappedVolumeWorked(t *testing.T) {
+	require.InDelta(t, 290.99, TrappedVolumeML(500, 1, 1), 0.01)
+	require.InDelta(t, 9.329, TrappedVolumeML(500, 2, 0.5), 0.001)
+	require.InDelta(t, 18.658, TrappedVolumeML(1000, 2, 0.5), 0.001, "linear in Vt")
+	require.InDelta(t, 0.5, TimeConstantS(10, 50), 1e-12)
 }

@@ -400,3 +400,31 @@ func FuzzProtocolStep(f *testing.F) {
 		}
 	})
 }
+
+// The edges of the alveolar ventilation equation (REFERENCES.md: VA =
+// rate x (Vt - Vd)): a breath no larger than the dead space has no
+// alveolar ventilation to scale, so Vt equal to Vd is refused, as is a
+// rate, volume or PaCO2 of zero; a dead space of zero is a breath wholly
+// alveolar and is scaled like any other (18 x 450 / 400 = 20.25, derived).
+// Henderson-Hasselbalch needs a positive bicarbonate (REFERENCES.md).
+func TestAlveolarVentilationEdges(t *testing.T) {
+	got, err := RateForPaCO2(18, 450, 400, 0, 40, 40)
+	require.NoError(t, err, "no dead space")
+	require.InDelta(t, 20.25, got, 1e-9)
+	for _, c := range []struct {
+		name                                    string
+		rate, vt, newVt, vd, paco2, targetPaCO2 float64
+		want                                    string
+	}{
+		{"Vt equal to the dead space", 18, 150, 400, 150, 40, 40, "not above the dead space"},
+		{"new Vt equal to the dead space", 18, 450, 150, 150, 40, 40, "not above the dead space"},
+		{"rate 0", 0, 450, 400, 150, 40, 40, "rate 0 must be a positive number"},
+		{"PaCO2 0", 18, 450, 400, 150, 0, 40, "PaCO2 0 must be a positive number"},
+		{"target PaCO2 0", 18, 450, 400, 150, 40, 0, "target PaCO2 0 must be a positive number"},
+	} {
+		_, err := RateForPaCO2(c.rate, c.vt, c.newVt, c.vd, c.paco2, c.targetPaCO2)
+		require.ErrorContains(t, err, c.want, c.name)
+	}
+	_, err = PaCO2ForPH(7.35, 0)
+	require.ErrorContains(t, err, "bicarbonate 0 mmol/L must be a positive number")
+}

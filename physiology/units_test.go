@@ -1,6 +1,7 @@
 package physiology
 
 import (
+	"strconv"
 	"strings"
 	"testing"
 
@@ -82,4 +83,12 @@ func TestParseHeightInchesAfterFeetBoundary(t *testing.T) {
 	require.InDelta(t, 71.9, h.Inches, 1e-9, "derived: 60 + 11.9")
 	_, err = ParseHeight(`5'12"`)
 	require.ErrorContains(t, err, "under 12")
+}
+
+// A typed value is quoted whole up to 40 characters and cut after them,
+// with the length said (a readable message line, common practice).
+func TestQuoteCutsAfterForty(t *testing.T) {
+	forty := strings.Repeat("é", 40)
+	require.Equal(t, strconv.Quote(forty), Quote(forty))
+	require.Equal(t, strconv.Quote(forty)+"... (41 characters)", Quote(forty+"x"))
 }
