@@ -428,3 +428,32 @@ func TestAlveolarVentilationEdges(t *testing.T) {
 	_, err = PaCO2ForPH(7.35, 0)
 	require.ErrorContains(t, err, "bicarbonate 0 mmol/L must be a positive number")
 }
+
+// A rate already at the protocol's 35 /min cannot rise to hold the
+// alveolar ventilation when the plateau takes Vt down: the rule says the
+// rate stays and PaCO2 will move (ARDS Network protocol card: rate at most
+// 35 /min), and the rate is not a change. Vt 6 -> 5 mL/kg of 70 kg would
+// want 35 x 1.357 = 47.5 /min (derived, as in TestRulesCombine).
+//
+// The oxygenation rule moves along the table one pair: from 0.4/5 the next
+// pair up is 0.4/8, a PEEP step with the FiO2 the same, so only PEEP is a
+// change (ARDS Network lower-PEEP/FiO2 table, REFERENCES.md).
+func TestStepChangesOnlyWhatMoved(t *testing.T) {
+	st := patientAt(0.4, 5)
+	st.RateBPM, st.PlateauCmH2O = 35, 32
+	s, err := NextProtocolStep(st, GasReadings{PH: ptr(7.38), PaCO2MmHg: ptr(42), SpO2Pct: ptr(86)})
+	require.NoError(t, err)
+	require.True(t, s.VtChanged)
+	require.Equal(t, 5.0, s.MLPerKg)
+	hold := ruleOf(t, s, "alveolar-ventilation")
+	require.Equal(t, RuleNoStep, hold.Status, hold.Action)
+	require.Equal(t, "rate stays 35.0 /min (limits 10-35): PaCO2 will move with the Vt step; re-check the gas", hold.Action)
+	require.False(t, s.RateChanged)
+	require.Equal(t, 35.0, s.RateBPM)
+
+	require.Equal(t, RuleFired, ruleOf(t, s, "oxygenation").Status)
+	require.True(t, s.PEEPChanged)
+	require.Equal(t, 8.0, s.PEEPCmH2O)
+	require.False(t, s.FiO2Changed, "0.4/5 -> 0.4/8 keeps the FiO2")
+	require.Equal(t, 0.4, s.FiO2)
+}
