@@ -457,3 +457,73 @@ func TestStepChangesOnlyWhatMoved(t *testing.T) {
 	require.False(t, s.FiO2Changed, "0.4/5 -> 0.4/8 keeps the FiO2")
 	require.Equal(t, 0.4, s.FiO2)
 }
+
+// The table's PEEP is matched within half a cmH2O, the half inclusive (a
+// manometer read to 1 cmH2O; this tool's rule, beside the ARDS Network
+// lower-PEEP/FiO2 table): at 0.5/8.5 the patient is at 0.5/8, so one up is
+// 0.5/10 and the pair is said to be on the table; at 0.45/8.5 one up is
+// 0.5/8 (PEEP 8 is not a step down from 8.5 within the half); at 0.55/7.5
+// one down is 0.5/8 (PEEP 8 is not a step up from 7.5 within the half).
+func TestTablePEEPIsMatchedWithinHalfACmH2O(t *testing.T) {
+	low, high := GasReadings{SpO2Pct: ptr(85)}, GasReadings{SpO2Pct: ptr(98)}
+	for _, c := range []struct {
+		name       string
+		fio2, peep float64
+		g          GasReadings
+		want       PEEPFiO2Pair
+	}{
+		{"0.5/8.5 is 0.5/8: up to 0.5/10", 0.5, 8.5, low, PEEPFiO2Pair{0.5, 10}},
+		{"0.45/8.5: up to 0.5/8", 0.45, 8.5, low, PEEPFiO2Pair{0.5, 8}},
+		{"0.55/7.5: down to 0.5/8", 0.55, 7.5, high, PEEPFiO2Pair{0.5, 8}},
+	} {
+		s, err := NextProtocolStep(patientAt(c.fio2, c.peep), c.g)
+		require.NoError(t, err, c.name)
+		r := ruleOf(t, s, "oxygenation")
+		require.Equal(t, RuleFired, r.Status, "%s: %s", c.name, r.Action)
+		require.Equal(t, c.want, PEEPFiO2Pair{FiO2: s.FiO2, PEEPCmH2O: s.PEEPCmH2O}, "%s: %s", c.name, r.Action)
+	}
+	s, err := NextProtocolStep(patientAt(0.5, 8.5), low)
+	require.NoError(t, err)
+	require.NotContains(t, ruleOf(t, s, "oxygenation").Action, "not a pair of the table")
+}
+
+// The rate's ends are judged at the 0.1 /min the rate is shown with: a
+// rate of 10.05 /min is at the protocol's floor of 10 and 34.95 at its
+// most of 35 (ARDS Network protocol card: rate 6-35, this tool's floor
+// 10), so neither steps further. Where the pH's rate rounds to the rate
+// now, there is no step either: pH 7.533 over the goal, PaCO2 30, with the
+// plateau taking Vt 6 -> 5 mL/kg of 70 kg (dead space 154 mL), wants 20 x
+// 266 / 196 x 10^(7.40 - 7.533) = 19.98 /min, which is 20.0 (alveolar
+// ventilation equation and Henderson-Hasselbalch, REFERENCES.md;
+// derived). The plateau's source is said, "predicted" when none is given.
+func TestRateRulesAtTheShownRate(t *testing.T) {
+	st := patientAt(0.5, 8)
+	st.RateBPM = 10.05
+	s, err := NextProtocolStep(st, GasReadings{PH: ptr(7.50), PaCO2MmHg: ptr(30)})
+	require.NoError(t, err)
+	ph := ruleOf(t, s, "ph")
+	require.Equal(t, RuleNoStep, ph.Status, ph.Action)
+	require.Contains(t, ph.Action, "no lower rate (floor 10)")
+	require.False(t, s.RateChanged)
+
+	st.RateBPM = 34.95
+	s, err = NextProtocolStep(st, GasReadings{PH: ptr(7.10), PaCO2MmHg: ptr(70)})
+	require.NoError(t, err)
+	ph = ruleOf(t, s, "ph")
+	require.Equal(t, RuleNoStep, ph.Status, ph.Action)
+	require.Contains(t, ph.Action, "below 7.15 with the rate already")
+	require.False(t, s.RateChanged)
+
+	st = patientAt(0.5, 8)
+	st.PlateauCmH2O = 32
+	s, err = NextProtocolStep(st, GasReadings{PH: ptr(7.533), PaCO2MmHg: ptr(30)})
+	require.NoError(t, err)
+	ph = ruleOf(t, s, "ph")
+	require.Equal(t, RuleNoStep, ph.Status, ph.Action)
+	require.Contains(t, ph.Action, "is the rate now, 20.0 /min")
+	require.Equal(t, "plateau cmH2O (predicted)", ruleOf(t, s, "plateau").Reading)
+	st.PlateauSource = "fitted to the readings"
+	s, err = NextProtocolStep(st, GasReadings{PH: ptr(7.533), PaCO2MmHg: ptr(30)})
+	require.NoError(t, err)
+	require.Equal(t, "plateau cmH2O (fitted to the readings)", ruleOf(t, s, "plateau").Reading)
+}
