@@ -121,3 +121,34 @@ func TestVtStaysAbove6WhenThePHIsSevere(t *testing.T) {
 	require.True(t, s.VtChanged)
 	require.Equal(t, 6.0, s.MLPerKg)
 }
+
+// The other lungs' rules at their edges (ARDS Network protocol card: the
+// plateau goal is 30 cmH2O or less, pH below 7.15 is the severe band; the
+// FiO2 step for a lung the card is not for is this tool's own, 0.1 at a
+// time, room air the lowest): a plateau of exactly 30 is in goal, a pH of
+// exactly 7.15 is not called severe, a normal lung over the oxygenation
+// goal on room air has no oxygen to take away. For ARDS at pH below 7.15
+// a Vt above 6 stays at a plateau of exactly 30 (in goal: the card allows
+// Vt up there, not down).
+func TestOtherLungsAtTheirEdges(t *testing.T) {
+	st := ProtocolState{PBWKg: 70, MLPerKg: 8, RateBPM: 14, PEEPCmH2O: 5, FiO2: 0.21, PlateauCmH2O: 30, Lung: Normal}
+	s, err := NextProtocolStep(st, GasReadings{SpO2Pct: ptr(99), PH: ptr(7.15), PaCO2MmHg: ptr(60)})
+	require.NoError(t, err)
+	require.Equal(t, RuleInGoal, ruleOf(t, s, "plateau").Status, ruleOf(t, s, "plateau").Action)
+	ox := ruleOf(t, s, "oxygenation")
+	require.Equal(t, RuleNoStep, ox.Status, ox.Action)
+	require.Equal(t, "above goal on room air: no oxygen to take away", ox.Action)
+	require.False(t, s.FiO2Changed)
+	require.Equal(t, 0.21, s.FiO2)
+	require.NotContains(t, ruleOf(t, s, "ph").Action, "below 7.15")
+
+	s, err = NextProtocolStep(st, GasReadings{PH: ptr(7.14), PaCO2MmHg: ptr(60)})
+	require.NoError(t, err)
+	require.Contains(t, ruleOf(t, s, "ph").Action, "below 7.15: call the clinician now")
+
+	ards := ProtocolState{PBWKg: 70, MLPerKg: 7, RateBPM: 20, PEEPCmH2O: 8, FiO2: 0.5, PlateauCmH2O: 30, Lung: ARDS}
+	s, err = NextProtocolStep(ards, GasReadings{PH: ptr(7.10), PaCO2MmHg: ptr(70)})
+	require.NoError(t, err)
+	require.False(t, s.VtChanged, ruleOf(t, s, "plateau").Action)
+	require.Equal(t, 7.0, s.MLPerKg)
+}
