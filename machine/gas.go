@@ -116,7 +116,6 @@ type v2run struct {
 	base                                   *propEntry
 
 	p, v, peak, peakQ float64
-	clamped           bool
 	out               GasOutcome
 }
 
@@ -281,23 +280,17 @@ func (r *v2run) deliver(i0 int) {
 			pr = &blk
 		}
 		u0, u1 := flows[i], flows[i+1]
-		vented := false
-		if r.clamped {
-			r.p, r.v = p, v
-			vented = r.ventStep(u0, u1)
-			v = r.v
-		}
-		if !vented {
-			r.clamped = false
-			p1, v1 := pr.advance(p, v, u0-gp, u1-gp)
-			if p1 > r.reliefP {
-				var qCross float64
-				p, v, qCross = r.enterRelief(p, v, p1, u0, u1, ctot)
-				// The lung's flow peaks where the pressure stops rising, between grid points.
-				peakQ = max(peakQ, qCross)
-			} else {
-				p, v = r.limit(p, p1, ctot), v1
-			}
+		// A step that would end above the relief vents from where it
+		// crosses it; one that starts at the relief (the valve open) crosses
+		// at once and is held there for the whole step.
+		p1, v1 := pr.advance(p, v, u0-gp, u1-gp)
+		if p1 > r.reliefP {
+			var qCross float64
+			p, v, qCross = r.enterRelief(p, v, p1, u0, u1, ctot)
+			// The lung's flow peaks where the pressure stops rising, between grid points.
+			peakQ = max(peakQ, qCross)
+		} else {
+			p, v = r.limit(p, p1, ctot), v1
 		}
 		q := (p - v*r.invCl) * r.invR
 		if p > peak {
@@ -323,7 +316,7 @@ func (r *v2run) limit(p0, p1, ctot float64) float64 {
 	if p1 > r.reliefP {
 		r.out.ReliefVentedML += ctot * (p1 - r.reliefP)
 		p1 = r.reliefP
-		r.clamped, r.out.PressureLimited = true, true
+		r.out.PressureLimited = true
 	}
 	r.out.CompressionLossML += (ctot - r.cc) * (p1 - p0)
 	return p1
@@ -331,8 +324,9 @@ func (r *v2run) limit(p0, p1, ctot float64) float64 {
 
 // enterRelief redoes a step whose end pressure p1 went above the relief:
 // open up to where the pressure reaches it (by linear interpolation of p
-// across the step), then held at the relief for the rest of the step, as
-// ventStep does for a whole one. The crossing then costs O(h^2), not O(h).
+// across the step), then held at the relief for the rest of the step (all
+// of it when the step starts at the relief, the valve already open). The
+// crossing then costs O(h^2), not O(h).
 // It returns the new pressure and volume and the lung's flow at the crossing.
 func (r *v2run) enterRelief(p0, v0, p1, u0, u1, ctot float64) (float64, float64, float64) {
 	tau := min(1, max(0, (r.reliefP-p0)/(p1-p0)))
@@ -351,25 +345,8 @@ func (r *v2run) enterRelief(p0, v0, p1, u0, u1, ctot float64) (float64, float64,
 	// the leak and what brings the compliances from pa to the relief, vents.
 	r.out.ReliefVentedML += (ua+u1)/2*rest - (v1 - va) - leak - ctot*(r.reliefP-pa)
 	r.out.CompressionLossML += (ctot - r.cc) * (r.reliefP - p0)
-	r.clamped, r.out.PressureLimited = true, true
+	r.out.PressureLimited = true
 	return r.reliefP, v1, r.patient(min(pa, r.reliefP), va)
-}
-
-// ventStep advances one step with the circuit held at the relief pressure:
-// the lung fills towards it through R, the leak runs at the relief
-// pressure, and the rest of the piston's flow vents. It reports false, and
-// changes nothing, when the piston no longer keeps up (the valve closes).
-func (r *v2run) ventStep(u0, u1 float64) bool {
-	leak := r.g * (r.reliefP + r.peep) * r.h
-	veq := r.cl * r.reliefP
-	v1 := veq + (r.v-veq)*r.base.lungDecay
-	vent := (u0+u1)/2*r.h - (v1 - r.v) - leak
-	if u0-r.patient(r.p, r.v)-r.g*(r.reliefP+r.peep) < 0 || vent < 0 {
-		return false
-	}
-	r.out.ReliefVentedML += vent
-	r.v = v1
-	return true
 }
 
 // GasComplianceMLPerCmH2O is the isothermal (Boyle) compliance of a volume
