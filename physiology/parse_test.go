@@ -19,6 +19,12 @@ func TestParseIE(t *testing.T) {
 	}
 	_, err := ParseIE("2:1")
 	require.ErrorContains(t, err, "inverse")
+	// A zero on either side is no ratio at all, not an inverse or an
+	// endless one.
+	for _, text := range []string{"0:2", "1:0", "0"} {
+		_, err := ParseIE(text)
+		require.ErrorContains(t, err, "is not a ratio like 1:2", text)
+	}
 }
 
 func TestParseNumberRefusesWhatIsNotAPlainDecimal(t *testing.T) {
