@@ -40,7 +40,6 @@ func (e *ReadingError) Is(target error) bool { return target == ErrNoMechanics }
 type Mechanics struct {
 	ComplianceMLPerCmH2O float64
 	ResistanceCmH2OPerLS float64
-	Iterations           int // Newton steps, or the bracketing solve's steps on R
 	// EndOnly marks a fit to the end pressure alone (FitComplianceFromEnd):
 	// the resistance is the one given, not fitted, because the peak told
 	// nothing (it sat at the relief pressure).
@@ -137,14 +136,14 @@ func FitComplianceFromEnd(endCmH2O, peepCmH2O, r float64, model PressureModel) (
 		panic(fmt.Sprintf("physiology: FitComplianceFromEnd at R %v, outside %g-%g", r, FitRMin, FitRMax))
 	}
 	s := newFitter(Readings{PeakCmH2O: endCmH2O, EndCmH2O: endCmH2O}, peepCmH2O, model)
-	lc, side, n, err := s.complianceFor(math.Log(r))
+	lc, side, err := s.complianceFor(math.Log(r))
 	if err != nil {
 		return Mechanics{}, err
 	}
 	if side != 0 {
 		return Mechanics{}, complianceError(side)
 	}
-	return Mechanics{ComplianceMLPerCmH2O: math.Exp(lc), ResistanceCmH2OPerLS: r, Iterations: n, EndOnly: true}, nil
+	return Mechanics{ComplianceMLPerCmH2O: math.Exp(lc), ResistanceCmH2OPerLS: r, EndOnly: true}, nil
 }
 
 // checkReadings refuses readings no lung gives whatever its mechanics.
@@ -237,10 +236,10 @@ func (s fitter) newton(lc, lr float64) (Mechanics, bool, error) {
 		return Mechanics{}, false, err
 	}
 	const h = 1e-4
-	for it := 1; it <= 30; it++ {
+	for range 30 {
 		norm := math.Hypot(f1, f2)
 		if norm < s.target {
-			return Mechanics{ComplianceMLPerCmH2O: math.Exp(lc), ResistanceCmH2OPerLS: math.Exp(lr), Iterations: it}, true, nil
+			return Mechanics{ComplianceMLPerCmH2O: math.Exp(lc), ResistanceCmH2OPerLS: math.Exp(lr)}, true, nil
 		}
 		// Difference inward at the box's upper edges.
 		hc, hr := h, h
@@ -279,7 +278,7 @@ func (s fitter) newton(lc, lr float64) (Mechanics, bool, error) {
 		}
 	}
 	if math.Abs(f1) < FitTolCmH2O && math.Abs(f2) < FitTolCmH2O {
-		return Mechanics{ComplianceMLPerCmH2O: math.Exp(lc), ResistanceCmH2OPerLS: math.Exp(lr), Iterations: 30}, true, nil
+		return Mechanics{ComplianceMLPerCmH2O: math.Exp(lc), ResistanceCmH2OPerLS: math.Exp(lr)}, true, nil
 	}
 	return Mechanics{}, false, nil
 }
@@ -288,27 +287,27 @@ func (s fitter) newton(lc, lr float64) (Mechanics, bool, error) {
 // over the box. side is -1 when even FitCMin reads too low an end (the
 // readings need a stiffer lung), +1 when even FitCMax reads too high, and
 // then lc is that edge.
-func (s fitter) complianceFor(lr float64) (lc float64, side, n int, err error) {
+func (s fitter) complianceFor(lr float64) (lc float64, side int, err error) {
 	f := func(x float64) (float64, error) {
 		_, e, err := s.residual(x, lr)
 		return e, err
 	}
 	lo, err := f(s.logCMin)
 	if err != nil {
-		return 0, 0, 0, err
+		return 0, 0, err
 	}
 	if lo < 0 {
-		return s.logCMin, -1, 1, nil
+		return s.logCMin, -1, nil
 	}
 	hi, err := f(s.logCMax)
 	if err != nil {
-		return 0, 0, 0, err
+		return 0, 0, err
 	}
 	if hi > 0 {
-		return s.logCMax, 1, 2, nil
+		return s.logCMax, 1, nil
 	}
-	lc, n, err = illinois(f, s.logCMin, s.logCMax, lo, hi)
-	return lc, 0, n + 2, err
+	lc, err = illinois(f, s.logCMin, s.logCMax, lo, hi)
+	return lc, 0, err
 }
 
 // bracketed is the solve that cannot stall: R by bracketing on the peak,
@@ -316,7 +315,7 @@ func (s fitter) complianceFor(lr float64) (lc float64, side, n int, err error) {
 func (s fitter) bracketed() (Mechanics, error) {
 	var side int
 	g := func(lr float64) (float64, error) {
-		lc, sd, _, err := s.complianceFor(lr)
+		lc, sd, err := s.complianceFor(lr)
 		if err != nil {
 			return 0, err
 		}
@@ -345,11 +344,11 @@ func (s fitter) bracketed() (Mechanics, error) {
 		return Mechanics{}, &ReadingError{Retake: "peak", Reason: fmt.Sprintf(
 			"peak %.1f cmH2O is too far above the end pressure %.1f for this setting: the readings need a resistance above %g cmH2O/(L/s)", s.rd.PeakCmH2O, s.rd.EndCmH2O, FitRMax)}
 	}
-	lr, n, err := illinois(g, s.logRMin, s.logRMax, lo, hi)
+	lr, err := illinois(g, s.logRMin, s.logRMax, lo, hi)
 	if err != nil {
 		return Mechanics{}, err
 	}
-	lc, sd, _, err := s.complianceFor(lr)
+	lc, sd, err := s.complianceFor(lr)
 	if err != nil {
 		return Mechanics{}, err
 	}
@@ -365,7 +364,7 @@ func (s fitter) bracketed() (Mechanics, error) {
 			"no compliance and resistance reproduce peak %.1f and end %.1f cmH2O at this setting (closest C %.0f mL/cmH2O, R %.0f cmH2O/(L/s))",
 			s.rd.PeakCmH2O, s.rd.EndCmH2O, math.Exp(lc), math.Exp(lr))}
 	}
-	return Mechanics{ComplianceMLPerCmH2O: math.Exp(lc), ResistanceCmH2OPerLS: math.Exp(lr), Iterations: n}, nil
+	return Mechanics{ComplianceMLPerCmH2O: math.Exp(lc), ResistanceCmH2OPerLS: math.Exp(lr)}, nil
 }
 
 // complianceError says that the readings need a compliance outside the
@@ -382,21 +381,21 @@ func complianceError(side int) error {
 // illinois finds a root of f in [a, b], given fa = f(a) and fb = f(b) of
 // opposite signs, by regula falsi with the Illinois halving (Dowell and
 // Jarratt 1971): to |f| below 1e-10 or a bracket of 1e-12, at most 60
-// steps. n is the number of evaluations.
-func illinois(f func(float64) (float64, error), a, b, fa, fb float64) (x float64, n int, err error) {
+// evaluations of f.
+func illinois(f func(float64) (float64, error), a, b, fa, fb float64) (float64, error) {
 	side := 0
-	x = a
-	for n = 1; n <= 60; n++ {
+	x := a
+	for range 60 {
 		x = (a*fb - b*fa) / (fb - fa)
 		if math.IsNaN(x) || x <= math.Min(a, b) || x >= math.Max(a, b) {
 			x = (a + b) / 2
 		}
 		fx, err := f(x)
 		if err != nil {
-			return 0, n, err
+			return 0, err
 		}
 		if math.Abs(fx) < 1e-10 || math.Abs(b-a) < 1e-12 {
-			return x, n, nil
+			return x, nil
 		}
 		if (fx > 0) == (fb > 0) {
 			b, fb = x, fx
@@ -412,7 +411,7 @@ func illinois(f func(float64) (float64, error), a, b, fa, fb float64) (x float64
 			side = 1
 		}
 	}
-	return x, n, nil
+	return x, nil
 }
 
 // Plausible fitted mechanics are the ranges a person may enter (CMin-CMax,
