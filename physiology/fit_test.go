@@ -393,3 +393,30 @@ func TestAStalledFitIsALungOnlyWhenBothReadingsAreMet(t *testing.T) {
 	require.True(t, errors.As(err, &re), "got %+v, %v", m, err)
 	require.Equal(t, "peak", re.Retake)
 }
+
+// From far off (a box corner, or a lung neither stiff nor loose), the
+// Newton steps are capped at a factor e and halved until the residual
+// falls, so they still reach the equation of motion's lung (derived as in
+// TestFitMechanicsSolvesBothEquations) within the 30 runs of
+// TestNewtonSolvesAWellPosedLungInFewModelRuns; a step left uncapped or
+// lengthened instead of halved overshoots to the box's edge and needs
+// hundreds of runs, or ends at the wrong lung.
+func TestNewtonFromFarOffIsCappedAndHalved(t *testing.T) {
+	starts := []Mechanics{
+		{ComplianceMLPerCmH2O: FitCMax, ResistanceCmH2OPerLS: FitRMin},
+		{ComplianceMLPerCmH2O: FitCMin, ResistanceCmH2OPerLS: FitRMax},
+		{ComplianceMLPerCmH2O: 100, ResistanceCmH2OPerLS: 3},
+	}
+	for _, k := range []struct{ peak, end, c, r float64 }{
+		{20, 16, 50, 10}, {32.5, 26.5, 25, 15}, {115, 107, 5, 20}, {65, 25, 50, 100},
+	} {
+		for _, st := range starts {
+			n := 0
+			m, err := FitMechanicsFrom(Readings{k.peak, k.end}, 5, st, countingModel(equationOfMotion(5), &n))
+			require.NoError(t, err, "%+v from %+v", k, st)
+			require.InEpsilon(t, k.c, m.ComplianceMLPerCmH2O, 1e-6, "%+v from %+v: C", k, st)
+			require.InEpsilon(t, k.r, m.ResistanceCmH2OPerLS, 1e-6, "%+v from %+v: R", k, st)
+			require.LessOrEqual(t, n, 30, "%+v from %+v: model runs", k, st)
+		}
+	}
+}
