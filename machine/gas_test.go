@@ -246,6 +246,9 @@ func TestPreCompressionIsBoyles(t *testing.T) {
 	in.Gas = GasPath{HeadPositionCm: 29.2}
 	r := run(t, in)
 	require.InDelta(t, 6.0343, r.Gas.PreCompressionML, 0.0005)
+	// To the opening's solve (50 halvings of a 1 ms step), not to the
+	// grid: 785.398 x 8 / (1033.227 + 8) to 1e-6 mL (derived).
+	require.InDelta(t, math.Pi*25*10*8/(cmH2OPerAtm+8), r.Gas.PreCompressionML, 1e-6)
 	// The valve opens where the piston has moved that far: in-line crank,
 	// x = r cos(theta) + sqrt(L^2 - r^2 sin^2 theta), from theta = pi.
 	omega := 2 * math.Pi * 21 / 60
@@ -255,6 +258,9 @@ func TestPreCompressionIsBoyles(t *testing.T) {
 	}
 	moved := math.Pi * 25 * (pos(r.Gas.ValveOpensS) - pos(0))
 	require.InDelta(t, 6.0343, moved, 0.005, "opening at %v s", r.Gas.ValveOpensS)
+	// The flow is linear across a step, so the opening is found to the
+	// step's cubic error, about 1e-6 mL at 1 ms (measured; derived order).
+	require.InDelta(t, math.Pi*25*10*8/(cmH2OPerAtm+8), moved, 1e-5, "opening at %v s", r.Gas.ValveOpensS)
 	require.Greater(t, r.Gas.CompressionLossML, r.Gas.PreCompressionML, "the gas is compressed further while delivering")
 }
 
@@ -282,6 +288,23 @@ func TestReliefHoldsAcrossHolesAndLungs(t *testing.T) {
 					require.False(t, math.IsNaN(v) || math.IsInf(v, 0), name...)
 				}
 			}
+		}
+	}
+}
+
+// Observe sees every grid point once, in order, at k x the step from 0 to
+// the end of the delivery (the stroke's own grid: Steps + 1 points), with
+// the cylinder's gas, the leak and the relief valve in play alike.
+func TestObserveSeesEachGridPointAtItsTime(t *testing.T) {
+	for name, gas := range map[string]GasPath{"v1": {}, "v2": demoGas(), "relief": func() GasPath { g := demoGas(); g.ReliefCmH2O = 20; return g }()} {
+		in := demoStroke(4.0)
+		in.Gas = gas
+		var times []float64
+		in.Observe = func(ts, _, _, _ float64) { times = append(times, ts) }
+		r := run(t, in)
+		require.Len(t, times, r.Steps+1, name)
+		for k, ts := range times {
+			require.Equal(t, float64(k)*r.StepS, ts, "%s: point %d", name, k)
 		}
 	}
 }
