@@ -124,12 +124,7 @@ func (r *v2run) patient(p, v float64) float64 { return (p - v*r.invCl) * r.invR 
 // mark records the state at grid point i, with the piston's own pressure.
 func (r *v2run) mark(i int, pistonCmH2O float64) {
 	q := r.patient(r.p, r.v)
-	if r.p > r.peak {
-		r.peak = r.p
-	}
-	if q > r.peakQ {
-		r.peakQ = q
-	}
+	r.peak, r.peakQ = max(r.peak, r.p), max(r.peakQ, q)
 	if r.tr != nil {
 		r.tr.at(i, pistonCmH2O)
 	}

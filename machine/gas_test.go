@@ -308,3 +308,20 @@ func TestObserveSeesEachGridPointAtItsTime(t *testing.T) {
 		}
 	}
 }
+
+// A breath whose leak outruns the piston never rises above where it
+// started: with 300 mL left in a 20 mL/cmH2O lung over PEEP 5 the circuit
+// starts at 5 + 300 / 20 = 20 cmH2O (derived), a 60 L/min leak at 20 cmH2O
+// empties it faster than the smallest hole fills it, so the peak is the
+// start and the lung's flow never goes above 0 (it only empties).
+func TestAPeakCanBeWhereTheBreathStarts(t *testing.T) {
+	in := demoStroke(1.4)
+	in.Lung, in.StartVolumeML, in.PEEPCmH2O = Lung{20, 12}, 300, 5
+	in.Gas = demoGas()
+	in.Gas.LeakLPerMinAt20CmH2O = 60
+	r := run(t, in)
+	require.InDelta(t, 20, r.PeakCmH2O, 1e-9)
+	require.Less(t, r.EndCmH2O, 20.0)
+	require.Less(t, r.DeliveredML, 0.0, "the lung lost gas")
+	require.InDelta(t, 0, r.PeakPatientFlowMLPerS, 1e-9)
+}
