@@ -50,7 +50,9 @@ func TestPropMatchesGonumMatrixExponential(t *testing.T) {
 		got := []float64{pr.pp, pr.pv, pr.pw, pr.pd, pr.vp, pr.vv, pr.vw, pr.vd}
 		want := []float64{e.At(0, 0), e.At(0, 1), e.At(0, 2), e.At(0, 3), e.At(1, 0), e.At(1, 1), e.At(1, 2), e.At(1, 3)}
 		for i := range got {
-			require.InDelta(t, want[i], got[i], 1e-9*math.Max(1, math.Abs(want[i])), "%+v entry %d", c, i)
+			// Each entry to 1e-9 of itself: the slope's entries are O(h^2),
+			// far below 1, and an absolute tolerance would pass them blind.
+			require.InDelta(t, want[i], got[i], 1e-9*math.Abs(want[i]), "%+v entry %d", c, i)
 		}
 	}
 }
@@ -207,6 +209,32 @@ func TestSimulatorReuseGivesTheSameFigures(t *testing.T) {
 			require.NoError(t, err)
 			require.Equal(t, run(t, in), a, "radius %v gas %+v", radius, gas)
 		}
+	}
+}
+
+// A Simulator reused across strokes that differ in one thing only (the
+// circuit's compliance, the lung's resistance or compliance, the leak, the
+// step) gives what a fresh one gives: what it keeps from the last stroke
+// is kept only while all of them stay the same.
+func TestSimulatorReuseSeesEachChangeAlone(t *testing.T) {
+	base := demoStroke(2.8)
+	base.Gas = demoGas()
+	base.StepS = 0.001
+	for name, mod := range map[string]func(*StrokeInput){
+		"circuit compliance": func(in *StrokeInput) { in.CircuitMLPerCmH2O = 3 },
+		"lung resistance":    func(in *StrokeInput) { in.Lung.ResistanceCmH2OPerLS = 25 },
+		"lung compliance":    func(in *StrokeInput) { in.Lung.ComplianceMLPerCmH2O = 20 },
+		"leak":               func(in *StrokeInput) { in.Gas.LeakLPerMinAt20CmH2O = 6 },
+		"step":               func(in *StrokeInput) { in.StepS = 0.0005 },
+	} {
+		var sim Simulator
+		_, err := sim.SimulateStroke(base)
+		require.NoError(t, err)
+		in := base
+		mod(&in)
+		got, err := sim.SimulateStroke(in)
+		require.NoError(t, err)
+		require.Equal(t, run(t, in), got, name)
 	}
 }
 

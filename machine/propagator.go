@@ -74,11 +74,9 @@ func (s *prop) advance(p, v, w0, w1 float64) (float64, float64) {
 }
 
 // propEntry is what a version 2 stroke reuses while the lung, circuit,
-// leak and step stay the same: the step with the circuit's compliance alone
-// and the lung's decay towards the relief pressure over one step.
+// leak and step stay the same: the step with the circuit's compliance alone.
 type propEntry struct {
-	prop      prop
-	lungDecay float64 // e^(-h / (R Cl))
+	prop prop
 }
 
 // propCache keeps the last propEntry.
@@ -90,7 +88,7 @@ type propCache struct {
 
 func (pc *propCache) get(cc, rML, cl, g, h float64) *propEntry {
 	if !pc.ok || pc.cc != cc || pc.rML != rML || pc.cl != cl || pc.g != g || pc.h != h {
-		pc.e = propEntry{prop: newProp(cc, rML, cl, g, h), lungDecay: math.Exp(-h / (rML * cl))}
+		pc.e = propEntry{prop: newProp(cc, rML, cl, g, h)}
 		pc.ok, pc.cc, pc.rML, pc.cl, pc.g, pc.h = true, cc, rML, cl, g, h
 	}
 	return &pc.e
