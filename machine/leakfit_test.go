@@ -81,3 +81,26 @@ func TestLeakFitRefusesBadRuns(t *testing.T) {
 	_, err = FitCalibrationWithLeak(runs, -1)
 	require.ErrorIs(t, err, ErrCalibration)
 }
+
+// Test lungs exactly a factor 2 apart are enough to fit the leak (DESIGN
+// version 2: less than a factor 2 keeps it); each residual's per cent is
+// of its prediction, 100 x (measured - predicted) / predicted (derived);
+// a run measuring nothing is refused by its number.
+func TestLeakFitAtItsEdges(t *testing.T) {
+	runs := benchRuns(20, 40)
+	synthesize(t, runs, Calibration{K: 0.95, BML: -6}, 2)
+	runs[1].MeasuredML *= 1.02 // one run 2 % above the model
+	fit, err := FitCalibrationWithLeak(runs, 0)
+	require.NoError(t, err)
+	require.True(t, fit.LeakFitted, fit.LeakNote)
+	for i, r := range fit.Residuals {
+		require.InDelta(t, runs[i].MeasuredML-r.PredictedML, r.ResidualML, 1e-9, "run %d", i+1)
+		require.InDelta(t, 100*r.ResidualML/r.PredictedML, r.ResidualPct, 1e-9, "run %d", i+1)
+	}
+	require.Greater(t, fit.Residuals[1].ResidualPct, 0.5, "the run measured high")
+
+	runs[1].MeasuredML = 0
+	_, err = FitCalibrationWithLeak(runs, 0)
+	require.ErrorIs(t, err, ErrCalibration)
+	require.ErrorContains(t, err, "run 2 measured 0 mL must be positive")
+}
