@@ -388,6 +388,9 @@ func TestAStrokeRefusesWhatNoMachineIs(t *testing.T) {
 		in := demoStroke(2.8)
 		mod(&in)
 		_, err := SimulateStroke(in)
+		if name == "rpm 0" { // refused as a speed, not later as an endless delivery
+			require.ErrorContains(t, err, "speed 0 rpm must be positive", name)
+		}
 		if name == "rod too short" { // the crank's own refusal (Crank.Validate)
 			require.ErrorContains(t, err, "must be longer than radius", name)
 			continue

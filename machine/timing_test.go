@@ -126,3 +126,21 @@ func TestIEIsNeverInverse(t *testing.T) {
 		}
 	}
 }
+
+// A motor's speeds are counted from its lowest, which need not be a
+// multiple of its step: from 8.3 rpm in 0.5 rpm steps, 8.8 and 9.3 are
+// speeds and 9.0 is not (common practice: a controller's detents start at
+// its lowest speed). A rate of 0 and a motor whose lowest speed is 0 are
+// refused before any timing is planned.
+func TestTimingEdges(t *testing.T) {
+	offset := Motor{MinRPM: 8.3, MaxRPM: 40, StepRPM: 0.5}
+	require.True(t, offset.Settable(8.8))
+	require.True(t, offset.Settable(9.3))
+	require.False(t, offset.Settable(9.0))
+	_, err := PlanTiming(variable, controller, math.Pi, 0, 2)
+	require.ErrorIs(t, err, ErrTiming)
+	require.ErrorContains(t, err, "rate 0 must be positive")
+	_, err = PlanTiming(Motor{MinRPM: 0, MaxRPM: 40, StepRPM: 0.5}, controller, math.Pi, 12, 2)
+	require.ErrorIs(t, err, ErrTiming)
+	require.ErrorContains(t, err, "is not usable")
+}
