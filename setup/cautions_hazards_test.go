@@ -66,7 +66,7 @@ func TestEachHazardAtItsLimit(t *testing.T) {
 		// under 2 hours to it is low.
 		{CautionO2CylinderLow, "common practice", Warn,
 			func(a *assessment) { a.f.CylinderMinutes = 119.9 }, func(a *assessment) { a.f.CylinderMinutes = 120 },
-			[]string{"reserve of 40 bar in 120 min", "empty in 400 min", "FiO2 falls to 0.21"}, "change it at the reserve", [2]float64{119.9, 120}},
+			[]string{"reserve of 40 bar in 120 min", "(under 2 hours)", "empty in 400 min", "FiO2 falls to 0.21"}, "change it at the reserve", [2]float64{119.9, 120}},
 		// Devine 1974: the formula starts at 60 in = 152.4 cm.
 		{CautionHeightBelowFormula, "Devine 1974", Warn,
 			func(a *assessment) { a.heightCm = 152.3 }, func(a *assessment) { a.heightCm = 152.4 },

@@ -171,3 +171,26 @@ func TestHistoryProposalLineShowsTheOxygenAndTheStep(t *testing.T) {
 	require.NotContains(t, report.HistoryLine(rec), "; O2 ", "the setting has no O2 bleed")
 	require.Greater(t, rec.Proposed.Setting.O2LPerMin, 0.0)
 }
+
+// The step's entries are written as a person types them: a whole number
+// without a decimal point, a value off the 0.1 marks to its last digit.
+// SpO2 85 on room air at PEEP 5 steps to FiO2 0.3, PEEP 5 (ARDS Network
+// lower-PEEP/FiO2 table) and, at 182 cm where hole 8 is 6 mL/kg PBW
+// (atHeight), only the O2 flow changes. A check whose gas
+// was all used carries no empty note.
+func TestStepEntriesAreWrittenAsTyped(t *testing.T) {
+	req := atHeight(protocolReq("8", 21, 1.4, 5, 0), 182)
+	req.Gas = setup.GasReadings{SpO2Pct: gas(85)}
+	ck, err := setup.RunCheck(req, profile(t, "demo-a"))
+	require.NoError(t, err)
+	e, ok := setup.StepEntries(ck)
+	require.True(t, ok)
+	require.Equal(t, "5", e["propose-peep"])
+	require.Equal(t, "21", e["propose-rpm"])
+	require.Equal(t, "1.4", e["propose-dwell-s"])
+	require.NotEqual(t, "0", e["propose-o2-lpm"])
+	require.NotNil(t, ck.Protocol)
+	for _, n := range ck.Protocol.Notes {
+		require.NotEmpty(t, n)
+	}
+}
