@@ -144,3 +144,65 @@ func TestTimingEdges(t *testing.T) {
 	require.ErrorIs(t, err, ErrTiming)
 	require.ErrorContains(t, err, "is not usable")
 }
+
+// The timing's tolerances are for float noise only: exactly on a limit is
+// within it. An in-line crank delivers over half a turn (pi), so at I:E
+// 1:1 a rate of N /min needs a turn of 60/N s, N rpm (derived): 8 /min is
+// the variable motor's lowest speed and 40 /min its top, each reached, not
+// limited, also a part in 1e12 beyond. A dwell that rounds to exactly the
+// controller's longest (10 s) is reached (derived below). A fixed motor of
+// one speed and a controller with no dwell at all are machines, and plan.
+func TestTimingOnItsLimits(t *testing.T) {
+	for _, rate := range []float64{8, 40, 8 * (1 - 1e-12), 40 * (1 + 1e-12)} {
+		tp, err := PlanTiming(variable, controller, math.Pi, rate, 1)
+		require.NoError(t, err)
+		require.InEpsilon(t, rate, tp.WantedRPM, 1e-12, "the premise: on the limit but for float noise")
+		require.Equal(t, Reached, tp.Speed, "rate %v", rate)
+		require.Equal(t, Reached, tp.Rate, "rate %v", rate)
+		require.InDelta(t, math.Round(rate), tp.RPM, 1e-9)
+	}
+	// 3 /min at I:E 1:3 on the variable motor: Ti 5 s, a turn of 10 s
+	// wanted (6 rpm) is below 8 rpm, so 8 rpm (7.5 s a turn) and a dwell of
+	// 20 - 7.5 = 12.5 s, above the longest 10 s: too slow. At 3.5 /min the
+	// period is 17.142857 s, the dwell 9.642857 -> 9.6 s: reached. At
+	// 60 / 17.5 = 3.428571 /min the dwell is exactly 10 s: reached.
+	tp, err := PlanTiming(variable, controller, math.Pi, 60/17.5, 3)
+	require.NoError(t, err)
+	require.Equal(t, 10.0, tp.DwellS)
+	require.Equal(t, Reached, tp.Rate)
+	tp, err = PlanTiming(variable, controller, math.Pi, 3, 3)
+	require.NoError(t, err)
+	require.Equal(t, TooSlow, tp.Rate)
+
+	tp, err = PlanTiming(Motor{MinRPM: 20, MaxRPM: 20}, controller, math.Pi, 12, 2)
+	require.NoError(t, err, "a fixed motor (StepRPM 0)")
+	require.Equal(t, 20.0, tp.RPM)
+	tp, err = PlanTiming(variable, Controller{DwellStepS: 0.1, MaxDwellS: 0}, math.Pi, 20, 1)
+	require.NoError(t, err, "a controller with no dwell")
+	require.Equal(t, 0.0, tp.DwellS)
+}
+
+// fastestAtMost is the slowest settable speed whose turn fits the period,
+// exactly on a speed included: a 1.5 s period fits the top 40 rpm, 3 s
+// fits 20 rpm exactly (a step of the variable motor, and the fixed motor's
+// one speed), and 3 s does not fit a fixed 19 rpm.
+func TestFastestAtMostIncludesItsLimit(t *testing.T) {
+	require.Equal(t, 40.0, variable.fastestAtMost(1.5))
+	require.Equal(t, 20.0, variable.fastestAtMost(3))
+	require.Equal(t, 20.0, FixedMotor(20).fastestAtMost(3))
+	require.Equal(t, 0.0, FixedMotor(19).fastestAtMost(3))
+	require.Equal(t, 0.0, variable.fastestAtMost(1.4))
+}
+
+// The settable checks forgive float noise up to 1e-9 on each side of the
+// range, that margin included: a speed or dwell computed by adding steps
+// can miss its mark by a few ulps (clean), and a tolerance that excluded
+// its own edge would refuse one at random.
+func TestSettableForgivesItsOwnMargin(t *testing.T) {
+	require.True(t, variable.Settable(8-1e-9))
+	require.True(t, variable.Settable(40+1e-9))
+	require.False(t, variable.Settable(8-1e-6))
+	require.True(t, controller.Settable(-1e-9))
+	require.True(t, controller.Settable(10+1e-9))
+	require.False(t, controller.Settable(10.1))
+}
