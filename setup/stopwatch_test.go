@@ -1,6 +1,7 @@
 package setup_test
 
 import (
+	"strings"
 	"testing"
 
 	"github.com/stretchr/testify/require"
@@ -149,4 +150,36 @@ func TestStopwatchEntryProblems(t *testing.T) {
 	req, problems := setup.BuildCheckRequest(entries("turn-s", "3", "breaths-per-min", "20"), today)
 	require.Empty(t, problems)
 	require.InDelta(t, 0, req.Setting.DwellS, 1e-12)
+}
+
+// A setting timed by its breaths counted in a minute starts the next check
+// from that count, on the dial's speed: no dwell that no one read (demo-a
+// at 20 rpm, 12 breaths a minute: 5 s a breath, 3 s a turn, 2 s of dwell,
+// derived as in TestStopwatchRoundTrip).
+func TestRecordEntriesKeepACountedRate(t *testing.T) {
+	ck, err := runEntries(t, "demo-a", entries("rpm", "20", "breaths-per-min", "12"))
+	require.NoError(t, err)
+	rec, err := setup.NewRecord(ck, "B4", "", today)
+	require.NoError(t, err)
+	next := setup.RecordEntries(rec)
+	require.Equal(t, "12", next["breaths-per-min"])
+	require.Equal(t, "20", next["rpm"])
+	require.NotContains(t, next, "dwell-s")
+}
+
+// A number that is not one says the field's unit, and only a field with a
+// unit says one.
+func TestEntryErrorsNameTheUnit(t *testing.T) {
+	_, problems := setup.BuildCheckRequest(entries("rpm", "twenty", "dwell-s", "1", "fio2", "x"), today)
+	var rpm, fio2 string
+	for _, p := range problems {
+		switch p.Field {
+		case "rpm":
+			rpm = p.Reason
+		case "fio2":
+			fio2 = p.Reason
+		}
+	}
+	require.True(t, strings.HasSuffix(rpm, " (rpm)"), "%q", rpm)
+	require.NotContains(t, fio2, "()")
 }
