@@ -181,3 +181,12 @@ func TestBarometerInHPa(t *testing.T) {
 	require.NotNil(t, problems.Field("barometric-hpa"))
 	require.Contains(t, problems.Field("barometric-hpa").Reason, "(entered 500 hPa)")
 }
+
+// A plan's form has no gas readings, so no gas unit: one typed beside it
+// is not read (and not refused), while a check reads and judges it.
+func TestAPlanReadsNoGasUnit(t *testing.T) {
+	_, problems := setup.BuildRequest(setup.Entries{"height-cm": "175", "sex": "male", "gas-unit": "furlongs"}, today)
+	require.Empty(t, problems)
+	_, problems = setup.BuildCheckRequest(setup.Entries{"height-cm": "175", "sex": "male", "hole": "7", "rpm": "20", "dwell-s": "1", "gas-unit": "furlongs"}, today)
+	require.NotNil(t, problems.Field("gas-unit"))
+}
