@@ -19,3 +19,17 @@ func TestTypedSaysEveryDigitOrPlainWords(t *testing.T) {
 	require.Equal(t, physiology.PlainNumber(1e9), typed(1e9))
 	require.Equal(t, "999999999.5", typed(999999999.5))
 }
+
+// A height that tries to say its unit starts with a digit and holds a
+// letter or a foot or inch mark (5'10", 70in, 178cm; common practice):
+// each end of each range counts, the character just outside it does not.
+func TestHeightWithUnitReadsEachRangeToItsEnds(t *testing.T) {
+	for text, want := range map[string]bool{
+		`5'10"`: true, "70in": true, "178cm": true, `70"`: true, "5'": true,
+		"0a": true, "9z": true, "5A": true, "5Z": true,
+		"170": false, "": false, "in70": false, "/a": false, ":a": false,
+		"5`": false, "5{": false, "5@": false, "5[": false, "5-": false,
+	} {
+		require.Equal(t, want, heightWithUnit(text), "%q", text)
+	}
+}
