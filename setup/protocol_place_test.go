@@ -421,3 +421,21 @@ func TestStepSaysOnlyWhatTheMachineDid(t *testing.T) {
 	require.NotContains(t, notes, "dwell's step gave")
 	require.NotContains(t, notes, "one speed")
 }
+
+// nearestAtOrAbove keeps the floor to float noise (a hole at exactly 4
+// mL/kg PBW, or a billionth under, keeps it: ARDS Network's 4 mL/kg is
+// the lowest step, inclusive), and of two holes equally near the step's
+// volume keeps the first, as nearestHole does (MakePlan's rule: the
+// holes are in the profile's order, smallest first).
+func TestNearestAtOrAboveTheFloor(t *testing.T) {
+	holes := []HoleFigure{
+		{Label: "1", DeliveredML: 280, MLPerKg: 4 - 1e-9},
+		{Label: "2", DeliveredML: 300, MLPerKg: 4},
+		{Label: "3", DeliveredML: 320, MLPerKg: 4.3},
+	}
+	require.Equal(t, 0, nearestAtOrAbove(holes, 270, 4), "a billionth under the floor keeps it")
+	require.Equal(t, 1, nearestAtOrAbove(holes[1:], 270, 4)+1, "exactly on the floor keeps it")
+	require.Equal(t, 1, nearestAtOrAbove(holes, 310, 4), "310 is as near 300 as 320: the first")
+	require.Equal(t, 0, nearestAtOrAbove(holes, 290, 4), "290 is as near 280 as 300: the first")
+	require.Equal(t, -1, nearestAtOrAbove(holes, 300, 5), "none keeps 5 mL/kg")
+}
