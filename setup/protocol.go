@@ -318,11 +318,7 @@ func (pc stepPlacer) rateForVolume(deliveredML float64) float64 {
 
 // pickHole is the hole whose delivered volume at rpm is nearest the
 // step's volume (MakePlan's rule), never a hole below the ARDS Network
-// floor of 4 mL/kg PBW that is not already in use: when the nearest is
-// below it, the nearest hole at or above it is taken (or the hole stays
-// when none keeps it). When the hole is the one in use, a plateau step
-// down takes the next smaller hole if it keeps 4 mL/kg PBW or more, so
-// that the step takes effect; otherwise the hole stays (describe says so).
+// floor of 4 mL/kg PBW that is not already in use (chooseStepHole).
 func (pc stepPlacer) pickHole(rpm float64) (profiles.Hole, holePick, error) {
 	holes := make([]HoleFigure, 0, len(pc.u.p.Crank.Holes))
 	curIdx := 0
@@ -336,22 +332,40 @@ func (pc stepPlacer) pickHole(rpm float64) (profiles.Hole, holePick, error) {
 			curIdx = i
 		}
 	}
-	chosen := nearestHole(holes, pc.targetML)
-	if chosen != curIdx && holes[chosen].MLPerKg < physiology.VtFloorMLPerKg-1e-9 {
-		floor := holePick{belowFloor: &holes[chosen], floorKept: curIdx}
-		if i := nearestAtOrAbove(holes, pc.targetML, physiology.VtFloorMLPerKg); i >= 0 {
+	i, pick := chooseStepHole(holes, curIdx, pc.targetML, plateauTookVtDown(pc.step.MLPerKg, pc.st.MLPerKg, pc.st.PlateauCmH2O))
+	return pc.u.p.Crank.Holes[i], pick, nil
+}
+
+// plateauTookVtDown says that the step's Vt is below the Vt now with the
+// plateau above its goal of 30 cmH2O (ARDS Network protocol card): the
+// plateau rule took it down.
+func plateauTookVtDown(stepMLPerKg, nowMLPerKg, plateauCmH2O float64) bool {
+	return stepMLPerKg < nowMLPerKg && plateauCmH2O > physiology.PlateauGoalMaxCmH2O+1e-9
+}
+
+// chooseStepHole is pickHole's rule on the holes' figures at the speed
+// set, holes[cur] the hole in use: the hole nearest targetML; when that is
+// below 4 mL/kg PBW and not in use, the nearest at or above it (or the
+// hole in use when none keeps it). When the nearest is the hole in use, a
+// plateau step down (down: the plateau above its goal took Vt down) takes
+// the next smaller hole if it keeps 4 mL/kg PBW or more, so that the step
+// takes effect; otherwise the hole stays (describe says so). Only the
+// plateau forces the smaller hole: a step towards 6 mL/kg does not go
+// below 6 for want of a hole.
+func chooseStepHole(holes []HoleFigure, cur int, targetML float64, down bool) (int, holePick) {
+	chosen := nearestHole(holes, targetML)
+	if chosen != cur && holes[chosen].MLPerKg < physiology.VtFloorMLPerKg-1e-9 {
+		floor := holePick{belowFloor: &holes[chosen], floorKept: cur}
+		if i := nearestAtOrAbove(holes, targetML, physiology.VtFloorMLPerKg); i >= 0 {
 			floor.floorKept = i
 		}
-		return pc.u.p.Crank.Holes[floor.floorKept], floor, nil
+		return floor.floorKept, floor
 	}
-	if chosen != curIdx {
-		return pc.u.p.Crank.Holes[chosen], holePick{}, nil
+	if chosen != cur {
+		return chosen, holePick{}
 	}
-	pick := holePick{inUse: holes[curIdx].Label}
-	below, _ := neighbours(holes, curIdx)
-	// Only the plateau above its goal forces the next smaller hole; a
-	// step towards 6 mL/kg does not go below 6 for want of a hole.
-	down := pc.step.MLPerKg < pc.st.MLPerKg && pc.st.PlateauCmH2O > physiology.PlateauGoalMaxCmH2O+1e-9
+	pick := holePick{inUse: holes[cur].Label}
+	below, _ := neighbours(holes, cur)
 	if down && below != nil && below.MLPerKg >= physiology.VtFloorMLPerKg-1e-9 {
 		for i := range holes {
 			if holes[i].Label == below.Label {
@@ -360,7 +374,7 @@ func (pc stepPlacer) pickHole(rpm float64) (profiles.Hole, holePick, error) {
 		}
 		pick.smaller = true
 	}
-	return pc.u.p.Crank.Holes[chosen], pick, nil
+	return chosen, pick
 }
 
 // keepRateInProtocol lengthens the dwell one controller step when the

@@ -439,3 +439,59 @@ func TestNearestAtOrAboveTheFloor(t *testing.T) {
 	require.Equal(t, 0, nearestAtOrAbove(holes, 290, 4), "290 is as near 280 as 300: the first")
 	require.Equal(t, -1, nearestAtOrAbove(holes, 300, 5), "none keeps 5 mL/kg")
 }
+
+// chooseStepHole on figures made by hand (the rule, not the model): 4
+// mL/kg PBW is the ARDS Network floor, kept to float noise (a billionth
+// under it keeps it); the hole in use stays when it is the nearest, and
+// a plateau above 30 cmH2O that took Vt down takes the next smaller hole
+// only if that hole keeps the floor (ARDS Network protocol card).
+func TestChooseStepHoleOnFiguresByHand(t *testing.T) {
+	const justUnder = 4 - 1e-9
+	holes := []HoleFigure{
+		{Label: "A", DeliveredML: 245, MLPerKg: 3.5},
+		{Label: "B", DeliveredML: 280, MLPerKg: justUnder},
+		{Label: "C", DeliveredML: 315, MLPerKg: 4.5},
+		{Label: "D", DeliveredML: 350, MLPerKg: 5},
+	}
+	// The nearest, B, is a billionth under the floor: it keeps it.
+	i, pick := chooseStepHole(holes, 3, 282, false)
+	require.Equal(t, 1, i)
+	require.Nil(t, pick.belowFloor)
+	require.Empty(t, pick.inUse)
+	// The nearest, A, is under it: the nearest that keeps it, B.
+	i, pick = chooseStepHole(holes, 3, 250, false)
+	require.Equal(t, 1, i)
+	require.NotNil(t, pick.belowFloor)
+	require.Equal(t, "A", pick.belowFloor.Label)
+	// C in use and nearest: it stays unless the plateau took Vt down; then
+	// B, a billionth under the floor, is taken.
+	i, pick = chooseStepHole(holes, 2, 316, false)
+	require.Equal(t, 2, i)
+	require.Equal(t, "C", pick.inUse)
+	require.False(t, pick.smaller)
+	i, pick = chooseStepHole(holes, 2, 316, true)
+	require.Equal(t, 1, i)
+	require.True(t, pick.smaller)
+	// B in use and nearest: the next smaller, A, is under the floor, so B
+	// stays even with the plateau.
+	i, pick = chooseStepHole(holes, 1, 281, true)
+	require.Equal(t, 1, i)
+	require.False(t, pick.smaller)
+
+	require.True(t, plateauTookVtDown(5, 6, 30.001))
+	require.False(t, plateauTookVtDown(5, 6, 30), "a plateau of 30 is in goal")
+	require.False(t, plateauTookVtDown(6, 6, 32), "no Vt step down")
+	require.True(t, plateauTookVtDown(5, 6, 30+2e-9), "above 30 by more than float noise")
+	require.False(t, plateauTookVtDown(5, 6, 30+1e-9), "float noise over 30 is 30")
+
+	// A profile's holes in any order: the one that keeps the floor may be
+	// the first.
+	unordered := []HoleFigure{
+		{Label: "X", DeliveredML: 300, MLPerKg: 4.2},
+		{Label: "Y", DeliveredML: 260, MLPerKg: 3.6},
+		{Label: "Z", DeliveredML: 400, MLPerKg: 5.6},
+	}
+	i, pick = chooseStepHole(unordered, 2, 255, false)
+	require.Equal(t, 0, i)
+	require.Equal(t, "Y", pick.belowFloor.Label)
+}
