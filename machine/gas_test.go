@@ -327,12 +327,23 @@ func TestObserveSeesEachGridPointAtItsTime(t *testing.T) {
 	for name, gas := range map[string]GasPath{"v1": {}, "v2": demoGas(), "relief": func() GasPath { g := demoGas(); g.ReliefCmH2O = 20; return g }()} {
 		in := demoStroke(4.0)
 		in.Gas = gas
-		var times []float64
-		in.Observe = func(ts, _, _, _ float64) { times = append(times, ts) }
+		var times, vols []float64
+		var fastest float64
+		in.Observe = func(ts, _, q, v float64) {
+			times, vols = append(times, ts), append(vols, v)
+			fastest = max(fastest, q)
+		}
 		r := run(t, in)
 		require.Len(t, times, r.Steps+1, name)
 		for k, ts := range times {
 			require.Equal(t, float64(k)*r.StepS, ts, "%s: point %d", name, k)
+		}
+		// The lung's volume and flow as the breath reports them (BTPS):
+		// the volume rises by the delivered volume, and with no relief
+		// the fastest flow seen is the peak flow.
+		require.InDelta(t, r.DeliveredML, vols[len(vols)-1]-vols[0], 1e-9, name)
+		if name != "relief" {
+			require.InDelta(t, r.PeakPatientFlowMLPerS, fastest, 1e-9, name)
 		}
 	}
 }
