@@ -130,8 +130,8 @@ func TestIEIsNeverInverse(t *testing.T) {
 // A motor's speeds are counted from its lowest, which need not be a
 // multiple of its step: from 8.3 rpm in 0.5 rpm steps, 8.8 and 9.3 are
 // speeds and 9.0 is not (common practice: a controller's detents start at
-// its lowest speed). A rate of 0 and a motor whose lowest speed is 0 are
-// refused before any timing is planned.
+// its lowest speed). A rate of 0, a motor whose lowest speed is 0 and a
+// dwell timer with no step are refused before any timing is planned.
 func TestTimingEdges(t *testing.T) {
 	offset := Motor{MinRPM: 8.3, MaxRPM: 40, StepRPM: 0.5}
 	require.True(t, offset.Settable(8.8))
@@ -142,6 +142,9 @@ func TestTimingEdges(t *testing.T) {
 	require.ErrorContains(t, err, "rate 0 must be positive")
 	_, err = PlanTiming(Motor{MinRPM: 0, MaxRPM: 40, StepRPM: 0.5}, controller, math.Pi, 12, 2)
 	require.ErrorIs(t, err, ErrTiming)
+	require.ErrorContains(t, err, "is not usable")
+	_, err = PlanTiming(variable, Controller{DwellStepS: 0, MaxDwellS: 10}, math.Pi, 12, 2)
+	require.ErrorIs(t, err, ErrTiming, "a dwell timer with no step")
 	require.ErrorContains(t, err, "is not usable")
 }
 
