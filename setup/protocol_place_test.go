@@ -495,3 +495,57 @@ func TestChooseStepHoleOnFiguresByHand(t *testing.T) {
 	require.Equal(t, 0, i)
 	require.Equal(t, "Y", pick.belowFloor.Label)
 }
+
+// The step's timing changes name one wanted rate, the protocol's: when the
+// machine was asked for another rate (the one that keeps the step's
+// alveolar ventilation with the placed hole) and set exactly that, the
+// change from the protocol's rate is still said; when the machine set the
+// protocol's rate there is no rate change.
+func TestStepTimingChangesNameTheProtocolsRate(t *testing.T) {
+	u, err := newUnitV(placeProfile(t, "demo-a"), placeDay, false)
+	require.NoError(t, err)
+	asked := func(rate float64) *machine.TimingPlan {
+		tp, err := planTimingForTest(u, rate)
+		require.NoError(t, err)
+		tp.WantedRateBPM = tp.RateBPM // the machine set what it was asked
+		return &tp
+	}
+	res := ProtocolStepResult{Step: physiology.ProtocolStep{RateBPM: 30}, Timing: asked(24)}
+	c, ok := changeOf(res.stepTimingChanges(), "rate")
+	require.True(t, ok)
+	require.Equal(t, 30.0, c.Wanted)
+	require.InDelta(t, res.Timing.RateBPM, c.Got, 1e-12)
+	res = ProtocolStepResult{Step: physiology.ProtocolStep{RateBPM: 30}, Timing: asked(30)}
+	res.Step.RateBPM = res.Timing.RateBPM
+	_, ok = changeOf(res.stepTimingChanges(), "rate")
+	require.False(t, ok)
+}
+
+// On a machine that cannot reach the step's rate, the step's own
+// rate-unreachable stop becomes a warn that says the machine's fastest
+// or slowest is set as the best it can do (and the protocol's next lever),
+// and the cautions are again most serious first, in order within a level.
+func TestBestReachableTurnsTheStepsOwnStopIntoAWarn(t *testing.T) {
+	for _, c := range []struct {
+		reach machine.Reach
+		word  string
+	}{{machine.TooFast, "fastest"}, {machine.TooSlow, "slowest"}} {
+		res := ProtocolStepResult{Step: physiology.ProtocolStep{RateBPM: 35}, Timing: &machine.TimingPlan{Rate: c.reach}}
+		res.Timing.RateBPM = 30
+		cs := res.bestReachable([]Caution{
+			{ID: CautionRateUnreachable, Level: Stop},
+			{ID: CautionPlateauHigh, Level: Stop},
+			{ID: CautionCalibrationMissing, Level: Warn},
+		})
+		var got []CautionID
+		for _, k := range cs {
+			got = append(got, k.ID)
+		}
+		require.Equal(t, []CautionID{CautionPlateauHigh, CautionProtocolRateNotReached, CautionCalibrationMissing}, got, c.word)
+		require.Equal(t, Warn, cs[1].Level)
+		require.Contains(t, cs[1].Message, "its "+c.word+", 30.0 /min, is set here")
+	}
+	res := ProtocolStepResult{Step: physiology.ProtocolStep{RateBPM: 20}, Timing: &machine.TimingPlan{Rate: machine.Reached}}
+	cs := res.bestReachable([]Caution{{ID: CautionRateUnreachable, Level: Stop}})
+	require.Equal(t, CautionRateUnreachable, cs[0].ID, "a reached rate changes nothing")
+}
