@@ -312,12 +312,26 @@ func TestDescribeThresholds(t *testing.T) {
 	require.False(t, ok, "0.4 mL off is no change: %+v", res.Changes)
 	require.NotContains(t, notes(res), "alveolar ventilation", "0.04 /min is the same rate")
 
+	res = run(7.25, 400.5, 20)
+	_, ok = changeOf(res.Changes, "tidal volume")
+	require.False(t, ok, "0.5 mL off is within the hole's 1 mL shown: no change")
+
 	res = run(7.25, 400.6, 20.06)
 	c, ok := changeOf(res.Changes, "tidal volume")
 	require.True(t, ok, "0.6 mL off is a change")
 	require.InDelta(t, 400.6, c.Got, 1e-12)
 	require.InDelta(t, 400, c.Wanted, 1e-12)
 	require.Contains(t, notes(res), "the hole delivers 401 mL, not the step's 400 mL: the rate this machine sets keeps the step's alveolar ventilation (dead space 150 mL) with this hole")
+
+	// The O2 line's threshold is half a hundredth of a L/min, inclusive: a
+	// flow set anew is rounded up to the flowmeter's 0.1 L/min, so any real
+	// move is said and only a float's noise is not (both by hand here).
+	res = ProtocolStepResult{}
+	res.describe(u, stepPlace{o2: o2Pick{flow: 0.005, set: true, fio2: 0.21}})
+	require.Contains(t, notes(res), "O2 flow 0.0 -> 0.0 L/min")
+	res = ProtocolStepResult{}
+	res.describe(u, stepPlace{o2: o2Pick{flow: 0.004, set: true, fio2: 0.21}})
+	require.NotContains(t, notes(res), "O2 flow")
 
 	res = run(7.15, 380, 21)
 	require.Contains(t, notes(res), "keeps the step's alveolar ventilation", "pH 7.15 is not below 7.15")
@@ -548,4 +562,37 @@ func TestBestReachableTurnsTheStepsOwnStopIntoAWarn(t *testing.T) {
 	res := ProtocolStepResult{Step: physiology.ProtocolStep{RateBPM: 20}, Timing: &machine.TimingPlan{Rate: machine.Reached}}
 	cs := res.bestReachable([]Caution{{ID: CautionRateUnreachable, Level: Stop}})
 	require.Equal(t, CautionRateUnreachable, cs[0].ID, "a reached rate changes nothing")
+}
+
+// The dwell is made one controller step longer only when the dwell's
+// rounding took the rate above the protocol's 35 /min by more than the
+// 0.05 /min a rate is shown to (ARDS Network protocol card: at most 35),
+// and only if the controller can set it: at 40 rpm with no dwell a turn
+// is 1.5 s; with 0.2 s of dwell 60 / 1.7 = 35.29 /min, one step longer
+// 60 / 1.8 = 33.33 /min (derived). At 35 rpm with no dwell, 35.0 /min is
+// the protocol's own and stays.
+func TestKeepRateInProtocol(t *testing.T) {
+	u, err := newUnitV(placeProfile(t, "demo-a"), placeDay, false)
+	require.NoError(t, err)
+	h, _ := u.p.HoleByLabel("8")
+	angle := u.crank(h).DeliveryAngle()
+	pc := stepPlacer{u: u, step: physiology.ProtocolStep{RateBPM: 35}}
+	timing := func(rpm, dwell float64) *machine.TimingPlan {
+		return &machine.TimingPlan{Timing: machine.TimingOf(rpm, dwell, angle)}
+	}
+
+	tp := timing(35, 0)
+	require.Zero(t, pc.keepRateInProtocol(tp, h), "35.0 /min is within the protocol")
+	require.Zero(t, tp.DwellS)
+
+	pc.u.controller = machine.Controller{DwellStepS: 0.1, MaxDwellS: 0.3}
+	tp = timing(40, 0.2)
+	require.InDelta(t, 60/1.7, pc.keepRateInProtocol(tp, h), 1e-9, "the rate it had")
+	require.InDelta(t, 0.3, tp.DwellS, 1e-12, "one step longer: the controller's longest")
+	require.InDelta(t, 60/1.8, tp.RateBPM, 1e-9)
+
+	pc.u.controller = machine.Controller{DwellStepS: 0.1, MaxDwellS: 0.2}
+	tp = timing(40, 0.2)
+	require.Zero(t, pc.keepRateInProtocol(tp, h), "no longer dwell to set")
+	require.InDelta(t, 60/1.7, tp.RateBPM, 1e-9)
 }
