@@ -596,3 +596,33 @@ func TestKeepRateInProtocol(t *testing.T) {
 	require.Zero(t, pc.keepRateInProtocol(tp, h), "no longer dwell to set")
 	require.InDelta(t, 60/1.7, tp.RateBPM, 1e-9)
 }
+
+// The O2 flow for the step's FiO2 is rounded up to the flowmeter's 0.1
+// L/min, but a flow already on a mark stays on it: FiO2 1.0 at 15 /min
+// (20 rpm and 1 s of dwell: 60 / (3 + 1), derived) into a piston drawing
+// 500 mL a turn needs all of its 7.5 L/min (DESIGN version 2: Q = (FiO2 -
+// 0.21) / 0.79 x intake), not 7.6. With all oxygen already and a larger
+// flow set, the larger flow is kept.
+func TestO2FlowOnAMarkStaysOnIt(t *testing.T) {
+	u, err := newUnitV(placeProfile(t, "demo-a"), placeDay, false)
+	require.NoError(t, err)
+	pc := stepPlacer{u: u, cur: Setting{Hole: "8", RPM: 20, DwellS: 1}, step: physiology.ProtocolStep{FiO2Changed: true, FiO2: 1}}
+	s := Setting{Hole: "9", RPM: 20, DwellS: 1}
+	require.Equal(t, 7.5, physiology.O2FlowForFiO2AtPistonIntake(1, 500, 15), "the premise: exactly on a mark")
+	o := pc.o2Flow(s, HoleFigure{EffectiveSweptML: 500})
+	require.Equal(t, 7.5, o.flow)
+	require.True(t, o.set)
+	pc.cur.O2LPerMin = 10
+	require.Equal(t, 10.0, pc.o2Flow(s, HoleFigure{EffectiveSweptML: 500}).flow, "all oxygen already: the larger flow kept")
+}
+
+// Below pH 7.15 the rate is 35 whatever the volume (ARDS Network protocol
+// card), so the step's rate is not rescaled to the hole; a pH a billionth
+// under 7.15 is float noise on 7.15 and is rescaled.
+func TestRateScalesAtPH715(t *testing.T) {
+	res := ProtocolStepResult{Step: physiology.ProtocolStep{RateChanged: true, VtChanged: true}}
+	res.Readings.PH = ptr(7.15 - 1e-9)
+	require.True(t, res.rateScalesWithVt())
+	res.Readings.PH = ptr(7.14)
+	require.False(t, res.rateScalesWithVt())
+}
