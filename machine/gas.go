@@ -113,7 +113,7 @@ type v2run struct {
 	flows, x                               []float64
 	tr                                     *torqueTrack
 	observe                                func(tS, circuitCmH2O, patientFlowMLPerS, volumeML float64)
-	base                                   *propEntry
+	base                                   *prop
 
 	p, v, peak, peakQ float64
 	out               GasOutcome
@@ -216,7 +216,7 @@ func (r *v2run) precompress() int {
 	for i := 0; i < n; i++ {
 		u0, u1 := r.flows[i], r.flows[i+1]
 		d1 := d + (u0+u1)/2*r.h
-		p1, v1 := r.base.prop.advance(r.p, r.v, -gp, -gp)
+		p1, v1 := r.base.advance(r.p, r.v, -gp, -gp)
 		need1 := r.needML(p1 + r.peep)
 		if d1 < need1 {
 			r.p, r.v, d, need = p1, v1, d1, need1
@@ -262,7 +262,7 @@ func (r *v2run) precompress() int {
 // does what mark does for each grid point.
 func (r *v2run) deliver(i0 int) {
 	n := len(r.flows) - 1
-	pr, ctot := &r.base.prop, r.cc
+	pr, ctot := r.base, r.cc
 	var blk prop
 	flows, tr, gp, block := r.flows, r.tr, r.g*r.peep, gasBlockSteps(r.h)
 	p, v, peak, peakQ := r.p, r.v, r.peak, r.peakQ

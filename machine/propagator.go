@@ -73,22 +73,18 @@ func (s *prop) advance(p, v, w0, w1 float64) (float64, float64) {
 		s.vp*p + s.vv*v + s.vw*w0 + s.vd*d
 }
 
-// propEntry is what a version 2 stroke reuses while the lung, circuit,
-// leak and step stay the same: the step with the circuit's compliance alone.
-type propEntry struct {
-	prop prop
-}
-
-// propCache keeps the last propEntry.
+// propCache keeps the step a version 2 stroke reuses while the lung,
+// circuit, leak and step stay the same: the step with the circuit's
+// compliance alone.
 type propCache struct {
 	ok                bool
 	cc, rML, cl, g, h float64
-	e                 propEntry
+	e                 prop
 }
 
-func (pc *propCache) get(cc, rML, cl, g, h float64) *propEntry {
+func (pc *propCache) get(cc, rML, cl, g, h float64) *prop {
 	if !pc.ok || pc.cc != cc || pc.rML != rML || pc.cl != cl || pc.g != g || pc.h != h {
-		pc.e = propEntry{prop: newProp(cc, rML, cl, g, h)}
+		pc.e = newProp(cc, rML, cl, g, h)
 		pc.ok, pc.cc, pc.rML, pc.cl, pc.g, pc.h = true, cc, rML, cl, g, h
 	}
 	return &pc.e
