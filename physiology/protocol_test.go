@@ -497,33 +497,33 @@ func TestTablePEEPIsMatchedWithinHalfACmH2O(t *testing.T) {
 // ventilation equation and Henderson-Hasselbalch, REFERENCES.md;
 // derived). The plateau's source is said, "predicted" when none is given.
 func TestRateRulesAtTheShownRate(t *testing.T) {
+	for _, c := range []struct {
+		rate, plateau, pH, paco2 float64
+		says                     string
+		rateKept                 bool // false: the plateau's Vt step moves the rate (the alveolar hold)
+	}{
+		{10.05, 27, 7.50, 30, "no lower rate (floor 10)", true},
+		{34.95, 27, 7.10, 70, "below 7.15 with the rate already", true},
+		{20, 32, 7.533, 30, "is the rate now, 20.0 /min", false},
+	} {
+		st := patientAt(0.5, 8)
+		st.RateBPM, st.PlateauCmH2O = c.rate, c.plateau
+		s, err := NextProtocolStep(st, GasReadings{PH: ptr(c.pH), PaCO2MmHg: ptr(c.paco2)})
+		require.NoError(t, err)
+		ph := ruleOf(t, s, "ph")
+		require.Equal(t, RuleNoStep, ph.Status, ph.Action)
+		require.Contains(t, ph.Action, c.says)
+		if c.rateKept {
+			require.False(t, s.RateChanged)
+		}
+	}
+
 	st := patientAt(0.5, 8)
-	st.RateBPM = 10.05
-	s, err := NextProtocolStep(st, GasReadings{PH: ptr(7.50), PaCO2MmHg: ptr(30)})
-	require.NoError(t, err)
-	ph := ruleOf(t, s, "ph")
-	require.Equal(t, RuleNoStep, ph.Status, ph.Action)
-	require.Contains(t, ph.Action, "no lower rate (floor 10)")
-	require.False(t, s.RateChanged)
-
-	st.RateBPM = 34.95
-	s, err = NextProtocolStep(st, GasReadings{PH: ptr(7.10), PaCO2MmHg: ptr(70)})
-	require.NoError(t, err)
-	ph = ruleOf(t, s, "ph")
-	require.Equal(t, RuleNoStep, ph.Status, ph.Action)
-	require.Contains(t, ph.Action, "below 7.15 with the rate already")
-	require.False(t, s.RateChanged)
-
-	st = patientAt(0.5, 8)
 	st.PlateauCmH2O = 32
-	s, err = NextProtocolStep(st, GasReadings{PH: ptr(7.533), PaCO2MmHg: ptr(30)})
-	require.NoError(t, err)
-	ph = ruleOf(t, s, "ph")
-	require.Equal(t, RuleNoStep, ph.Status, ph.Action)
-	require.Contains(t, ph.Action, "is the rate now, 20.0 /min")
-	require.Equal(t, "plateau cmH2O (predicted)", ruleOf(t, s, "plateau").Reading)
-	st.PlateauSource = "fitted to the readings"
-	s, err = NextProtocolStep(st, GasReadings{PH: ptr(7.533), PaCO2MmHg: ptr(30)})
-	require.NoError(t, err)
-	require.Equal(t, "plateau cmH2O (fitted to the readings)", ruleOf(t, s, "plateau").Reading)
+	for source, reading := range map[string]string{"": "plateau cmH2O (predicted)", "fitted to the readings": "plateau cmH2O (fitted to the readings)"} {
+		st.PlateauSource = source
+		s, err := NextProtocolStep(st, GasReadings{PH: ptr(7.533), PaCO2MmHg: ptr(30)})
+		require.NoError(t, err)
+		require.Equal(t, reading, ruleOf(t, s, "plateau").Reading)
+	}
 }

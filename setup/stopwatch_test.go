@@ -17,6 +17,15 @@ func entries(kv ...string) setup.Entries {
 	return e
 }
 
+// nextCheckEntries are the entries the next check of bed B4 starts from
+// once ck is recorded.
+func nextCheckEntries(t *testing.T, ck setup.Check) setup.Entries {
+	t.Helper()
+	rec, err := setup.NewRecord(ck, "B4", "", today)
+	require.NoError(t, err)
+	return setup.RecordEntries(rec)
+}
+
 // runEntries builds and runs a check on a demo machine.
 func runEntries(t *testing.T, id string, e setup.Entries) (setup.Check, error) {
 	t.Helper()
@@ -68,9 +77,7 @@ func TestStopwatchNothingRounded(t *testing.T) {
 	require.InDelta(t, 1.43, ck.Current.Setting.DwellS, 1e-12, "1.43 s is off the 0.1 s step and kept")
 	require.Contains(t, ck.Inferred, "motor speed 20.979 rpm from one turn timed at 2.86 s (nearest motor step 21 rpm)")
 	require.Contains(t, ck.Inferred, "dwell 1.43 s, the pause as timed (nearest controller step 1.4 s)")
-	rec, err := setup.NewRecord(ck, "B4", "", today)
-	require.NoError(t, err)
-	next := setup.RecordEntries(rec)
+	next := nextCheckEntries(t, ck)
 	require.Equal(t, "2.86", next["turn-s"])
 	require.Equal(t, "1.43", next["pause-s"])
 	require.NotContains(t, next, "rpm")
@@ -159,9 +166,7 @@ func TestStopwatchEntryProblems(t *testing.T) {
 func TestRecordEntriesKeepACountedRate(t *testing.T) {
 	ck, err := runEntries(t, "demo-a", entries("rpm", "20", "breaths-per-min", "12"))
 	require.NoError(t, err)
-	rec, err := setup.NewRecord(ck, "B4", "", today)
-	require.NoError(t, err)
-	next := setup.RecordEntries(rec)
+	next := nextCheckEntries(t, ck)
 	require.Equal(t, "12", next["breaths-per-min"])
 	require.Equal(t, "20", next["rpm"])
 	require.NotContains(t, next, "dwell-s")
